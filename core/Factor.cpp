@@ -1,0 +1,113 @@
+#include "Factor.h"
+
+#include <QSet>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+std::vector<Rational> Factor::sizes() const
+{
+    if (!plannedN.empty())
+        return plannedN;
+    return std::vector<Rational>(size_t(levelCount()), Rational(1));
+}
+
+std::vector<double> Factor::sizesAsDouble() const
+{
+    std::vector<double> out;
+    out.reserve(size_t(levelCount()));
+    for (const Rational &r : sizes())
+        out.push_back(r.get_d());
+    return out;
+}
+
+std::vector<Weight> Factor::positions() const
+{
+    if (!spacing.empty())
+        return spacing;
+    std::vector<Weight> out;
+    for (int i = 0; i < levelCount(); ++i)
+        out.push_back(Weight(i + 1));
+    return out;
+}
+
+QString Factor::validate() const
+{
+    if (levels.size() < kMinLevels)
+        return u"levels: a factor needs at least %1 levels, got %2"_s.arg(kMinLevels).arg(levels.size());
+    if (levels.size() > kMaxLevels)
+        return u"levels: at most %1 levels are supported, got %2"_s.arg(kMaxLevels).arg(levels.size());
+    QSet<QString> seen;
+    for (qsizetype i = 0; i < levels.size(); ++i) {
+        const QString &l = levels[i];
+        if (l.trimmed().isEmpty())
+            return u"levels: level %1 has an empty name; every level needs a name"_s.arg(i + 1);
+        if (seen.contains(l))
+            return u"levels: level %1 repeats the name '%2'; level names must be unique"_s.arg(i + 1).arg(l);
+        seen.insert(l);
+    }
+    if (!plannedN.empty()) {
+        if (plannedN.size() != size_t(levels.size()))
+            return u"n: %1 planned group sizes for %2 levels; give one per level"_s.arg(plannedN.size()).arg(levels.size());
+        for (size_t i = 0; i < plannedN.size(); ++i)
+            if (plannedN[i] <= 0)
+                return u"n: the planned size of level '%1' is %2; sizes must be positive"_s
+                    .arg(levels[qsizetype(i)], rationalToString(plannedN[i]));
+    }
+    if (!spacing.empty()) {
+        if (spacing.size() != size_t(levels.size()))
+            return u"spacing: %1 values for %2 levels; give one per level"_s.arg(spacing.size()).arg(levels.size());
+        for (size_t i = 0; i < spacing.size(); ++i)
+            for (size_t j = 0; j < i; ++j)
+                if (spacing[i].value() == spacing[j].value())
+                    return u"spacing: levels '%1' and '%2' have the same position %3; positions must differ"_s
+                        .arg(levels[qsizetype(j)], levels[qsizetype(i)], spacing[i].display());
+    }
+    return {};
+}
+
+QStringList splitList(const QString &text, QChar separator)
+{
+    QStringList out;
+    if (text.trimmed().isEmpty())
+        return out;
+    const QStringList parts = text.split(separator);
+    for (const QString &p : parts)
+        out << p.trimmed();
+    return out;
+}
+
+Result<std::vector<Rational>> parseSizes(const QStringList &items, int levelCount, const QString &where)
+{
+    using R = Result<std::vector<Rational>>;
+    if (items.size() != levelCount)
+        return R::failure(u"%1: %2 sizes for %3 levels; give one per level"_s.arg(where).arg(items.size()).arg(levelCount));
+    std::vector<Rational> out;
+    for (qsizetype i = 0; i < items.size(); ++i) {
+        auto w = parseWeight(items[i]);
+        if (!w)
+            return R::failure(u"%1, item %2: %3"_s.arg(where).arg(i + 1).arg(w.error()));
+        if (!w->isExact() || w->rational() <= 0)
+            return R::failure(u"%1, item %2: '%3' is not a positive size; expected a number above 0"_s.arg(where).arg(i + 1).arg(items[i]));
+        out.push_back(w->rational());
+    }
+    return R(std::move(out));
+}
+
+Result<std::vector<Weight>> parseSpacing(const QStringList &items, int levelCount, const QString &where)
+{
+    using R = Result<std::vector<Weight>>;
+    if (items.size() != levelCount)
+        return R::failure(u"%1: %2 positions for %3 levels; give one per level"_s.arg(where).arg(items.size()).arg(levelCount));
+    std::vector<Weight> out;
+    for (qsizetype i = 0; i < items.size(); ++i) {
+        auto w = parseWeight(items[i]);
+        if (!w)
+            return R::failure(u"%1, item %2: %3"_s.arg(where).arg(i + 1).arg(w.error()));
+        out.push_back(*w);
+    }
+    return R(std::move(out));
+}
+
+} // namespace cb

@@ -1,0 +1,302 @@
+#include "Weight.h"
+
+#include <charconv>
+#include <cmath>
+#include <limits>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+
+constexpr char16_t kUnicodeMinus = u'\u2212';
+constexpr int kMaxWeightTextLength = 400;
+constexpr int kMaxExponent = 400; // beyond this the magnitude check fails anyway
+
+QString expectedNumber()
+{
+    return u"expected a number such as 2, -1/3, 0.25 or 1e-3"_s;
+}
+
+QString quoted(QStringView text)
+{
+    QString t = text.toString();
+    if (t.size() > 60)
+        t = t.left(57) + u"..."_s;
+    return u"'"_s + t + u"'"_s;
+}
+
+// Parses an unsigned decimal "12", "0.25", "1e-3", ".5", "3." exactly.
+bool parseDecimal(QStringView s, Rational &out)
+{
+    qsizetype i = 0;
+    std::string mantissa;
+    int fractionDigits = 0;
+    bool anyDigit = false;
+    while (i < s.size() && s[i].isDigit() && s[i].unicode() < 128) {
+        mantissa.push_back(char(s[i].unicode()));
+        anyDigit = true;
+        ++i;
+    }
+    if (i < s.size() && s[i] == u'.') {
+        ++i;
+        while (i < s.size() && s[i].isDigit() && s[i].unicode() < 128) {
+            mantissa.push_back(char(s[i].unicode()));
+            ++fractionDigits;
+            anyDigit = true;
+            ++i;
+        }
+    }
+    if (!anyDigit)
+        return false;
+    long exponent = 0;
+    if (i < s.size() && (s[i] == u'e' || s[i] == u'E')) {
+        ++i;
+        bool negative = false;
+        if (i < s.size() && (s[i] == u'+' || s[i] == u'-' || s[i] == kUnicodeMinus)) {
+            negative = s[i] != u'+';
+            ++i;
+        }
+        bool expDigit = false;
+        while (i < s.size() && s[i].isDigit() && s[i].unicode() < 128) {
+            exponent = exponent * 10 + (s[i].unicode() - u'0');
+            if (exponent > kMaxExponent * 10)
+                exponent = kMaxExponent * 10; // clamp; rejected as out of range later
+            expDigit = true;
+            ++i;
+        }
+        if (!expDigit)
+            return false;
+        if (negative)
+            exponent = -exponent;
+    }
+    if (i != s.size())
+        return false;
+    const long scale = exponent - fractionDigits;
+    const bool zeroMantissa = mantissa.find_first_not_of('0') == std::string::npos;
+    if (zeroMantissa) {
+        out = 0;
+        return true;
+    }
+    if (scale > kMaxExponent || scale < -kMaxExponent - kMaxWeightTextLength) {
+        // Far outside the accepted range: return a stand-in that the range check rejects.
+        mpz_class big;
+        mpz_ui_pow_ui(big.get_mpz_t(), 10, kMaxExponent);
+        out = scale > 0 ? Rational(big) : Rational(mpz_class(1), big);
+        return true;
+    }
+    mpz_class m(mantissa, 10);
+    mpz_class p;
+    mpz_ui_pow_ui(p.get_mpz_t(), 10, static_cast<unsigned long>(scale < 0 ? -scale : scale));
+    if (scale >= 0)
+        out = Rational(m * p);
+    else
+        out = Rational(m, p);
+    out.canonicalize();
+    return true;
+}
+
+bool isNonFiniteWord(QStringView s)
+{
+    const QString lower = s.toString().toLower();
+    return lower == u"nan"_s || lower == u"inf"_s || lower == u"infinity"_s
+        || lower == u"+inf"_s || lower == u"-inf"_s || lower == u"-infinity"_s
+        || lower == u"-nan"_s || s.contains(u'\u221E');
+}
+
+Result<Weight> checkRange(QStringView text, double magnitude, bool zero)
+{
+    if (!zero && (magnitude > kWeightMaxMagnitude || !std::isfinite(magnitude)))
+        return Result<Weight>::failure(u"weight %1 is too large: magnitudes up to 1e300 are accepted"_s.arg(quoted(text)));
+    if (!zero && magnitude < kWeightMinMagnitude)
+        return Result<Weight>::failure(u"weight %1 is too small: non-zero magnitudes down to 1e-300 are accepted"_s.arg(quoted(text)));
+    return Result<Weight>(Weight());
+}
+
+} // namespace
+
+Weight Weight::exact(const Rational &q)
+{
+    Weight w;
+    w.m_exact = true;
+    w.m_q = q;
+    w.m_q.canonicalize();
+    w.m_d = w.m_q.get_d();
+    return w;
+}
+
+Weight Weight::approx(double d)
+{
+    Weight w;
+    w.m_exact = false;
+    w.m_q = 0;
+    w.m_d = d;
+    return w;
+}
+
+bool operator==(const Weight &a, const Weight &b)
+{
+    if (a.m_exact != b.m_exact)
+        return false;
+    return a.m_exact ? a.m_q == b.m_q : a.m_d == b.m_d;
+}
+
+QString rationalToString(const Rational &q, bool unicodeMinus)
+{
+    QString s = QString::fromStdString(q.get_str(10));
+    if (unicodeMinus && s.startsWith(u'-'))
+        s[0] = QChar(kUnicodeMinus);
+    return s;
+}
+
+QString doubleToString(double x)
+{
+    if (x == 0.0)
+        return u"0"_s;
+    char buf[64];
+    auto r = std::to_chars(buf, buf + sizeof buf, x);
+    return QString::fromLatin1(buf, r.ptr - buf);
+}
+
+std::optional<Rational> recogniseFraction(double x, long maxDenominator)
+{
+    if (!std::isfinite(x))
+        return std::nullopt;
+    if (std::abs(x) > 1e12)
+        return std::nullopt;
+    const double tol = 1e-12 * std::max(1.0, std::abs(x));
+    // Continued fraction expansion.
+    long double v = std::abs(static_cast<long double>(x));
+    long long p0 = 0, q0 = 1, p1 = 1, q1 = 0;
+    long double frac = v;
+    for (int iter = 0; iter < 40; ++iter) {
+        const long double a = std::floor(frac);
+        if (a > 1e13L)
+            break;
+        const long long ai = static_cast<long long>(a);
+        const long long p2 = ai * p1 + p0;
+        const long long q2 = ai * q1 + q0;
+        if (q2 > maxDenominator)
+            break;
+        p0 = p1; q0 = q1; p1 = p2; q1 = q2;
+        const double approx = static_cast<double>(p1) / static_cast<double>(q1);
+        if (std::abs(approx - std::abs(x)) <= tol) {
+            Rational r(static_cast<long>(p1), static_cast<unsigned long>(q1));
+            r.canonicalize();
+            return x < 0 ? Rational(-r) : r;
+        }
+        const long double rest = frac - a;
+        if (rest <= 0)
+            break;
+        frac = 1.0L / rest;
+    }
+    return std::nullopt;
+}
+
+QString Weight::storageString() const
+{
+    if (m_exact)
+        return rationalToString(m_q);
+    return u"~"_s + doubleToString(m_d);
+}
+
+QString Weight::display(bool unicodeMinus) const
+{
+    if (m_exact)
+        return rationalToString(m_q, unicodeMinus);
+    if (auto r = recogniseFraction(m_d))
+        return rationalToString(*r, unicodeMinus);
+    QString s;
+    const double a = std::abs(m_d);
+    if (a != 0.0 && (a < 1e-4 || a >= 1e6))
+        s = QString::number(m_d, 'g', 6);
+    else
+        s = QString::number(m_d, 'f', 6);
+    if (s.contains(u'.') && !s.contains(u'e')) {
+        while (s.endsWith(u'0'))
+            s.chop(1);
+        if (s.endsWith(u'.'))
+            s.chop(1);
+    }
+    if (s == u"-0"_s)
+        s = u"0"_s;
+    if (unicodeMinus && s.startsWith(u'-'))
+        s[0] = QChar(kUnicodeMinus);
+    return s;
+}
+
+Result<Weight> parseWeight(QStringView input)
+{
+    const QStringView text = input.trimmed();
+    if (text.isEmpty())
+        return Result<Weight>::failure(u"empty weight: "_s + expectedNumber());
+    if (text.size() > kMaxWeightTextLength)
+        return Result<Weight>::failure(u"weight %1 is too long (%2 characters; at most %3)"_s
+                                           .arg(quoted(text)).arg(text.size()).arg(kMaxWeightTextLength));
+    QString s = text.toString();
+    s.replace(QChar(kUnicodeMinus), u'-');
+    s.remove(u' ');
+
+    if (s.startsWith(u'~')) {
+        const QString rest = s.mid(1);
+        if (isNonFiniteWord(rest))
+            return Result<Weight>::failure(u"weight %1 is not a finite number: "_s.arg(quoted(text)) + expectedNumber());
+        const QByteArray latin = rest.toLatin1();
+        double d = 0.0;
+        auto [ptr, ec] = std::from_chars(latin.constData(), latin.constData() + latin.size(), d);
+        if (latin.isEmpty() || ec == std::errc::result_out_of_range)
+            return Result<Weight>::failure(u"weight %1 is out of range: magnitudes from 1e-300 to 1e300 are accepted"_s.arg(quoted(text)));
+        if (ec != std::errc() || ptr != latin.constData() + latin.size())
+            return Result<Weight>::failure(u"weight %1 is not a number: "_s.arg(quoted(text)) + expectedNumber());
+        auto range = checkRange(text, std::abs(d), d == 0.0);
+        if (!range)
+            return range;
+        return Result<Weight>(Weight::approx(d));
+    }
+
+    if (isNonFiniteWord(s))
+        return Result<Weight>::failure(u"weight %1 is not a finite number: "_s.arg(quoted(text)) + expectedNumber());
+
+    auto signedDecimal = [](QStringView part, Rational &out) {
+        bool negative = false;
+        if (!part.isEmpty() && (part[0] == u'-' || part[0] == u'+')) {
+            negative = part[0] == u'-';
+            part = part.mid(1);
+        }
+        if (!parseDecimal(part, out))
+            return false;
+        if (negative)
+            out = -out;
+        return true;
+    };
+
+    Rational value;
+    const qsizetype slash = s.indexOf(u'/');
+    if (slash >= 0) {
+        if (s.indexOf(u'/', slash + 1) >= 0)
+            return Result<Weight>::failure(u"weight %1 has more than one '/': "_s.arg(quoted(text)) + expectedNumber());
+        Rational num, den;
+        if (!signedDecimal(QStringView(s).left(slash), num) || !signedDecimal(QStringView(s).mid(slash + 1), den))
+            return Result<Weight>::failure(u"weight %1 is not a number or fraction: "_s.arg(quoted(text)) + expectedNumber());
+        if (den == 0)
+            return Result<Weight>::failure(u"weight %1 divides by zero: the denominator must not be 0"_s.arg(quoted(text)));
+        value = num / den;
+    } else if (!signedDecimal(s, value)) {
+        return Result<Weight>::failure(u"weight %1 is not a number: "_s.arg(quoted(text)) + expectedNumber());
+    }
+    value.canonicalize();
+    if (value != 0) {
+        // Compare magnitudes exactly against the accepted range.
+        mpz_class big;
+        mpz_ui_pow_ui(big.get_mpz_t(), 10, 300);
+        const Rational a = abs(value);
+        if (a > Rational(big))
+            return Result<Weight>::failure(u"weight %1 is too large: magnitudes up to 1e300 are accepted"_s.arg(quoted(text)));
+        if (a < Rational(mpz_class(1), big))
+            return Result<Weight>::failure(u"weight %1 is too small: non-zero magnitudes down to 1e-300 are accepted"_s.arg(quoted(text)));
+    }
+    return Result<Weight>(Weight::exact(value));
+}
+
+} // namespace cb

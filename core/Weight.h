@@ -1,0 +1,66 @@
+#pragma once
+
+#include "Result.h"
+
+#include <QString>
+#include <QStringView>
+
+#include <gmpxx.h>
+
+#include <vector>
+
+namespace cb {
+
+using Rational = mpq_class;
+
+// One coding weight: an exact rational when it was typed or derived exactly,
+// otherwise a double (for example an orthonormal polynomial coefficient).
+class Weight
+{
+public:
+    Weight() = default;
+    Weight(int v) : m_q(v), m_d(v) {}
+    static Weight exact(const Rational &q);
+    static Weight approx(double d);
+
+    bool isExact() const { return m_exact; }
+    // Only meaningful when isExact().
+    const Rational &rational() const { return m_q; }
+    double value() const { return m_d; }
+    bool isZero() const { return m_exact ? m_q == 0 : m_d == 0.0; }
+
+    // Text that parses back to the same weight: "-2/3", "0", "~0.7071067811865476".
+    QString storageString() const;
+    // Text for people: an exact fraction ("−2/3" with a true minus sign when
+    // unicodeMinus), a double recognised as a simple fraction, or a short decimal.
+    QString display(bool unicodeMinus = false) const;
+
+    friend bool operator==(const Weight &a, const Weight &b);
+
+private:
+    bool m_exact = true;
+    Rational m_q = 0;
+    double m_d = 0.0;
+};
+
+// Largest magnitude accepted for a weight, and the smallest non-zero one.
+inline constexpr double kWeightMaxMagnitude = 1e300;
+inline constexpr double kWeightMinMagnitude = 1e-300;
+
+// Parses "1/3", "-2/3", "0.25", "2", "1e-3", "−1" (Unicode minus), "+1/2".
+// Decimals become exact decimal fractions. A leading "~" marks an approximate
+// (floating) value, as written by storageString(). Errors quote the text and
+// say what is expected.
+Result<Weight> parseWeight(QStringView text);
+
+// Exact rational as text: "-2/3", "5", "0". unicodeMinus uses U+2212.
+QString rationalToString(const Rational &q, bool unicodeMinus = false);
+
+// The simple fraction p/q (q <= maxDenominator) within rounding of x, if any.
+// "Within rounding" means |x - p/q| <= 1e-12 * max(1, |x|).
+std::optional<Rational> recogniseFraction(double x, long maxDenominator = 1000);
+
+// Shortest decimal text that reads back to the same double.
+QString doubleToString(double x);
+
+} // namespace cb
