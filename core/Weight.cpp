@@ -1,6 +1,8 @@
 #include "Weight.h"
 
 #include <charconv>
+#include <cstdint>
+#include <cstring>
 #include <cmath>
 #include <limits>
 
@@ -116,13 +118,47 @@ Result<Weight> checkRange(QStringView text, double magnitude, bool zero)
 
 } // namespace
 
+double nearestDouble(const Rational &q)
+{
+    const mpz_class &num = q.get_num();
+    const mpz_class &den = q.get_den();
+    // Both operands exact in a double: IEEE division rounds correctly.
+    if (mpz_sizeinbase(num.get_mpz_t(), 2) <= 53 && mpz_sizeinbase(den.get_mpz_t(), 2) <= 53)
+        return num.get_d() / den.get_d();
+    // Otherwise mpq_get_d truncates; pick the nearer of it and its neighbour away from zero.
+    const double t = q.get_d();
+    if (!std::isfinite(t))
+        return t;
+    const double away = std::nextafter(t, q > 0 ? HUGE_VAL : -HUGE_VAL);
+    if (!std::isfinite(away))
+        return t;
+    const Rational dt = abs(q - Rational(t));
+    const Rational da = abs(Rational(away) - q);
+    if (da < dt)
+        return away;
+    if (dt < da)
+        return t;
+    // A tie: the one with an even last bit.
+    std::uint64_t bits = 0;
+    std::memcpy(&bits, &t, sizeof bits);
+    return (bits & 1u) ? away : t;
+}
+
+const Rational &Weight::zero()
+{
+    static const Rational z(0);
+    return z;
+}
+
 Weight Weight::exact(const Rational &q)
 {
     Weight w;
     w.m_exact = true;
-    w.m_q = q;
-    w.m_q.canonicalize();
-    w.m_d = w.m_q.get_d();
+    if (q != 0) {
+        w.m_q = q;
+        w.m_q->canonicalize();
+        w.m_d = nearestDouble(*w.m_q);
+    }
     return w;
 }
 
@@ -130,7 +166,6 @@ Weight Weight::approx(double d)
 {
     Weight w;
     w.m_exact = false;
-    w.m_q = 0;
     w.m_d = d;
     return w;
 }
@@ -139,7 +174,7 @@ bool operator==(const Weight &a, const Weight &b)
 {
     if (a.m_exact != b.m_exact)
         return false;
-    return a.m_exact ? a.m_q == b.m_q : a.m_d == b.m_d;
+    return a.m_exact ? a.rational() == b.rational() : a.m_d == b.m_d;
 }
 
 QString rationalToString(const Rational &q, bool unicodeMinus)
@@ -197,14 +232,14 @@ std::optional<Rational> recogniseFraction(double x, long maxDenominator)
 QString Weight::storageString() const
 {
     if (m_exact)
-        return rationalToString(m_q);
+        return rationalToString(rational());
     return u"~"_s + doubleToString(m_d);
 }
 
 QString Weight::display(bool unicodeMinus) const
 {
     if (m_exact)
-        return rationalToString(m_q, unicodeMinus);
+        return rationalToString(rational(), unicodeMinus);
     if (auto r = recogniseFraction(m_d))
         return rationalToString(*r, unicodeMinus);
     QString s;

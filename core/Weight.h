@@ -7,6 +7,7 @@
 
 #include <gmpxx.h>
 
+#include <optional>
 #include <vector>
 
 namespace cb {
@@ -19,15 +20,19 @@ class Weight
 {
 public:
     Weight() = default;
-    Weight(int v) : m_q(v), m_d(v) {}
+    Weight(int v) : m_d(v)
+    {
+        if (v != 0)
+            m_q = Rational(v);
+    }
     static Weight exact(const Rational &q);
     static Weight approx(double d);
 
     bool isExact() const { return m_exact; }
     // Only meaningful when isExact().
-    const Rational &rational() const { return m_q; }
+    const Rational &rational() const { return m_q ? *m_q : zero(); }
     double value() const { return m_d; }
-    bool isZero() const { return m_exact ? m_q == 0 : m_d == 0.0; }
+    bool isZero() const { return m_d == 0.0 && (!m_exact || !m_q || *m_q == 0); }
 
     // Text that parses back to the same weight: "-2/3", "0", "~0.7071067811865476".
     QString storageString() const;
@@ -38,8 +43,9 @@ public:
     friend bool operator==(const Weight &a, const Weight &b);
 
 private:
+    static const Rational &zero();
     bool m_exact = true;
-    Rational m_q = 0;
+    std::optional<Rational> m_q; // empty for exact zero and for approximate weights (no allocation)
     double m_d = 0.0;
 };
 
@@ -52,6 +58,9 @@ inline constexpr double kWeightMinMagnitude = 1e-300;
 // (floating) value, as written by storageString(). Errors quote the text and
 // say what is expected.
 Result<Weight> parseWeight(QStringView text);
+
+// The double nearest to q (ties to even); GMP's own conversion truncates.
+double nearestDouble(const Rational &q);
 
 // Exact rational as text: "-2/3", "5", "0". unicodeMinus uses U+2212.
 QString rationalToString(const Rational &q, bool unicodeMinus = false);

@@ -1,6 +1,61 @@
+// contrast-bench-cli: the command line of Contrast Bench.
+#include "Commands.h"
+
 #include <QCoreApplication>
+#include <QTextStream>
+
+#include <cstdio>
+
+using namespace Qt::StringLiterals;
+using namespace cb::cli;
+
+namespace {
+
+struct Subcommand
+{
+    const char16_t *name;
+    int (*run)(const QStringList &, Io &);
+    const char16_t *summary;
+};
+
+// The dispatch table: one line per subcommand.
+const Subcommand kSubcommands[] = {
+    {u"analyze", runAnalyze, u"what a coding implies: hypotheses, sums, orthogonality, collinearity"},
+    {u"design", runDesign, u"the coding that tests given hypotheses (weights on level means)"},
+};
+
+void usage(QTextStream &s)
+{
+    s << "Usage: contrast-bench-cli COMMAND [options]\n\nCommands:\n";
+    for (const Subcommand &c : kSubcommands)
+        s << "  " << QString::fromUtf16(c.name).leftJustified(10) << QString::fromUtf16(c.summary) << '\n';
+    s << "\nRun 'contrast-bench-cli COMMAND --help' for the options of a command.\n";
+}
+
+} // namespace
+
 int main(int argc, char **argv)
 {
     QCoreApplication app(argc, argv);
-    return 0;
+    QCoreApplication::setApplicationName(u"contrast-bench-cli"_s);
+    QCoreApplication::setApplicationVersion(u"0.1.0"_s);
+    QTextStream out(stdout);
+    QTextStream err(stderr);
+    Io io{out, err};
+    QStringList args = QCoreApplication::arguments().mid(1);
+    if (args.isEmpty() || args[0] == u"--help"_s || args[0] == u"-h"_s) {
+        usage(args.isEmpty() ? err : out);
+        return args.isEmpty() ? kExitBadInput : kExitOk;
+    }
+    if (args[0] == u"--version"_s) {
+        out << "contrast-bench-cli " << QCoreApplication::applicationVersion() << '\n';
+        return kExitOk;
+    }
+    const QString command = args.takeFirst();
+    for (const Subcommand &c : kSubcommands)
+        if (command == QString::fromUtf16(c.name))
+            return c.run(args, io);
+    err << "contrast-bench-cli: unknown command '" << command << "'\n\n";
+    usage(err);
+    return kExitBadInput;
 }

@@ -1,0 +1,124 @@
+#include "SchemeArguments.h"
+
+#include "SchemeFile.h"
+
+using namespace Qt::StringLiterals;
+
+namespace cb::cli {
+
+void addSchemeOptions(QCommandLineParser &p)
+{
+    p.addOption({u"file"_s, u"Read the scheme from a scheme file (JSON)."_s, u"scheme.json"_s});
+    p.addOption({u"levels"_s, u"Level names, in order, separated by commas."_s, u"a,b,c"_s});
+    p.addOption({u"factor"_s, u"The factor's name (with --levels)."_s, u"name"_s});
+    p.addOption({u"scheme"_s, u"A standard scheme: indicator, treatment, sum, weighted-effect, simple, helmert, reverse-helmert, successive, polynomial."_s, u"NAME"_s});
+    p.addOption({u"reference"_s, u"Reference level (treatment, simple) or base level coded -1 (sum, weighted-effect)."_s, u"LEVEL"_s});
+    p.addOption({u"spacing"_s, u"Numeric position of each level, for polynomial trends."_s, u"x,y,z"_s});
+    p.addOption({u"n"_s, u"Planned group size of each level."_s, u"n1,n2,n3"_s});
+    p.addOption({u"columns"_s, u"Custom weights: one group of k weights per column, groups separated by ';'."_s, u"w,w,w;w,w,w"_s});
+    p.addOption({u"no-intercept"_s, u"Fit without an intercept."_s});
+    p.addOption({u"integer"_s, u"Polynomial trends as smallest integers instead of orthonormal columns."_s});
+    p.addOption({u"poly-weighted"_s, u"Polynomial trends orthogonal under the planned n."_s});
+}
+
+QString parseArguments(QCommandLineParser &p, const QString &command, const QStringList &args)
+{
+    p.setApplicationDescription(u"contrast-bench-cli %1"_s.arg(command));
+    p.addHelpOption();
+    if (!p.parse(QStringList{u"contrast-bench-cli %1"_s.arg(command)} + args))
+        return p.errorText();
+    if (!p.positionalArguments().isEmpty())
+        return u"unexpected argument '%1'"_s.arg(p.positionalArguments().first());
+    return {};
+}
+
+Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
+{
+    using R = Result<Scheme>;
+    const bool haveFile = p.isSet(u"file"_s);
+    const bool haveLevels = p.isSet(u"levels"_s);
+    if (haveFile == haveLevels)
+        return R::failure(u"give either --file or --levels (with --scheme or --columns)"_s);
+    Scheme s;
+    if (haveFile) {
+        for (const char16_t *opt : {u"scheme", u"columns", u"reference", u"spacing", u"n"})
+            if (p.isSet(QString::fromUtf16(opt)))
+                return R::failure(u"--%1 cannot be combined with --file; edit the scheme file instead"_s.arg(QString::fromUtf16(opt)));
+        auto loaded = loadScheme(p.value(u"file"_s));
+        if (!loaded)
+            return loaded;
+        s = loaded.take();
+        if (p.isSet(u"no-intercept"_s))
+            s.intercept = false;
+        return R(std::move(s));
+    }
+    Factor f;
+    f.name = p.value(u"factor"_s);
+    f.levels = splitList(p.value(u"levels"_s));
+    if (QString e = f.validate(); !e.isEmpty())
+        return R::failure(u"--"_s + e);
+    if (p.isSet(u"n"_s)) {
+        auto n = parseSizes(splitList(p.value(u"n"_s)), f.levelCount(), u"--n"_s);
+        if (!n)
+            return R::failure(n.error());
+        f.plannedN = n.take();
+    }
+    if (p.isSet(u"spacing"_s)) {
+        auto sp = parseSpacing(splitList(p.value(u"spacing"_s)), f.levelCount(), u"--spacing"_s);
+        if (!sp)
+            return R::failure(sp.error());
+        f.spacing = sp.take();
+    }
+    if (QString e = f.validate(); !e.isEmpty())
+        return R::failure(u"--"_s + e);
+
+    const bool haveScheme = p.isSet(u"scheme"_s);
+    const bool haveColumns = p.isSet(u"columns"_s);
+    if (haveScheme == haveColumns)
+        return R::failure(u"with --levels give either --scheme NAME or --columns \"w,w,w;w,w,w\""_s);
+    if (haveScheme) {
+        const auto kind = schemeFromId(p.value(u"scheme"_s));
+        if (!kind || *kind == SchemeKind::Custom)
+            return R::failure(u"--scheme: unknown scheme '%1'; expected one of indicator, treatment, sum, weighted-effect, simple, helmert, reverse-helmert, successive, polynomial"_s
+                                  .arg(p.value(u"scheme"_s)));
+        SchemeOptions opt;
+        if (p.isSet(u"reference"_s)) {
+            if (!schemeUsesReference(*kind))
+                return R::failure(u"--reference: the %1 scheme has no reference level"_s.arg(schemeId(*kind)));
+            opt.reference = int(f.levels.indexOf(p.value(u"reference"_s)));
+            if (opt.reference < 0)
+                return R::failure(u"--reference: '%1' is not one of the levels (%2)"_s.arg(p.value(u"reference"_s), f.levels.join(u", "_s)));
+        }
+        if (p.isSet(u"integer"_s))
+            opt.polynomialForm = PolynomialForm::Integer;
+        opt.polynomialWeighted = p.isSet(u"poly-weighted"_s);
+        auto made = makeScheme(f, *kind, opt);
+        if (!made)
+            return R::failure(u"--scheme: "_s + made.error());
+        s = made.take();
+    } else {
+        s.factor = f;
+        s.kind = SchemeKind::Custom;
+        const QStringList groups = p.value(u"columns"_s).split(u';');
+        for (qsizetype g = 0; g < groups.size(); ++g) {
+            const QStringList items = splitList(groups[g]);
+            if (items.size() != f.levelCount())
+                return R::failure(u"--columns: column %1 has %2 weights for %3 levels; give one per level"_s.arg(g + 1).arg(items.size()).arg(f.levelCount()));
+            Column c{u"c%1"_s.arg(g + 1), {}};
+            for (qsizetype i = 0; i < items.size(); ++i) {
+                auto w = parseWeight(items[i]);
+                if (!w)
+                    return R::failure(u"--columns: column %1, level %2 ('%3'): %4"_s.arg(g + 1).arg(i + 1).arg(f.levels[i], w.error()));
+                c.weights.push_back(*w);
+            }
+            s.columns.push_back(std::move(c));
+        }
+    }
+    if (p.isSet(u"no-intercept"_s))
+        s.intercept = false;
+    if (QString e = s.validate(); !e.isEmpty())
+        return R::failure(u"--"_s + e);
+    return R(std::move(s));
+}
+
+} // namespace cb::cli

@@ -1,0 +1,601 @@
+#include "Analysis.h"
+
+#include "HypothesisText.h"
+#include "RationalMatrix.h"
+
+#include <Eigen/Eigenvalues>
+#include <Eigen/LU>
+#include <Eigen/SVD>
+
+#include <cmath>
+#include <limits>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+
+constexpr double kEps = std::numeric_limits<double>::epsilon();
+// Relative size below which a floating cross-product or sum counts as zero.
+constexpr double kZeroTolerance = 1e-10;
+// Above this condition number the Gram matrix's eigenvalues lose too many digits:
+// singular values come from an SVD of the scaled design instead.
+constexpr double kGramConditionLimit = 1e3;
+
+QString columnLabel(const Analysis &a, int j)
+{
+    return u"column %1 ('%2')"_s.arg(j + 1).arg(a.columnNames[j]);
+}
+
+void addFinding(Analysis &a, Finding::Severity sev, Finding::Topic topic, QString message, int c1 = -1, int c2 = -1)
+{
+    a.findings.push_back(Finding{sev, topic, std::move(message), c1, c2});
+}
+
+std::vector<std::vector<Weight>> toWeights(const RationalMatrix &m)
+{
+    std::vector<std::vector<Weight>> out(size_t(m.rows()), std::vector<Weight>(size_t(m.cols())));
+    for (int r = 0; r < m.rows(); ++r)
+        for (int c = 0; c < m.cols(); ++c)
+            out[size_t(r)][size_t(c)] = Weight::exact(m(r, c));
+    return out;
+}
+
+std::vector<std::vector<Weight>> toWeights(const Eigen::MatrixXd &m)
+{
+    std::vector<std::vector<Weight>> out(size_t(m.rows()), std::vector<Weight>(size_t(m.cols())));
+    for (Eigen::Index r = 0; r < m.rows(); ++r)
+        for (Eigen::Index c = 0; c < m.cols(); ++c)
+            out[size_t(r)][size_t(c)] = Weight::approx(m(r, c));
+    return out;
+}
+
+Eigen::MatrixXd toDouble(const std::vector<std::vector<Weight>> &w)
+{
+    if (w.empty())
+        return {};
+    Eigen::MatrixXd m(Eigen::Index(w.size()), Eigen::Index(w[0].size()));
+    for (size_t r = 0; r < w.size(); ++r)
+        for (size_t c = 0; c < w[r].size(); ++c)
+            m(Eigen::Index(r), Eigen::Index(c)) = w[r][c].value();
+    return m;
+}
+
+// "a + 2 b - 1/3 c" from (coefficient, name) pairs.
+QString linearCombination(const std::vector<std::pair<Weight, QString>> &terms)
+{
+    QString s;
+    for (const auto &[w, name] : terms) {
+        const bool negative = w.value() < 0;
+        QString mag = (negative ? Weight::exact(-w.rational()) : w).display();
+        if (!w.isExact())
+            mag = Weight::approx(std::abs(w.value())).display();
+        const QString term = (mag == u"1"_s ? QString() : mag + u" "_s) + name;
+        if (s.isEmpty())
+            s = negative ? u"-"_s + term : term;
+        else
+            s += (negative ? u" - "_s : u" + "_s) + term;
+    }
+    return s.isEmpty() ? u"0"_s : s;
+}
+
+// Exact rank and dependencies of X (k x p): each non-pivot column in terms of pivot columns.
+void exactRank(Analysis &a, const RationalMatrix &x)
+{
+    const RationalMatrix::Echelon e = x.echelon();
+    a.rank = int(e.pivots.size());
+    std::vector<bool> isPivot(size_t(x.cols()), false);
+    for (int pcol : e.pivots)
+        isPivot[size_t(pcol)] = true;
+    for (int c = 0; c < x.cols(); ++c) {
+        if (isPivot[size_t(c)])
+            continue;
+        std::vector<std::pair<Weight, QString>> terms;
+        for (size_t r = 0; r < e.pivots.size(); ++r)
+            if (e.reduced(int(r), c) != 0)
+                terms.emplace_back(Weight::exact(e.reduced(int(r), c)), a.coefficientNames[e.pivots[r]]);
+        a.dependencies << a.coefficientNames[c] + u" = "_s + linearCombination(terms);
+    }
+}
+
+// Floating rank and dependencies by modified Gram-Schmidt in column order.
+void floatRank(Analysis &a, const Eigen::MatrixXd &x)
+{
+    const Eigen::Index k = x.rows(), p = x.cols();
+    Eigen::MatrixXd q(k, p);      // orthonormal basis of kept columns
+    Eigen::MatrixXd r = Eigen::MatrixXd::Zero(p, p); // kept columns = q * r (upper triangular)
+    std::vector<int> kept;
+    for (Eigen::Index c = 0; c < p; ++c) {
+        Eigen::VectorXd v = x.col(c);
+        const double norm = v.norm();
+        Eigen::VectorXd coef = Eigen::VectorXd::Zero(Eigen::Index(kept.size()));
+        for (int pass = 0; pass < 2; ++pass)
+            for (size_t i = 0; i < kept.size(); ++i) {
+                const double d = q.col(Eigen::Index(i)).dot(v);
+                coef(Eigen::Index(i)) += d;
+                v -= d * q.col(Eigen::Index(i));
+            }
+        const double resid = v.norm();
+        if (norm == 0.0 || resid <= 1e-10 * norm) {
+            // Dependent: x_c = Q coef = K R^-1 coef in terms of the kept columns K.
+            std::vector<std::pair<Weight, QString>> terms;
+            if (!kept.empty()) {
+                const Eigen::Index nk = Eigen::Index(kept.size());
+                const Eigen::VectorXd inK = r.topLeftCorner(nk, nk).triangularView<Eigen::Upper>().solve(coef);
+                for (Eigen::Index i = 0; i < nk; ++i) {
+                    if (std::abs(inK(i)) <= 1e-12 * std::max(1.0, inK.cwiseAbs().maxCoeff()))
+                        continue;
+                    const double v2 = inK(i);
+                    Weight w = Weight::approx(v2);
+                    if (auto f = recogniseFraction(v2))
+                        w = Weight::exact(*f);
+                    terms.emplace_back(w, a.coefficientNames[kept[size_t(i)]]);
+                }
+            }
+            a.dependencies << a.coefficientNames[int(c)] + u" = "_s + linearCombination(terms);
+            continue;
+        }
+        const Eigen::Index i = Eigen::Index(kept.size());
+        r.col(i).head(i) = coef;
+        r(i, i) = resid;
+        q.col(i) = v / resid;
+        kept.push_back(int(c));
+    }
+    a.rank = int(kept.size());
+    // Columns of r beyond the kept count are unused; r was built per kept column.
+}
+
+// Singular values of diag(sqrt n) X with unit-length columns, descending, plus the SVD when needed.
+struct Scaled
+{
+    Eigen::MatrixXd z;       // k x p, scaled
+    Eigen::VectorXd colNorm; // norms before scaling
+    Eigen::VectorXd sv;      // descending
+    bool anyZeroColumn = false;
+    bool usedSvd = false;
+    Eigen::BDCSVD<Eigen::MatrixXd> svd;
+};
+
+void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::VectorXd &sqrtN)
+{
+    s.z = sqrtN.asDiagonal() * x;
+    s.colNorm = s.z.colwise().norm().transpose();
+    for (Eigen::Index c = 0; c < s.z.cols(); ++c) {
+        if (s.colNorm(c) > 0)
+            s.z.col(c) /= s.colNorm(c);
+        else
+            s.anyZeroColumn = true;
+    }
+    const Eigen::MatrixXd g = s.z.transpose() * s.z;
+    Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd> es(g, Eigen::EigenvaluesOnly);
+    Eigen::VectorXd ev = es.eigenvalues().cwiseMax(0.0); // ascending
+    const Eigen::Index p = ev.size();
+    s.sv.resize(p);
+    for (Eigen::Index i = 0; i < p; ++i)
+        s.sv(i) = std::sqrt(ev(p - 1 - i));
+    if (es.info() != Eigen::Success || s.sv(p - 1) < s.sv(0) / kGramConditionLimit) {
+        s.svd.compute(s.z, Eigen::ComputeThinU | Eigen::ComputeThinV);
+        s.sv = s.svd.singularValues();
+        s.usedSvd = true;
+    }
+}
+
+struct Zero
+{
+    // Exact or relative-tolerance zero test for a floating value against a scale.
+    static bool test(double v, double scale) { return std::abs(v) <= kZeroTolerance * scale; }
+};
+
+void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::MatrixXd &c, const Eigen::VectorXd &n)
+{
+    const int m = a.columnCount;
+    const int k = a.levelCount;
+    a.columnSums.assign(size_t(m), Weight());
+    a.sumsToZero.assign(size_t(m), false);
+    a.orthogonal.assign(size_t(m), std::vector<bool>(size_t(m), false));
+    a.orthogonalInDesign.assign(size_t(m), std::vector<bool>(size_t(m), false));
+    a.crossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
+    a.designCrossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
+    Eigen::MatrixXd designCov(m, m);
+    if (exact) {
+        RationalMatrix cq(k, m);
+        for (int j = 0; j < m; ++j)
+            for (int i = 0; i < k; ++i)
+                cq(i, j) = s.columns[size_t(j)].weights[size_t(i)].rational();
+        const std::vector<Rational> nq = s.factor.sizes();
+        Rational total = 0;
+        for (const Rational &v : nq)
+            total += v;
+        std::vector<Rational> sums(static_cast<size_t>(m)), wsums(static_cast<size_t>(m));
+        for (int j = 0; j < m; ++j)
+            for (int i = 0; i < k; ++i) {
+                sums[size_t(j)] += cq(i, j);
+                wsums[size_t(j)] += nq[size_t(i)] * cq(i, j);
+            }
+        for (int j = 0; j < m; ++j) {
+            a.columnSums[size_t(j)] = Weight::exact(sums[size_t(j)]);
+            a.sumsToZero[size_t(j)] = sums[size_t(j)] == 0;
+        }
+        Rational t;
+        for (int i = 0; i < m; ++i)
+            for (int j = i; j < m; ++j) {
+                Rational dot = 0, wdot = 0;
+                for (int l = 0; l < k; ++l) {
+                    t = cq(l, i) * cq(l, j);
+                    dot += t;
+                    wdot += nq[size_t(l)] * t;
+                }
+                wdot -= wsums[size_t(i)] * wsums[size_t(j)] / total;
+                a.crossProducts[size_t(i)][size_t(j)] = a.crossProducts[size_t(j)][size_t(i)] = Weight::exact(dot);
+                a.designCrossProducts[size_t(i)][size_t(j)] = a.designCrossProducts[size_t(j)][size_t(i)] = Weight::exact(wdot);
+                a.orthogonal[size_t(i)][size_t(j)] = a.orthogonal[size_t(j)][size_t(i)] = dot == 0;
+                a.orthogonalInDesign[size_t(i)][size_t(j)] = a.orthogonalInDesign[size_t(j)][size_t(i)] = wdot == 0;
+            }
+        // Exact variance inflation: VIF_j = S_jj (S^-1)_jj for the centred, n-weighted cross-products S.
+        a.vif.assign(size_t(m), std::nullopt);
+        std::vector<int> live;
+        for (int j = 0; j < m; ++j)
+            if (a.designCrossProducts[size_t(j)][size_t(j)].rational() != 0)
+                live.push_back(j);
+        RationalMatrix sl(int(live.size()), int(live.size()));
+        for (size_t i = 0; i < live.size(); ++i)
+            for (size_t j = 0; j < live.size(); ++j)
+                sl(int(i), int(j)) = a.designCrossProducts[size_t(live[i])][size_t(live[j])].rational();
+        if (auto inv = sl.inverse()) {
+            for (size_t i = 0; i < live.size(); ++i)
+                a.vif[size_t(live[i])] = nearestDouble(sl(int(i), int(i)) * (*inv)(int(i), int(i)));
+        }
+        for (int i = 0; i < m; ++i)
+            for (int j = 0; j < m; ++j)
+                designCov(i, j) = a.designCrossProducts[size_t(i)][size_t(j)].value();
+    } else {
+        const double total = n.sum();
+        const Eigen::VectorXd sums = c.colwise().sum().transpose();
+        const Eigen::VectorXd abssums = c.cwiseAbs().colwise().sum().transpose();
+        const Eigen::VectorXd wsums = c.transpose() * n;
+        const Eigen::MatrixXd cross = c.transpose() * c;
+        const Eigen::MatrixXd wcross = c.transpose() * n.asDiagonal() * c - wsums * wsums.transpose() / total;
+        const Eigen::VectorXd wsq = (c.array().square().colwise() * n.array()).colwise().sum().transpose();
+        for (int j = 0; j < m; ++j) {
+            a.columnSums[size_t(j)] = Weight::approx(sums(j));
+            a.sumsToZero[size_t(j)] = Zero::test(sums(j), abssums(j));
+        }
+        for (int i = 0; i < m; ++i)
+            for (int j = 0; j < m; ++j) {
+                a.crossProducts[size_t(i)][size_t(j)] = Weight::approx(cross(i, j));
+                a.designCrossProducts[size_t(i)][size_t(j)] = Weight::approx(wcross(i, j));
+                a.orthogonal[size_t(i)][size_t(j)] = Zero::test(cross(i, j), std::sqrt(cross(i, i) * cross(j, j)));
+                a.orthogonalInDesign[size_t(i)][size_t(j)] = Zero::test(wcross(i, j), std::sqrt(wsq(i) * wsq(j)));
+            }
+        designCov = wcross;
+        a.vif.assign(size_t(m), std::nullopt);
+        std::vector<int> live;
+        for (int j = 0; j < m; ++j)
+            if (!Zero::test(wcross(j, j), wsq(j)))
+                live.push_back(j);
+        const Eigen::Index nl = Eigen::Index(live.size());
+        Eigen::MatrixXd r(nl, nl);
+        for (Eigen::Index i = 0; i < nl; ++i)
+            for (Eigen::Index j = 0; j < nl; ++j)
+                r(i, j) = wcross(live[size_t(i)], live[size_t(j)]) / std::sqrt(wcross(live[size_t(i)], live[size_t(i)]) * wcross(live[size_t(j)], live[size_t(j)]));
+        if (nl > 0) {
+            Eigen::PartialPivLU<Eigen::MatrixXd> lu(r);
+            if (lu.rcond() > 1e-13) {
+                const Eigen::MatrixXd inv = lu.inverse();
+                for (Eigen::Index i = 0; i < nl; ++i)
+                    a.vif[size_t(live[size_t(i)])] = inv(i, i);
+            }
+        }
+    }
+    a.correlation.resize(m, m);
+    for (int i = 0; i < m; ++i)
+        for (int j = 0; j < m; ++j) {
+            const double d = designCov(i, i) * designCov(j, j);
+            a.correlation(i, j) = (designCov(i, i) > 0 && designCov(j, j) > 0 && (exact || !Zero::test(d, 1.0) || d > 0))
+                ? designCov(i, j) / std::sqrt(d)
+                : std::numeric_limits<double>::quiet_NaN();
+        }
+}
+
+void diagnosticFindings(Analysis &a)
+{
+    const int m = a.columnCount;
+    using S = Finding::Severity;
+    using T = Finding::Topic;
+    for (int j = 0; j < m; ++j)
+        if (!a.sumsToZero[size_t(j)])
+            addFinding(a, S::Info, T::ColumnSum,
+                       u"%1 sums to %2, not 0: its coefficient is not a pure comparison unless the intercept absorbs it"_s
+                           .arg(columnLabel(a, j), a.columnSums[size_t(j)].display()), j);
+    // Identical columns.
+    for (int i = 0; i < m; ++i)
+        for (int j = i + 1; j < m; ++j) {
+            bool same = true;
+            // Compare through the cross-products: |ci - cj|^2 = ci.ci + cj.cj - 2 ci.cj.
+            if (a.exact) {
+                same = a.crossProducts[size_t(i)][size_t(i)].rational() + a.crossProducts[size_t(j)][size_t(j)].rational()
+                           - 2 * a.crossProducts[size_t(i)][size_t(j)].rational() == 0;
+            } else {
+                const double d = a.crossProducts[size_t(i)][size_t(i)].value() + a.crossProducts[size_t(j)][size_t(j)].value()
+                                 - 2 * a.crossProducts[size_t(i)][size_t(j)].value();
+                same = Zero::test(d, a.crossProducts[size_t(i)][size_t(i)].value());
+            }
+            if (same)
+                addFinding(a, S::Problem, T::Rank, u"columns %1 and %2 are identical"_s.arg(i + 1).arg(j + 1), i, j);
+        }
+    // Non-orthogonal pairs, summarised when there are many.
+    auto pairs = [&](const std::vector<std::vector<bool>> &orth, const QString &how, const std::vector<std::vector<Weight>> &values) {
+        QStringList list;
+        int count = 0, total = 0;
+        for (int i = 0; i < m; ++i)
+            for (int j = i + 1; j < m; ++j) {
+                ++total;
+                if (orth[size_t(i)][size_t(j)])
+                    continue;
+                if (++count <= 6)
+                    list << u"%1 and %2 (%3)"_s.arg(i + 1).arg(j + 1).arg(values[size_t(i)][size_t(j)].display());
+            }
+        if (count == 0)
+            return;
+        QString msg = u"%1 of %2 column pairs are not orthogonal %3: "_s.arg(count).arg(total).arg(how) + list.join(u", "_s);
+        if (count > 6)
+            msg += u", ..."_s;
+        addFinding(a, S::Info, T::Orthogonality, msg);
+    };
+    pairs(a.orthogonal, u"as written (cross-product in brackets)"_s, a.crossProducts);
+    pairs(a.orthogonalInDesign, u"under the planned n (centred, n-weighted cross-product in brackets)"_s, a.designCrossProducts);
+
+    if (a.conditionNumber) {
+        for (size_t i = 0; i < a.conditionIndices.size(); ++i)
+            if (a.conditionIndices[i] >= kConditionIndexFlag) {
+                addFinding(a, S::Caution, T::Collinearity,
+                           u"condition number %1: at least one condition index is 30 or more, a sign of strong collinearity "
+                           "(Belsley, Kuh & Welsch 1980; the threshold is common practice)"_s
+                               .arg(QString::number(*a.conditionNumber, 'g', 4)));
+                break;
+            }
+    }
+    for (int j = 0; j < m; ++j) {
+        const auto &v = a.vif[size_t(j)];
+        if (v && *v >= kVifProblem)
+            addFinding(a, S::Problem, T::Collinearity,
+                       u"%1 has VIF %2 (10 or more: serious collinearity, common practice)"_s.arg(columnLabel(a, j), QString::number(*v, 'g', 4)), j);
+        else if (v && *v >= kVifCaution)
+            addFinding(a, S::Caution, T::Collinearity,
+                       u"%1 has VIF %2 (5 or more: notable collinearity, common practice)"_s.arg(columnLabel(a, j), QString::number(*v, 'g', 4)), j);
+    }
+    bool anyUndefined = false;
+    for (int j = 0; j < m; ++j) {
+        if (a.designCrossProducts[size_t(j)][size_t(j)].value() == 0.0
+            || (!a.exact && std::abs(a.designCrossProducts[size_t(j)][size_t(j)].value()) < 1e-300)) {
+            addFinding(a, S::Caution, T::Collinearity, u"%1 is constant across the levels: its VIF and correlations are undefined"_s.arg(columnLabel(a, j)), j);
+        } else if (!a.vif[size_t(j)]) {
+            anyUndefined = true;
+        }
+    }
+    if (anyUndefined)
+        addFinding(a, S::Caution, T::Collinearity,
+                   u"VIF is undefined: the centred coding columns are linearly dependent (for example one-hot columns always sum to 1)"_s);
+}
+
+} // namespace
+
+Analysis analyze(const Scheme &s)
+{
+    Analysis a;
+    a.levelCount = s.levelCount();
+    a.columnCount = s.columnCount();
+    a.intercept = s.intercept;
+    a.coefficientCount = a.columnCount + (s.intercept ? 1 : 0);
+    a.levels = s.factor.levels;
+    for (const Column &c : s.columns)
+        a.columnNames << c.name;
+    if (s.intercept)
+        a.coefficientNames << u"(Intercept)"_s;
+    a.coefficientNames << a.columnNames;
+
+    if (QString e = s.validate(); !e.isEmpty()) {
+        addFinding(a, Finding::Severity::Problem, Finding::Topic::Rank, e);
+        return a;
+    }
+    const int k = a.levelCount, m = a.columnCount, p = a.coefficientCount;
+    const bool allExact = s.allExact();
+    a.exact = allExact && k <= kExactLevelLimit;
+    if (!allExact)
+        addFinding(a, Finding::Severity::Info, Finding::Topic::ExactPath,
+                   u"some weights are not exact fractions (for example orthonormal trends), so results are computed in floating point"_s);
+    else if (k > kExactLevelLimit)
+        addFinding(a, Finding::Severity::Info, Finding::Topic::ExactPath,
+                   u"%1 levels is above the exact-arithmetic limit of %2: results are computed in floating point and fractions are recognised from doubles"_s
+                       .arg(k).arg(kExactLevelLimit));
+
+    const std::vector<Rational> nq = s.factor.sizes();
+    Eigen::VectorXd n(k);
+    for (int i = 0; i < k; ++i)
+        n(i) = nq[size_t(i)].get_d();
+    Eigen::MatrixXd c(k, m);
+    for (int j = 0; j < m; ++j)
+        for (int i = 0; i < k; ++i)
+            c(i, j) = s.columns[size_t(j)].weights[size_t(i)].value();
+    Eigen::MatrixXd x(k, p);
+    if (s.intercept)
+        x.col(0).setOnes();
+    x.rightCols(m) = c;
+
+    RationalMatrix xq;
+    if (a.exact) {
+        xq = RationalMatrix(k, p);
+        for (int i = 0; i < k; ++i) {
+            if (s.intercept)
+                xq(i, 0) = 1;
+            for (int j = 0; j < m; ++j)
+                xq(i, j + (s.intercept ? 1 : 0)) = s.columns[size_t(j)].weights[size_t(i)].rational();
+        }
+        exactRank(a, xq);
+    } else {
+        floatRank(a, x);
+    }
+    a.fullRank = a.rank == p;
+
+    // Collinearity (always floating: singular values are irrational).
+    Scaled sc;
+    scaledSingularValues(sc, x, n.cwiseSqrt());
+    const double smax = sc.sv(0);
+    const double smin = sc.sv(p - 1);
+    const bool singular = !a.fullRank || sc.anyZeroColumn || smin <= smax * double(std::max(k, p)) * kEps;
+    if (!singular)
+        a.conditionNumber = smax / smin;
+    a.conditionIndices.resize(size_t(p));
+    for (int i = 0; i < p; ++i) {
+        const double sv = sc.sv(p - 1 - i);
+        a.conditionIndices[size_t(i)] = sv > smax * double(std::max(k, p)) * kEps ? smax / sv : std::numeric_limits<double>::infinity();
+    }
+    std::sort(a.conditionIndices.begin(), a.conditionIndices.end());
+
+    // Hypotheses.
+    a.dependsOnSizes = p < k;
+    if (!a.fullRank) {
+        addFinding(a, Finding::Severity::Problem, Finding::Topic::Rank,
+                   u"rank %1 of %2: the coefficients are not identifiable, so no hypotheses can be given. Dependent: %3"_s
+                       .arg(a.rank).arg(p).arg(a.dependencies.join(u"; "_s)));
+    } else if (a.exact) {
+        RationalMatrix h;
+        if (p == k) {
+            h = *xq.inverse();
+        } else {
+            RationalMatrix xtw = xq.transposed();
+            for (int r = 0; r < p; ++r)
+                for (int i = 0; i < k; ++i)
+                    xtw(r, i) *= nq[size_t(i)];
+            h = *(xtw * xq).inverse() * xtw;
+        }
+        a.hypotheses = toWeights(h);
+    } else {
+        Eigen::MatrixXd h;
+        if (!sc.usedSvd && p == k) {
+            h = x.partialPivLu().inverse();
+        } else if (!sc.usedSvd) {
+            const Eigen::MatrixXd xtw = x.transpose() * n.asDiagonal();
+            h = (xtw * x).ldlt().solve(xtw);
+        } else {
+            // pinv(diag(sqrt n) X) diag(sqrt n) = D^-1 V S^-1 U' diag(sqrt n), with Z = diag(sqrt n) X D^-1.
+            const Eigen::MatrixXd vs = sc.svd.matrixV() * sc.sv.cwiseInverse().asDiagonal();
+            h = sc.colNorm.cwiseInverse().asDiagonal() * vs * sc.svd.matrixU().transpose() * n.cwiseSqrt().asDiagonal();
+        }
+        a.hypotheses = toWeights(h);
+    }
+    if (a.fullRank) {
+        a.hypothesisValues = toDouble(a.hypotheses);
+        if (a.dependsOnSizes)
+            addFinding(a, Finding::Severity::Caution, Finding::Topic::DependsOnSizes,
+                       u"%1 coding columns for %2 levels: the model is not saturated, so each coefficient is a least-squares "
+                       "combination that depends on the group sizes (here the planned n); with other sizes it tests something else"_s
+                           .arg(m).arg(k));
+        for (int r = 0; r < p; ++r) {
+            const bool isIntercept = s.intercept && r == 0;
+            const QString label = u"b%1"_s.arg(s.intercept ? r : r + 1);
+            const HypothesisText t = describeHypothesis(a.hypotheses[size_t(r)], a.levels, nq, isIntercept, label);
+            a.hypothesisSymbols << t.symbols;
+            a.hypothesisWords << t.words;
+            a.hypothesisCombinations << t.combination;
+        }
+    }
+
+    columnDiagnostics(a, s, a.exact, c, n);
+    diagnosticFindings(a);
+    return a;
+}
+
+Result<std::vector<Column>> codingFromHypotheses(const Factor &factor, const std::vector<std::vector<Weight>> &rows,
+                                                 bool intercept, const std::optional<std::vector<Weight>> &interceptRow)
+{
+    using R = Result<std::vector<Column>>;
+    if (QString e = factor.validate(); !e.isEmpty())
+        return R::failure(e);
+    const int k = factor.levelCount();
+    const int m = int(rows.size());
+    if (m == 0)
+        return R::failure(u"hypotheses: give at least one row of weights on the level means"_s);
+    if (m + (intercept ? 1 : 0) > k)
+        return R::failure(u"hypotheses: %1 rows for %2 levels; at most %3 can be tested%4"_s
+                              .arg(m).arg(k).arg(intercept ? k - 1 : k).arg(intercept ? u" beside the intercept"_s : QString()));
+    for (int r = 0; r < m; ++r)
+        if (int(rows[size_t(r)].size()) != k)
+            return R::failure(u"hypotheses: row %1 has %2 weights for %3 levels; give one per level"_s.arg(r + 1).arg(rows[size_t(r)].size()).arg(k));
+    std::vector<std::vector<Weight>> all;
+    if (intercept) {
+        std::vector<Weight> h0 = interceptRow.value_or(std::vector<Weight>(size_t(k), Weight::exact(Rational(1, k))));
+        if (int(h0.size()) != k)
+            return R::failure(u"intercept: %1 weights for %2 levels; give one per level"_s.arg(h0.size()).arg(k));
+        all.push_back(std::move(h0));
+    }
+    all.insert(all.end(), rows.begin(), rows.end());
+    const int p = int(all.size());
+    bool exact = k <= kExactLevelLimit;
+    for (const auto &row : all)
+        for (const Weight &w : row)
+            exact = exact && w.isExact();
+
+    // With an intercept, [1 | C] H' ... requires H 1 = e1: the intercept row sums to 1, the others to 0.
+    if (intercept) {
+        for (int r = 0; r < p; ++r) {
+            Rational sq = 0;
+            double sd = 0, sa = 0;
+            for (const Weight &w : all[size_t(r)]) {
+                if (exact)
+                    sq += w.rational();
+                sd += w.value();
+                sa += std::abs(w.value());
+            }
+            const Rational want = r == 0 ? 1 : 0;
+            const bool okSum = exact ? sq == want : std::abs(sd - want.get_d()) <= kZeroTolerance * std::max(1.0, sa);
+            if (!okSum)
+                return R::failure(r == 0 ? u"intercept: its weights sum to %1; with an intercept they must sum to 1"_s.arg(exact ? rationalToString(sq) : QString::number(sd))
+                                         : u"hypotheses: row %1 sums to %2; with an intercept each comparison must sum to 0 "
+                                           "(or turn the intercept off)"_s.arg(r).arg(exact ? rationalToString(sq) : QString::number(sd)));
+        }
+    }
+
+    // X = pinv(H) = H' (H H')^-1; for a square H this is its inverse.
+    std::vector<std::vector<Weight>> xcols; // p columns of k
+    if (exact) {
+        RationalMatrix h(p, k);
+        for (int r = 0; r < p; ++r)
+            for (int i = 0; i < k; ++i)
+                h(r, i) = all[size_t(r)][size_t(i)].rational();
+        const RationalMatrix ht = h.transposed();
+        auto g = (h * ht).inverse();
+        if (!g)
+            return R::failure(u"hypotheses: the rows are linearly dependent, so no coding can test them all"_s);
+        const RationalMatrix x = ht * *g;
+        for (int c = 0; c < p; ++c) {
+            std::vector<Weight> col;
+            for (int i = 0; i < k; ++i)
+                col.push_back(Weight::exact(x(i, c)));
+            xcols.push_back(std::move(col));
+        }
+    } else {
+        Eigen::MatrixXd h(p, k);
+        for (int r = 0; r < p; ++r)
+            for (int i = 0; i < k; ++i)
+                h(r, i) = all[size_t(r)][size_t(i)].value();
+        Eigen::JacobiSVD<Eigen::MatrixXd> svd(h, Eigen::ComputeThinU | Eigen::ComputeThinV);
+        const Eigen::VectorXd sv = svd.singularValues();
+        if (sv(p - 1) <= sv(0) * double(std::max(k, p)) * kEps)
+            return R::failure(u"hypotheses: the rows are linearly dependent, so no coding can test them all"_s);
+        const Eigen::MatrixXd x = svd.matrixV() * sv.cwiseInverse().asDiagonal() * svd.matrixU().transpose();
+        for (int c = 0; c < p; ++c) {
+            std::vector<Weight> col;
+            for (int i = 0; i < k; ++i)
+                col.push_back(Weight::approx(x(i, c)));
+            xcols.push_back(std::move(col));
+        }
+    }
+    std::vector<Column> out;
+    for (int c = intercept ? 1 : 0; c < p; ++c)
+        out.push_back(Column{u"c%1"_s.arg(intercept ? c : c + 1), std::move(xcols[size_t(c)])});
+    return R(std::move(out));
+}
+
+} // namespace cb

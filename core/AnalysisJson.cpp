@@ -1,0 +1,139 @@
+#include "AnalysisJson.h"
+
+#include <QJsonArray>
+
+#include <cmath>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+QJsonValue jsonNumber(double v)
+{
+    return std::isfinite(v) ? QJsonValue(v) : QJsonValue(QJsonValue::Null);
+}
+
+QJsonValue jsonNumber(const std::optional<double> &v)
+{
+    return v ? jsonNumber(*v) : QJsonValue(QJsonValue::Null);
+}
+
+namespace {
+
+QJsonArray numbers(const std::vector<Weight> &ws)
+{
+    QJsonArray a;
+    for (const Weight &w : ws)
+        a.append(jsonNumber(w.value()));
+    return a;
+}
+
+QJsonArray exactStrings(const std::vector<Weight> &ws)
+{
+    QJsonArray a;
+    for (const Weight &w : ws)
+        a.append(w.isExact() ? QJsonValue(rationalToString(w.rational())) : QJsonValue(QJsonValue::Null));
+    return a;
+}
+
+template <typename Row, typename F>
+QJsonArray rows(const std::vector<Row> &m, F f)
+{
+    QJsonArray a;
+    for (const Row &r : m)
+        a.append(f(r));
+    return a;
+}
+
+QJsonArray bools(const std::vector<bool> &v)
+{
+    QJsonArray a;
+    for (bool b : v)
+        a.append(b);
+    return a;
+}
+
+QString severityId(Finding::Severity s)
+{
+    switch (s) {
+    case Finding::Severity::Info: return u"info"_s;
+    case Finding::Severity::Caution: return u"caution"_s;
+    case Finding::Severity::Problem: return u"problem"_s;
+    }
+    return {};
+}
+
+} // namespace
+
+QJsonObject analysisToJson(const Scheme &scheme, const Analysis &a)
+{
+    QJsonObject o;
+    o[u"levels"_s] = QJsonArray::fromStringList(a.levels);
+    o[u"column_names"_s] = QJsonArray::fromStringList(a.columnNames);
+    o[u"coefficient_names"_s] = QJsonArray::fromStringList(a.coefficientNames);
+    o[u"intercept"_s] = a.intercept;
+    o[u"scheme"_s] = schemeId(scheme.kind);
+    o[u"exact"_s] = a.exact;
+
+    // Coding: k rows of m.
+    std::vector<std::vector<Weight>> coding(size_t(a.levelCount));
+    for (int i = 0; i < a.levelCount; ++i)
+        for (const Column &c : scheme.columns)
+            coding[size_t(i)].push_back(i < int(c.weights.size()) ? c.weights[size_t(i)] : Weight());
+    o[u"coding"_s] = rows(coding, numbers);
+    o[u"coding_exact"_s] = rows(coding, exactStrings);
+
+    if (a.fullRank) {
+        o[u"hypotheses"_s] = rows(a.hypotheses, numbers);
+        o[u"hypotheses_exact"_s] = rows(a.hypotheses, exactStrings);
+        o[u"hypothesis_text"_s] = QJsonArray::fromStringList(a.hypothesisSymbols);
+        o[u"hypothesis_words"_s] = QJsonArray::fromStringList(a.hypothesisWords);
+        o[u"hypothesis_combinations"_s] = QJsonArray::fromStringList(a.hypothesisCombinations);
+    } else {
+        o[u"hypotheses"_s] = QJsonValue::Null;
+        o[u"hypotheses_exact"_s] = QJsonValue::Null;
+        o[u"hypothesis_text"_s] = QJsonValue::Null;
+        o[u"hypothesis_words"_s] = QJsonValue::Null;
+        o[u"hypothesis_combinations"_s] = QJsonValue::Null;
+    }
+    o[u"depends_on_sizes"_s] = a.dependsOnSizes;
+    o[u"rank"_s] = a.rank;
+    o[u"full_rank"_s] = a.fullRank;
+    o[u"dependencies"_s] = QJsonArray::fromStringList(a.dependencies);
+    o[u"column_sums"_s] = numbers(a.columnSums);
+    o[u"column_sums_exact"_s] = exactStrings(a.columnSums);
+    o[u"orthogonal"_s] = rows(a.orthogonal, bools);
+    o[u"orthogonal_in_design"_s] = rows(a.orthogonalInDesign, bools);
+    o[u"condition_number"_s] = jsonNumber(a.conditionNumber);
+    QJsonArray ci;
+    for (double v : a.conditionIndices)
+        ci.append(jsonNumber(v));
+    o[u"condition_indices"_s] = ci;
+    QJsonArray vif;
+    for (const auto &v : a.vif)
+        vif.append(jsonNumber(v));
+    o[u"vif"_s] = vif;
+    QJsonArray corr;
+    for (Eigen::Index i = 0; i < a.correlation.rows(); ++i) {
+        QJsonArray r;
+        for (Eigen::Index j = 0; j < a.correlation.cols(); ++j)
+            r.append(jsonNumber(a.correlation(i, j)));
+        corr.append(r);
+    }
+    o[u"correlation"_s] = corr;
+    QJsonArray warnings;
+    QJsonArray findings;
+    for (const Finding &f : a.findings) {
+        if (f.severity != Finding::Severity::Info)
+            warnings.append(f.message);
+        QJsonObject fo;
+        fo[u"severity"_s] = severityId(f.severity);
+        fo[u"message"_s] = f.message;
+        findings.append(fo);
+    }
+    o[u"warnings"_s] = warnings;
+    o[u"findings"_s] = findings;
+    return o;
+}
+
+} // namespace cb

@@ -1,0 +1,152 @@
+#include "AnalysisReport.h"
+
+#include <cmath>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+QString textTable(const QStringList &header, const QList<QStringList> &rows, int indent)
+{
+    QList<qsizetype> width(header.size(), 0);
+    auto measure = [&](const QStringList &r) {
+        for (qsizetype c = 0; c < r.size() && c < width.size(); ++c)
+            width[c] = std::max(width[c], r[c].size());
+    };
+    measure(header);
+    for (const QStringList &r : rows)
+        measure(r);
+    QString out;
+    auto line = [&](const QStringList &r) {
+        QString l = QString(indent, u' ');
+        for (qsizetype c = 0; c < width.size(); ++c) {
+            const QString cell = c < r.size() ? r[c] : QString();
+            l += c == 0 ? cell.leftJustified(width[c]) : u"  "_s + cell.rightJustified(width[c]);
+        }
+        while (l.endsWith(u' '))
+            l.chop(1);
+        out += l + u'\n';
+    };
+    line(header);
+    for (const QStringList &r : rows)
+        line(r);
+    return out;
+}
+
+namespace {
+
+QString number(double v)
+{
+    if (std::isinf(v))
+        return u"inf"_s;
+    if (std::isnan(v))
+        return u"undefined"_s;
+    return QString::number(v, 'g', 6);
+}
+
+QString yesNoMatrix(const Analysis &a, const std::vector<std::vector<bool>> &m)
+{
+    QStringList header{QString()};
+    QList<QStringList> rows;
+    for (int j = 0; j < a.columnCount; ++j)
+        header << QString::number(j + 1);
+    for (int i = 0; i < a.columnCount; ++i) {
+        QStringList r{u"%1 %2"_s.arg(i + 1).arg(a.columnNames[i])};
+        for (int j = 0; j < a.columnCount; ++j)
+            r << (i == j ? u"-"_s : (m[size_t(i)][size_t(j)] ? u"yes"_s : u"NO"_s));
+        rows << r;
+    }
+    return textTable(header, rows, 4);
+}
+
+} // namespace
+
+QString analysisReport(const Scheme &s, const Analysis &a)
+{
+    QString out;
+    const QString name = s.factor.name.isEmpty() ? u"(unnamed factor)"_s : s.factor.name;
+    out += u"Factor %1: %2 levels (%3)\n"_s.arg(name).arg(a.levelCount).arg(a.levels.join(u", "_s));
+    if (s.factor.hasPlannedN()) {
+        QStringList n;
+        for (const Rational &r : s.factor.plannedN)
+            n << rationalToString(r);
+        out += u"Planned n: %1\n"_s.arg(n.join(u", "_s));
+    } else {
+        out += u"Planned n: equal\n"_s;
+    }
+    QString origin = schemeTitle(s.kind);
+    if (schemeUsesReference(s.kind) && s.reference >= 0)
+        origin += u", reference level %1"_s.arg(s.factor.levels[s.reference]);
+    out += u"Coding: %1; intercept %2\n\n"_s.arg(origin, s.intercept ? u"on"_s : u"off"_s);
+
+    out += u"Coding matrix (rows: levels; columns: coding columns)\n"_s;
+    {
+        QStringList header{u"level"_s};
+        header << a.columnNames;
+        QList<QStringList> rows;
+        for (int i = 0; i < a.levelCount; ++i) {
+            QStringList r{a.levels[i]};
+            for (const Column &c : s.columns)
+                r << c.weights[size_t(i)].display();
+            rows << r;
+        }
+        QStringList sums{u"(sum)"_s};
+        for (const Weight &w : a.columnSums)
+            sums << w.display();
+        rows << sums;
+        out += textTable(header, rows);
+    }
+    out += u"\n"_s;
+
+    if (!a.fullRank) {
+        out += u"Rank %1 of %2: the coefficients are not identifiable.\n"_s.arg(a.rank).arg(a.coefficientCount);
+        for (const QString &d : a.dependencies)
+            out += u"  dependent: %1\n"_s.arg(d);
+        out += u"\n"_s;
+    } else {
+        out += u"What each coefficient estimates%1\n"_s.arg(a.dependsOnSizes ? u" (depends on the planned n: the model is not saturated)"_s : QString());
+        for (int r = 0; r < a.coefficientCount; ++r)
+            out += u"  %1\n      %2 [%3]\n"_s.arg(a.hypothesisSymbols[r], a.hypothesisWords[r], a.coefficientNames[r]);
+        out += u"\nHypothesis matrix (rows: coefficients; columns: weights on the level means)\n"_s;
+        QStringList header{u"coefficient"_s};
+        header << a.levels;
+        QList<QStringList> rows;
+        for (int r = 0; r < a.coefficientCount; ++r) {
+            QStringList row{a.coefficientNames[r]};
+            for (const Weight &w : a.hypotheses[size_t(r)])
+                row << w.display();
+            rows << row;
+        }
+        out += textTable(header, rows);
+        out += u"\n"_s;
+    }
+
+    out += u"Design health\n"_s;
+    out += u"  rank %1 of %2%3; %4 arithmetic\n"_s.arg(a.rank).arg(a.coefficientCount)
+               .arg(a.fullRank ? u" (full rank)"_s : u" (RANK DEFICIENT)"_s, a.exact ? u"exact"_s : u"floating-point"_s);
+    out += u"  condition number (unit-length columns, weighted by planned n): %1\n"_s
+               .arg(a.conditionNumber ? number(*a.conditionNumber) : u"undefined (singular)"_s);
+    QStringList ci;
+    for (double v : a.conditionIndices)
+        ci << number(v);
+    out += u"  condition indices: %1 (30 or more flags collinearity; common practice)\n"_s.arg(ci.join(u", "_s));
+    QStringList vif;
+    for (int j = 0; j < a.columnCount; ++j)
+        vif << u"%1 %2"_s.arg(a.columnNames[j], a.vif[size_t(j)] ? number(*a.vif[size_t(j)]) : u"undefined"_s);
+    out += u"  VIF (5 and 10 flag collinearity; common practice): %1\n"_s.arg(vif.join(u"; "_s));
+    if (a.columnCount > 1 && a.columnCount <= 12) {
+        out += u"  orthogonal as written (c_i . c_j = 0):\n"_s + yesNoMatrix(a, a.orthogonal);
+        out += u"  orthogonal under the planned n (centred, n-weighted):\n"_s + yesNoMatrix(a, a.orthogonalInDesign);
+    }
+    if (!a.findings.empty()) {
+        out += u"\nFindings\n"_s;
+        for (const Finding &f : a.findings) {
+            const QString tag = f.severity == Finding::Severity::Problem ? u"problem"_s
+                              : f.severity == Finding::Severity::Caution ? u"caution"_s : u"note"_s;
+            out += u"  [%1] %2\n"_s.arg(tag, f.message);
+        }
+    }
+    return out;
+}
+
+} // namespace cb

@@ -1,0 +1,18 @@
+#pragma once
+
+#include "Analysis.h"
+#include "Scheme.h"
+
+#include <QList>
+#include <QString>
+#include <QStringList>
+
+namespace cb {
+
+// A plain-text report of a scheme and its analysis, for the terminal.
+QString analysisReport(const Scheme &scheme, const Analysis &analysis);
+
+// Aligns a table for plain text: the first column left, the others right.
+QString textTable(const QStringList &header, const QList<QStringList> &rows, int indent = 2);
+
+} // namespace cb
