@@ -1,0 +1,724 @@
+#include "Power.h"
+
+#include "Analysis.h"
+#include "Factor.h"
+#include "Weight.h"
+
+// Boost 1.74's fisher_f quantile trips GCC's maybe-uninitialized check when inlined.
+#pragma GCC diagnostic push
+#pragma GCC diagnostic ignored "-Wmaybe-uninitialized"
+#include <boost/math/distributions/fisher_f.hpp>
+#include <boost/math/distributions/non_central_f.hpp>
+#include <boost/math/distributions/non_central_t.hpp>
+#include <boost/math/distributions/students_t.hpp>
+#pragma GCC diagnostic pop
+
+#include <QJsonArray>
+
+#include <algorithm>
+#include <cmath>
+#include <functional>
+#include <numeric>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+
+namespace bm = boost::math;
+namespace bp = boost::math::policies;
+// Errors become NaN (checked by the callers) instead of exceptions; doubles are
+// not promoted to long double (the results agree with SciPy well below 1e-9).
+using Policy = bp::policy<bp::domain_error<bp::errno_on_error>, bp::pole_error<bp::errno_on_error>,
+                          bp::overflow_error<bp::errno_on_error>, bp::evaluation_error<bp::errno_on_error>,
+                          bp::rounding_error<bp::errno_on_error>, bp::promote_double<false>>;
+
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+
+QString num(double x)
+{
+    return doubleToString(x);
+}
+
+// Short text for people: 4 significant digits.
+QString shortNum(double x)
+{
+    return QString::number(x, 'g', 4);
+}
+
+bool positiveFinite(double x)
+{
+    return std::isfinite(x) && x > 0.0;
+}
+
+QString checkCount(const std::vector<double> &values, int levelCount, const QString &field)
+{
+    if (values.size() != size_t(levelCount))
+        return u"%1: %2 values for %3 levels; give one per level"_s.arg(field).arg(values.size()).arg(levelCount);
+    return {};
+}
+
+// Every value finite and, when positive is set, above 0.
+QString checkValues(const std::vector<double> &values, const QString &field, bool positive, const QString &what)
+{
+    for (size_t i = 0; i < values.size(); ++i) {
+        if (!std::isfinite(values[i]))
+            return u"%1, item %2: not a finite number"_s.arg(field).arg(i + 1);
+        if (positive && values[i] <= 0.0)
+            return u"%1, item %2: %3 is not a positive %4; it must be above 0"_s.arg(field).arg(i + 1).arg(num(values[i]), what);
+    }
+    return {};
+}
+
+// The level sizes for the power at `n` (doubles).
+struct Design
+{
+    const std::vector<double> &means;
+    const PowerSettings &settings;
+    int k = 0;
+
+    double sdOf(int i) const { return settings.perLevelSds() ? settings.sds[size_t(i)] : settings.sd; }
+};
+
+struct ContrastValues
+{
+    double estimate = 0.0;
+    double se = 0.0;
+    double df = 0.0;
+    double noncentrality = 0.0;
+    double power = kNaN;
+};
+
+// Expected estimate, with values within rounding of zero made exactly zero.
+double expectedEstimate(const Eigen::VectorXd &h, const std::vector<double> &means)
+{
+    double psi = 0.0;
+    double scale = 0.0;
+    for (Eigen::Index i = 0; i < h.size(); ++i) {
+        psi += h[i] * means[size_t(i)];
+        scale += std::abs(h[i] * means[size_t(i)]);
+    }
+    return std::abs(psi) <= 1e-12 * scale ? 0.0 : psi;
+}
+
+ContrastValues contrastAt(const Design &d, const Eigen::VectorXd &h, const std::vector<double> &n, double alpha)
+{
+    ContrastValues v;
+    v.estimate = expectedEstimate(h, d.means);
+    double var = 0.0;
+    double welchDen = 0.0;
+    double total = 0.0;
+    for (int i = 0; i < d.k; ++i) {
+        const double s = d.sdOf(i);
+        const double a = h[i] * h[i] * s * s / n[size_t(i)];
+        var += a;
+        if (a > 0.0)
+            welchDen += a * a / (n[size_t(i)] - 1.0);
+        total += n[size_t(i)];
+    }
+    v.se = std::sqrt(var);
+    // Welch (1947) and Satterthwaite (1946) degrees of freedom for a linear combination.
+    v.df = d.settings.perLevelSds() ? var * var / welchDen : total - d.k;
+    v.noncentrality = v.estimate == 0.0 ? 0.0 : v.estimate / v.se;
+    v.power = tTestPower(v.noncentrality, v.df, alpha, d.settings.oneSided);
+    return v;
+}
+
+struct OmnibusValues
+{
+    double df2 = 0.0;
+    double effectSize = 0.0;
+    double noncentrality = 0.0;
+    double sd = 0.0;
+    double power = kNaN;
+};
+
+OmnibusValues omnibusAt(const Design &d, const std::vector<double> &n, double alpha)
+{
+    OmnibusValues v;
+    double total = 0.0;
+    double weighted = 0.0;
+    for (int i = 0; i < d.k; ++i) {
+        total += n[size_t(i)];
+        weighted += n[size_t(i)] * d.means[size_t(i)];
+    }
+    const double grand = weighted / total;
+    double ss = 0.0;
+    for (int i = 0; i < d.k; ++i) {
+        const double dev = d.means[size_t(i)] - grand;
+        ss += n[size_t(i)] * dev * dev;
+    }
+    v.df2 = total - d.k;
+    double var = d.settings.sd * d.settings.sd;
+    if (d.settings.perLevelSds()) {
+        var = 0.0;
+        for (int i = 0; i < d.k; ++i)
+            var += (n[size_t(i)] - 1.0) * d.sdOf(i) * d.sdOf(i);
+        var /= v.df2;
+    }
+    v.sd = std::sqrt(var);
+    const bool allEqual = std::adjacent_find(d.means.begin(), d.means.end(), std::not_equal_to<>()) == d.means.end();
+    v.noncentrality = allEqual ? 0.0 : ss / var;
+    v.effectSize = std::sqrt(v.noncentrality / total);
+    v.power = fTestPower(v.noncentrality, d.k - 1, v.df2, alpha);
+    return v;
+}
+
+std::vector<double> toDouble(const std::vector<long long> &sizes)
+{
+    return std::vector<double>(sizes.begin(), sizes.end());
+}
+
+// Smallest smallest-group size t (2 <= t <= cap) with powerAt(sizes(t)) >= target:
+// doubling, then bisection. Power grows with t, so the bisection finds the smallest.
+SampleSize searchSampleSize(const std::function<double(const std::vector<double> &)> &powerAt,
+                            const std::vector<double> &ratios, double target)
+{
+    auto meets = [&](long long t, double *power) {
+        *power = powerAt(toDouble(groupSizesFor(t, ratios)));
+        return *power >= target;
+    };
+    SampleSize out;
+    double power = kNaN;
+    long long failing = 1; // below the smallest size allowed
+    long long passing = 2;
+    double passingPower = kNaN;
+    while (!meets(passing, &power)) {
+        if (std::isnan(power) || passing >= kPowerSearchCap) {
+            out.power = power;
+            return out;
+        }
+        failing = passing;
+        passing = std::min(passing * 2, kPowerSearchCap);
+    }
+    passingPower = power;
+    while (passing - failing > 1) {
+        const long long mid = failing + (passing - failing) / 2;
+        if (meets(mid, &power)) {
+            passing = mid;
+            passingPower = power;
+        } else {
+            failing = mid;
+        }
+    }
+    out.reachable = true;
+    out.perLevel = groupSizesFor(passing, ratios);
+    out.total = std::accumulate(out.perLevel.begin(), out.perLevel.end(), 0LL);
+    out.power = passingPower;
+    return out;
+}
+
+QString unreachableNote(const SampleSize &s, double target)
+{
+    if (std::isnan(s.power))
+        return u"the power could not be evaluated at some sizes; no sample size is given"_s;
+    return u"power %1 is not reached with up to %2 in the smallest group (power there: %3)"_s
+        .arg(shortNum(target), QString::number(kPowerSearchCap), shortNum(s.power));
+}
+
+QJsonValue jsonNumber(double x)
+{
+    return std::isfinite(x) ? QJsonValue(x) : QJsonValue(QJsonValue::Null);
+}
+
+void putSampleSize(QJsonObject &o, const SampleSize &s)
+{
+    if (s.reachable) {
+        QJsonArray a;
+        for (long long v : s.perLevel)
+            a.append(double(v));
+        o[u"n_required"_s] = a;
+        o[u"n_required_total"_s] = double(s.total);
+        o[u"power_at_n_required"_s] = jsonNumber(s.power);
+    } else {
+        o[u"n_required"_s] = QJsonValue::Null;
+        o[u"n_required_total"_s] = QJsonValue::Null;
+        o[u"power_at_n_required"_s] = QJsonValue::Null;
+    }
+    o[u"reachable"_s] = s.reachable;
+}
+
+void putNumbers(QJsonObject &o, std::initializer_list<std::pair<const char16_t *, double>> numbers)
+{
+    for (const auto &[key, value] : numbers)
+        o[QString::fromUtf16(key)] = jsonNumber(value);
+}
+
+QJsonArray jsonArray(const std::vector<double> &values)
+{
+    QJsonArray a;
+    for (double v : values)
+        a.append(jsonNumber(v));
+    return a;
+}
+
+} // namespace
+
+namespace {
+
+struct AdjustmentName
+{
+    PowerAdjustment adjustment;
+    const char16_t *id;
+    const char16_t *title;
+};
+
+constexpr AdjustmentName kAdjustmentNames[] = {
+    {PowerAdjustment::None, u"none", u"None"},
+    {PowerAdjustment::Bonferroni, u"bonferroni", u"Bonferroni"},
+    {PowerAdjustment::Sidak, u"sidak", u"\u0160id\u00e1k"},
+};
+
+const AdjustmentName &adjustmentName(PowerAdjustment adjustment)
+{
+    for (const AdjustmentName &a : kAdjustmentNames)
+        if (a.adjustment == adjustment)
+            return a;
+    return kAdjustmentNames[0];
+}
+
+} // namespace
+
+QString powerAdjustmentId(PowerAdjustment adjustment)
+{
+    return QString::fromUtf16(adjustmentName(adjustment).id);
+}
+
+QString powerAdjustmentTitle(PowerAdjustment adjustment)
+{
+    return QString::fromUtf16(adjustmentName(adjustment).title);
+}
+
+std::optional<PowerAdjustment> powerAdjustmentFromId(const QString &id)
+{
+    for (const AdjustmentName &a : kAdjustmentNames)
+        if (id.compare(QString::fromUtf16(a.id), Qt::CaseInsensitive) == 0)
+            return a.adjustment;
+    return std::nullopt;
+}
+
+QString validatePowerSettings(const PowerSettings &s, int levelCount, const QString &fieldPrefix)
+{
+    const auto field = [&](const char16_t *name) { return fieldPrefix + QString::fromUtf16(name); };
+    if (levelCount < kMinLevels)
+        return u"levels: power needs at least %1 levels, got %2"_s.arg(kMinLevels).arg(levelCount);
+    QString e = checkCount(s.means, levelCount, field(u"means"));
+    if (e.isEmpty())
+        e = checkValues(s.means, field(u"means"), false, {});
+    if (!e.isEmpty())
+        return e;
+    if (s.perLevelSds()) {
+        e = checkCount(s.sds, levelCount, field(u"sds"));
+        if (e.isEmpty())
+            e = checkValues(s.sds, field(u"sds"), true, u"standard deviation"_s);
+        if (!e.isEmpty())
+            return e;
+    } else if (!positiveFinite(s.sd)) {
+        return u"%1: %2 is not a positive standard deviation; the SD must be above 0"_s.arg(field(u"sd"), num(s.sd));
+    }
+    if (!s.n.empty()) {
+        if (!s.ratios.empty())
+            return u"%1 and %2: give planned sizes per level, or ratios with a total, not both"_s.arg(field(u"n"), field(u"ratios"));
+        e = checkCount(s.n, levelCount, field(u"n"));
+        if (e.isEmpty())
+            e = checkValues(s.n, field(u"n"), true, u"group size"_s);
+        if (!e.isEmpty())
+            return e;
+        for (size_t i = 0; i < s.n.size(); ++i)
+            if (s.n[i] < 2.0)
+                return u"%1, item %2: %3 per level is too few; every level needs at least 2"_s.arg(field(u"n")).arg(i + 1).arg(num(s.n[i]));
+    } else {
+        if (!s.ratios.empty()) {
+            e = checkCount(s.ratios, levelCount, field(u"ratios"));
+            if (e.isEmpty())
+                e = checkValues(s.ratios, field(u"ratios"), true, u"ratio"_s);
+            if (!e.isEmpty())
+                return e;
+        }
+        if (!positiveFinite(s.total))
+            return u"%1: give the total N (above 0) with the ratios, or planned sizes per level"_s.arg(field(u"total"));
+        const std::vector<double> n = plannedSizes(s, levelCount);
+        for (size_t i = 0; i < n.size(); ++i)
+            if (n[i] < 2.0)
+                return u"%1: %2 leaves level %3 with %4; every level needs at least 2"_s.arg(field(u"total"), num(s.total)).arg(i + 1).arg(shortNum(n[i]));
+    }
+    if (!(s.alpha > 0.0 && s.alpha < 1.0))
+        return u"%1: %2 is not between 0 and 1 (both excluded)"_s.arg(field(u"alpha"), num(s.alpha));
+    if (!(s.target > 0.0 && s.target < 1.0))
+        return u"%1: %2 is not between 0 and 1 (both excluded)"_s.arg(field(u"target"), num(s.target));
+    if (s.target <= s.alpha)
+        return u"%1: %2 is not above alpha (%3); a target power must exceed alpha"_s.arg(field(u"target"), num(s.target), num(s.alpha));
+    return {};
+}
+
+std::vector<double> plannedSizes(const PowerSettings &s, int levelCount)
+{
+    if (!s.n.empty())
+        return s.n;
+    std::vector<double> r = s.ratios.empty() ? std::vector<double>(size_t(levelCount), 1.0) : s.ratios;
+    const double sum = std::accumulate(r.begin(), r.end(), 0.0);
+    for (double &v : r)
+        v = s.total * v / sum;
+    return r;
+}
+
+std::vector<double> allocationRatios(const PowerSettings &s, int levelCount)
+{
+    if (!s.ratios.empty())
+        return s.ratios;
+    if (!s.n.empty())
+        return s.n;
+    return std::vector<double>(size_t(levelCount), 1.0);
+}
+
+std::vector<long long> groupSizesFor(long long smallest, const std::vector<double> &ratios)
+{
+    const double least = *std::min_element(ratios.begin(), ratios.end());
+    std::vector<long long> out;
+    out.reserve(ratios.size());
+    for (double r : ratios) {
+        // The relative tolerance keeps 3 * (1/3) / (1/3) from rounding up to 4.
+        const double exact = double(smallest) * (r / least);
+        out.push_back(std::max(smallest, static_cast<long long>(std::ceil(exact * (1.0 - 1e-12)))));
+    }
+    return out;
+}
+
+double perTestAlpha(double alpha, PowerAdjustment adjustment, int tests)
+{
+    if (tests <= 1)
+        return alpha;
+    switch (adjustment) {
+    case PowerAdjustment::None:
+        return alpha;
+    case PowerAdjustment::Bonferroni:
+        return alpha / tests;
+    case PowerAdjustment::Sidak:
+        return -std::expm1(std::log1p(-alpha) / tests);
+    }
+    return alpha;
+}
+
+double tTestPower(double noncentrality, double df, double alpha, bool oneSided)
+{
+    if (!(df > 0.0) || !(alpha > 0.0 && alpha < 1.0) || !std::isfinite(noncentrality))
+        return kNaN;
+    const bm::students_t_distribution<double, Policy> central(df);
+    const double critical = bm::quantile(bm::complement(central, oneSided ? alpha : alpha / 2.0));
+    if (noncentrality == 0.0) {
+        // The central case: the test's own size, alpha (up to rounding).
+        const double upper = bm::cdf(bm::complement(central, critical));
+        return oneSided ? upper : 2.0 * upper;
+    }
+    const bm::non_central_t_distribution<double, Policy> shifted(df, noncentrality);
+    const double upper = bm::cdf(bm::complement(shifted, critical));
+    if (oneSided)
+        return upper;
+    return upper + bm::cdf(shifted, -critical);
+}
+
+double fTestPower(double lambda, double df1, double df2, double alpha)
+{
+    if (!(df1 > 0.0) || !(df2 > 0.0) || !(alpha > 0.0 && alpha < 1.0) || !(lambda >= 0.0) || !std::isfinite(lambda))
+        return kNaN;
+    const bm::fisher_f_distribution<double, Policy> central(df1, df2);
+    const double critical = bm::quantile(bm::complement(central, alpha));
+    if (lambda == 0.0)
+        return bm::cdf(bm::complement(central, critical));
+    const bm::non_central_f_distribution<double, Policy> shifted(df1, df2, lambda);
+    return bm::cdf(bm::complement(shifted, critical));
+}
+
+namespace {
+
+// Validation shared by computePower and powerCurve.
+QString checkRows(const Eigen::MatrixXd &rows, const PowerSettings &s)
+{
+    const QString e = validatePowerSettings(s, int(rows.cols()));
+    if (!e.isEmpty())
+        return e;
+    for (Eigen::Index r = 0; r < rows.rows(); ++r) {
+        if (!rows.row(r).allFinite())
+            return u"contrast %1: a weight is not a finite number"_s.arg(r + 1);
+        if ((rows.row(r).array() == 0.0).all())
+            return u"contrast %1: every weight is 0, so it tests nothing"_s.arg(r + 1);
+    }
+    return {};
+}
+
+void describeContrast(ContrastPower &c, const PowerSettings &s, double target)
+{
+    const double sum = std::accumulate(c.weights.begin(), c.weights.end(), 0.0);
+    double sumAbs = 0.0;
+    for (double w : c.weights)
+        sumAbs += std::abs(w);
+    if (std::abs(sum) > 1e-12 * sumAbs)
+        c.notes << u"its weights sum to %1, not 0: it tests a level of the means, not only their differences, "
+                   u"so its power depends on where the means lie"_s.arg(shortNum(sum));
+    if (c.zeroEstimate) {
+        c.notes << u"the expected estimate is 0: power equals alpha (%1) at every n, and no sample size reaches "
+                   u"the target"_s.arg(shortNum(c.alpha));
+        return;
+    }
+    if (s.oneSided && c.estimate < 0.0)
+        c.notes << u"the expected estimate is negative but the one-sided test looks for a positive one, so power "
+                   u"stays below alpha; reverse the contrast's signs if a negative difference is expected"_s;
+    if (!c.required.reachable)
+        c.notes << unreachableNote(c.required, target);
+}
+
+} // namespace
+
+Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStringList &names,
+                                 const PowerSettings &settings)
+{
+    using R = Result<PowerReport>;
+    const QString problem = checkRows(contrastRows, settings);
+    if (!problem.isEmpty())
+        return R::failure(problem);
+
+    const int k = int(contrastRows.cols());
+    const int m = int(contrastRows.rows());
+    const Design design{settings.means, settings, k};
+    const std::vector<double> n = plannedSizes(settings, k);
+    const std::vector<double> ratios = allocationRatios(settings, k);
+
+    PowerReport report;
+    report.levelCount = k;
+    report.plannedN = n;
+    report.plannedTotal = std::accumulate(n.begin(), n.end(), 0.0);
+    report.alpha = settings.alpha;
+    report.perTestAlpha = perTestAlpha(settings.alpha, settings.adjustment, m);
+    report.adjustment = settings.adjustment;
+    report.oneSided = settings.oneSided;
+    report.target = settings.target;
+    report.welch = settings.perLevelSds();
+    report.cautions = powerCautions();
+
+    // Omnibus F-test, at the unadjusted alpha.
+    OmnibusPower &o = report.omnibus;
+    const OmnibusValues ov = omnibusAt(design, n, settings.alpha);
+    o.df1 = k - 1;
+    o.df2 = ov.df2;
+    o.effectSize = ov.effectSize;
+    o.noncentrality = ov.noncentrality;
+    o.alpha = settings.alpha;
+    o.power = ov.power;
+    o.sd = ov.sd;
+    o.pooledFromLevelSds = settings.perLevelSds();
+    const bool allEqual = ov.noncentrality == 0.0;
+    if (!allEqual)
+        o.required = searchSampleSize([&](const std::vector<double> &nn) { return omnibusAt(design, nn, settings.alpha).power; },
+                                      ratios, settings.target);
+    if (o.pooledFromLevelSds)
+        o.notes << u"with per-level SDs the F-test's power uses their pooled SD (%1, weighted by n - 1); the "
+                   u"F-test assumes equal SDs, so this is an approximation"_s.arg(shortNum(o.sd));
+    if (allEqual)
+        o.notes << u"all expected means are equal: the F-test's power equals alpha at every n"_s;
+    else if (!o.required.reachable)
+        o.notes << unreachableNote(o.required, settings.target);
+
+    for (int r = 0; r < m; ++r) {
+        ContrastPower c;
+        c.name = r < names.size() && !names[r].isEmpty() ? names[r] : u"contrast %1"_s.arg(r + 1);
+        const Eigen::VectorXd h = contrastRows.row(r).transpose();
+        c.weights.assign(h.data(), h.data() + h.size());
+        c.alpha = report.perTestAlpha;
+        c.welch = settings.perLevelSds();
+        const ContrastValues v = contrastAt(design, h, n, c.alpha);
+        c.estimate = v.estimate;
+        c.se = v.se;
+        c.df = v.df;
+        c.noncentrality = v.noncentrality;
+        c.power = v.power;
+        c.zeroEstimate = v.estimate == 0.0;
+
+        // Standardized contrast: weights rescaled so that each side sums to 1 (Kline 2013).
+        double positive = 0.0;
+        double negative = 0.0;
+        double squares = 0.0;
+        double weightedVar = 0.0;
+        for (int i = 0; i < k; ++i) {
+            (h[i] > 0 ? positive : negative) += std::abs(h[i]);
+            squares += h[i] * h[i];
+            weightedVar += h[i] * h[i] * design.sdOf(i) * design.sdOf(i);
+        }
+        const double sdRef = settings.perLevelSds() ? std::sqrt(weightedVar / squares) : settings.sd;
+        c.effectSize = c.estimate / (std::max(positive, negative) * sdRef);
+
+        if (!c.zeroEstimate)
+            c.required = searchSampleSize([&](const std::vector<double> &nn) { return contrastAt(design, h, nn, c.alpha).power; },
+                                          ratios, settings.target);
+        c.fewerThanOmnibus = c.required.reachable && o.required.reachable && c.required.total < o.required.total;
+        describeContrast(c, settings, settings.target);
+        if (c.fewerThanOmnibus)
+            c.notes << u"reaches the target with N = %1, fewer than the omnibus F-test needs (N = %2)"_s
+                           .arg(c.required.total)
+                           .arg(o.required.total);
+        report.contrasts.push_back(std::move(c));
+    }
+
+    // Notes about the inputs as a whole.
+    if (allEqual)
+        report.notes << u"all expected means are equal, so every contrast whose weights sum to 0 has an expected "
+                        u"estimate of 0 and power equal to alpha; enter the means you expect"_s;
+    if (settings.perLevelSds())
+        report.notes << u"per-level SDs: the contrasts use Welch\u2013Satterthwaite degrees of freedom (Welch 1947; "
+                        u"Satterthwaite 1946) with the noncentral t, the usual approximation for unequal SDs"_s;
+    if (settings.oneSided)
+        report.notes << u"one-sided tests look for a positive estimate (psi > 0), in the direction each contrast is written"_s;
+    if (std::any_of(n.begin(), n.end(), [](double v) { return v != std::floor(v); }))
+        report.notes << u"the planned sizes from the ratios and total are not whole numbers; power uses them as "
+                        u"they are, round them to plan real groups"_s;
+    if (m > 1) {
+        if (settings.adjustment == PowerAdjustment::None)
+            report.notes << u"%1 contrasts are tested without adjustment: the chance of at least one false positive "
+                            u"can reach %2"_s.arg(m).arg(shortNum(1.0 - std::pow(1.0 - settings.alpha, m)));
+        else
+            report.notes << u"%1 adjustment across %2 contrasts: each is tested at alpha = %3"_s
+                                .arg(powerAdjustmentTitle(settings.adjustment))
+                                .arg(m)
+                                .arg(shortNum(report.perTestAlpha));
+        report.notes << u"Holm's step-down procedure (Holm 1979) needs the observed p-values and is applied in the "
+                        u"data check; it rejects at least what Bonferroni rejects, so the Bonferroni power is a lower "
+                        u"bound for it"_s;
+    }
+    return R(std::move(report));
+}
+
+Result<std::vector<double>> powerCurve(const Eigen::MatrixXd &contrastRows, int contrast,
+                                       const PowerSettings &settings,
+                                       const std::vector<long long> &smallestGroupSizes)
+{
+    using R = Result<std::vector<double>>;
+    const QString problem = checkRows(contrastRows, settings);
+    if (!problem.isEmpty())
+        return R::failure(problem);
+    if (contrast < -1 || contrast >= contrastRows.rows())
+        return R::failure(u"contrast: %1 is not a contrast index; expected -1 (omnibus) to %2"_s.arg(contrast).arg(contrastRows.rows() - 1));
+    const int k = int(contrastRows.cols());
+    const Design design{settings.means, settings, k};
+    const std::vector<double> ratios = allocationRatios(settings, k);
+    const double alpha = perTestAlpha(settings.alpha, settings.adjustment, int(contrastRows.rows()));
+    std::vector<double> out;
+    out.reserve(smallestGroupSizes.size());
+    for (size_t i = 0; i < smallestGroupSizes.size(); ++i) {
+        const long long t = smallestGroupSizes[i];
+        if (t < 2)
+            return R::failure(u"sizes, item %1: %2 per level is too few; every level needs at least 2"_s.arg(i + 1).arg(t));
+        const std::vector<double> n = toDouble(groupSizesFor(t, ratios));
+        if (contrast < 0)
+            out.push_back(omnibusAt(design, n, settings.alpha).power);
+        else
+            out.push_back(contrastAt(design, contrastRows.row(contrast).transpose(), n, alpha).power);
+    }
+    return R(std::move(out));
+}
+
+std::vector<long long> powerCurveSizes(long long upTo, int points)
+{
+    upTo = std::max(upTo, 3LL);
+    points = std::max(points, 2);
+    std::vector<long long> out;
+    for (int i = 0; i < points; ++i) {
+        const long long v = 2 + std::llround(double(upTo - 2) * i / (points - 1));
+        if (out.empty() || v != out.back())
+            out.push_back(v);
+    }
+    return out;
+}
+
+Result<ContrastRows> contrastRowsOf(const Analysis &analysis)
+{
+    using R = Result<ContrastRows>;
+    if (analysis.hypothesisValues.size() == 0)
+        return R::failure(u"scheme: the coding is rank deficient (rank %1 of %2 coefficients), so its coefficients "
+                          u"have no unique hypotheses to plan power for"_s.arg(analysis.rank).arg(analysis.coefficientCount));
+    const Eigen::Index skip = analysis.intercept ? 1 : 0;
+    ContrastRows out;
+    out.rows = analysis.hypothesisValues.bottomRows(analysis.hypothesisValues.rows() - skip);
+    out.names = analysis.columnNames;
+    return R(std::move(out));
+}
+
+std::vector<double> meansFromDifferences(const std::vector<double> &differences, int baseline)
+{
+    std::vector<double> out = differences;
+    out.insert(out.begin() + baseline, 0.0);
+    return out;
+}
+
+Result<std::vector<double>> parseNumberList(const QString &text, const QString &where)
+{
+    using R = Result<std::vector<double>>;
+    const QStringList items = splitList(text);
+    if (items.isEmpty())
+        return R::failure(u"%1: no values; expected numbers separated by commas"_s.arg(where));
+    std::vector<double> out;
+    for (qsizetype i = 0; i < items.size(); ++i) {
+        const Result<Weight> w = parseWeight(items[i]);
+        if (!w)
+            return R::failure(u"%1, item %2: %3"_s.arg(where).arg(i + 1).arg(w.error()));
+        out.push_back(w->value());
+    }
+    return R(std::move(out));
+}
+
+QStringList powerCautions()
+{
+    return {
+        u"Power rests on the expected means and SDs entered here: if the true differences are smaller or the "
+        u"spread larger, the real power is lower than shown."_s,
+        u"Contrasts are planned before the data are seen; comparisons picked after looking at the means do not "
+        u"have the error rates assumed here."_s,
+        u"Testing several contrasts raises the chance of at least one false positive; choose an adjustment "
+        u"(Bonferroni or \u0160id\u00e1k here, Holm in the data check) when several will be tested."_s,
+        u"These figures support the analyst's judgement and a statistician's review; they do not replace them."_s,
+    };
+}
+
+QJsonObject powerReportToJson(const PowerReport &report)
+{
+    QJsonObject root;
+    root[u"levels"_s] = report.levelCount;
+    root[u"planned_n"_s] = jsonArray(report.plannedN);
+    root[u"planned_total"_s] = jsonNumber(report.plannedTotal);
+    root[u"alpha"_s] = report.alpha;
+    root[u"alpha_per_test"_s] = report.perTestAlpha;
+    root[u"adjustment"_s] = powerAdjustmentId(report.adjustment);
+    root[u"sided"_s] = report.oneSided ? u"one"_s : u"two"_s;
+    root[u"target"_s] = report.target;
+    root[u"welch"_s] = report.welch;
+
+    QJsonArray contrasts;
+    for (const ContrastPower &c : report.contrasts) {
+        QJsonObject o;
+        o[u"name"_s] = c.name;
+        o[u"weights"_s] = jsonArray(c.weights);
+        putNumbers(o, {{u"estimate", c.estimate}, {u"se", c.se}, {u"effect_size", c.effectSize},
+                       {u"noncentrality", c.noncentrality}, {u"df", c.df}, {u"alpha", c.alpha}, {u"power", c.power}});
+        o[u"welch"_s] = c.welch;
+        putSampleSize(o, c.required);
+        o[u"fewer_than_omnibus"_s] = c.fewerThanOmnibus;
+        o[u"notes"_s] = QJsonArray::fromStringList(c.notes);
+        contrasts.append(o);
+    }
+    root[u"contrasts"_s] = contrasts;
+
+    const OmnibusPower &om = report.omnibus;
+    QJsonObject o;
+    o[u"df1"_s] = om.df1;
+    putNumbers(o, {{u"df2", om.df2}, {u"effect_size", om.effectSize}, {u"noncentrality", om.noncentrality},
+                   {u"alpha", om.alpha}, {u"power", om.power}, {u"sd", om.sd}});
+    o[u"pooled_from_level_sds"_s] = om.pooledFromLevelSds;
+    putSampleSize(o, om.required);
+    o[u"notes"_s] = QJsonArray::fromStringList(om.notes);
+    root[u"omnibus"_s] = o;
+
+    root[u"notes"_s] = QJsonArray::fromStringList(report.notes);
+    root[u"cautions"_s] = QJsonArray::fromStringList(report.cautions);
+    return root;
+}
+
+} // namespace cb

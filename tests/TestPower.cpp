@@ -1,0 +1,906 @@
+// Tests of power and sample size for planned contrasts (core/Power.h), against
+// Cohen's (1988) tables, SciPy (tests/python/power_check.py) and the defining properties.
+#include "Analysis.h"
+#include "Power.h"
+#include "Scheme.h"
+
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QProcess>
+#include <QTest>
+
+#include <algorithm>
+#include <cmath>
+#include <functional>
+#include <numeric>
+#include <random>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+namespace {
+
+Eigen::MatrixXd rowsOf(std::initializer_list<std::initializer_list<double>> rows)
+{
+    Eigen::MatrixXd m(Eigen::Index(rows.size()), Eigen::Index(rows.begin()->size()));
+    Eigen::Index r = 0;
+    for (const auto &row : rows) {
+        Eigen::Index c = 0;
+        for (double v : row)
+            m(r, c++) = v;
+        ++r;
+    }
+    return m;
+}
+
+// Four levels, a linear rise of half an SD per step, 20 per level.
+PowerSettings fourLevels()
+{
+    PowerSettings s;
+    s.means = {0.0, 0.5, 1.0, 1.5};
+    s.sd = 1.0;
+    s.n = {20, 20, 20, 20};
+    return s;
+}
+
+// fourLevels() with other means, optionally per-level SDs (Welch) and ratios with a total.
+PowerSettings variant(const std::vector<double> &means, bool welch, const std::vector<double> &ratios, double total)
+{
+    PowerSettings s = fourLevels();
+    s.means = means;
+    if (welch)
+        s.sds = {1.0, 2.0, 0.5, 1.5};
+    if (!ratios.empty()) {
+        s.n.clear();
+        s.ratios = ratios;
+        s.total = total;
+    }
+    return s;
+}
+
+// Treatment-style contrasts of levels 2..4 against level 1.
+Eigen::MatrixXd againstFirst()
+{
+    return rowsOf({{-1, 1, 0, 0}, {-1, 0, 1, 0}, {-1, 0, 0, 1}});
+}
+
+PowerReport mustCompute(const Eigen::MatrixXd &rows, const PowerSettings &s)
+{
+    auto r = computePower(rows, {}, s);
+    if (!r)
+        qFatal("computePower failed: %s", qPrintable(r.error()));
+    return r.take();
+}
+
+QJsonArray toJson(const std::vector<double> &v)
+{
+    QJsonArray a;
+    for (double x : v)
+        a.append(x);
+    return a;
+}
+
+QJsonValue sizesJson(const SampleSize &s)
+{
+    if (!s.reachable)
+        return QJsonValue::Null;
+    QJsonArray a;
+    for (long long v : s.perLevel)
+        a.append(double(v));
+    return a;
+}
+
+// One case for tests/python/power_check.py.
+QJsonObject scipyCase(const Eigen::MatrixXd &rows, const PowerSettings &s, const PowerReport &report, bool searchEqual = false)
+{
+    QJsonObject c;
+    QJsonArray rowArray;
+    for (Eigen::Index r = 0; r < rows.rows(); ++r) {
+        QJsonArray row;
+        for (Eigen::Index j = 0; j < rows.cols(); ++j)
+            row.append(rows(r, j));
+        rowArray.append(row);
+    }
+    c[u"rows"_s] = rowArray;
+    c[u"means"_s] = toJson(s.means);
+    c[u"sd"_s] = s.sd;
+    if (s.perLevelSds())
+        c[u"sds"_s] = toJson(s.sds);
+    c[u"n"_s] = toJson(report.plannedN);
+    c[u"ratios"_s] = toJson(allocationRatios(s, report.levelCount));
+    c[u"alpha"_s] = s.alpha;
+    c[u"one_sided"_s] = s.oneSided;
+    c[u"adjust"_s] = powerAdjustmentId(s.adjustment);
+    c[u"target"_s] = s.target;
+    QJsonArray required;
+    for (const ContrastPower &cp : report.contrasts)
+        required.append(sizesJson(cp.required));
+    c[u"required"_s] = required;
+    c[u"omnibus_required"_s] = sizesJson(report.omnibus.required);
+    c[u"search_equal"_s] = searchEqual;
+    return c;
+}
+
+// Runs tests/python/power_check.py with CB_PYTHON (NumPy/SciPy) on the cases.
+QJsonArray runScipy(const QJsonArray &cases)
+{
+    QProcess p;
+    p.start(QString::fromUtf8(CB_PYTHON), {QString::fromUtf8(CB_SOURCE_DIR) + u"/tests/python/power_check.py"_s});
+    if (!p.waitForStarted(30000))
+        qFatal("could not start %s", CB_PYTHON);
+    p.write(QJsonDocument(QJsonObject{{u"cases"_s, cases}}).toJson(QJsonDocument::Compact));
+    p.closeWriteChannel();
+    if (!p.waitForFinished(600000) || p.exitCode() != 0)
+        qFatal("power_check.py failed: %s", p.readAllStandardError().constData());
+    return QJsonDocument::fromJson(p.readAllStandardOutput()).object()[u"cases"_s].toArray();
+}
+
+} // namespace
+
+class TestPower : public QObject
+{
+    Q_OBJECT
+private slots:
+    void cohenTwoSampleT_data();
+    void cohenTwoSampleT();
+    void cohenOneWayAnova_data();
+    void cohenOneWayAnova();
+    void cohenExactValuesMatchScipySearch();
+    void agreesWithScipyOnRandomDesigns();
+    void powerGrowsWithN_data();
+    void powerGrowsWithN();
+    void powerGrowsWithEstimate_data();
+    void powerGrowsWithEstimate();
+    void zeroEstimateGivesAlpha_data();
+    void zeroEstimateGivesAlpha();
+    void requiredNIsTheSmallest_data();
+    void requiredNIsTheSmallest();
+    void adjustedAlpha();
+    void effectSizeIsStandardizedContrast();
+    void welchDegreesOfFreedom();
+    void omnibusWithPerLevelSdsUsesPooledSd();
+    void allocationRatiosScaleGroups();
+    void plannedSizesFromRatios();
+    void notesExplainSpecialCases();
+    void unreachableTargetIsReported();
+    void rejectsInput_data();
+    void rejectsInput();
+    void messagesCanNameCommandLineArguments();
+    void powerCurveRejectsInput();
+    void parseNumberList_data();
+    void parseNumberList();
+    void meansFromDifferences();
+    void contrastRowsOfAnalysis();
+    void jsonHasTheIssueKeys();
+    void cautionsAreProvided();
+};
+
+// Cohen (1988), Statistical Power Analysis for the Behavioral Sciences, 2nd ed.,
+// Table 2.4.1 (two-sample t, two-tailed alpha = .05, power .80): n per group
+// 393, 64 and 26 for d = .2, .5 and .8 (from memory of the table). Cohen's tables come
+// from approximations; the exact noncentral t needs 394 for d = .2, one more than the
+// table (SciPy agrees: cohenExactValuesMatchScipySearch). The exact values are asserted.
+void TestPower::cohenTwoSampleT_data()
+{
+    QTest::addColumn<double>("d");
+    QTest::addColumn<int>("cohen");
+    QTest::addColumn<int>("exact");
+    QTest::newRow("d = .2") << 0.2 << 393 << 394;
+    QTest::newRow("d = .5") << 0.5 << 64 << 64;
+    QTest::newRow("d = .8") << 0.8 << 26 << 26;
+}
+
+void TestPower::cohenTwoSampleT()
+{
+    QFETCH(double, d);
+    QFETCH(int, cohen);
+    QFETCH(int, exact);
+    PowerSettings s;
+    s.means = {d, 0.0};
+    s.n = {10, 10};
+    const PowerReport r = mustCompute(rowsOf({{1, -1}}), s);
+    const ContrastPower &c = r.contrasts[0];
+    QVERIFY(c.required.reachable);
+    QCOMPARE(c.required.perLevel, (std::vector<long long>{exact, exact}));
+    QVERIFY(std::abs(exact - cohen) <= 1);
+    QCOMPARE(c.required.total, 2LL * exact);
+    QVERIFY(c.required.power >= 0.8);
+    QCOMPARE(c.effectSize, d);
+    // The two-group omnibus F-test is the two-sided t-test: same n.
+    QCOMPARE(r.omnibus.required.perLevel, c.required.perLevel);
+}
+
+// Cohen (1988), Table 8.4.4 (one-way ANOVA, alpha = .05, power .80, f = .25):
+// n per group 52 for k = 3 and 45 for k = 4 (from memory of the table). The exact
+// noncentral F needs 53 for k = 3, one more than the table; 45 for k = 4.
+void TestPower::cohenOneWayAnova_data()
+{
+    QTest::addColumn<std::vector<double>>("means");
+    QTest::addColumn<int>("cohen");
+    QTest::addColumn<int>("exact");
+    const double a = std::sqrt(3.0 / 32.0); // f^2 = (2 a^2 / 3) = 1/16
+    QTest::newRow("k = 3") << std::vector<double>{-a, 0.0, a} << 52 << 53;
+    QTest::newRow("k = 4") << std::vector<double>{-0.25, -0.25, 0.25, 0.25} << 45 << 45;
+}
+
+void TestPower::cohenOneWayAnova()
+{
+    QFETCH(std::vector<double>, means);
+    QFETCH(int, cohen);
+    QFETCH(int, exact);
+    PowerSettings s;
+    s.means = means;
+    s.n = std::vector<double>(means.size(), 10.0);
+    Eigen::MatrixXd rows = Eigen::MatrixXd::Zero(1, Eigen::Index(means.size()));
+    rows(0, 0) = -1;
+    rows(0, rows.cols() - 1) = 1;
+    const PowerReport r = mustCompute(rows, s);
+    QVERIFY(std::abs(r.omnibus.effectSize - 0.25) < 1e-12);
+    QVERIFY(r.omnibus.required.reachable);
+    QCOMPARE(r.omnibus.required.perLevel, std::vector<long long>(means.size(), exact));
+    QVERIFY(std::abs(exact - cohen) <= 1);
+}
+
+// SciPy (scipy.stats.nct, ncf, t, f), stepping n upwards one by one, finds the same
+// smallest n per group for Cohen's cases.
+void TestPower::cohenExactValuesMatchScipySearch()
+{
+    QJsonArray cases;
+    std::vector<long long> ours;
+    for (double d : {0.2, 0.5, 0.8}) {
+        PowerSettings s;
+        s.means = {d, 0.0};
+        s.n = {10, 10};
+        const Eigen::MatrixXd rows = rowsOf({{1, -1}});
+        const PowerReport r = mustCompute(rows, s);
+        cases.append(scipyCase(rows, s, r, true));
+        ours.push_back(r.contrasts[0].required.perLevel[0]);
+    }
+    const double a = std::sqrt(3.0 / 32.0);
+    for (const std::vector<double> &means : {std::vector<double>{-a, 0.0, a}, std::vector<double>{-0.25, -0.25, 0.25, 0.25}}) {
+        PowerSettings s;
+        s.means = means;
+        s.n = std::vector<double>(means.size(), 10.0);
+        Eigen::MatrixXd rows = Eigen::MatrixXd::Zero(1, Eigen::Index(means.size()));
+        rows(0, 0) = -1;
+        rows(0, rows.cols() - 1) = 1;
+        const PowerReport r = mustCompute(rows, s);
+        cases.append(scipyCase(rows, s, r, true));
+        ours.push_back(r.omnibus.required.perLevel[0]);
+    }
+    const QJsonArray results = runScipy(cases);
+    QCOMPARE(results.size(), 5);
+    for (int i = 0; i < 3; ++i)
+        QCOMPARE(results[i].toObject()[u"searched"_s].toArray()[0].toInteger(), ours[size_t(i)]);
+    for (int i = 3; i < 5; ++i)
+        QCOMPARE(results[i].toObject()[u"omnibus_searched"_s].toInteger(), ours[size_t(i)]);
+    QCOMPARE(ours, (std::vector<long long>{394, 64, 26, 53, 45}));
+}
+
+// SciPy (scipy.stats.nct, ncf, t, f) on 120 random designs: every contrast's power and
+// the omnibus power agree to 1e-6; the contrast power also agrees with a numerical
+// integral over the chi-square variable (scipy.integrate.quad, no noncentral t code);
+// the power at the required sizes reaches the target and one step smaller does not.
+void TestPower::agreesWithScipyOnRandomDesigns()
+{
+    std::mt19937 rng(20261201);
+    auto uniform = [&](double lo, double hi) { return std::uniform_real_distribution<double>(lo, hi)(rng); };
+    auto integer = [&](int lo, int hi) { return std::uniform_int_distribution<int>(lo, hi)(rng); };
+    const double alphas[] = {0.01, 0.05, 0.1};
+    const double targets[] = {0.7, 0.8, 0.9};
+    const double ratioChoices[] = {1.0, 1.5, 2.0, 3.0};
+
+    QJsonArray cases;
+    std::vector<PowerReport> reports;
+    const int kCases = 120;
+    for (int i = 0; i < kCases; ++i) {
+        const int k = integer(2, 8);
+        const int m = integer(1, std::min(4, k));
+        Eigen::MatrixXd rows(m, k);
+        for (int r = 0; r < m; ++r) {
+            do {
+                for (int j = 0; j < k; ++j)
+                    rows(r, j) = integer(-3, 3);
+                if (integer(0, 9) > 0) // mostly contrasts (sum 0), sometimes not
+                    rows.row(r).array() -= rows.row(r).mean();
+            } while ((rows.row(r).array().abs() < 1e-12).all());
+        }
+        PowerSettings s;
+        s.means.resize(size_t(k));
+        for (double &v : s.means)
+            v = uniform(-1.5, 1.5);
+        s.sd = uniform(0.5, 2.0);
+        if (integer(0, 9) < 3) {
+            s.sds.resize(size_t(k));
+            for (double &v : s.sds)
+                v = uniform(0.3, 3.0);
+        }
+        const int sizes = integer(0, 3);
+        if (sizes <= 1) {
+            s.n.resize(size_t(k));
+            for (double &v : s.n)
+                v = integer(2, 40);
+        } else {
+            if (sizes == 2) {
+                s.ratios.resize(size_t(k));
+                for (double &v : s.ratios)
+                    v = ratioChoices[integer(0, 3)];
+            }
+            const std::vector<double> r = allocationRatios(s, k);
+            const double least = 2.0 * std::accumulate(r.begin(), r.end(), 0.0) / *std::min_element(r.begin(), r.end());
+            s.total = std::ceil(least) + integer(0, 150);
+        }
+        s.alpha = alphas[integer(0, 2)];
+        s.oneSided = integer(0, 9) < 3;
+        s.adjustment = PowerAdjustment(integer(0, 2));
+        s.target = targets[integer(0, 2)];
+        auto r = computePower(rows, {}, s);
+        QVERIFY2(r.ok(), qPrintable(r.error()));
+        cases.append(scipyCase(rows, s, *r));
+        reports.push_back(r.take());
+    }
+
+    const QJsonArray results = runScipy(cases);
+    QCOMPARE(results.size(), kCases);
+    int compared = 0;
+    int searched = 0;
+    double worst = 0.0;
+    for (int i = 0; i < kCases; ++i) {
+        const QJsonObject res = results[i].toObject();
+        const PowerReport &rep = reports[size_t(i)];
+        const QJsonArray power = res[u"power"_s].toArray();
+        const QJsonArray integral = res[u"power_integral"_s].toArray();
+        const QJsonArray atRequired = res[u"at_required"_s].toArray();
+        const QJsonArray belowRequired = res[u"below_required"_s].toArray();
+        for (size_t c = 0; c < rep.contrasts.size(); ++c) {
+            const ContrastPower &cp = rep.contrasts[c];
+            const double diff = std::abs(cp.power - power[qsizetype(c)].toDouble());
+            worst = std::max(worst, diff);
+            QVERIFY2(diff < 1e-6, qPrintable(u"case %1 contrast %2: %3 vs SciPy %4"_s.arg(i).arg(c).arg(cp.power).arg(power[qsizetype(c)].toDouble())));
+            QVERIFY2(std::abs(cp.power - integral[qsizetype(c)].toDouble()) < 1e-6,
+                     qPrintable(u"case %1 contrast %2: %3 vs integral %4"_s.arg(i).arg(c).arg(cp.power).arg(integral[qsizetype(c)].toDouble())));
+            ++compared;
+            if (cp.required.reachable) {
+                QVERIFY(atRequired[qsizetype(c)].toDouble() >= rep.target);
+                if (!belowRequired[qsizetype(c)].isNull())
+                    QVERIFY(belowRequired[qsizetype(c)].toDouble() < rep.target);
+                ++searched;
+            }
+        }
+        const double omnibusDiff = std::abs(rep.omnibus.power - res[u"omnibus"_s].toDouble());
+        worst = std::max(worst, omnibusDiff);
+        QVERIFY2(omnibusDiff < 1e-6, qPrintable(u"case %1 omnibus: %2 vs SciPy %3"_s.arg(i).arg(rep.omnibus.power).arg(res[u"omnibus"_s].toDouble())));
+        ++compared;
+        if (rep.omnibus.required.reachable) {
+            QVERIFY(res[u"omnibus_at_required"_s].toDouble() >= rep.target);
+            if (!res[u"omnibus_below_required"_s].isNull())
+                QVERIFY(res[u"omnibus_below_required"_s].toDouble() < rep.target);
+            ++searched;
+        }
+    }
+    QVERIFY(compared >= 200);
+    QVERIFY(searched >= 150);
+    qInfo("%d powers compared with SciPy, largest difference %.3g; %d required sizes checked", compared, worst, searched);
+}
+
+void TestPower::powerGrowsWithN_data()
+{
+    QTest::addColumn<bool>("welch");
+    QTest::addColumn<bool>("oneSided");
+    QTest::addColumn<bool>("ratios");
+    QTest::newRow("common SD, two-sided") << false << false << false;
+    QTest::newRow("common SD, one-sided") << false << true << false;
+    QTest::newRow("per-level SDs (Welch)") << true << false << false;
+    QTest::newRow("ratios 1:2:2:3") << false << false << true;
+}
+
+void TestPower::powerGrowsWithN()
+{
+    QFETCH(bool, welch);
+    QFETCH(bool, oneSided);
+    QFETCH(bool, ratios);
+    PowerSettings s = variant({0.0, 0.2, 0.3, 0.45}, welch, ratios ? std::vector<double>{1, 2, 2, 3} : std::vector<double>{}, 80);
+    s.oneSided = oneSided;
+    const Eigen::MatrixXd rows = againstFirst();
+    const std::vector<long long> sizes = powerCurveSizes(400, 80);
+    for (int c = -1; c < rows.rows(); ++c) {
+        auto curve = powerCurve(rows, c, s, sizes);
+        QVERIFY2(curve.ok(), qPrintable(curve.error()));
+        for (size_t i = 1; i < curve->size(); ++i) {
+            const double before = (*curve)[i - 1];
+            const double now = (*curve)[i];
+            // Strictly higher until the power is 1 to within rounding.
+            QVERIFY2(now > before || (now == before && now > 1.0 - 1e-12),
+                     qPrintable(u"contrast %1 at size %2: %3 after %4"_s.arg(c).arg(sizes[i]).arg(now).arg(before)));
+        }
+    }
+}
+
+void TestPower::powerGrowsWithEstimate_data()
+{
+    QTest::addColumn<bool>("oneSided");
+    QTest::addColumn<double>("sign");
+    QTest::newRow("two-sided, positive") << false << 1.0;
+    QTest::newRow("two-sided, negative") << false << -1.0;
+    QTest::newRow("one-sided, positive") << true << 1.0;
+}
+
+void TestPower::powerGrowsWithEstimate()
+{
+    QFETCH(bool, oneSided);
+    QFETCH(double, sign);
+    double last = 0.0;
+    for (double psi = 0.0; psi <= 1.5; psi += 0.05) {
+        PowerSettings s = fourLevels();
+        s.oneSided = oneSided;
+        s.means = {0.0, sign * psi, 0.0, 0.0};
+        const PowerReport r = mustCompute(againstFirst(), s);
+        const double p = r.contrasts[0].power;
+        if (psi > 0.0)
+            QVERIFY2(p > last, qPrintable(u"psi %1: %2 after %3"_s.arg(psi).arg(p).arg(last)));
+        last = p;
+    }
+    QVERIFY(last > 0.95);
+}
+
+void TestPower::zeroEstimateGivesAlpha_data()
+{
+    QTest::addColumn<bool>("oneSided");
+    QTest::addColumn<bool>("welch");
+    QTest::addColumn<int>("adjustment");
+    QTest::newRow("two-sided") << false << false << int(PowerAdjustment::None);
+    QTest::newRow("one-sided") << true << false << int(PowerAdjustment::None);
+    QTest::newRow("Welch") << false << true << int(PowerAdjustment::None);
+    QTest::newRow("Bonferroni") << false << false << int(PowerAdjustment::Bonferroni);
+    QTest::newRow("Sidak, one-sided") << true << false << int(PowerAdjustment::Sidak);
+}
+
+void TestPower::zeroEstimateGivesAlpha()
+{
+    QFETCH(bool, oneSided);
+    QFETCH(bool, welch);
+    QFETCH(int, adjustment);
+    PowerSettings s = fourLevels();
+    s.means = {1.0, 1.0, 2.0, 3.0}; // contrast 1 (level 2 - level 1) expects 0
+    s.oneSided = oneSided;
+    s.adjustment = PowerAdjustment(adjustment);
+    if (welch)
+        s.sds = {1.0, 3.0, 1.0, 1.0};
+    const PowerReport r = mustCompute(againstFirst(), s);
+    const ContrastPower &c = r.contrasts[0];
+    QVERIFY(c.zeroEstimate);
+    QCOMPARE(c.estimate, 0.0);
+    QCOMPARE(c.noncentrality, 0.0);
+    QVERIFY(std::abs(c.power - r.perTestAlpha) < 1e-12);
+    QVERIFY(!c.required.reachable);
+    QVERIFY(c.notes.join(u'\n').contains(u"the expected estimate is 0: power equals alpha"_s));
+    // The noncentral t itself at delta = 0 gives alpha too.
+    QVERIFY(std::abs(tTestPower(0.0, 17.5, 0.05, oneSided) - 0.05) < 1e-12);
+    // And the omnibus test with all means equal.
+    s.means = {2.0, 2.0, 2.0, 2.0};
+    const PowerReport flat = mustCompute(againstFirst(), s);
+    QVERIFY(std::abs(flat.omnibus.power - 0.05) < 1e-12);
+    QCOMPARE(flat.omnibus.noncentrality, 0.0);
+}
+
+void TestPower::requiredNIsTheSmallest_data()
+{
+    QTest::addColumn<bool>("welch");
+    QTest::addColumn<bool>("ratios");
+    QTest::addColumn<double>("target");
+    QTest::newRow("equal n, .8") << false << false << 0.8;
+    QTest::newRow("equal n, .95") << false << false << 0.95;
+    QTest::newRow("Welch, .9") << true << false << 0.9;
+    QTest::newRow("ratios, .8") << false << true << 0.8;
+}
+
+void TestPower::requiredNIsTheSmallest()
+{
+    QFETCH(bool, welch);
+    QFETCH(bool, ratios);
+    QFETCH(double, target);
+    PowerSettings s = variant({0.0, 0.3, 0.5, 0.9}, welch, ratios ? std::vector<double>{1, 1.5, 2, 1} : std::vector<double>{}, 60);
+    s.target = target;
+    const Eigen::MatrixXd rows = againstFirst();
+    const PowerReport r = mustCompute(rows, s);
+    for (int c = -1; c < rows.rows(); ++c) {
+        const SampleSize &req = c < 0 ? r.omnibus.required : r.contrasts[size_t(c)].required;
+        QVERIFY(req.reachable);
+        const long long t = *std::min_element(req.perLevel.begin(), req.perLevel.end());
+        QCOMPARE(req.perLevel, groupSizesFor(t, allocationRatios(s, 4)));
+        // Every smaller search size falls short; the found one meets the target.
+        std::vector<long long> sizes;
+        for (long long v = 2; v <= t; ++v)
+            sizes.push_back(v);
+        auto curve = powerCurve(rows, c, s, sizes);
+        QVERIFY(curve.ok());
+        QVERIFY(curve->back() >= target);
+        QCOMPARE(curve->back(), req.power);
+        for (size_t i = 0; i + 1 < curve->size(); ++i)
+            QVERIFY((*curve)[i] < target);
+    }
+}
+
+// Per-test alpha: Bonferroni alpha/m; Sidak 1 - (1 - alpha)^(1/m) (Sidak 1967).
+// 1 - 0.95^(1/3) = 0.016952427508441503 (SciPy/NumPy: 1 - 0.95 ** (1/3)).
+void TestPower::adjustedAlpha()
+{
+    QCOMPARE(perTestAlpha(0.05, PowerAdjustment::None, 3), 0.05);
+    QVERIFY(std::abs(perTestAlpha(0.05, PowerAdjustment::Bonferroni, 3) - 0.05 / 3) < 1e-17);
+    QVERIFY(std::abs(perTestAlpha(0.05, PowerAdjustment::Sidak, 3) - 0.016952427508441503) < 1e-17);
+    QCOMPARE(perTestAlpha(0.05, PowerAdjustment::Sidak, 1), 0.05);
+    PowerSettings s = fourLevels();
+    s.adjustment = PowerAdjustment::Bonferroni;
+    const PowerReport adjusted = mustCompute(againstFirst(), s);
+    s.adjustment = PowerAdjustment::None;
+    const PowerReport plain = mustCompute(againstFirst(), s);
+    QVERIFY(std::abs(adjusted.perTestAlpha - 0.05 / 3) < 1e-17);
+    QCOMPARE(adjusted.contrasts[2].alpha, adjusted.perTestAlpha);
+    QVERIFY(adjusted.contrasts[2].power < plain.contrasts[2].power);
+    QVERIFY(adjusted.contrasts[2].required.total > plain.contrasts[2].required.total);
+    // The omnibus test is one test: never adjusted.
+    QCOMPARE(adjusted.omnibus.power, plain.omnibus.power);
+}
+
+// The standardized contrast of Kline (2013), Beyond Significance Testing, 2nd ed., ch. 7
+// (from memory): psi / sigma with weights whose positive and negative parts each sum to 1;
+// for two groups this is Cohen's d.
+void TestPower::effectSizeIsStandardizedContrast()
+{
+    PowerSettings s;
+    s.means = {3.0, 1.0, 2.0};
+    s.sd = 2.0;
+    s.n = {10, 10, 10};
+    const PowerReport r = mustCompute(rowsOf({{2, -1, -1}, {1, -1, 0}, {0.5, -0.5, 0}}), s);
+    // psi = 6 - 1 - 2 = 3; scaled to a standard set: 3 / 2 = 1.5, over sigma 2: 0.75.
+    QCOMPARE(r.contrasts[0].estimate, 3.0);
+    QCOMPARE(r.contrasts[0].effectSize, 0.75);
+    // se = 2 * sqrt((4 + 1 + 1) / 10), noncentrality = psi / se, df = N - k = 27.
+    QVERIFY(std::abs(r.contrasts[0].se - 2.0 * std::sqrt(0.6)) < 1e-15);
+    QVERIFY(std::abs(r.contrasts[0].noncentrality - 3.0 / (2.0 * std::sqrt(0.6))) < 1e-14);
+    QCOMPARE(r.contrasts[0].df, 27.0);
+    // Cohen's d for a pair, and the same for a rescaled row; power does not depend on the scale.
+    QCOMPARE(r.contrasts[1].effectSize, 1.0);
+    QCOMPARE(r.contrasts[2].effectSize, 1.0);
+    QVERIFY(std::abs(r.contrasts[1].power - r.contrasts[2].power) < 1e-15);
+    QCOMPARE(r.contrasts[1].required.perLevel, r.contrasts[2].required.perLevel);
+}
+
+// Welch (1947) / Satterthwaite (1946): df = (sum a_i)^2 / sum a_i^2 / (n_i - 1), a_i = h_i^2 s_i^2 / n_i.
+// Two groups, s = 1 and 2, n = 10 and 20: a = 0.1 and 0.2, df = 0.09 / (0.01/9 + 0.04/19)
+// = 27.98... (by hand: 0.09 / 0.0032163742690058 = 27.98181818...).
+void TestPower::welchDegreesOfFreedom()
+{
+    PowerSettings s;
+    s.means = {1.0, 0.0};
+    s.sds = {1.0, 2.0};
+    s.n = {10, 20};
+    const PowerReport r = mustCompute(rowsOf({{1, -1}}), s);
+    QVERIFY(r.welch);
+    QVERIFY(r.contrasts[0].welch);
+    QVERIFY(std::abs(r.contrasts[0].df - 0.09 / (0.01 / 9.0 + 0.04 / 19.0)) < 1e-12);
+    QVERIFY(std::abs(r.contrasts[0].df - 27.981818181818) < 1e-9);
+    QVERIFY(std::abs(r.contrasts[0].se - std::sqrt(0.3)) < 1e-15);
+    QVERIFY(r.notes.join(u'\n').contains(u"Welch\u2013Satterthwaite degrees of freedom"_s));
+}
+
+void TestPower::omnibusWithPerLevelSdsUsesPooledSd()
+{
+    PowerSettings s;
+    s.means = {0.0, 1.0, 2.0};
+    s.sds = {1.0, 2.0, 3.0};
+    s.n = {11, 21, 31};
+    const PowerReport r = mustCompute(rowsOf({{-1, 0, 1}}), s);
+    // Pooled variance: (10 + 80 + 270) / 60 = 6.
+    QVERIFY(std::abs(r.omnibus.sd - std::sqrt(6.0)) < 1e-14);
+    QVERIFY(r.omnibus.pooledFromLevelSds);
+    QCOMPARE(r.omnibus.df2, 60.0);
+    // lambda = sum n (mu - mu_w)^2 / 6 with mu_w = (21 + 62) / 63.
+    const double w = 83.0 / 63.0;
+    const double lambda = (11 * w * w + 21 * (1 - w) * (1 - w) + 31 * (2 - w) * (2 - w)) / 6.0;
+    QVERIFY(std::abs(r.omnibus.noncentrality - lambda) < 1e-12);
+    QVERIFY(r.omnibus.notes.join(u'\n').contains(u"pooled SD"_s));
+}
+
+void TestPower::allocationRatiosScaleGroups()
+{
+    QCOMPARE(groupSizesFor(10, {1, 2, 3}), (std::vector<long long>{10, 20, 30}));
+    QCOMPARE(groupSizesFor(3, {1, 1.5, 1}), (std::vector<long long>{3, 5, 3}));   // 4.5 rounds up
+    QCOMPARE(groupSizesFor(3, {1.0 / 3.0, 1}), (std::vector<long long>{3, 9})); // no spurious 10
+    QCOMPARE(groupSizesFor(7, {2, 2}), (std::vector<long long>{7, 7}));
+    PowerSettings s = fourLevels();
+    s.n = {10, 20, 20, 30};
+    QCOMPARE(allocationRatios(s, 4), s.n); // planned sizes give the proportions
+    s.n.clear();
+    s.total = 40;
+    QCOMPARE(allocationRatios(s, 4), (std::vector<double>{1, 1, 1, 1}));
+    s.ratios = {1, 2, 2, 1};
+    QCOMPARE(allocationRatios(s, 4), s.ratios);
+    const PowerReport r = mustCompute(againstFirst(), s);
+    for (const ContrastPower &c : r.contrasts) {
+        const auto &n = c.required.perLevel;
+        QCOMPARE(n[1], n[2]);
+        QVERIFY(n[1] >= 2 * n[0]);
+        QVERIFY(n[1] <= 2 * n[0] + 1);
+    }
+}
+
+void TestPower::plannedSizesFromRatios()
+{
+    PowerSettings s = fourLevels();
+    s.n.clear();
+    s.ratios = {1, 1, 2, 4};
+    s.total = 80;
+    QCOMPARE(plannedSizes(s, 4), (std::vector<double>{10, 10, 20, 40}));
+    const PowerReport r = mustCompute(againstFirst(), s);
+    QCOMPARE(r.plannedTotal, 80.0);
+    QCOMPARE(r.contrasts[0].df, 76.0);
+    QVERIFY(!r.notes.join(u'\n').contains(u"not whole numbers"_s));
+    s.total = 81;
+    QVERIFY(mustCompute(againstFirst(), s).notes.join(u'\n').contains(u"not whole numbers"_s));
+    s.ratios.clear(); // total alone: equal groups
+    s.total = 40;
+    QCOMPARE(plannedSizes(s, 4), (std::vector<double>{10, 10, 10, 10}));
+}
+
+void TestPower::notesExplainSpecialCases()
+{
+    PowerSettings s = fourLevels();
+    s.means = {1.0, 0.0, 1.5, 2.5};
+    s.oneSided = true;
+    const PowerReport r = mustCompute(againstFirst(), s);
+    QVERIFY(r.contrasts[0].estimate < 0);
+    QVERIFY(r.contrasts[0].power < s.alpha);
+    QVERIFY(r.contrasts[0].notes.join(u'\n').contains(u"the one-sided test looks for a positive one"_s));
+    QVERIFY(r.notes.join(u'\n').contains(u"one-sided tests look for a positive estimate"_s));
+    QVERIFY(r.notes.join(u'\n').contains(u"3 contrasts are tested without adjustment"_s));
+    QVERIFY(r.notes.join(u'\n').contains(u"Holm's step-down procedure"_s));
+
+    // A linear trend over four equally spaced means: the linear contrast puts all the
+    // differences into one degree of freedom and needs fewer than the 3-df omnibus test.
+    PowerSettings trend = fourLevels();
+    trend.means = {0.0, 0.2, 0.4, 0.6};
+    const PowerReport linear = mustCompute(rowsOf({{-3, -1, 1, 3}, {1, -1, -1, 1}}), trend);
+    QVERIFY(linear.contrasts[0].fewerThanOmnibus);
+    QVERIFY(linear.contrasts[0].required.total < linear.omnibus.required.total);
+    QVERIFY(linear.contrasts[0].notes.join(u'\n').contains(u"fewer than the omnibus F-test needs"_s));
+    QVERIFY(!linear.contrasts[1].fewerThanOmnibus); // no quadratic component: estimate 0
+
+    s.means = {2.0, 2.0, 2.0, 2.0};
+    s.oneSided = false;
+    const PowerReport flat = mustCompute(againstFirst(), s);
+    QVERIFY(flat.notes.join(u'\n').contains(u"all expected means are equal"_s));
+    QVERIFY(flat.omnibus.notes.join(u'\n').contains(u"power equals alpha at every n"_s));
+    QVERIFY(!flat.omnibus.required.reachable);
+
+    // A row that does not sum to 0 tests a level of the means.
+    const PowerReport level = mustCompute(rowsOf({{1, 0, 0, 0}}), fourLevels());
+    QVERIFY(level.contrasts[0].notes.join(u'\n').contains(u"its weights sum to 1, not 0"_s));
+}
+
+void TestPower::unreachableTargetIsReported()
+{
+    PowerSettings s = fourLevels();
+    s.means = {0.0, 1e-5, 0.0, 0.0};
+    const PowerReport r = mustCompute(againstFirst(), s);
+    const ContrastPower &c = r.contrasts[0];
+    QVERIFY(!c.zeroEstimate);
+    QVERIFY(!c.required.reachable);
+    QVERIFY(c.required.perLevel.empty());
+    QVERIFY(c.required.power < 0.8);
+    QVERIFY2(c.notes.join(u'\n').contains(u"is not reached with up to 10000000 in the smallest group"_s), qPrintable(c.notes.join(u'\n')));
+}
+
+namespace {
+
+struct BadInput
+{
+    const char *name;
+    std::function<void(PowerSettings &, Eigen::MatrixXd &)> change;
+    QString message;
+};
+
+const std::vector<BadInput> &badInputs()
+{
+    static const std::vector<BadInput> cases = {
+        {"means count", [](PowerSettings &s, Eigen::MatrixXd &) { s.means.pop_back(); },
+         u"means: 3 values for 4 levels; give one per level"_s},
+        {"means not finite", [](PowerSettings &s, Eigen::MatrixXd &) { s.means[1] = std::nan(""); },
+         u"means, item 2: not a finite number"_s},
+        {"sd zero", [](PowerSettings &s, Eigen::MatrixXd &) { s.sd = 0; },
+         u"sd: 0 is not a positive standard deviation; the SD must be above 0"_s},
+        {"sd negative", [](PowerSettings &s, Eigen::MatrixXd &) { s.sd = -1.5; },
+         u"sd: -1.5 is not a positive standard deviation; the SD must be above 0"_s},
+        {"sds count", [](PowerSettings &s, Eigen::MatrixXd &) { s.sds = {1, 2}; },
+         u"sds: 2 values for 4 levels; give one per level"_s},
+        {"sds zero", [](PowerSettings &s, Eigen::MatrixXd &) { s.sds = {1, 2, 0, 1}; },
+         u"sds, item 3: 0 is not a positive standard deviation; it must be above 0"_s},
+        {"n count", [](PowerSettings &s, Eigen::MatrixXd &) { s.n.push_back(5); },
+         u"n: 5 values for 4 levels; give one per level"_s},
+        {"n below 2", [](PowerSettings &s, Eigen::MatrixXd &) { s.n[1] = 1; },
+         u"n, item 2: 1 per level is too few; every level needs at least 2"_s},
+        {"n negative", [](PowerSettings &s, Eigen::MatrixXd &) { s.n[0] = -3; },
+         u"n, item 1: -3 is not a positive group size; it must be above 0"_s},
+        {"n and ratios", [](PowerSettings &s, Eigen::MatrixXd &) { s.ratios = {1, 1, 1, 1}; },
+         u"n and ratios: give planned sizes per level, or ratios with a total, not both"_s},
+        {"ratios count", [](PowerSettings &s, Eigen::MatrixXd &) { s.n.clear(); s.total = 40; s.ratios = {1, 2, 3}; },
+         u"ratios: 3 values for 4 levels; give one per level"_s},
+        {"ratio zero", [](PowerSettings &s, Eigen::MatrixXd &) { s.n.clear(); s.total = 40; s.ratios = {0, 1, 1, 1}; },
+         u"ratios, item 1: 0 is not a positive ratio; it must be above 0"_s},
+        {"no total", [](PowerSettings &s, Eigen::MatrixXd &) { s.n.clear(); s.ratios = {1, 1, 1, 1}; },
+         u"total: give the total N (above 0) with the ratios, or planned sizes per level"_s},
+        {"total too small", [](PowerSettings &s, Eigen::MatrixXd &) { s.n.clear(); s.total = 10; s.ratios = {1, 1, 1, 3}; },
+         u"total: 10 leaves level 1 with 1.667; every level needs at least 2"_s},
+        {"alpha zero", [](PowerSettings &s, Eigen::MatrixXd &) { s.alpha = 0; },
+         u"alpha: 0 is not between 0 and 1 (both excluded)"_s},
+        {"alpha above 1", [](PowerSettings &s, Eigen::MatrixXd &) { s.alpha = 1.5; },
+         u"alpha: 1.5 is not between 0 and 1 (both excluded)"_s},
+        {"target 1", [](PowerSettings &s, Eigen::MatrixXd &) { s.target = 1; },
+         u"target: 1 is not between 0 and 1 (both excluded)"_s},
+        {"target at alpha", [](PowerSettings &s, Eigen::MatrixXd &) { s.target = 0.05; },
+         u"target: 0.05 is not above alpha (0.05); a target power must exceed alpha"_s},
+        {"one level", [](PowerSettings &s, Eigen::MatrixXd &rows) { rows = rowsOf({{1}}); s.means = {1}; },
+         u"levels: power needs at least 2 levels, got 1"_s},
+        {"zero row", [](PowerSettings &, Eigen::MatrixXd &rows) { rows.row(1).setZero(); },
+         u"contrast 2: every weight is 0, so it tests nothing"_s},
+        {"weight not finite", [](PowerSettings &, Eigen::MatrixXd &rows) { rows(0, 3) = INFINITY; },
+         u"contrast 1: a weight is not a finite number"_s},
+    };
+    return cases;
+}
+
+} // namespace
+
+void TestPower::rejectsInput_data()
+{
+    QTest::addColumn<int>("index");
+    for (size_t i = 0; i < badInputs().size(); ++i)
+        QTest::newRow(badInputs()[i].name) << int(i);
+}
+
+void TestPower::rejectsInput()
+{
+    QFETCH(int, index);
+    const BadInput &bad = badInputs()[size_t(index)];
+    PowerSettings s = fourLevels();
+    Eigen::MatrixXd rows = againstFirst();
+    bad.change(s, rows);
+    const auto r = computePower(rows, {}, s);
+    QVERIFY(!r.ok());
+    QCOMPARE(r.error(), bad.message);
+    const auto curve = powerCurve(rows, 0, s, {10});
+    QVERIFY(!curve.ok());
+    QCOMPARE(curve.error(), bad.message);
+}
+
+void TestPower::messagesCanNameCommandLineArguments()
+{
+    PowerSettings s = fourLevels();
+    s.means.pop_back();
+    QCOMPARE(validatePowerSettings(s, 4, u"--"_s), u"--means: 3 values for 4 levels; give one per level"_s);
+    s = fourLevels();
+    s.ratios = {1, 1, 1, 1};
+    QCOMPARE(validatePowerSettings(s, 4, u"--"_s), u"--n and --ratios: give planned sizes per level, or ratios with a total, not both"_s);
+    QCOMPARE(validatePowerSettings(fourLevels(), 4), QString());
+}
+
+void TestPower::powerCurveRejectsInput()
+{
+    const auto badIndex = powerCurve(againstFirst(), 3, fourLevels(), {10});
+    QVERIFY(!badIndex.ok());
+    QCOMPARE(badIndex.error(), u"contrast: 3 is not a contrast index; expected -1 (omnibus) to 2"_s);
+    const auto badSize = powerCurve(againstFirst(), 0, fourLevels(), {10, 1});
+    QVERIFY(!badSize.ok());
+    QCOMPARE(badSize.error(), u"sizes, item 2: 1 per level is too few; every level needs at least 2"_s);
+    const std::vector<long long> sizes = powerCurveSizes(100, 50);
+    QCOMPARE(sizes.front(), 2LL);
+    QCOMPARE(sizes.back(), 100LL);
+    QCOMPARE(sizes.size(), size_t(50));
+    QCOMPARE(powerCurveSizes(5, 60), (std::vector<long long>{2, 3, 4, 5}));
+    // The curve at the planned size is the planned power.
+    auto curve = powerCurve(againstFirst(), 1, fourLevels(), {20});
+    QVERIFY(curve.ok());
+    QCOMPARE(curve->front(), mustCompute(againstFirst(), fourLevels()).contrasts[1].power);
+}
+
+void TestPower::parseNumberList_data()
+{
+    QTest::addColumn<QString>("text");
+    QTest::addColumn<std::vector<double>>("values");
+    QTest::addColumn<QString>("message");
+    QTest::newRow("plain") << u"1, 2.5,-3"_s << std::vector<double>{1, 2.5, -3} << QString();
+    QTest::newRow("fractions") << u"1/4,1/2"_s << std::vector<double>{0.25, 0.5} << QString();
+    QTest::newRow("empty") << u" "_s << std::vector<double>{} << u"--means: no values; expected numbers separated by commas"_s;
+    QTest::newRow("letters") << u"1,abc"_s << std::vector<double>{} << u"--means, item 2: weight 'abc' is not a number"_s;
+    QTest::newRow("missing item") << u"1,,2"_s << std::vector<double>{} << u"--means, item 2: empty weight"_s;
+}
+
+void TestPower::parseNumberList()
+{
+    QFETCH(QString, text);
+    QFETCH(std::vector<double>, values);
+    QFETCH(QString, message);
+    const auto r = cb::parseNumberList(text, u"--means"_s);
+    if (message.isEmpty()) {
+        QVERIFY2(r.ok(), qPrintable(r.error()));
+        QCOMPARE(*r, values);
+    } else {
+        QVERIFY(!r.ok());
+        QVERIFY2(r.error().startsWith(message), qPrintable(r.error()));
+    }
+}
+
+void TestPower::meansFromDifferences()
+{
+    QCOMPARE(cb::meansFromDifferences({0.5, 1.0}, 0), (std::vector<double>{0.0, 0.5, 1.0}));
+    QCOMPARE(cb::meansFromDifferences({0.5, 1.0}, 2), (std::vector<double>{0.5, 1.0, 0.0}));
+    QCOMPARE(cb::meansFromDifferences({0.5, 1.0}, 1), (std::vector<double>{0.5, 0.0, 1.0}));
+}
+
+void TestPower::contrastRowsOfAnalysis()
+{
+    Factor f;
+    f.name = u"dose"_s;
+    f.levels = {u"none"_s, u"low"_s, u"high"_s};
+    const auto scheme = makeScheme(f, SchemeKind::Treatment);
+    QVERIFY2(scheme.ok(), qPrintable(scheme.error()));
+    const Analysis a = analyze(*scheme);
+    const auto rows = contrastRowsOf(a);
+    QVERIFY2(rows.ok(), qPrintable(rows.error()));
+    // Treatment coding against "none": each coefficient is a level minus the reference.
+    QCOMPARE(rows->rows.rows(), Eigen::Index(2));
+    QVERIFY(rows->rows.isApprox(rowsOf({{-1, 1, 0}, {-1, 0, 1}})));
+    QCOMPARE(rows->names, a.columnNames);
+
+    Analysis deficient;
+    deficient.rank = 2;
+    deficient.coefficientCount = 3;
+    const auto none = contrastRowsOf(deficient);
+    QVERIFY(!none.ok());
+    QVERIFY(none.error().startsWith(u"scheme: the coding is rank deficient (rank 2 of 3 coefficients)"_s));
+}
+
+void TestPower::jsonHasTheIssueKeys()
+{
+    PowerSettings s = fourLevels();
+    const PowerReport r = mustCompute(againstFirst(), s);
+    const QJsonObject o = powerReportToJson(r);
+    const QJsonArray contrasts = o[u"contrasts"_s].toArray();
+    QCOMPARE(contrasts.size(), 3);
+    for (const QString &key : {u"name"_s, u"estimate"_s, u"se"_s, u"effect_size"_s, u"noncentrality"_s, u"df"_s,
+                               u"power"_s, u"n_required"_s, u"n_required_total"_s})
+        QVERIFY2(contrasts[0].toObject().contains(key), qPrintable(key));
+    const QJsonObject c0 = contrasts[0].toObject();
+    QCOMPARE(c0[u"estimate"_s].toDouble(), 0.5);
+    QCOMPARE(c0[u"power"_s].toDouble(), r.contrasts[0].power);
+    QCOMPARE(c0[u"n_required"_s].toArray().size(), 4);
+    QCOMPARE(c0[u"n_required"_s].toArray()[0].toInteger(), r.contrasts[0].required.perLevel[0]);
+    const QJsonObject omnibus = o[u"omnibus"_s].toObject();
+    for (const QString &key : {u"df1"_s, u"df2"_s, u"effect_size"_s, u"noncentrality"_s, u"power"_s, u"n_required"_s})
+        QVERIFY2(omnibus.contains(key), qPrintable(key));
+    QCOMPARE(omnibus[u"df1"_s].toInt(), 3);
+    QCOMPARE(o[u"adjustment"_s].toString(), u"none"_s);
+    QCOMPARE(o[u"cautions"_s].toArray().size(), r.cautions.size());
+
+    s.means = {1, 1, 1, 1};
+    const QJsonObject flat = powerReportToJson(mustCompute(againstFirst(), s));
+    QVERIFY(flat[u"contrasts"_s].toArray()[0].toObject()[u"n_required"_s].isNull());
+    QVERIFY(flat[u"omnibus"_s].toObject()[u"n_required"_s].isNull());
+}
+
+void TestPower::cautionsAreProvided()
+{
+    const QStringList c = powerCautions();
+    QCOMPARE(c.size(), 4);
+    QVERIFY(c.join(u'\n').contains(u"expected means and SDs"_s));
+    QVERIFY(c.join(u'\n').contains(u"before the data are seen"_s));
+    QVERIFY(c.join(u'\n').contains(u"adjustment"_s));
+    QVERIFY(c.join(u'\n').contains(u"statistician's review"_s));
+    QCOMPARE(mustCompute(againstFirst(), fourLevels()).cautions, c);
+    QVERIFY(powerAdjustmentFromId(u"Sidak"_s) == PowerAdjustment::Sidak);
+    QVERIFY(!powerAdjustmentFromId(u"holm"_s).has_value());
+    QCOMPARE(powerAdjustmentTitle(PowerAdjustment::Sidak), u"\u0160id\u00e1k"_s);
+}
+
+QTEST_GUILESS_MAIN(TestPower)
+#include "TestPower.moc"
