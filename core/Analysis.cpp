@@ -81,22 +81,43 @@ QString linearCombination(const std::vector<std::pair<Weight, QString>> &terms)
 }
 
 // Exact rank and dependencies of X (k x p): each non-pivot column in terms of pivot columns.
-void exactRank(Analysis &a, const RationalMatrix &x)
+// A square X is reduced together with the identity, so one elimination also gives its inverse.
+std::optional<RationalMatrix> exactRankAndInverse(Analysis &a, const RationalMatrix &x)
 {
-    const RationalMatrix::Echelon e = x.echelon();
-    a.rank = int(e.pivots.size());
-    std::vector<bool> isPivot(size_t(x.cols()), false);
+    const int k = x.rows(), p = x.cols();
+    const bool square = k == p;
+    RationalMatrix aug(k, square ? 2 * p : p);
+    for (int r = 0; r < k; ++r) {
+        for (int c = 0; c < p; ++c)
+            aug(r, c) = x(r, c);
+        if (square)
+            aug(r, p + r) = 1;
+    }
+    const RationalMatrix::Echelon e = aug.echelon();
+    std::vector<bool> isPivot(size_t(p), false);
+    std::vector<int> pivots;
     for (int pcol : e.pivots)
-        isPivot[size_t(pcol)] = true;
-    for (int c = 0; c < x.cols(); ++c) {
+        if (pcol < p) {
+            isPivot[size_t(pcol)] = true;
+            pivots.push_back(pcol);
+        }
+    a.rank = int(pivots.size());
+    for (int c = 0; c < p; ++c) {
         if (isPivot[size_t(c)])
             continue;
         std::vector<std::pair<Weight, QString>> terms;
-        for (size_t r = 0; r < e.pivots.size(); ++r)
+        for (size_t r = 0; r < pivots.size(); ++r)
             if (e.reduced(int(r), c) != 0)
-                terms.emplace_back(Weight::exact(e.reduced(int(r), c)), a.coefficientNames[e.pivots[r]]);
+                terms.emplace_back(Weight::exact(e.reduced(int(r), c)), a.coefficientNames[pivots[r]]);
         a.dependencies << a.coefficientNames[c] + u" = "_s + linearCombination(terms);
     }
+    if (!square || a.rank < p)
+        return std::nullopt;
+    RationalMatrix inv(p, p);
+    for (int r = 0; r < p; ++r)
+        for (int c = 0; c < p; ++c)
+            inv(r, c) = e.reduced(r, p + c);
+    return inv;
 }
 
 // Floating rank and dependencies by modified Gram-Schmidt in column order.
@@ -198,6 +219,7 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
     a.crossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
     a.designCrossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
     Eigen::MatrixXd designCov(m, m);
+    std::vector<bool> constant(size_t(m), false);
     if (exact) {
         RationalMatrix cq(k, m);
         for (int j = 0; j < m; ++j)
@@ -232,23 +254,11 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
                 a.orthogonal[size_t(i)][size_t(j)] = a.orthogonal[size_t(j)][size_t(i)] = dot == 0;
                 a.orthogonalInDesign[size_t(i)][size_t(j)] = a.orthogonalInDesign[size_t(j)][size_t(i)] = wdot == 0;
             }
-        // Exact variance inflation: VIF_j = S_jj (S^-1)_jj for the centred, n-weighted cross-products S.
-        a.vif.assign(size_t(m), std::nullopt);
-        std::vector<int> live;
-        for (int j = 0; j < m; ++j)
-            if (a.designCrossProducts[size_t(j)][size_t(j)].rational() != 0)
-                live.push_back(j);
-        RationalMatrix sl(int(live.size()), int(live.size()));
-        for (size_t i = 0; i < live.size(); ++i)
-            for (size_t j = 0; j < live.size(); ++j)
-                sl(int(i), int(j)) = a.designCrossProducts[size_t(live[i])][size_t(live[j])].rational();
-        if (auto inv = sl.inverse()) {
-            for (size_t i = 0; i < live.size(); ++i)
-                a.vif[size_t(live[i])] = nearestDouble(sl(int(i), int(i)) * (*inv)(int(i), int(i)));
-        }
-        for (int i = 0; i < m; ++i)
+        for (int i = 0; i < m; ++i) {
+            constant[size_t(i)] = a.designCrossProducts[size_t(i)][size_t(i)].rational() == 0;
             for (int j = 0; j < m; ++j)
                 designCov(i, j) = a.designCrossProducts[size_t(i)][size_t(j)].value();
+        }
     } else {
         const double total = n.sum();
         const Eigen::VectorXd sums = c.colwise().sum().transpose();
@@ -269,33 +279,33 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
                 a.orthogonalInDesign[size_t(i)][size_t(j)] = Zero::test(wcross(i, j), std::sqrt(wsq(i) * wsq(j)));
             }
         designCov = wcross;
-        a.vif.assign(size_t(m), std::nullopt);
-        std::vector<int> live;
         for (int j = 0; j < m; ++j)
-            if (!Zero::test(wcross(j, j), wsq(j)))
-                live.push_back(j);
-        const Eigen::Index nl = Eigen::Index(live.size());
-        Eigen::MatrixXd r(nl, nl);
-        for (Eigen::Index i = 0; i < nl; ++i)
-            for (Eigen::Index j = 0; j < nl; ++j)
-                r(i, j) = wcross(live[size_t(i)], live[size_t(j)]) / std::sqrt(wcross(live[size_t(i)], live[size_t(i)]) * wcross(live[size_t(j)], live[size_t(j)]));
-        if (nl > 0) {
-            Eigen::PartialPivLU<Eigen::MatrixXd> lu(r);
-            if (lu.rcond() > 1e-13) {
-                const Eigen::MatrixXd inv = lu.inverse();
-                for (Eigen::Index i = 0; i < nl; ++i)
-                    a.vif[size_t(live[size_t(i)])] = inv(i, i);
-            }
+            constant[size_t(j)] = Zero::test(wcross(j, j), wsq(j));
+    }
+    // Correlations and VIF from the centred, n-weighted cross-products (floating: VIF is a diagnostic).
+    // VIF_j = [R^-1]_jj over the non-constant columns; undefined when R is singular.
+    std::vector<int> live;
+    for (int j = 0; j < m; ++j)
+        if (!constant[size_t(j)])
+            live.push_back(j);
+    a.vif.assign(size_t(m), std::nullopt);
+    a.correlation = Eigen::MatrixXd::Constant(m, m, std::numeric_limits<double>::quiet_NaN());
+    const Eigen::Index nl = Eigen::Index(live.size());
+    Eigen::MatrixXd r(nl, nl);
+    for (Eigen::Index i = 0; i < nl; ++i)
+        for (Eigen::Index j = 0; j < nl; ++j) {
+            const int li = live[size_t(i)], lj = live[size_t(j)];
+            r(i, j) = designCov(li, lj) / std::sqrt(designCov(li, li) * designCov(lj, lj));
+            a.correlation(li, lj) = r(i, j);
+        }
+    if (nl > 0) {
+        Eigen::PartialPivLU<Eigen::MatrixXd> lu(r);
+        if (lu.rcond() > 1e-13) {
+            const Eigen::MatrixXd inv = lu.inverse();
+            for (Eigen::Index i = 0; i < nl; ++i)
+                a.vif[size_t(live[size_t(i)])] = inv(i, i);
         }
     }
-    a.correlation.resize(m, m);
-    for (int i = 0; i < m; ++i)
-        for (int j = 0; j < m; ++j) {
-            const double d = designCov(i, i) * designCov(j, j);
-            a.correlation(i, j) = (designCov(i, i) > 0 && designCov(j, j) > 0 && (exact || !Zero::test(d, 1.0) || d > 0))
-                ? designCov(i, j) / std::sqrt(d)
-                : std::numeric_limits<double>::quiet_NaN();
-        }
 }
 
 void diagnosticFindings(Analysis &a)
@@ -423,7 +433,14 @@ Analysis analyze(const Scheme &s)
         x.col(0).setOnes();
     x.rightCols(m) = c;
 
+    // Collinearity (always floating: singular values are irrational).
+    Scaled sc;
+    scaledSingularValues(sc, x, n.cwiseSqrt());
+    const double smax = sc.sv(0);
+    const double smin = sc.sv(p - 1);
+
     RationalMatrix xq;
+    std::optional<RationalMatrix> xInverse;
     if (a.exact) {
         xq = RationalMatrix(k, p);
         for (int i = 0; i < k; ++i) {
@@ -432,17 +449,13 @@ Analysis analyze(const Scheme &s)
             for (int j = 0; j < m; ++j)
                 xq(i, j + (s.intercept ? 1 : 0)) = s.columns[size_t(j)].weights[size_t(i)].rational();
         }
-        exactRank(a, xq);
+        xInverse = exactRankAndInverse(a, xq);
+    } else if (sc.anyZeroColumn || smin <= smax * 1e-10) {
+        floatRank(a, x); // near-singular: find the dependencies column by column
     } else {
-        floatRank(a, x);
+        a.rank = p; // well-conditioned: certainly full rank
     }
     a.fullRank = a.rank == p;
-
-    // Collinearity (always floating: singular values are irrational).
-    Scaled sc;
-    scaledSingularValues(sc, x, n.cwiseSqrt());
-    const double smax = sc.sv(0);
-    const double smin = sc.sv(p - 1);
     const bool singular = !a.fullRank || sc.anyZeroColumn || smin <= smax * double(std::max(k, p)) * kEps;
     if (!singular)
         a.conditionNumber = smax / smin;
@@ -462,7 +475,7 @@ Analysis analyze(const Scheme &s)
     } else if (a.exact) {
         RationalMatrix h;
         if (p == k) {
-            h = *xq.inverse();
+            h = *xInverse;
         } else {
             RationalMatrix xtw = xq.transposed();
             for (int r = 0; r < p; ++r)

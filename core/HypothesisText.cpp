@@ -1,6 +1,10 @@
 #include "HypothesisText.h"
 
-#include <map>
+#include <charconv>
+#include <cmath>
+#include <algorithm>
+#include <numeric>
+#include <optional>
 
 using namespace Qt::StringLiterals;
 
@@ -28,41 +32,104 @@ QString meanSymbol(const QStringList &names)
     return u"mean("_s + names.join(u", "_s) + u")"_s;
 }
 
-// "(2 weekly + twice)/3" for terms with positive weights a_i/d.
-QString groupText(const std::vector<std::pair<Rational, QString>> &terms)
+// A small exact fraction for the texts (64-bit; rows that do not fit are shown as decimals).
+// Hypothesis rows can have hundreds of entries, so the texts avoid arbitrary precision.
+struct Frac
 {
-    mpz_class d = 1;
-    for (const auto &t : terms)
-        mpz_lcm(d.get_mpz_t(), d.get_mpz_t(), t.first.get_den_mpz_t());
-    QStringList parts;
-    for (const auto &t : terms) {
-        const mpz_class a = t.first.get_num() * (d / t.first.get_den());
-        parts << (a == 1 ? t.second : QString::fromStdString(a.get_str()) + u" "_s + t.second);
+    long long n = 0;
+    long long d = 1;
+    bool operator==(const Frac &o) const { return n == o.n && d == o.d; }
+};
+
+constexpr long long kFracLimit = 1LL << 40;
+
+std::optional<Frac> makeFrac(__int128 n, __int128 d)
+{
+    if (d < 0) {
+        n = -n;
+        d = -d;
     }
-    QString body = parts.join(u" + "_s);
-    if (d == 1)
-        return body;
-    if (parts.size() > 1)
-        body = u"("_s + body + u")"_s;
-    return body + u"/"_s + QString::fromStdString(d.get_str());
+    __int128 a = n < 0 ? -n : n, b = d;
+    while (b != 0) {
+        const __int128 t = a % b;
+        a = b;
+        b = t;
+    }
+    if (a > 1) {
+        n /= a;
+        d /= a;
+    }
+    if (n > kFracLimit || n < -kFracLimit || d > kFracLimit)
+        return std::nullopt;
+    return Frac{static_cast<long long>(n), static_cast<long long>(d)};
 }
 
-QString exactCombination(const std::vector<Rational> &w, const QStringList &levels)
+std::optional<Frac> add(const Frac &a, const Frac &b)
 {
-    std::vector<std::pair<Rational, QString>> pos, neg;
+    return makeFrac(static_cast<__int128>(a.n) * b.d + static_cast<__int128>(b.n) * a.d, static_cast<__int128>(a.d) * b.d);
+}
+
+std::optional<Frac> toFrac(const Weight &w)
+{
+    if (w.isExact()) {
+        const Rational &q = w.rational();
+        if (!mpz_fits_slong_p(q.get_num_mpz_t()) || !mpz_fits_slong_p(q.get_den_mpz_t()))
+            return std::nullopt;
+        return makeFrac(q.get_num().get_si(), q.get_den().get_si());
+    }
+    if (std::abs(w.value()) < 1e-13)
+        return Frac{};
+    if (auto r = recogniseFraction(w.value()))
+        return makeFrac(r->get_num().get_si(), r->get_den().get_si());
+    return std::nullopt;
+}
+
+QString fracText(const Frac &f)
+{
+    return f.d == 1 ? QString::number(f.n) : u"%1/%2"_s.arg(f.n).arg(f.d);
+}
+
+// "(2 weekly + twice)/3" for terms with positive weights a_i/d.
+QString groupText(const std::vector<std::pair<Frac, qsizetype>> &terms, const QStringList &levels)
+{
+    long long d = 1;
+    for (const auto &t : terms) {
+        d = std::lcm(d, t.first.d);
+        if (d > kFracLimit)
+            return {};
+    }
+    QString body;
+    for (const auto &t : terms) {
+        const __int128 a = static_cast<__int128>(t.first.n) * (d / t.first.d);
+        if (!body.isEmpty())
+            body += u" + "_s;
+        if (a != 1)
+            body += QString::number(static_cast<long long>(a)) + u' ';
+        body += levels[t.second];
+    }
+    if (d == 1)
+        return body;
+    if (terms.size() > 1)
+        body = u"("_s + body + u")"_s;
+    return body + u"/"_s + QString::number(d);
+}
+
+QString exactCombination(const std::vector<Frac> &w, const QStringList &levels)
+{
+    std::vector<std::pair<Frac, qsizetype>> pos, neg;
     for (size_t i = 0; i < w.size(); ++i) {
-        if (w[i] > 0)
-            pos.emplace_back(w[i], levels[qsizetype(i)]);
-        else if (w[i] < 0)
-            neg.emplace_back(-w[i], levels[qsizetype(i)]);
+        if (w[i].n > 0)
+            pos.emplace_back(w[i], qsizetype(i));
+        else if (w[i].n < 0)
+            neg.emplace_back(Frac{-w[i].n, w[i].d}, qsizetype(i));
     }
     if (pos.empty() && neg.empty())
         return u"0"_s;
     QString s;
     if (!pos.empty())
-        s = groupText(pos);
+        s = groupText(pos, levels);
     if (!neg.empty()) {
-        QString n = groupText(neg);
+        QString n = groupText(neg, levels);
         if (neg.size() > 1 && !n.startsWith(u'('))
             n = u"("_s + n + u")"_s; // "x - (a + b)", not "x - a + b"
         s += (pos.empty() ? u"-"_s : u" - "_s) + n;
@@ -70,19 +137,39 @@ QString exactCombination(const std::vector<Rational> &w, const QStringList &leve
     return s;
 }
 
+// "0.67082 high - 0.22361 low ...": six decimals (or six significant digits when tiny or huge).
+// Written with std::to_chars into one reserved string: rows can have hundreds of terms.
 QString numericCombination(const std::vector<Weight> &row, const QStringList &levels)
 {
     QString s;
+    s.reserve(qsizetype(row.size()) * 16);
+    char buf[40];
     for (size_t i = 0; i < row.size(); ++i) {
         const double v = row[i].value();
         if (v == 0.0 || (!row[i].isExact() && std::abs(v) < 1e-14))
             continue;
-        const QString mag = Weight::approx(std::abs(v)).display();
-        const QString term = (mag == u"1"_s ? QString() : mag + u" "_s) + levels[qsizetype(i)];
-        if (s.isEmpty())
-            s = v < 0 ? u"-"_s + term : term;
-        else
-            s += (v < 0 ? u" - "_s : u" + "_s) + term;
+        const double a = std::abs(v);
+        const bool sci = a < 1e-4 || a >= 1e6;
+        auto r = sci ? std::to_chars(buf, buf + sizeof buf, a, std::chars_format::general, 6)
+                     : std::to_chars(buf, buf + sizeof buf, a, std::chars_format::fixed, 6);
+        char *end = r.ptr;
+        if (!sci) {
+            while (end > buf && end[-1] == '0')
+                --end;
+            if (end > buf && end[-1] == '.')
+                --end;
+        }
+        if (s.isEmpty()) {
+            if (v < 0)
+                s += u'-';
+        } else {
+            s += v < 0 ? u" - "_s : u" + "_s;
+        }
+        if (!(end - buf == 1 && buf[0] == '1')) {
+            s += QLatin1StringView(buf, end - buf);
+            s += u' ';
+        }
+        s += levels[qsizetype(i)];
     }
     return s.isEmpty() ? u"0"_s : s;
 }
@@ -94,43 +181,44 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
 {
     HypothesisText out;
     const size_t k = row.size();
-    // Exact weights, recognising simple fractions in floating ones.
-    std::vector<Rational> w(k);
-    bool exact = true;
-    for (size_t i = 0; i < k && exact; ++i) {
-        if (row[i].isExact()) {
-            w[i] = row[i].rational();
-        } else if (std::abs(row[i].value()) < 1e-13) {
-            w[i] = 0;
-        } else if (auto r = recogniseFraction(row[i].value())) {
-            w[i] = *r;
+    // Exact weights, recognising simple fractions in floating ones; the sum on the way.
+    std::vector<Frac> w(k);
+    std::optional<Frac> total = Frac{};
+    for (size_t i = 0; i < k && total; ++i) {
+        const auto f = toFrac(row[i]);
+        if (f) {
+            w[i] = *f;
+            total = add(*total, *f);
         } else {
-            exact = false;
+            total.reset();
         }
     }
-    if (!exact) {
+    if (total)
+        out.combination = exactCombination(w, levels);
+    if (!total || out.combination.isEmpty()) {
         out.combination = numericCombination(row, levels);
         out.symbols = label + u": "_s + out.combination + (isIntercept ? QString() : u" = 0"_s);
         out.words = isIntercept ? u"a weighted combination of the level means: "_s + out.combination
                                 : u"a weighted combination of the level means (weights not simple fractions): "_s + out.combination;
         return out;
     }
-    out.combination = exactCombination(w, levels);
-    Rational total = 0;
-    for (const Rational &v : w)
-        total += v;
 
     QStringList posNames, negNames;
-    std::map<Rational, int> posValues, negValues;
+    std::vector<Frac> posValues, negValues; // distinct values, at most two kept
+    auto note = [](std::vector<Frac> &values, const Frac &f) {
+        if (values.size() < 2 && std::find(values.begin(), values.end(), f) == values.end())
+            values.push_back(f);
+    };
     for (size_t i = 0; i < k; ++i) {
-        if (w[i] > 0) {
+        if (w[i].n > 0) {
             posNames << levels[qsizetype(i)];
-            posValues[w[i]]++;
-        } else if (w[i] < 0) {
+            note(posValues, w[i]);
+        } else if (w[i].n < 0) {
             negNames << levels[qsizetype(i)];
-            negValues[w[i]]++;
+            note(negValues, w[i]);
         }
     }
+    const Frac zero{}, one{1, 1};
 
     if (isIntercept) {
         Rational nTotal = 0;
@@ -138,11 +226,11 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
             nTotal += n;
         bool equal = true, byN = true, sizesEqual = true;
         for (size_t i = 0; i < k; ++i) {
-            equal = equal && w[i] == Rational(1, long(k));
-            byN = byN && w[i] == sizes[i] / nTotal;
+            equal = equal && w[i] == Frac{1, static_cast<long long>(k)};
+            byN = byN && Rational(static_cast<long>(w[i].n), static_cast<unsigned long>(w[i].d)) == sizes[i] / nTotal;
             sizesEqual = sizesEqual && sizes[i] == sizes[0];
         }
-        if (posNames.size() == 1 && negNames.isEmpty() && w[size_t(levels.indexOf(posNames[0]))] == 1) {
+        if (posNames.size() == 1 && negNames.isEmpty() && posValues[0] == one) {
             out.symbols = label + u": "_s + meanSymbol(posNames);
             out.words = u"the mean of "_s + posNames[0];
         } else if (equal) {
@@ -153,8 +241,8 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
             out.words = u"the mean of the level means weighted by the planned n (the overall mean of all observations)"_s;
         } else {
             out.symbols = label + u": "_s + out.combination;
-            out.words = total == 1 ? u"a weighted average of the level means: "_s + out.combination
-                                   : u"a combination of the level means whose weights sum to %1: "_s.arg(rationalToString(total)) + out.combination;
+            out.words = *total == one ? u"a weighted average of the level means: "_s + out.combination
+                                      : u"a combination of the level means whose weights sum to %1: "_s.arg(fracText(*total)) + out.combination;
         }
         return out;
     }
@@ -166,24 +254,32 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
     }
     // A difference of two averages, possibly scaled: all positive weights equal,
     // all negative weights equal, and the two groups balance.
-    if (total == 0 && posValues.size() == 1 && negValues.size() == 1) {
-        const Rational scale = posValues.begin()->first * long(posNames.size());
+    if (*total == zero && posValues.size() == 1 && negValues.size() == 1) {
+        const auto scale = makeFrac(static_cast<__int128>(posValues[0].n) * posNames.size(), posValues[0].d);
         QString diff = meanSymbol(posNames) + u" - "_s + meanSymbol(negNames);
         QString words = averageWords(posNames) + u" minus "_s + averageWords(negNames);
-        if (scale != 1) {
-            diff = rationalToString(scale) + u" * ("_s + diff + u")"_s;
-            words = rationalToString(scale) + u" times the difference: "_s + words;
+        if (scale && !(*scale == one)) {
+            diff = fracText(*scale) + u" * ("_s + diff + u")"_s;
+            words = fracText(*scale) + u" times the difference: "_s + words;
         }
-        out.symbols = label + u": "_s + diff + u" = 0"_s;
-        out.words = words;
+        if (scale) {
+            out.symbols = label + u": "_s + diff + u" = 0"_s;
+            out.words = words;
+            return out;
+        }
+    }
+    if (negNames.isEmpty() && posValues.size() == 1 && *total == one) {
+        // An average of level means itself (cell-means style), tested against 0.
+        out.symbols = label + u": "_s + meanSymbol(posNames) + u" = 0"_s;
+        out.words = averageWords(posNames) + u" itself (its test asks whether it is 0)"_s;
         return out;
     }
     out.symbols = label + u": "_s + out.combination + u" = 0"_s;
-    if (total == 0)
+    if (*total == zero)
         out.words = u"a contrast of the level means (weights sum to 0): "_s + out.combination;
     else
         out.words = u"not a pure comparison: the weights sum to %1, so it mixes the overall level with differences: "_s
-                        .arg(rationalToString(total)) + out.combination;
+                        .arg(fracText(*total)) + out.combination;
     return out;
 }
 

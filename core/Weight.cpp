@@ -202,12 +202,11 @@ std::optional<Rational> recogniseFraction(double x, long maxDenominator)
         return std::nullopt;
     const double tol = 1e-12 * std::max(1.0, std::abs(x));
     // Continued fraction expansion.
-    long double v = std::abs(static_cast<long double>(x));
     long long p0 = 0, q0 = 1, p1 = 1, q1 = 0;
-    long double frac = v;
+    double frac = std::abs(x);
     for (int iter = 0; iter < 40; ++iter) {
-        const long double a = std::floor(frac);
-        if (a > 1e13L)
+        const double a = std::floor(frac);
+        if (a > 1e13)
             break;
         const long long ai = static_cast<long long>(a);
         const long long p2 = ai * p1 + p0;
@@ -221,10 +220,10 @@ std::optional<Rational> recogniseFraction(double x, long maxDenominator)
             r.canonicalize();
             return x < 0 ? Rational(-r) : r;
         }
-        const long double rest = frac - a;
+        const double rest = frac - a;
         if (rest <= 0)
             break;
-        frac = 1.0L / rest;
+        frac = 1.0 / rest;
     }
     return std::nullopt;
 }

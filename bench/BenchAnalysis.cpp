@@ -1,0 +1,69 @@
+// The whole analysis (hypotheses, rank, condition number and indices, VIF,
+// orthogonality, texts) per scheme and k. Targets (issue 2): floating path
+// k = 10 < 20 us, k = 50 < 0.5 ms, k = 200 < 10 ms; exact path k <= 20 < 5 ms.
+#include "Analysis.h"
+#include "Scheme.h"
+
+#include <benchmark/benchmark.h>
+
+#include <random>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+namespace {
+
+Factor factorOf(int k)
+{
+    Factor f;
+    for (int i = 0; i < k; ++i)
+        f.levels << u"level %1"_s.arg(i + 1);
+    return f;
+}
+
+Scheme standard(int k, SchemeKind kind)
+{
+    return makeScheme(factorOf(k), kind).take();
+}
+
+// A random custom coding with k-1 columns: exact small fractions or doubles.
+Scheme randomCustom(int k, bool exact)
+{
+    std::mt19937 rng(12345u + unsigned(k));
+    std::uniform_int_distribution<int> num(-6, 6), den(1, 4);
+    std::normal_distribution<double> gauss;
+    Scheme s;
+    s.factor = factorOf(k);
+    for (int j = 0; j + 1 < k; ++j) {
+        Column c{u"c%1"_s.arg(j + 1), {}};
+        for (int i = 0; i < k; ++i)
+            c.weights.push_back(exact ? Weight::exact(Rational(num(rng), den(rng))) : Weight::approx(gauss(rng)));
+        s.columns.push_back(std::move(c));
+    }
+    return s;
+}
+
+void run(benchmark::State &state, const Scheme &s)
+{
+    for (auto _ : state) {
+        Analysis a = analyze(s);
+        benchmark::DoNotOptimize(a);
+    }
+    state.counters["exact"] = analyze(s).exact ? 1 : 0;
+}
+
+void BM_Treatment(benchmark::State &state) { run(state, standard(int(state.range(0)), SchemeKind::Treatment)); }
+void BM_Helmert(benchmark::State &state) { run(state, standard(int(state.range(0)), SchemeKind::Helmert)); }
+void BM_Polynomial(benchmark::State &state) { run(state, standard(int(state.range(0)), SchemeKind::Polynomial)); }
+void BM_RandomFloat(benchmark::State &state) { run(state, randomCustom(int(state.range(0)), false)); }
+void BM_RandomExact(benchmark::State &state) { run(state, randomCustom(int(state.range(0)), true)); }
+
+} // namespace
+
+BENCHMARK(BM_Treatment)->Arg(3)->Arg(10)->Arg(20)->Arg(50)->Arg(200)->Unit(benchmark::kMicrosecond);
+BENCHMARK(BM_Helmert)->Arg(3)->Arg(10)->Arg(20)->Arg(50)->Arg(200)->Unit(benchmark::kMicrosecond);
+BENCHMARK(BM_Polynomial)->Arg(3)->Arg(10)->Arg(50)->Arg(200)->Unit(benchmark::kMicrosecond);
+BENCHMARK(BM_RandomFloat)->Arg(3)->Arg(10)->Arg(50)->Arg(200)->Unit(benchmark::kMicrosecond);
+BENCHMARK(BM_RandomExact)->Arg(3)->Arg(10)->Arg(20)->Unit(benchmark::kMicrosecond);
+
+BENCHMARK_MAIN();
