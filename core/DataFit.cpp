@@ -1,0 +1,442 @@
+#include "DataFit.h"
+
+#include "Analysis.h"
+#include "Scheme.h"
+
+#include <QJsonArray>
+
+#include <boost/math/distributions/fisher_f.hpp>
+#include <boost/math/distributions/students_t.hpp>
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <numeric>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+
+// Errors become NaN results instead of exceptions.
+using QuietPolicy = boost::math::policies::policy<
+    boost::math::policies::domain_error<boost::math::policies::ignore_error>,
+    boost::math::policies::pole_error<boost::math::policies::ignore_error>,
+    boost::math::policies::overflow_error<boost::math::policies::ignore_error>,
+    boost::math::policies::evaluation_error<boost::math::policies::ignore_error>>;
+
+// Two-sided p-value of a t statistic.
+double tTwoSidedP(double t, double df)
+{
+    if (std::isnan(t) || !(df > 0))
+        return kNaN;
+    if (std::isinf(t))
+        return 0.0;
+    const boost::math::students_t_distribution<double, QuietPolicy> dist(df);
+    return std::min(1.0, 2.0 * boost::math::cdf(boost::math::complement(dist, std::fabs(t))));
+}
+
+double tQuantileUpper(double tailArea, double df)
+{
+    if (!(df > 0))
+        return kNaN;
+    const boost::math::students_t_distribution<double, QuietPolicy> dist(df);
+    return boost::math::quantile(boost::math::complement(dist, tailArea));
+}
+
+double fUpperP(double f, double df1, double df2)
+{
+    if (std::isnan(f) || !(df1 > 0) || !(df2 > 0))
+        return kNaN;
+    if (std::isinf(f))
+        return 0.0;
+    const boost::math::fisher_f_distribution<double, QuietPolicy> dist(df1, df2);
+    return boost::math::cdf(boost::math::complement(dist, std::max(0.0, f)));
+}
+
+QString quotedList(const QStringList &names)
+{
+    QStringList q;
+    for (const QString &n : names)
+        q << u"'%1'"_s.arg(n);
+    return q.join(u", "_s);
+}
+
+} // namespace
+
+// ---------------------------------------------------------------------------
+// Multiplicity
+
+QString pAdjustId(PAdjust method)
+{
+    switch (method) {
+    case PAdjust::None: return u"none"_s;
+    case PAdjust::Bonferroni: return u"bonferroni"_s;
+    case PAdjust::Holm: return u"holm"_s;
+    case PAdjust::Sidak: return u"sidak"_s;
+    }
+    return {};
+}
+
+std::optional<PAdjust> pAdjustFromId(const QString &id)
+{
+    for (PAdjust m : {PAdjust::None, PAdjust::Bonferroni, PAdjust::Holm, PAdjust::Sidak})
+        if (id.trimmed().compare(pAdjustId(m), Qt::CaseInsensitive) == 0)
+            return m;
+    return std::nullopt;
+}
+
+std::vector<double> adjustPValues(const std::vector<double> &p, PAdjust method)
+{
+    std::vector<double> out(p.size(), kNaN);
+    std::vector<size_t> family;
+    for (size_t i = 0; i < p.size(); ++i)
+        if (!std::isnan(p[i]))
+            family.push_back(i);
+    const double m = double(family.size());
+    switch (method) {
+    case PAdjust::None:
+        for (size_t i : family)
+            out[i] = p[i];
+        break;
+    case PAdjust::Bonferroni:
+        for (size_t i : family)
+            out[i] = std::min(1.0, m * p[i]);
+        break;
+    case PAdjust::Sidak:
+        // 1 - (1 - p)^m, written to keep precision for small p.
+        for (size_t i : family)
+            out[i] = p[i] >= 1.0 ? 1.0 : std::min(1.0, -std::expm1(m * std::log1p(-p[i])));
+        break;
+    case PAdjust::Holm: {
+        std::vector<size_t> order = family;
+        std::stable_sort(order.begin(), order.end(), [&p](size_t a, size_t b) { return p[a] < p[b]; });
+        double running = 0.0;
+        for (size_t r = 0; r < order.size(); ++r) {
+            running = std::max(running, std::min(1.0, (m - double(r)) * p[order[r]]));
+            out[order[r]] = running;
+        }
+        break;
+    }
+    }
+    return out;
+}
+
+// ---------------------------------------------------------------------------
+// Level matching
+
+Result<LevelMapping> parseLevelMapping(const QString &text)
+{
+    LevelMapping mapping;
+    const QStringList items = splitList(text);
+    for (const QString &item : items) {
+        const qsizetype eq = item.indexOf(u'=');
+        const QString from = item.left(eq).trimmed();
+        const QString to = item.mid(eq + 1).trimmed();
+        if (eq < 0 || from.isEmpty() || to.isEmpty())
+            return Result<LevelMapping>::failure(
+                u"level mapping: '%1' should read 'data name=scheme level'"_s.arg(item));
+        if (mapping.contains(from))
+            return Result<LevelMapping>::failure(u"level mapping: '%1' is mapped twice"_s.arg(from));
+        mapping.insert(from, to);
+    }
+    return mapping;
+}
+
+Result<MatchedLevels> matchLevels(const QStringList &schemeLevels, const std::vector<LevelStats> &data,
+                                  const LevelMapping &mapping)
+{
+    QStringList dataNames;
+    for (const LevelStats &l : data)
+        dataNames << l.name;
+    for (auto it = mapping.cbegin(); it != mapping.cend(); ++it) {
+        if (!dataNames.contains(it.key()))
+            return Result<MatchedLevels>::failure(u"level mapping: '%1' is not a level in the data (the data have %2)"_s.arg(
+                it.key(), quotedList(dataNames)));
+        if (!schemeLevels.contains(it.value()))
+            return Result<MatchedLevels>::failure(
+                u"level mapping: '%1' is not a level of the scheme (the scheme has %2)"_s.arg(it.value(),
+                                                                                           quotedList(schemeLevels)));
+    }
+    MatchedLevels out;
+    out.levels = schemeLevels;
+    out.stats.assign(size_t(schemeLevels.size()), RunningStats{});
+    out.sources.assign(size_t(schemeLevels.size()), QStringList{});
+    QStringList dataOnly;
+    for (const LevelStats &l : data) {
+        const QString target = mapping.value(l.name, l.name);
+        const qsizetype i = schemeLevels.indexOf(target);
+        if (i < 0) {
+            dataOnly << l.name;
+            continue;
+        }
+        out.stats[size_t(i)].merge(l.stats);
+        out.sources[size_t(i)] << l.name;
+    }
+    QStringList schemeOnly;
+    QStringList weightless;
+    for (qsizetype i = 0; i < schemeLevels.size(); ++i) {
+        if (out.sources[size_t(i)].isEmpty())
+            schemeOnly << schemeLevels[i];
+        else if (out.stats[size_t(i)].n <= 0.0)
+            weightless << schemeLevels[i];
+    }
+    if (dataOnly.isEmpty() && schemeOnly.isEmpty() && weightless.isEmpty())
+        return out;
+    QStringList parts;
+    if (!dataOnly.isEmpty())
+        parts << u"in the data but not in the scheme: %1"_s.arg(quotedList(dataOnly));
+    if (!schemeOnly.isEmpty())
+        parts << u"in the scheme but not in the data: %1"_s.arg(quotedList(schemeOnly));
+    if (!weightless.isEmpty())
+        parts << u"in the data only with weight 0: %1"_s.arg(quotedList(weightless));
+    QStringList hints;
+    for (const QString &d : std::as_const(dataOnly))
+        for (const QString &s : std::as_const(schemeOnly))
+            if (d.compare(s, Qt::CaseInsensitive) == 0 || d.trimmed() == s.trimmed())
+                hints << u"'%1' looks like '%2'"_s.arg(d, s);
+    QString message = u"the levels do not match; "_s + parts.join(u"; "_s)
+        + u". Rename them, or map data names to scheme levels, before fitting"_s;
+    if (!hints.isEmpty())
+        message += u" ("_s + hints.join(u", "_s) + u")"_s;
+    return Result<MatchedLevels>::failure(message);
+}
+
+// ---------------------------------------------------------------------------
+// The fit
+
+Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &X, const Eigen::MatrixXd &H,
+                            const QStringList &names, bool intercept, const FitOptions &options)
+{
+    using Fail = Result<FitResult>;
+    const Eigen::Index k = Eigen::Index(levels.stats.size());
+    const Eigen::Index p = X.cols();
+    if (k < 1 || X.rows() != k)
+        return Fail::failure(u"design: %1 rows for %2 levels; expected one row per level"_s.arg(X.rows()).arg(k));
+    if (p < 1)
+        return Fail::failure(u"design: no coefficients to estimate"_s);
+    if (names.size() != p)
+        return Fail::failure(u"design: %1 coefficient names for %2 columns"_s.arg(names.size()).arg(p));
+    if (H.size() != 0 && (H.rows() != p || H.cols() != k))
+        return Fail::failure(u"hypotheses: a %1 x %2 matrix; expected %3 x %4 (one row per coefficient)"_s.arg(H.rows())
+                                 .arg(H.cols())
+                                 .arg(p)
+                                 .arg(k));
+    if (!(options.alpha > 0.0 && options.alpha < 1.0))
+        return Fail::failure(u"alpha: %1; expected a number between 0 and 1"_s.arg(options.alpha));
+    if (!X.allFinite())
+        return Fail::failure(u"design: the coding has a value that is not a finite number"_s);
+
+    Eigen::VectorXd n(k), ybar(k);
+    double within = 0.0;
+    for (Eigen::Index j = 0; j < k; ++j) {
+        const RunningStats &s = levels.stats[size_t(j)];
+        if (!(s.n > 0.0))
+            return Fail::failure(u"level '%1' has no observations; every level needs data"_s.arg(levels.levels.value(j)));
+        n[j] = s.n;
+        ybar[j] = s.mean;
+        within += s.m2;
+    }
+    const double totalN = n.sum();
+    if (totalN < double(p))
+        return Fail::failure(u"%1 observations for %2 coefficients; need at least as many observations as coefficients"_s
+                                 .arg(totalN)
+                                 .arg(p));
+
+    // Weighted least squares on the k level means with weights n: with A = N^1/2 X,
+    // b = (A'A)^-1 A' N^1/2 ybar, through a QR decomposition of A.
+    const Eigen::VectorXd sqrtN = n.array().sqrt();
+    const Eigen::MatrixXd A = sqrtN.asDiagonal() * X;
+    Eigen::ColPivHouseholderQR<Eigen::MatrixXd> pivoted(A);
+    pivoted.setThreshold(1e-10);
+    if (pivoted.rank() < p)
+        return Fail::failure(u"the coding columns are linearly dependent (rank %1 for %2 coefficients); "
+                             "no unique fit exists"_s.arg(pivoted.rank())
+                                 .arg(p));
+    const Eigen::HouseholderQR<Eigen::MatrixXd> qr(A);
+    const Eigen::MatrixXd R = qr.matrixQR().topRows(p).triangularView<Eigen::Upper>();
+    const Eigen::MatrixXd Rinv = R.triangularView<Eigen::Upper>().solve(Eigen::MatrixXd::Identity(p, p));
+    const Eigen::MatrixXd xtnxInv = Rinv * Rinv.transpose();
+    const Eigen::VectorXd qty = qr.householderQ().transpose() * (sqrtN.array() * ybar.array()).matrix();
+    const Eigen::VectorXd b = Rinv * qty.head(p);
+
+    FitResult fit;
+    fit.levels = levels.levels;
+    fit.levelStats = levels.stats;
+    fit.intercept = intercept;
+    fit.alpha = options.alpha;
+    fit.adjust = options.adjust;
+    fit.totalN = totalN;
+    fit.fittedMeans = X * b;
+    const double between = (n.array() * (ybar - fit.fittedMeans).array().square()).sum();
+    fit.rss = within + between;
+    fit.df = totalN - double(p);
+    const double sigma2 = fit.df > 0 ? fit.rss / fit.df : kNaN;
+    fit.sigma = std::sqrt(sigma2);
+    fit.covariance = sigma2 * xtnxInv;
+    fit.observedHypotheses = xtnxInv * X.transpose() * n.asDiagonal();
+
+    // Does the column space hold the constant? Then F compares with the common-mean model.
+    const Eigen::VectorXd ones = Eigen::VectorXd::Ones(k);
+    const Eigen::VectorXd onesFit = X * X.colPivHouseholderQr().solve(ones);
+    fit.centred = (onesFit - ones).norm() <= 1e-9 * std::sqrt(double(k));
+    const double grand = n.dot(ybar) / totalN;
+    if (fit.centred) {
+        fit.tss = within + (n.array() * (ybar.array() - grand).square()).sum();
+        fit.fDf1 = double(p - 1);
+        fit.omnibusHypothesis = u"all level means are equal"_s;
+    } else {
+        fit.tss = within + (n.array() * ybar.array().square()).sum();
+        fit.fDf1 = double(p);
+        fit.omnibusHypothesis = u"every coefficient is zero (the model has no common mean to compare with)"_s;
+    }
+    fit.fDf2 = fit.df;
+    fit.rSquared = fit.tss > 0 ? 1.0 - fit.rss / fit.tss : kNaN;
+    if (fit.fDf1 > 0 && fit.df > 0) {
+        const double model = std::max(0.0, fit.tss - fit.rss);
+        fit.f = fit.rss > 0 ? (model / fit.fDf1) / sigma2 : (model > 0 ? std::numeric_limits<double>::infinity() : kNaN);
+        fit.fP = fUpperP(fit.f, fit.fDf1, fit.fDf2);
+    } else {
+        fit.f = kNaN;
+        fit.fP = kNaN;
+    }
+
+    const double tCrit = tQuantileUpper(options.alpha / 2.0, fit.df);
+    std::vector<double> familyP(size_t(p), kNaN);
+    for (Eigen::Index i = 0; i < p; ++i) {
+        FitCoefficient c;
+        c.name = names[i];
+        c.estimate = b[i];
+        c.se = std::sqrt(fit.covariance(i, i));
+        c.t = c.se > 0 ? c.estimate / c.se : (c.estimate == 0 ? kNaN : std::copysign(INFINITY, c.estimate));
+        if (std::isnan(c.se))
+            c.t = kNaN;
+        c.p = tTwoSidedP(c.t, fit.df);
+        c.ciLow = c.estimate - tCrit * c.se;
+        c.ciHigh = c.estimate + tCrit * c.se;
+        c.inFamily = !(intercept && i == 0);
+        if (c.inFamily)
+            familyP[size_t(i)] = c.p;
+        if (H.size() != 0) {
+            c.hypothesisEstimate = H.row(i).dot(ybar);
+            const double scale = (H.row(i).transpose().array().abs() * ybar.array().abs()).sum();
+            c.agrees = std::fabs(c.hypothesisEstimate - c.estimate) <= 1e-9 * std::max(1.0, scale);
+        } else {
+            c.hypothesisEstimate = kNaN;
+        }
+        fit.hypothesesAgree = fit.hypothesesAgree && c.agrees;
+        fit.coefficients.push_back(c);
+    }
+    const std::vector<double> adjusted = adjustPValues(familyP, options.adjust);
+    for (size_t i = 0; i < adjusted.size(); ++i)
+        fit.coefficients[i].pAdjusted = adjusted[i];
+
+    if (!(fit.df > 0))
+        fit.notes << u"no residual degrees of freedom (N equals the number of coefficients): standard errors, "
+                     "tests and intervals cannot be computed"_s;
+    if (!fit.hypothesesAgree)
+        fit.notes << u"some coefficients estimate a different comparison than their hypothesis states: the coding "
+                     "has fewer columns than levels minus one, so what it estimates depends on the group sizes, and "
+                     "the observed sizes differ from the planned ones"_s;
+    if (!fit.centred)
+        fit.notes << u"the coding does not span a common mean, so F tests that every coefficient is zero and "
+                     "R squared is measured about 0"_s;
+    return fit;
+}
+
+Eigen::MatrixXd designRows(const Scheme &scheme)
+{
+    const Eigen::Index k = scheme.levelCount();
+    const Eigen::Index offset = scheme.intercept ? 1 : 0;
+    Eigen::MatrixXd X(k, scheme.columnCount() + offset);
+    if (offset)
+        X.col(0).setOnes();
+    for (Eigen::Index c = 0; c < scheme.columnCount(); ++c)
+        for (Eigen::Index j = 0; j < k; ++j)
+            X(j, c + offset) = scheme.columns[size_t(c)].weights[size_t(j)].value();
+    return X;
+}
+
+Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const FitOptions &options,
+                            const LevelMapping &mapping)
+{
+    const QString invalid = scheme.validate();
+    if (!invalid.isEmpty())
+        return Result<FitResult>::failure(u"scheme: "_s + invalid);
+    auto matched = matchLevels(scheme.factor.levels, data.levels, mapping);
+    if (!matched)
+        return Result<FitResult>::failure(matched.error());
+    const Analysis analysis = analyze(scheme);
+    if (!analysis.fullRank)
+        return Result<FitResult>::failure(u"the coding columns are linearly dependent: %1; no unique fit exists"_s.arg(
+            analysis.dependencies.join(u"; "_s)));
+    auto fit = fitLevels(*matched, designRows(scheme), analysis.hypothesisValues, analysis.coefficientNames,
+                         scheme.intercept, options);
+    if (!fit)
+        return fit;
+    for (size_t i = 0; i < fit->coefficients.size(); ++i)
+        fit->coefficients[i].hypothesis = analysis.hypothesisCombinations.value(qsizetype(i));
+    return fit;
+}
+
+// ---------------------------------------------------------------------------
+// JSON
+
+static QJsonValue number(double x)
+{
+    return std::isfinite(x) ? QJsonValue(x) : QJsonValue(QJsonValue::Null);
+}
+
+QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data)
+{
+    QJsonArray levels;
+    for (size_t j = 0; j < fit.levelStats.size(); ++j) {
+        const RunningStats &s = fit.levelStats[j];
+        levels.append(QJsonObject{{u"name"_s, fit.levels.value(qsizetype(j))},
+                                  {u"n"_s, number(s.n)},
+                                  {u"rows"_s, double(s.rows)},
+                                  {u"mean"_s, number(s.mean)},
+                                  {u"sd"_s, number(s.sd())}});
+    }
+    QJsonArray coefficients;
+    for (const FitCoefficient &c : fit.coefficients) {
+        QJsonObject o{{u"name"_s, c.name},
+                      {u"estimate"_s, number(c.estimate)},
+                      {u"se"_s, number(c.se)},
+                      {u"t"_s, number(c.t)},
+                      {u"p"_s, number(c.p)},
+                      {u"p_adjusted"_s, number(c.pAdjusted)},
+                      {u"ci_low"_s, number(c.ciLow)},
+                      {u"ci_high"_s, number(c.ciHigh)},
+                      {u"hypothesis_estimate"_s, number(c.hypothesisEstimate)},
+                      {u"agrees"_s, c.agrees}};
+        if (!c.hypothesis.isEmpty())
+            o.insert(u"hypothesis"_s, c.hypothesis);
+        coefficients.append(o);
+    }
+    QJsonArray first;
+    for (const RowProblem &r : data.skipped)
+        first.append(QJsonObject{{u"line"_s, double(r.line)}, {u"reason"_s, r.message}});
+    return QJsonObject{
+        {u"levels"_s, levels},
+        {u"coefficients"_s, coefficients},
+        {u"sigma"_s, number(fit.sigma)},
+        {u"df"_s, number(fit.df)},
+        {u"r_squared"_s, number(fit.rSquared)},
+        {u"f"_s, number(fit.f)},
+        {u"f_df1"_s, number(fit.fDf1)},
+        {u"f_df2"_s, number(fit.fDf2)},
+        {u"f_p"_s, number(fit.fP)},
+        {u"omnibus"_s, fit.omnibusHypothesis},
+        {u"alpha"_s, fit.alpha},
+        {u"adjust"_s, pAdjustId(fit.adjust)},
+        {u"n"_s, number(fit.totalN)},
+        {u"notes"_s, QJsonArray::fromStringList(fit.notes)},
+        {u"skipped_rows"_s, QJsonObject{{u"count"_s, double(data.skippedRows)}, {u"first"_s, first}}},
+    };
+}
+
+} // namespace cb

@@ -1,0 +1,136 @@
+#pragma once
+
+#include "DataReader.h"
+#include "Result.h"
+
+#include <Eigen/Dense>
+
+#include <QHash>
+#include <QJsonObject>
+#include <QString>
+#include <QStringList>
+
+#include <optional>
+#include <vector>
+
+namespace cb {
+
+struct Scheme;
+
+// How p-values of the family of contrasts are adjusted for multiplicity.
+enum class PAdjust {
+    None,
+    Bonferroni, // min(1, m p)
+    Holm,       // step-down Bonferroni (Holm 1979, Scand. J. Statist. 6:65-70)
+    Sidak,      // 1 - (1 - p)^m (Sidak 1967, JASA 62:626-633)
+};
+QString pAdjustId(PAdjust method); // "none", "bonferroni", "holm", "sidak"
+std::optional<PAdjust> pAdjustFromId(const QString &id);
+// Adjusted p-values in the order given. NaN entries are left NaN and not counted in m.
+std::vector<double> adjustPValues(const std::vector<double> &p, PAdjust method);
+
+// Per-level statistics in the scheme's level order.
+struct MatchedLevels
+{
+    QStringList levels;                // the scheme's levels
+    std::vector<RunningStats> stats;   // one per scheme level
+    std::vector<QStringList> sources;  // data names pooled into each level
+};
+
+// Data level name -> scheme level name. Several data names may map to one scheme
+// level; their statistics are pooled.
+using LevelMapping = QHash<QString, QString>;
+
+// Parses "data=scheme, other=scheme2" into a mapping; the message names the item.
+Result<LevelMapping> parseLevelMapping(const QString &text);
+
+// Puts the data's levels in the scheme's order. Refuses, listing both sides, when
+// a data level has no scheme level or a scheme level has no data; the mapping
+// renames data levels first. A level whose rows all have weight 0 counts as absent.
+Result<MatchedLevels> matchLevels(const QStringList &schemeLevels, const std::vector<LevelStats> &data,
+                                  const LevelMapping &mapping = {});
+
+struct FitOptions
+{
+    double alpha = 0.05; // confidence intervals at 1 - alpha
+    PAdjust adjust = PAdjust::None;
+};
+
+struct FitCoefficient
+{
+    QString name;
+    double estimate = 0.0;
+    double se = 0.0;
+    double t = 0.0;
+    double p = 0.0;
+    double pAdjusted = 0.0; // NaN for the intercept (not in the family of contrasts)
+    double ciLow = 0.0;
+    double ciHigh = 0.0;
+    // The coefficient's hypothesis row applied to the observed level means.
+    double hypothesisEstimate = 0.0;
+    bool agrees = true;     // estimate and hypothesisEstimate agree to rounding
+    bool inFamily = true;   // counted in the p-value adjustment
+    QString hypothesis;     // e.g. "(2 weekly + twice)/3 - none", when known
+};
+
+// A linear model y = X b + e with one design row per level, fitted from per-level
+// sufficient statistics (count, mean, within-level sum of squares), never from an
+// N-row design matrix. With case weights n is the sum of the weights.
+struct FitResult
+{
+    QStringList levels;
+    std::vector<RunningStats> levelStats;
+    std::vector<FitCoefficient> coefficients;
+    bool intercept = true;
+
+    double totalN = 0.0;
+    double df = 0.0;           // residual degrees of freedom, N - p
+    double sigma = 0.0;        // residual SD; NaN when df = 0
+    double rss = 0.0;          // residual sum of squares
+    double tss = 0.0;          // total sum of squares (about the mean when centred)
+    double rSquared = 0.0;
+    // The omnibus F. When the columns span the constant (any model with an intercept,
+    // or a cell-means coding without one) it tests that all level means are equal and
+    // R squared is the usual centred one. Otherwise it tests that every coefficient is
+    // zero (all fitted means 0) and R squared is uncentred, about 0.
+    bool centred = true;
+    QString omnibusHypothesis;
+    double f = 0.0;
+    double fDf1 = 0.0;
+    double fDf2 = 0.0;
+    double fP = 0.0;
+
+    double alpha = 0.05;
+    PAdjust adjust = PAdjust::None;
+
+    Eigen::VectorXd fittedMeans;         // k
+    Eigen::MatrixXd covariance;          // p x p, sigma^2 (X' N X)^-1
+    // What the coefficients estimate at the observed sizes: (X' N X)^-1 X' N (p x k).
+    // Equal to the scheme's hypotheses when the coding is saturated (p = k).
+    Eigen::MatrixXd observedHypotheses;
+    bool hypothesesAgree = true;
+    QStringList notes;
+};
+
+// Fits from levels in the design's order. X: k x p design rows ([1 | C] or C);
+// H: p x k hypothesis rows (may be empty: then hypothesisEstimate is NaN);
+// names: p coefficient names; intercept: the first column of X is the intercept
+// (it is left out of the p-value adjustment).
+Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &X, const Eigen::MatrixXd &H,
+                            const QStringList &names, bool intercept, const FitOptions &options = {});
+
+// Design rows of a scheme: k x p, a column of ones first when it has an intercept.
+Eigen::MatrixXd designRows(const Scheme &scheme);
+
+// Everything in one: matches the data's levels to the scheme (with the mapping),
+// builds X from the scheme's columns and H from analyze(scheme), and fits.
+Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const FitOptions &options = {},
+                            const LevelMapping &mapping = {});
+
+// {levels: [{name, n, mean, sd}], coefficients: [{name, estimate, se, t, p, p_adjusted,
+//  ci_low, ci_high, hypothesis_estimate, hypothesis}], sigma, df, r_squared, f, f_df1,
+//  f_df2, f_p, omnibus, alpha, adjust, n, skipped_rows: {count, first: [{line, reason}]}}.
+// Non-finite numbers are written as null.
+QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data);
+
+} // namespace cb
