@@ -461,9 +461,11 @@ void describeContrast(ContrastPower &c, const PowerSettings &s, double target)
                    u"the target"_s.arg(shortNum(c.alpha));
         return;
     }
-    if (s.oneSided && c.estimate < 0.0)
+    if (s.oneSided && c.estimate < 0.0) {
         c.notes << u"the expected estimate is negative but the one-sided test looks for a positive one, so power "
-                   u"stays below alpha; reverse the contrast's signs if a negative difference is expected"_s;
+                   u"stays below alpha at every n; reverse the contrast's signs if a negative difference is expected"_s;
+        return;
+    }
     if (!c.required.reachable)
         c.notes << unreachableNote(c.required, target);
 }
@@ -547,7 +549,8 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
         const double sdRef = settings.perLevelSds() ? std::sqrt(weightedVar / squares) : settings.sd;
         c.effectSize = c.estimate / (std::max(positive, negative) * sdRef);
 
-        if (!c.zeroEstimate)
+        const bool wrongDirection = settings.oneSided && c.estimate < 0.0; // power < alpha at every n
+        if (!c.zeroEstimate && !wrongDirection)
             c.required = searchSampleSize([&](const std::vector<double> &nn) { return contrastAt(design, h, nn, c.alpha).power; },
                                           ratios, settings.target);
         c.fewerThanOmnibus = c.required.reachable && o.required.reachable && c.required.total < o.required.total;

@@ -173,6 +173,10 @@ private slots:
     void contrastRowsOfAnalysis();
     void jsonHasTheIssueKeys();
     void cautionsAreProvided();
+    void commandLineJson();
+    void commandLineReport();
+    void commandLineRejectsInput_data();
+    void commandLineRejectsInput();
 };
 
 // Cohen (1988), Statistical Power Analysis for the Behavioral Sciences, 2nd ed.,
@@ -652,6 +656,8 @@ void TestPower::notesExplainSpecialCases()
     QVERIFY(r.contrasts[0].estimate < 0);
     QVERIFY(r.contrasts[0].power < s.alpha);
     QVERIFY(r.contrasts[0].notes.join(u'\n').contains(u"the one-sided test looks for a positive one"_s));
+    QVERIFY(!r.contrasts[0].required.reachable);
+    QCOMPARE(r.contrasts[0].notes.size(), 1);
     QVERIFY(r.notes.join(u'\n').contains(u"one-sided tests look for a positive estimate"_s));
     QVERIFY(r.notes.join(u'\n').contains(u"3 contrasts are tested without adjustment"_s));
     QVERIFY(r.notes.join(u'\n').contains(u"Holm's step-down procedure"_s));
@@ -900,6 +906,131 @@ void TestPower::cautionsAreProvided()
     QVERIFY(powerAdjustmentFromId(u"Sidak"_s) == PowerAdjustment::Sidak);
     QVERIFY(!powerAdjustmentFromId(u"holm"_s).has_value());
     QCOMPARE(powerAdjustmentTitle(PowerAdjustment::Sidak), u"\u0160id\u00e1k"_s);
+}
+
+namespace {
+
+struct CliRun
+{
+    int exitCode = -1;
+    QString out;
+    QString err;
+};
+
+// Runs the built contrast-bench-cli with "power" and the arguments.
+CliRun runCli(const QStringList &args)
+{
+    QProcess p;
+    p.start(QString::fromUtf8(CB_BINARY_DIR) + u"/app/contrast-bench-cli"_s, QStringList{u"power"_s} + args);
+    if (!p.waitForStarted(30000) || !p.waitForFinished(120000))
+        qFatal("could not run contrast-bench-cli in %s/app", CB_BINARY_DIR);
+    return {p.exitCode(), QString::fromUtf8(p.readAllStandardOutput()), QString::fromUtf8(p.readAllStandardError())};
+}
+
+const QStringList kCliCase = {u"--levels"_s, u"control,low,high"_s, u"--scheme"_s, u"treatment"_s, u"--means"_s,
+                              u"0,0.5,0.8"_s, u"--sd"_s, u"1"_s, u"--n"_s, u"20,20,20"_s, u"--adjust"_s, u"sidak"_s};
+
+} // namespace
+
+// The command line gives the same figures as computePower on the treatment rows
+// (level minus control), which the SciPy comparisons above check.
+void TestPower::commandLineJson()
+{
+    const CliRun run = runCli(kCliCase + QStringList{u"--json"_s});
+    QVERIFY2(run.exitCode == 0, qPrintable(run.err));
+    QJsonParseError error;
+    const QJsonObject o = QJsonDocument::fromJson(run.out.toUtf8(), &error).object();
+    QVERIFY2(error.error == QJsonParseError::NoError, qPrintable(error.errorString()));
+
+    PowerSettings s;
+    s.means = {0.0, 0.5, 0.8};
+    s.n = {20, 20, 20};
+    s.adjustment = PowerAdjustment::Sidak;
+    const PowerReport r = mustCompute(rowsOf({{-1, 1, 0}, {-1, 0, 1}}), s);
+    const QJsonArray contrasts = o[u"contrasts"_s].toArray();
+    QCOMPARE(contrasts.size(), 2);
+    for (int c = 0; c < 2; ++c) {
+        const QJsonObject j = contrasts[c].toObject();
+        const ContrastPower &cp = r.contrasts[size_t(c)];
+        QCOMPARE(j[u"estimate"_s].toDouble(), cp.estimate);
+        QCOMPARE(j[u"se"_s].toDouble(), cp.se);
+        QCOMPARE(j[u"effect_size"_s].toDouble(), cp.effectSize);
+        QCOMPARE(j[u"noncentrality"_s].toDouble(), cp.noncentrality);
+        QCOMPARE(j[u"df"_s].toDouble(), 57.0);
+        QCOMPARE(j[u"power"_s].toDouble(), cp.power);
+        QCOMPARE(j[u"n_required"_s].toArray().size(), 3);
+        QCOMPARE(j[u"n_required"_s].toArray()[1].toInteger(), cp.required.perLevel[1]);
+        QCOMPARE(j[u"n_required_total"_s].toInteger(), cp.required.total);
+    }
+    QCOMPARE(o[u"alpha_per_test"_s].toDouble(), 1.0 - std::pow(0.95, 0.5));
+    const QJsonObject omnibus = o[u"omnibus"_s].toObject();
+    QCOMPARE(omnibus[u"power"_s].toDouble(), r.omnibus.power);
+    QCOMPARE(omnibus[u"df2"_s].toDouble(), 57.0);
+    QCOMPARE(omnibus[u"n_required_total"_s].toInteger(), r.omnibus.required.total);
+    QCOMPARE(o[u"scheme"_s].toString(), u"treatment"_s);
+}
+
+void TestPower::commandLineReport()
+{
+    const CliRun run = runCli(kCliCase);
+    QVERIFY2(run.exitCode == 0, qPrintable(run.err));
+    QVERIFY(run.out.contains(u"Omnibus F-test (df 2 and 57"_s));
+    QVERIFY(run.out.contains(u"Planned n: 20, 20, 20 (N = 60)"_s));
+    QVERIFY(run.out.contains(u"Cautions:"_s));
+    QVERIFY(run.out.contains(u"Holm's step-down procedure"_s));
+}
+
+void TestPower::commandLineRejectsInput_data()
+{
+    QTest::addColumn<QStringList>("args");
+    QTest::addColumn<QString>("message");
+    const QStringList levels = {u"--levels"_s, u"a,b,c"_s, u"--scheme"_s, u"treatment"_s};
+    const QStringList sizes = {u"--n"_s, u"10,10,10"_s};
+    const QStringList ok = levels + sizes + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1"_s};
+    QTest::newRow("means count") << levels + sizes + QStringList{u"--means"_s, u"0,1"_s, u"--sd"_s, u"1"_s}
+                                 << u"--means: 2 values for 3 levels; give one per level"_s;
+    QTest::newRow("means not a number") << levels + sizes + QStringList{u"--means"_s, u"0,x,1"_s, u"--sd"_s, u"1"_s}
+                                        << u"--means, item 2: weight 'x' is not a number"_s;
+    QTest::newRow("no means") << levels + sizes + QStringList{u"--sd"_s, u"1"_s}
+                              << u"give the expected level means with --means, or differences from a baseline with --differences"_s;
+    QTest::newRow("no sd") << levels + sizes + QStringList{u"--means"_s, u"0,1,2"_s}
+                           << u"give the expected SD with --sd, or one per level with --sds"_s;
+    QTest::newRow("sd zero") << levels + sizes + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"0"_s}
+                             << u"--sd: 0 is not a positive standard deviation; the SD must be above 0"_s;
+    QTest::newRow("sd and sds") << ok + QStringList{u"--sds"_s, u"1,1,1"_s}
+                                << u"--sd and --sds: give a common SD or one per level, not both"_s;
+    QTest::newRow("n below 2") << levels + QStringList{u"--n"_s, u"10,1,10"_s, u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1"_s}
+                               << u"--n, item 2: 1 per level is too few; every level needs at least 2"_s;
+    QTest::newRow("no sizes") << levels + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1"_s}
+                              << u"give planned sizes per level with --n, or a total N with --total (and --ratios)"_s;
+    QTest::newRow("ratios without total") << levels + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1"_s, u"--ratios"_s, u"1,2,1"_s}
+                                          << u"--ratios: give the total N with --total"_s;
+    QTest::newRow("total with n") << ok + QStringList{u"--total"_s, u"30"_s}
+                                  << u"--total: the planned sizes are already given"_s;
+    QTest::newRow("alpha twice") << ok + QStringList{u"--alpha"_s, u"0.05,0.1"_s} << u"--alpha: give one number, got 2"_s;
+    QTest::newRow("alpha out of range") << ok + QStringList{u"--alpha"_s, u"1.2"_s}
+                                        << u"--alpha: 1.2 is not between 0 and 1 (both excluded)"_s;
+    QTest::newRow("target below alpha") << ok + QStringList{u"--target"_s, u"0.01"_s}
+                                        << u"--target: 0.01 is not above alpha (0.05); a target power must exceed alpha"_s;
+    QTest::newRow("unknown adjustment") << ok + QStringList{u"--adjust"_s, u"holm"_s}
+                                        << u"--adjust: unknown adjustment 'holm'; expected none, bonferroni or sidak"_s;
+    QTest::newRow("differences count") << levels + sizes + QStringList{u"--differences"_s, u"1"_s, u"--sd"_s, u"1"_s}
+                                       << u"--differences: 1 values for 3 levels; give one for each level other than the baseline 'a' (2)"_s;
+    QTest::newRow("unknown baseline") << levels + sizes + QStringList{u"--differences"_s, u"1,2"_s, u"--baseline"_s, u"z"_s, u"--sd"_s, u"1"_s}
+                                      << u"--baseline: 'z' is not one of the levels (a, b, c)"_s;
+    QTest::newRow("ratio zero") << levels + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1"_s, u"--ratios"_s, u"1,0,1"_s, u"--total"_s, u"30"_s}
+                                << u"--ratios, item 2: 0 is not a positive ratio; it must be above 0"_s;
+    QTest::newRow("unknown option") << ok + QStringList{u"--power"_s, u"0.9"_s} << u"Unknown option 'power'"_s;
+}
+
+void TestPower::commandLineRejectsInput()
+{
+    QFETCH(QStringList, args);
+    QFETCH(QString, message);
+    const CliRun run = runCli(args);
+    QCOMPARE(run.exitCode, 2);
+    QVERIFY2(run.err.contains(message), qPrintable(run.err));
+    QVERIFY(run.out.isEmpty());
 }
 
 QTEST_GUILESS_MAIN(TestPower)

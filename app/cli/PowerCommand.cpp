@@ -1,0 +1,354 @@
+// The power subcommand: power and sample size for the planned contrasts of a scheme.
+#include "Commands.h"
+#include "SchemeArguments.h"
+
+#include "Analysis.h"
+#include "Power.h"
+
+#include <QCommandLineParser>
+#include <QJsonArray>
+#include <QJsonDocument>
+
+#include <algorithm>
+#include <cmath>
+
+using namespace Qt::StringLiterals;
+
+namespace cb::cli {
+
+namespace {
+
+const QString kCommand = u"power"_s;
+
+int badInput(Io &io, const QString &message)
+{
+    io.err << "contrast-bench-cli " << kCommand << ": " << message << '\n';
+    return kExitBadInput;
+}
+
+void addPowerOptions(QCommandLineParser &p)
+{
+    p.addOption({u"means"_s, u"Expected mean of each level, in level order."_s, u"m1,m2,..."_s});
+    p.addOption({u"differences"_s, u"Instead of --means: expected difference of each other level from the baseline level."_s, u"d2,d3,..."_s});
+    p.addOption({u"baseline"_s, u"The level --differences are measured from (default: the first level)."_s, u"LEVEL"_s});
+    p.addOption({u"sd"_s, u"Expected common standard deviation within levels."_s, u"S"_s});
+    p.addOption({u"sds"_s, u"Instead of --sd: expected SD of each level (Welch-Satterthwaite df)."_s, u"s1,s2,..."_s});
+    p.addOption({u"ratios"_s, u"Allocation ratios, with --total (instead of --n)."_s, u"r1,r2,..."_s});
+    p.addOption({u"total"_s, u"Total N, split by --ratios (equal groups without them)."_s, u"N"_s});
+    p.addOption({u"alpha"_s, u"Family-wise alpha (default 0.05)."_s, u"A"_s, u"0.05"_s});
+    p.addOption({u"one-sided"_s, u"One-sided tests of psi > 0, in the direction each contrast is written."_s});
+    p.addOption({u"target"_s, u"Target power for the sample-size search (default 0.8)."_s, u"P"_s, u"0.8"_s});
+    p.addOption({u"adjust"_s, u"Adjustment across the contrasts: none, bonferroni or sidak (default none)."_s, u"METHOD"_s, u"none"_s});
+    p.addOption({u"json"_s, u"Print one JSON object instead of the report."_s});
+}
+
+// One number from an option; where names the option.
+Result<double> singleNumber(const QCommandLineParser &p, const QString &name)
+{
+    const QString where = u"--"_s + name;
+    auto values = parseNumberList(p.value(name), where);
+    if (!values)
+        return Result<double>::failure(values.error());
+    if (values->size() != 1)
+        return Result<double>::failure(u"%1: give one number, got %2"_s.arg(where).arg(values->size()));
+    return Result<double>(values->front());
+}
+
+// Fills the means from --means or --differences/--baseline.
+QString readMeans(const QCommandLineParser &p, const QStringList &levels, PowerSettings &s)
+{
+    const bool haveMeans = p.isSet(u"means"_s);
+    const bool haveDifferences = p.isSet(u"differences"_s);
+    if (haveMeans == haveDifferences)
+        return u"give the expected level means with --means, or differences from a baseline with --differences"_s;
+    if (p.isSet(u"baseline"_s) && !haveDifferences)
+        return u"--baseline: only used with --differences"_s;
+    if (haveMeans) {
+        auto means = parseNumberList(p.value(u"means"_s), u"--means"_s);
+        if (!means)
+            return means.error();
+        s.means = means.take();
+        return {};
+    }
+    int baseline = 0;
+    if (p.isSet(u"baseline"_s)) {
+        baseline = int(levels.indexOf(p.value(u"baseline"_s)));
+        if (baseline < 0)
+            return u"--baseline: '%1' is not one of the levels (%2)"_s.arg(p.value(u"baseline"_s), levels.join(u", "_s));
+    }
+    auto differences = parseNumberList(p.value(u"differences"_s), u"--differences"_s);
+    if (!differences)
+        return differences.error();
+    if (differences->size() != size_t(levels.size() - 1))
+        return u"--differences: %1 values for %2 levels; give one for each level other than the baseline '%3' (%4)"_s
+            .arg(differences->size())
+            .arg(levels.size())
+            .arg(levels[baseline])
+            .arg(levels.size() - 1);
+    s.means = meansFromDifferences(*differences, baseline);
+    return {};
+}
+
+QString readSpread(const QCommandLineParser &p, PowerSettings &s)
+{
+    const bool haveSd = p.isSet(u"sd"_s);
+    const bool haveSds = p.isSet(u"sds"_s);
+    if (haveSd && haveSds)
+        return u"--sd and --sds: give a common SD or one per level, not both"_s;
+    if (!haveSd && !haveSds)
+        return u"give the expected SD with --sd, or one per level with --sds"_s;
+    if (haveSd) {
+        auto sd = singleNumber(p, u"sd"_s);
+        if (!sd)
+            return sd.error();
+        s.sd = *sd;
+        return {};
+    }
+    auto sds = parseNumberList(p.value(u"sds"_s), u"--sds"_s);
+    if (!sds)
+        return sds.error();
+    s.sds = sds.take();
+    return {};
+}
+
+// Planned sizes: the scheme's (from --n or the file), or --ratios with --total.
+QString readSizes(const QCommandLineParser &p, const Scheme &scheme, PowerSettings &s)
+{
+    const bool haveRatios = p.isSet(u"ratios"_s);
+    const bool haveTotal = p.isSet(u"total"_s);
+    if (scheme.factor.hasPlannedN()) {
+        if (haveRatios || haveTotal)
+            return u"--%1: the planned sizes are already given (--n or the scheme file); give sizes or ratios with a total, not both"_s
+                .arg(haveRatios ? u"ratios"_s : u"total"_s);
+        s.n = scheme.factor.sizesAsDouble();
+        return {};
+    }
+    if (!haveTotal)
+        return haveRatios ? u"--ratios: give the total N with --total"_s
+                          : u"give planned sizes per level with --n, or a total N with --total (and --ratios)"_s;
+    auto total = singleNumber(p, u"total"_s);
+    if (!total)
+        return total.error();
+    s.total = *total;
+    if (haveRatios) {
+        auto ratios = parseNumberList(p.value(u"ratios"_s), u"--ratios"_s);
+        if (!ratios)
+            return ratios.error();
+        s.ratios = ratios.take();
+    }
+    return {};
+}
+
+QString readTest(const QCommandLineParser &p, PowerSettings &s)
+{
+    auto alpha = singleNumber(p, u"alpha"_s);
+    if (!alpha)
+        return alpha.error();
+    auto target = singleNumber(p, u"target"_s);
+    if (!target)
+        return target.error();
+    const auto adjustment = powerAdjustmentFromId(p.value(u"adjust"_s));
+    if (!adjustment)
+        return u"--adjust: unknown adjustment '%1'; expected none, bonferroni or sidak (Holm's step-down needs the "
+               u"observed p-values and is applied in the data check)"_s.arg(p.value(u"adjust"_s));
+    s.alpha = *alpha;
+    s.target = *target;
+    s.adjustment = *adjustment;
+    s.oneSided = p.isSet(u"one-sided"_s);
+    return {};
+}
+
+// With ratios and no planned sizes, the ratios stand for the sizes wherever the
+// coding depends on them (weighted effect, weighted polynomial, fewer than k - 1 columns).
+void useRatiosAsSizes(const QCommandLineParser &p, Scheme &scheme)
+{
+    if (!p.isSet(u"ratios"_s) || scheme.factor.hasPlannedN())
+        return;
+    auto sizes = parseSizes(splitList(p.value(u"ratios"_s)), scheme.levelCount(), u"--ratios"_s);
+    if (!sizes) // already validated as positive numbers; a failure here leaves the scheme as it is
+        return;
+    scheme.factor.plannedN = sizes.take();
+    const bool weighted = scheme.kind == SchemeKind::WeightedEffect
+                          || (scheme.kind == SchemeKind::Polynomial && scheme.polynomialWeighted);
+    if (!weighted)
+        return;
+    SchemeOptions options;
+    options.reference = scheme.reference;
+    options.polynomialForm = scheme.polynomialForm;
+    options.polynomialWeighted = scheme.polynomialWeighted;
+    if (auto columns = standardColumns(scheme.factor, scheme.kind, options))
+        scheme.columns = columns.take();
+}
+
+QString number(double x)
+{
+    if (!std::isfinite(x))
+        return u"-"_s;
+    return QString::number(x, 'g', 4);
+}
+
+QString degrees(double df)
+{
+    return df == std::floor(df) ? QString::number(qint64(df)) : QString::number(df, 'f', 2);
+}
+
+QString sizesText(const SampleSize &s)
+{
+    if (!s.reachable)
+        return u"not reached"_s;
+    const bool equal = std::adjacent_find(s.perLevel.begin(), s.perLevel.end(), std::not_equal_to<>()) == s.perLevel.end();
+    QStringList items;
+    for (long long v : s.perLevel)
+        items << QString::number(v);
+    const QString per = equal ? u"%1 per level"_s.arg(s.perLevel.front()) : items.join(u", "_s);
+    return u"%1 (N = %2)"_s.arg(per).arg(s.total);
+}
+
+QString neededText(const ContrastPower &c, bool oneSided)
+{
+    if (c.zeroEstimate)
+        return u"none (estimate 0)"_s;
+    if (oneSided && c.estimate < 0.0)
+        return u"none (estimate < 0, one-sided)"_s;
+    return sizesText(c.required);
+}
+
+QString sizesLine(const std::vector<double> &n)
+{
+    QStringList items;
+    double total = 0;
+    for (double v : n) {
+        items << number(v);
+        total += v;
+    }
+    return u"%1 (N = %2)"_s.arg(items.join(u", "_s), number(total));
+}
+
+// Columns padded to their widest cell.
+QString table(const QList<QStringList> &rows)
+{
+    QList<qsizetype> width;
+    for (const QStringList &r : rows)
+        for (qsizetype c = 0; c < r.size(); ++c) {
+            if (width.size() <= c)
+                width << 0;
+            width[c] = std::max(width[c], r[c].size());
+        }
+    QString out;
+    for (const QStringList &r : rows) {
+        QString line;
+        for (qsizetype c = 0; c < r.size(); ++c)
+            line += (c + 1 < r.size() ? r[c].leftJustified(width[c] + 2) : r[c]);
+        out += u"  "_s + line + u'\n';
+    }
+    return out;
+}
+
+void bullets(QString &out, const QString &title, const QStringList &items)
+{
+    if (items.isEmpty())
+        return;
+    out += u'\n' + title + u":\n"_s;
+    for (const QString &i : items)
+        out += u"  - "_s + i + u'\n';
+}
+
+QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerReport &r)
+{
+    QString out;
+    const QString factor = scheme.factor.name.isEmpty() ? u"the factor"_s : u"factor '%1'"_s.arg(scheme.factor.name);
+    out += u"Power for planned contrasts: %1 with %2 levels (%3), %4 coding\n"_s.arg(factor)
+               .arg(r.levelCount)
+               .arg(scheme.factor.levels.join(u", "_s), schemeTitle(scheme.kind));
+    QStringList means;
+    for (int i = 0; i < r.levelCount; ++i)
+        means << u"%1 %2"_s.arg(scheme.factor.levels[i], number(s.means[size_t(i)]));
+    out += u"Expected means: %1\n"_s.arg(means.join(u", "_s));
+    if (s.perLevelSds()) {
+        QStringList sds;
+        for (double v : s.sds)
+            sds << number(v);
+        out += u"SD per level: %1 (Welch\u2013Satterthwaite df for the contrasts)\n"_s.arg(sds.join(u", "_s));
+    } else {
+        out += u"Common SD: %1\n"_s.arg(number(s.sd));
+    }
+    out += u"Planned n: %1\n"_s.arg(sizesLine(r.plannedN));
+    out += u"Alpha %1 %2-sided, adjustment %3: %4 per contrast; target power %5\n"_s.arg(number(r.alpha))
+               .arg(r.oneSided ? u"one"_s : u"two"_s)
+               .arg(powerAdjustmentTitle(r.adjustment))
+               .arg(number(r.perTestAlpha))
+               .arg(number(r.target));
+
+    QList<QStringList> rows{{u"contrast"_s, u"estimate"_s, u"SE"_s, u"effect"_s, u"noncentrality"_s, u"df"_s,
+                             u"power"_s, u"n for target"_s}};
+    for (const ContrastPower &c : r.contrasts)
+        rows << QStringList{c.name, number(c.estimate), number(c.se), number(c.effectSize), number(c.noncentrality),
+                            degrees(c.df), number(c.power), neededText(c, r.oneSided)};
+    out += u'\n' + table(rows);
+
+    const OmnibusPower &o = r.omnibus;
+    out += u"\nOmnibus F-test (df %1 and %2, alpha %3): f = %4, lambda = %5, power %6, n for target %7\n"_s
+               .arg(o.df1)
+               .arg(degrees(o.df2), number(o.alpha), number(o.effectSize), number(o.noncentrality), number(o.power),
+                    o.noncentrality == 0.0 ? u"none (all means equal)"_s : sizesText(o.required));
+
+    QStringList contrastNotes;
+    for (const ContrastPower &c : r.contrasts)
+        for (const QString &n : c.notes)
+            contrastNotes << c.name + u": "_s + n;
+    for (const QString &n : o.notes)
+        contrastNotes << u"omnibus: "_s + n;
+    bullets(out, u"Notes"_s, r.notes + contrastNotes);
+    bullets(out, u"Cautions"_s, r.cautions);
+    return out;
+}
+
+} // namespace
+
+int runPower(const QStringList &args, Io &io)
+{
+    QCommandLineParser p;
+    addSchemeOptions(p);
+    addPowerOptions(p);
+    if (QString e = parseArguments(p, kCommand, args); !e.isEmpty())
+        return badInput(io, e);
+    if (p.isSet(u"help"_s)) {
+        io.out << p.helpText();
+        return kExitOk;
+    }
+    auto loaded = schemeFromOptions(p);
+    if (!loaded)
+        return badInput(io, loaded.error());
+    Scheme &scheme = loaded.value();
+
+    PowerSettings s;
+    for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, s), readTest(p, s)})
+        if (!e.isEmpty())
+            return badInput(io, e);
+    if (QString e = validatePowerSettings(s, scheme.levelCount(), u"--"_s); !e.isEmpty())
+        return badInput(io, e);
+
+    useRatiosAsSizes(p, scheme);
+    const Analysis analysis = analyze(scheme);
+    auto rows = contrastRowsOf(analysis);
+    if (!rows)
+        return badInput(io, rows.error());
+    auto report = computePower(rows->rows, rows->names, s);
+    if (!report)
+        return badInput(io, report.error());
+    if (analysis.dependsOnSizes)
+        report->notes << u"the coding has fewer than k - 1 columns: its hypotheses are least-squares combinations "
+                         u"under the planned sizes and change with them"_s;
+
+    if (p.isSet(u"json"_s)) {
+        QJsonObject o = powerReportToJson(*report);
+        o[u"scheme"_s] = schemeId(scheme.kind);
+        o[u"level_names"_s] = QJsonArray::fromStringList(scheme.factor.levels);
+        io.out << QString::fromUtf8(QJsonDocument(o).toJson(QJsonDocument::Indented));
+    } else {
+        io.out << humanReport(scheme, s, *report);
+    }
+    return kExitOk;
+}
+
+} // namespace cb::cli
