@@ -436,6 +436,11 @@ QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data)
         {u"n"_s, number(fit.totalN)},
         {u"notes"_s, QJsonArray::fromStringList(fit.notes)},
         {u"skipped_rows"_s, QJsonObject{{u"count"_s, double(data.skippedRows)}, {u"first"_s, first}}},
+        {u"data"_s, QJsonObject{{u"source"_s, data.source},
+                                {u"summary_table"_s, data.fromSummaryTable},
+                                {u"weighted"_s, data.weighted},
+                                {u"rows"_s, double(data.records)},
+                                {u"used_rows"_s, double(data.usedRows)}}},
     };
 }
 

@@ -129,7 +129,8 @@ Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const
 
 // {levels: [{name, n, mean, sd}], coefficients: [{name, estimate, se, t, p, p_adjusted,
 //  ci_low, ci_high, hypothesis_estimate, hypothesis}], sigma, df, r_squared, f, f_df1,
-//  f_df2, f_p, omnibus, alpha, adjust, n, skipped_rows: {count, first: [{line, reason}]}}.
+//  f_df2, f_p, omnibus, alpha, adjust, n, notes, skipped_rows: {count, first: [{line, reason}]},
+//  data: {source, summary_table, weighted, rows, used_rows}}.
 // Non-finite numbers are written as null.
 QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data);
 

@@ -1,0 +1,234 @@
+// The fit subcommand: a scheme fitted to a data file, estimates beside their hypotheses.
+#include "Commands.h"
+#include "SchemeArguments.h"
+
+#include "DataFit.h"
+#include "DataReader.h"
+#include "Scheme.h"
+
+#include <QCommandLineParser>
+#include <QJsonDocument>
+
+#include <cmath>
+
+using namespace Qt::StringLiterals;
+
+namespace cb::cli {
+
+namespace {
+
+int badInput(Io &io, const QString &message)
+{
+    io.err << "contrast-bench-cli fit: " << message << '\n';
+    return kExitBadInput;
+}
+
+// Short text for a number: 4 significant digits for statistics, "n/a" when undefined.
+QString num(double x, int digits = 4)
+{
+    if (std::isnan(x))
+        return u"n/a"_s;
+    if (std::isinf(x))
+        return x > 0 ? u"inf"_s : u"-inf"_s;
+    return QString::number(x, 'g', digits);
+}
+
+QString pText(double p)
+{
+    if (std::isnan(p))
+        return u"n/a"_s;
+    if (p < 1e-16)
+        return u"<1e-16"_s;
+    return QString::number(p, 'g', p < 1e-4 ? 2 : 4);
+}
+
+// The data options, read before the scheme's so that --factor names the data column
+// (and with it the factor).
+void addDataOptions(QCommandLineParser &p)
+{
+    p.addOption({u"data"_s, u"The data file: CSV or TSV in long format, or '-' for standard input."_s, u"file"_s});
+    p.addOption({u"factor"_s, u"The data column that holds the levels (name, or number from 1)."_s, u"COL"_s});
+    p.addOption({u"response"_s, u"The data column that holds the measurements (name, or number from 1)."_s, u"COL"_s});
+    p.addOption({u"weight"_s, u"A column of case weights (a row of weight w counts as w rows)."_s, u"COL"_s});
+    p.addOption({u"summary"_s, u"The data file is a summary table with columns level, n, mean, sd."_s});
+    p.addOption({u"delimiter"_s, u"comma, tab, semicolon, bar, or one character (default: detected)."_s, u"NAME"_s});
+    p.addOption({u"header"_s, u"Whether the first row is a header: auto, yes or no (default auto)."_s, u"auto|yes|no"_s});
+    p.addOption({u"map"_s, u"Rename data levels to scheme levels: \"data=scheme,other=scheme2\"."_s, u"pairs"_s});
+    p.addOption({u"alpha"_s, u"Confidence intervals at 1 - alpha (default 0.05)."_s, u"a"_s});
+    p.addOption({u"adjust"_s, u"Adjust the contrasts' p-values: none, bonferroni, holm or sidak (default none)."_s, u"METHOD"_s});
+    p.addOption({u"json"_s, u"Print one JSON object instead of the report."_s});
+}
+
+struct DataArguments
+{
+    char delimiter = 0;
+    HeaderMode header = HeaderMode::Detect;
+    FitOptions fit;
+    LevelMapping mapping;
+};
+
+Result<DataArguments> dataArguments(const QCommandLineParser &p)
+{
+    using R = Result<DataArguments>;
+    DataArguments a;
+    if (!p.isSet(u"data"_s))
+        return R::failure(u"--data: no data file given; name a CSV or TSV file, or '-' for standard input"_s);
+    if (!p.isSet(u"summary"_s)) {
+        for (const QString &opt : {u"factor"_s, u"response"_s})
+            if (p.value(opt).trimmed().isEmpty())
+                return R::failure(u"--%1: missing; name the data column (or give --summary for a summary table)"_s.arg(opt));
+    } else if (p.isSet(u"weight"_s) || p.isSet(u"response"_s)) {
+        return R::failure(u"--%1 cannot be combined with --summary; a summary table has its own columns"_s.arg(
+            p.isSet(u"weight"_s) ? u"weight"_s : u"response"_s));
+    }
+    if (p.isSet(u"delimiter"_s)) {
+        const auto d = delimiterFromName(p.value(u"delimiter"_s));
+        if (!d)
+            return R::failure(u"--delimiter: '%1' is not a delimiter; expected comma, tab, semicolon, bar or one punctuation character"_s
+                                  .arg(p.value(u"delimiter"_s)));
+        a.delimiter = *d;
+    }
+    if (p.isSet(u"header"_s)) {
+        const QString h = p.value(u"header"_s).trimmed().toLower();
+        if (h == u"yes"_s)
+            a.header = HeaderMode::Present;
+        else if (h == u"no"_s)
+            a.header = HeaderMode::Absent;
+        else if (h != u"auto"_s)
+            return R::failure(u"--header: '%1'; expected auto, yes or no"_s.arg(p.value(u"header"_s)));
+    }
+    if (p.isSet(u"alpha"_s)) {
+        bool ok = false;
+        a.fit.alpha = p.value(u"alpha"_s).toDouble(&ok);
+        if (!ok || !(a.fit.alpha > 0.0 && a.fit.alpha < 1.0))
+            return R::failure(u"--alpha: '%1'; expected a number between 0 and 1, such as 0.05"_s.arg(p.value(u"alpha"_s)));
+    }
+    if (p.isSet(u"adjust"_s)) {
+        const auto m = pAdjustFromId(p.value(u"adjust"_s));
+        if (!m)
+            return R::failure(u"--adjust: '%1'; expected none, bonferroni, holm or sidak"_s.arg(p.value(u"adjust"_s)));
+        a.fit.adjust = *m;
+    }
+    if (p.isSet(u"map"_s)) {
+        auto m = parseLevelMapping(p.value(u"map"_s));
+        if (!m)
+            return R::failure(u"--map: "_s + m.error());
+        a.mapping = m.take();
+    }
+    return a;
+}
+
+Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a)
+{
+    if (p.isSet(u"summary"_s))
+        return readSummaryTable(p.value(u"data"_s), SummaryReadOptions{a.delimiter, a.header});
+    DataReadOptions o;
+    o.factorColumn = p.value(u"factor"_s);
+    o.responseColumn = p.value(u"response"_s);
+    o.weightColumn = p.value(u"weight"_s);
+    o.delimiter = a.delimiter;
+    o.header = a.header;
+    return readLevelData(p.value(u"data"_s), o);
+}
+
+QString pad(const QString &s, qsizetype width)
+{
+    return s.leftJustified(width);
+}
+
+void printReport(const Scheme &scheme, const DataSummary &data, const FitResult &fit, Io &io)
+{
+    QTextStream &o = io.out;
+    o << "Fit of the " << schemeTitle(scheme.kind) << " coding to " << data.source;
+    if (data.fromSummaryTable)
+        o << " (summary table)\n";
+    else
+        o << " (levels from column '" << data.columns.value(data.factorIndex) << "', response '"
+          << data.columns.value(data.responseIndex) << "'" << (data.weighted ? u", weighted"_s : QString()) << ")\n";
+    if (!data.fromSummaryTable)
+        o << data.records << " rows read, " << data.usedRows << " used, " << data.skippedRows << " left out.\n";
+    o << '\n';
+
+    qsizetype w = 8;
+    for (const QString &l : fit.levels)
+        w = std::max(w, l.size() + 2);
+    o << pad(u"Level"_s, w) << pad(u"n"_s, 10) << pad(u"mean"_s, 12) << u"sd"_s << '\n';
+    for (size_t j = 0; j < fit.levelStats.size(); ++j) {
+        const RunningStats &s = fit.levelStats[j];
+        o << pad(fit.levels.value(qsizetype(j)), w) << pad(num(s.n, 10), 10) << pad(num(s.mean, 6), 12) << num(s.sd(), 5)
+          << '\n';
+    }
+    o << '\n';
+
+    qsizetype cw = 13;
+    for (const FitCoefficient &c : fit.coefficients)
+        cw = std::max(cw, c.name.size() + 2);
+    const QString ci = u"%1% CI"_s.arg(100.0 * (1.0 - fit.alpha), 0, 'g', 4);
+    o << pad(u"Coefficient"_s, cw) << pad(u"estimate"_s, 11) << pad(u"H x means"_s, 11) << pad(u"SE"_s, 10)
+      << pad(u"t"_s, 9) << pad(u"p"_s, 10);
+    if (fit.adjust != PAdjust::None)
+        o << pad(u"p (%1)"_s.arg(pAdjustId(fit.adjust)), 17);
+    o << ci << '\n';
+    for (const FitCoefficient &c : fit.coefficients) {
+        o << pad(c.name, cw) << pad(num(c.estimate, 6), 11) << pad(num(c.hypothesisEstimate, 6), 11) << pad(num(c.se), 10)
+          << pad(num(c.t), 9) << pad(pText(c.p), 10);
+        if (fit.adjust != PAdjust::None)
+            o << pad(c.inFamily ? pText(c.pAdjusted) : u"-"_s, 17);
+        o << '[' << num(c.ciLow, 5) << ", " << num(c.ciHigh, 5) << ']' << (c.agrees ? u""_s : u"  (differs)"_s) << '\n';
+        if (!c.hypothesis.isEmpty())
+            o << pad(QString(), cw) << "estimates " << c.hypothesis << '\n';
+    }
+    o << '\n';
+    o << "Residual SD " << num(fit.sigma) << " on " << num(fit.df, 10) << " df; R squared " << num(fit.rSquared)
+      << (fit.centred ? u""_s : u" (about 0)"_s) << '\n';
+    o << "F(" << num(fit.fDf1, 10) << ", " << num(fit.fDf2, 10) << ") = " << num(fit.f) << ", p = " << pText(fit.fP)
+      << "; tests that " << fit.omnibusHypothesis << '\n';
+    for (const QString &n : fit.notes)
+        o << "Note: " << n << '\n';
+    if (data.skippedRows > 0) {
+        o << "\nRows left out (" << data.skippedRows << "):\n";
+        for (const RowProblem &r : data.skipped)
+            o << "  line " << r.line << ": " << r.message << '\n';
+        if (data.skippedRows > qint64(data.skipped.size()))
+            o << "  and " << (data.skippedRows - qint64(data.skipped.size())) << " more\n";
+    }
+}
+
+} // namespace
+
+int runFit(const QStringList &args, Io &io)
+{
+    QCommandLineParser p;
+    addDataOptions(p);
+    // The scheme options define --factor too (the factor's name); the data column added
+    // above keeps the name, and it names the factor as well. Qt's warning about the
+    // second definition is expected, so it is silenced for this one call.
+    const QtMessageHandler previous = qInstallMessageHandler([](QtMsgType, const QMessageLogContext &, const QString &) {});
+    addSchemeOptions(p);
+    qInstallMessageHandler(previous);
+    if (QString e = parseArguments(p, u"fit"_s, args); !e.isEmpty())
+        return badInput(io, e);
+    if (p.isSet(u"help"_s)) {
+        io.out << p.helpText();
+        return kExitOk;
+    }
+    auto arguments = dataArguments(p);
+    if (!arguments)
+        return badInput(io, arguments.error());
+    auto scheme = schemeFromOptions(p);
+    if (!scheme)
+        return badInput(io, scheme.error());
+    auto data = readData(p, *arguments);
+    if (!data)
+        return badInput(io, data.error());
+    auto fit = fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
+    if (!fit)
+        return badInput(io, fit.error());
+    if (p.isSet(u"json"_s))
+        io.out << QString::fromUtf8(QJsonDocument(fitResultToJson(*fit, *data)).toJson(QJsonDocument::Indented));
+    else
+        printReport(*scheme, *data, *fit, io);
+    return kExitOk;
+}
+
+} // namespace cb::cli
