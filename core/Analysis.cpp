@@ -316,7 +316,7 @@ void diagnosticFindings(Analysis &a)
     for (int j = 0; j < m; ++j)
         if (!a.sumsToZero[size_t(j)])
             addFinding(a, S::Info, T::ColumnSum,
-                       u"%1 sums to %2, not 0: its coefficient is not a pure comparison unless the intercept absorbs it"_s
+                       u"%1 sums to %2, not 0: it is not a centred contrast, so the intercept is not the unweighted grand mean"_s
                            .arg(columnLabel(a, j), a.columnSums[size_t(j)].display()), j);
     // Identical columns.
     for (int i = 0; i < m; ++i)

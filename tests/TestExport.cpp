@@ -7,6 +7,7 @@
 // output is lexed by the rules of each language and checked for structure.
 // Golden files: tests/data/golden/ (see README.md there for regenerating).
 #include "Export.h"
+#include "SchemeFile.h"
 
 #include <QDir>
 #include <QFile>
@@ -783,6 +784,10 @@ private slots:
     void latexIsWellFormed();
     void markdownIsWellFormed();
     void displayNamesStayUnique();
+    void cliExportsSchemeFile_data();
+    void cliExportsSchemeFile();
+    void cliRejects_data();
+    void cliRejects();
 };
 
 void TestExport::formatsHaveIdsTitlesAndSuffixes()
@@ -1298,6 +1303,86 @@ void TestExport::displayNamesStayUnique()
     // In code the names are kept exactly, so nothing is renamed.
     const QString py = exported(t, ExportFormat::Python, true);
     QVERIFY2(py.contains(u"\"a\\nb\""_s) && !py.contains(u"(2)"_s), qPrintable(py));
+}
+
+QString cliPath()
+{
+    return QStringLiteral(CB_BINARY_DIR) + u"/app/contrast-bench-cli"_s;
+}
+
+// The built command line reads a scheme file with awkward level names and
+// writes the same text as the library, to standard output or through -o.
+void TestExport::cliExportsSchemeFile_data()
+{
+    QTest::addColumn<QString>("format");
+    QTest::addColumn<bool>("toFile");
+    QTest::newRow("csv to stdout") << u"csv"_s << false;
+    QTest::newRow("python to file") << u"python"_s << true;
+    QTest::newRow("latex to file") << u"latex"_s << true;
+}
+
+void TestExport::cliExportsSchemeFile()
+{
+    QFETCH(QString, format);
+    QFETCH(bool, toFile);
+    QVERIFY2(QFile::exists(cliPath()), qPrintable(u"build contrast-bench-cli first: "_s + cliPath()));
+    QTemporaryDir dir;
+    QVERIFY(dir.isValid());
+    Scheme s = irrigationScheme();
+    s.factor.levels = {u"none \"; rm -rf /; \""_s, u"$weekly"_s, u"twice\nweekly"_s, u"daily é"_s};
+    const QString schemePath = dir.filePath(u"scheme.json"_s);
+    const QString saveError = saveScheme(s, schemePath);
+    QVERIFY2(saveError.isEmpty(), qPrintable(saveError));
+    auto loaded = loadScheme(schemePath);
+    QVERIFY2(loaded.ok(), qPrintable(loaded.error()));
+    auto table = codingTable(*loaded);
+    QVERIFY2(table.ok(), qPrintable(table.error()));
+    const ExportFormat f = *exportFormatFromId(format);
+    const QString expected = exported(*table, f, true);
+
+    QStringList args{u"export"_s, u"--file"_s, schemePath, u"--format"_s, format, u"--exact"_s};
+    const QString outPath = dir.filePath(u"out."_s + exportFormatSuffix(f));
+    if (toFile)
+        args << u"-o"_s << outPath;
+    const Run cli = run(cliPath(), args, dir.path(), 60000);
+    QVERIFY2(cli.exitCode == 0, cli.err.constData());
+    QByteArray written = cli.out;
+    if (toFile) {
+        QVERIFY(cli.out.isEmpty());
+        QFile file(outPath);
+        QVERIFY(file.open(QIODevice::ReadOnly));
+        written = file.readAll();
+    }
+    QCOMPARE(QString::fromUtf8(written), expected);
+}
+
+void TestExport::cliRejects_data()
+{
+    QTest::addColumn<QStringList>("args");
+    QTest::addColumn<int>("exitCode");
+    QTest::addColumn<QString>("messagePart");
+    const QStringList scheme{u"--levels"_s, u"a,b,c"_s, u"--scheme"_s, u"treatment"_s};
+    QTest::newRow("unknown format") << scheme + QStringList{u"--format"_s, u"xls"_s} << 2 << u"--format: unknown format 'xls'"_s;
+    QTest::newRow("missing format") << scheme << 2 << u"--format: missing"_s;
+    QTest::newRow("unknown matrix") << scheme + QStringList{u"--format"_s, u"csv"_s, u"--matrix"_s, u"both"_s} << 2
+                                    << u"--matrix: unknown matrix 'both'"_s;
+    QTest::newRow("rank deficient hypotheses")
+        << QStringList{u"--levels"_s, u"a,b,c"_s, u"--columns"_s, u"1,0,-1;2,0,-2"_s, u"--format"_s, u"r"_s, u"--matrix"_s, u"hypotheses"_s}
+        << 2 << u"--matrix hypotheses: cannot export the hypotheses: the coding is rank deficient"_s;
+    QTest::newRow("unwritable output") << scheme + QStringList{u"--format"_s, u"csv"_s, u"-o"_s, u"/nonexistent-dir/x.csv"_s} << 1
+                                       << u"/nonexistent-dir/x.csv"_s;
+}
+
+void TestExport::cliRejects()
+{
+    QFETCH(QStringList, args);
+    QFETCH(int, exitCode);
+    QFETCH(QString, messagePart);
+    QVERIFY2(QFile::exists(cliPath()), qPrintable(u"build contrast-bench-cli first: "_s + cliPath()));
+    const Run cli = run(cliPath(), QStringList{u"export"_s} + args, QDir::tempPath(), 60000);
+    QCOMPARE(cli.exitCode, exitCode);
+    QVERIFY2(QString::fromUtf8(cli.err).contains(messagePart), cli.err.constData());
+    QVERIFY(cli.out.isEmpty());
 }
 
 QTEST_GUILESS_MAIN(TestExport)

@@ -1,0 +1,180 @@
+// The command line: analyze and design, JSON keys, exit codes and messages.
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QJsonObject>
+#include <QProcess>
+#include <QTemporaryDir>
+#include <QTest>
+
+using namespace Qt::StringLiterals;
+
+namespace {
+
+struct Run
+{
+    int exitCode = -1;
+    QByteArray out;
+    QString err;
+};
+
+Run cli(const QStringList &args)
+{
+    QProcess p;
+    p.start(QString::fromUtf8(CB_BINARY_DIR) + u"/app/contrast-bench-cli"_s, args);
+    p.waitForFinished(60000);
+    return Run{p.exitCode(), p.readAllStandardOutput(), QString::fromUtf8(p.readAllStandardError())};
+}
+
+QJsonObject json(const Run &r)
+{
+    return QJsonDocument::fromJson(r.out).object();
+}
+
+} // namespace
+
+class TestCli : public QObject
+{
+    Q_OBJECT
+private slots:
+    void analyzeJsonHasEveryKey();
+    void analyzeHelmertValues();
+    void analyzeRankDeficient();
+    void customColumns();
+    void designReverse();
+    void fileRoundTrip();
+    void badInput_data();
+    void badInput();
+    void textReport();
+};
+
+void TestCli::analyzeJsonHasEveryKey()
+{
+    const Run r = cli({u"analyze"_s, u"--levels"_s, u"a,b,c"_s, u"--scheme"_s, u"sum"_s, u"--json"_s});
+    QCOMPARE(r.exitCode, 0);
+    const QJsonObject o = json(r);
+    for (const char16_t *key : {u"levels", u"coding", u"coding_exact", u"hypotheses", u"hypotheses_exact", u"hypothesis_text", u"rank",
+                                u"full_rank", u"column_sums", u"orthogonal", u"orthogonal_in_design", u"condition_number",
+                                u"condition_indices", u"vif", u"warnings"})
+        QVERIFY2(o.contains(QString::fromUtf16(key)), qPrintable(QString::fromUtf16(key)));
+    QCOMPARE(o[u"coding"_s].toArray().size(), 3);
+    QCOMPARE(o[u"coding"_s].toArray()[2].toArray()[0].toDouble(), -1.0); // the last level is the base coded -1
+    QCOMPARE(o[u"hypotheses_exact"_s].toArray()[1].toArray()[0].toString(), u"2/3"_s);
+    QCOMPARE(o[u"hypotheses_exact"_s].toArray()[1].toArray()[1].toString(), u"-1/3"_s);
+    QCOMPARE(o[u"rank"_s].toInt(), 3);
+    QVERIFY(o[u"full_rank"_s].toBool());
+}
+
+void TestCli::analyzeHelmertValues()
+{
+    const Run r = cli({u"analyze"_s, u"--levels"_s, u"p,q,r,s"_s, u"--scheme"_s, u"helmert"_s, u"--json"_s});
+    QCOMPARE(r.exitCode, 0);
+    const QJsonObject o = json(r);
+    QCOMPARE(o[u"hypothesis_text"_s].toArray()[1].toString(), u"b1: mean(p) - mean(q, r, s) = 0"_s);
+    QCOMPARE(o[u"coding_exact"_s].toArray()[0].toArray()[0].toString(), u"3/4"_s);
+    QCOMPARE(o[u"condition_number"_s].toDouble(), 1.0);
+    QVERIFY(o[u"orthogonal"_s].toArray()[0].toArray()[1].toBool());
+}
+
+void TestCli::analyzeRankDeficient()
+{
+    const Run r = cli({u"analyze"_s, u"--levels"_s, u"a,b,c"_s, u"--columns"_s, u"1,0,0;0,1,0;0,0,1"_s, u"--json"_s});
+    QCOMPARE(r.exitCode, 0);
+    const QJsonObject o = json(r);
+    QCOMPARE(o[u"rank"_s].toInt(), 3);
+    QVERIFY(!o[u"full_rank"_s].toBool());
+    QVERIFY(o[u"hypotheses"_s].isNull());
+    QVERIFY(o[u"condition_number"_s].isNull());
+    QCOMPARE(o[u"dependencies"_s].toArray()[0].toString(), u"c3 = (Intercept) - c1 - c2"_s);
+    QVERIFY(o[u"warnings"_s].toArray()[0].toString().contains(u"rank 3 of 4"_s));
+}
+
+void TestCli::customColumns()
+{
+    const Run r = cli({u"analyze"_s, u"--levels"_s, u"a,b,c"_s, u"--columns"_s, u"-1, 1/2, 0.5; 0, \u22121, 1"_s, u"--n"_s, u"10,20,30"_s, u"--json"_s});
+    QCOMPARE(r.exitCode, 0);
+    const QJsonObject o = json(r);
+    QCOMPARE(o[u"coding_exact"_s].toArray()[1].toArray()[1].toString(), u"-1"_s);
+    QVERIFY(o[u"orthogonal"_s].toArray()[0].toArray()[1].toBool());          // 0 - 1/2 + 1/2 = 0
+    QVERIFY(!o[u"orthogonal_in_design"_s].toArray()[0].toArray()[1].toBool()); // not under n = 10, 20, 30
+}
+
+void TestCli::designReverse()
+{
+    const Run r = cli({u"design"_s, u"--levels"_s, u"none,low,high"_s, u"--hypotheses"_s, u"-1,1/2,1/2;0,-1,1"_s, u"--json"_s});
+    QCOMPARE(r.exitCode, 0);
+    const QJsonObject o = json(r);
+    const QJsonArray h = o[u"hypotheses_exact"_s].toArray();
+    QCOMPARE(h[1].toArray()[0].toString(), u"-1"_s);
+    QCOMPARE(h[1].toArray()[1].toString(), u"1/2"_s);
+    QCOMPARE(h[2].toArray()[2].toString(), u"1"_s);
+    // The coding that tests them: helmert-like, exact.
+    QCOMPARE(o[u"coding_exact"_s].toArray()[0].toArray()[0].toString(), u"-2/3"_s);
+}
+
+void TestCli::fileRoundTrip()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"s.json"_s);
+    QFile f(path);
+    QVERIFY(f.open(QIODevice::WriteOnly));
+    f.write(R"({"format": "contrast-bench-scheme", "version": 1, "factor": {"name": "x", "levels": ["a", "b", "c"]},
+               "scheme": {"kind": "custom"}, "columns": [{"name": "ab", "weights": ["1", "-1", "0"]}]})");
+    f.close();
+    const Run r = cli({u"analyze"_s, u"--file"_s, path, u"--json"_s});
+    QCOMPARE(r.exitCode, 0);
+    QVERIFY(json(r)[u"depends_on_sizes"_s].toBool());
+    const Run bad = cli({u"analyze"_s, u"--file"_s, path, u"--scheme"_s, u"sum"_s});
+    QCOMPARE(bad.exitCode, 2);
+    QVERIFY(bad.err.contains(u"--scheme cannot be combined with --file"_s));
+}
+
+void TestCli::badInput_data()
+{
+    QTest::addColumn<QStringList>("args");
+    QTest::addColumn<QString>("message");
+    QTest::newRow("no command") << QStringList{} << u"Usage: contrast-bench-cli"_s;
+    QTest::newRow("unknown command") << QStringList{u"frobnicate"_s} << u"unknown command 'frobnicate'"_s;
+    QTest::newRow("unknown option") << QStringList{u"analyze"_s, u"--levls"_s, u"a,b"_s} << u"Unknown option 'levls'"_s;
+    QTest::newRow("neither file nor levels") << QStringList{u"analyze"_s} << u"give either --file or --levels"_s;
+    QTest::newRow("one level") << QStringList{u"analyze"_s, u"--levels"_s, u"a"_s, u"--scheme"_s, u"sum"_s} << u"--levels: a factor needs at least 2 levels, got 1"_s;
+    QTest::newRow("duplicate level") << QStringList{u"analyze"_s, u"--levels"_s, u"a,b,a"_s, u"--scheme"_s, u"sum"_s} << u"level 3 repeats the name 'a'"_s;
+    QTest::newRow("unknown reference") << QStringList{u"analyze"_s, u"--levels"_s, u"a,b"_s, u"--scheme"_s, u"treatment"_s, u"--reference"_s, u"z"_s}
+                                       << u"--reference: 'z' is not one of the levels (a, b)"_s;
+    QTest::newRow("reference for helmert") << QStringList{u"analyze"_s, u"--levels"_s, u"a,b"_s, u"--scheme"_s, u"helmert"_s, u"--reference"_s, u"a"_s}
+                                           << u"--reference: the helmert scheme has no reference level"_s;
+    QTest::newRow("bad weight") << QStringList{u"analyze"_s, u"--levels"_s, u"a,b"_s, u"--columns"_s, u"1,abc"_s}
+                                << u"--columns: column 1, level 2 ('b'): weight 'abc' is not a number"_s;
+    QTest::newRow("short column") << QStringList{u"analyze"_s, u"--levels"_s, u"a,b,c"_s, u"--columns"_s, u"1,-1"_s}
+                                  << u"--columns: column 1 has 2 weights for 3 levels; give one per level"_s;
+    QTest::newRow("bad n") << QStringList{u"analyze"_s, u"--levels"_s, u"a,b"_s, u"--scheme"_s, u"sum"_s, u"--n"_s, u"5,0"_s}
+                           << u"--n, item 2: '0' is not a positive size"_s;
+    QTest::newRow("n count") << QStringList{u"analyze"_s, u"--levels"_s, u"a,b"_s, u"--scheme"_s, u"sum"_s, u"--n"_s, u"5"_s}
+                             << u"--n: 1 sizes for 2 levels; give one per level"_s;
+    QTest::newRow("missing file") << QStringList{u"analyze"_s, u"--file"_s, u"/no/such.json"_s} << u"/no/such.json: cannot open the file"_s;
+    QTest::newRow("design needs rows") << QStringList{u"design"_s, u"--levels"_s, u"a,b"_s} << u"give --levels and --hypotheses"_s;
+    QTest::newRow("design row sum") << QStringList{u"design"_s, u"--levels"_s, u"a,b"_s, u"--hypotheses"_s, u"1,1"_s}
+                                    << u"hypotheses: row 1 sums to 2; with an intercept each comparison must sum to 0"_s;
+    QTest::newRow("design bad weight") << QStringList{u"design"_s, u"--levels"_s, u"a,b"_s, u"--hypotheses"_s, u"1,1/0"_s}
+                                       << u"--hypotheses: row 1, level 2 ('b'): weight '1/0' divides by zero"_s;
+}
+
+void TestCli::badInput()
+{
+    QFETCH(QStringList, args);
+    QFETCH(QString, message);
+    const Run r = cli(args);
+    QCOMPARE(r.exitCode, 2);
+    QVERIFY2(r.err.contains(message), qPrintable(r.err));
+}
+
+void TestCli::textReport()
+{
+    const Run r = cli({u"analyze"_s, u"--levels"_s, u"none,weekly,twice"_s, u"--scheme"_s, u"treatment"_s});
+    QCOMPARE(r.exitCode, 0);
+    const QString text = QString::fromUtf8(r.out);
+    QVERIFY(text.contains(u"b1: mean(weekly) - mean(none) = 0"_s));
+    QVERIFY(text.contains(u"rank 3 of 3 (full rank); exact arithmetic"_s));
+}
+
+QTEST_GUILESS_MAIN(TestCli)
+#include "TestCli.moc"
