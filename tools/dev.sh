@@ -1,0 +1,69 @@
+#!/usr/bin/env bash
+# Contrast Bench developer entry point (Debian 12).
+#   bash tools/dev.sh run    install what is missing, build, open the workbench on a demo study
+#   bash tools/dev.sh test   install what is missing, build, run every test (what CI runs)
+#   bash tools/dev.sh deps   only install the packages
+# Environment: BUILD_DIR (default build/dev), JOBS (default: number of cores).
+set -euo pipefail
+cd "$(dirname "$0")/.."
+
+PACKAGES=(
+  build-essential cmake ninja-build pkg-config git
+  qt6-base-dev qt6-charts-dev qt6-svg-dev libgl-dev
+  libeigen3-dev libboost-dev libboost-math-dev libgmp-dev
+  libbenchmark-dev
+  python3-numpy python3-scipy python3-pandas
+  clang libclang-rt-14-dev
+  xvfb xauth fonts-dejavu-core
+)
+
+as_root() {
+  if [ "$(id -u)" -eq 0 ]; then "$@"; else sudo "$@"; fi
+}
+
+deps() {
+  local missing=()
+  for p in "${PACKAGES[@]}"; do
+    dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed" || missing+=("$p")
+  done
+  if [ ${#missing[@]} -gt 0 ]; then
+    echo "Installing: ${missing[*]}"
+    as_root apt-get update -qq
+    DEBIAN_FRONTEND=noninteractive as_root apt-get install -y -qq --no-install-recommends "${missing[@]}"
+  fi
+}
+
+BUILD_DIR=${BUILD_DIR:-build/dev}
+JOBS=${JOBS:-$(nproc)}
+
+build() {
+  cmake -S . -B "$BUILD_DIR" -G Ninja -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCB_WERROR=ON "$@"
+  cmake --build "$BUILD_DIR" -j "$JOBS"
+}
+
+case "${1:-}" in
+  deps)
+    deps
+    ;;
+  run)
+    deps
+    build
+    if [ -x "$BUILD_DIR/app/contrast-bench" ]; then
+      if [ -z "${DISPLAY:-}${WAYLAND_DISPLAY:-}" ]; then
+        echo "No display: starting the window under Xvfb (close it with Ctrl+C)."
+        exec xvfb-run -a "$BUILD_DIR/app/contrast-bench" --demo irrigation
+      fi
+      exec "$BUILD_DIR/app/contrast-bench" --demo irrigation
+    fi
+    exec "$BUILD_DIR/app/contrast-bench-cli" analyze --file resources/demos/irrigation.json
+    ;;
+  test)
+    deps
+    build
+    QT_QPA_PLATFORM=offscreen ctest --test-dir "$BUILD_DIR" --output-on-failure -j "$JOBS"
+    ;;
+  *)
+    sed -n '2,7p' "$0"
+    exit 2
+    ;;
+esac
