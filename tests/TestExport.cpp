@@ -770,6 +770,7 @@ private slots:
     void codingTableRejectsShortColumn();
     void hypothesisTableFromAnalysis();
     void hypothesisTableRejectsRankDeficient();
+    void analyzeAgreesWithHandWorkedHypotheses();
     void goldenFiles_data();
     void goldenFiles();
     void csvRoundTrip_data();
@@ -934,6 +935,20 @@ void TestExport::hypothesisTableRejectsRankDeficient()
     QVERIFY(!r.ok());
     QVERIFY2(r.error().contains(u"rank deficient (rank 3, 4 coefficients)"_s), qPrintable(r.error()));
     QVERIFY2(r.error().contains(u"daily_vs_twice = 2 frequent_vs_weekly"_s), qPrintable(r.error()));
+}
+
+// The hand-worked hypotheses used above are what the core's analysis derives.
+void TestExport::analyzeAgreesWithHandWorkedHypotheses()
+{
+    auto fromAnalysis = hypothesisTable(analyze(irrigationScheme()));
+    QVERIFY2(fromAnalysis.ok(), qPrintable(fromAnalysis.error()));
+    const ExportTable byHand = hypothesisTable(irrigationAnalysis()).value();
+    QCOMPARE(fromAnalysis->rowNames, byHand.rowNames);
+    QCOMPARE(fromAnalysis->columnNames, byHand.columnNames);
+    for (size_t i = 0; i < byHand.cells.size(); ++i) {
+        for (size_t j = 0; j < byHand.cells[i].size(); ++j)
+            QCOMPARE(fromAnalysis->cells[i][j].rational(), byHand.cells[i][j].rational());
+    }
 }
 
 // Golden files: the coding matrix written with exact fractions and the
@@ -1305,10 +1320,12 @@ void TestExport::displayNamesStayUnique()
     QVERIFY2(py.contains(u"\"a\\nb\""_s) && !py.contains(u"(2)"_s), qPrintable(py));
 }
 
+namespace {
 QString cliPath()
 {
     return QStringLiteral(CB_BINARY_DIR) + u"/app/contrast-bench-cli"_s;
 }
+} // namespace
 
 // The built command line reads a scheme file with awkward level names and
 // writes the same text as the library, to standard output or through -o.
