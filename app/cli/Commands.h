@@ -20,6 +20,7 @@ struct Io
 // subcommand word, e.g. {"--levels", "a,b,c", "--json"}.
 int runAnalyze(const QStringList &args, Io &io);
 int runDesign(const QStringList &args, Io &io);
+int runExport(const QStringList &args, Io &io);
 int runFit(const QStringList &args, Io &io);
 int runPower(const QStringList &args, Io &io);
 

@@ -22,6 +22,7 @@ struct Subcommand
 const Subcommand kSubcommands[] = {
     {u"analyze", runAnalyze, u"what a coding implies: hypotheses, sums, orthogonality, collinearity"},
     {u"design", runDesign, u"the coding that tests given hypotheses (weights on level means)"},
+    {u"export", runExport, u"the coding or hypothesis matrix as CSV, C++, R, Python, Julia, MATLAB, LaTeX or Markdown"},
     {u"fit", runFit, u"fit a coding to a data file; estimates beside the comparisons they should be"},
     {u"power", runPower, u"power and sample size for each planned contrast and the omnibus F-test"},
 };
