@@ -3,10 +3,12 @@
 #include "Analysis.h"
 #include "Power.h"
 #include "Scheme.h"
+#include "SchemeFile.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QProcess>
+#include <QTemporaryDir>
 #include <QTest>
 
 #include <algorithm>
@@ -175,6 +177,7 @@ private slots:
     void cautionsAreProvided();
     void commandLineJson();
     void commandLineReport();
+    void commandLineReadsSchemeFile();
     void commandLineRejectsInput_data();
     void commandLineRejectsInput();
 };
@@ -980,6 +983,51 @@ void TestPower::commandLineReport()
     QVERIFY(run.out.contains(u"Holm's step-down procedure"_s));
 }
 
+// A scheme file with planned sizes 10, 20, 30: the command line plans with them
+// (df = 60 - 3), and refuses a --total beside them.
+void TestPower::commandLineReadsSchemeFile()
+{
+    Factor f;
+    f.name = u"dose"_s;
+    f.levels = {u"none"_s, u"low"_s, u"high"_s};
+    f.plannedN = {10, 20, 30};
+    const auto scheme = makeScheme(f, SchemeKind::Helmert);
+    QVERIFY2(scheme.ok(), qPrintable(scheme.error()));
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"dose.json"_s);
+    QCOMPARE(saveScheme(*scheme, path), QString());
+
+    const QStringList args = {u"--file"_s, path, u"--means"_s, u"0,0.4,0.9"_s, u"--sd"_s, u"1.2"_s};
+    const CliRun run = runCli(args + QStringList{u"--json"_s});
+    QVERIFY2(run.exitCode == 0, qPrintable(run.err));
+    const QJsonObject o = QJsonDocument::fromJson(run.out.toUtf8()).object();
+    QCOMPARE(o[u"planned_total"_s].toDouble(), 60.0);
+    const QJsonArray contrasts = o[u"contrasts"_s].toArray();
+    QCOMPARE(contrasts.size(), 2);
+    QCOMPARE(contrasts[0].toObject()[u"df"_s].toDouble(), 57.0);
+
+    PowerSettings s;
+    s.means = {0.0, 0.4, 0.9};
+    s.sd = 1.2;
+    s.n = {10, 20, 30};
+    const auto rows = contrastRowsOf(analyze(*scheme));
+    QVERIFY(rows.ok());
+    const auto r = computePower(rows->rows, rows->names, s);
+    QVERIFY(r.ok());
+    for (int c = 0; c < 2; ++c) {
+        QCOMPARE(contrasts[c].toObject()[u"name"_s].toString(), r->contrasts[size_t(c)].name);
+        QCOMPARE(contrasts[c].toObject()[u"power"_s].toDouble(), r->contrasts[size_t(c)].power);
+        // Sizes keep the planned proportions 1 : 2 : 3.
+        const QJsonArray n = contrasts[c].toObject()[u"n_required"_s].toArray();
+        QCOMPARE(n[1].toInteger(), 2 * n[0].toInteger());
+        QCOMPARE(n[2].toInteger(), 3 * n[0].toInteger());
+    }
+
+    const CliRun clash = runCli(args + QStringList{u"--total"_s, u"90"_s});
+    QCOMPARE(clash.exitCode, 2);
+    QVERIFY2(clash.err.contains(u"--total: the planned sizes are already given (--n or the scheme file)"_s), qPrintable(clash.err));
+}
+
 void TestPower::commandLineRejectsInput_data()
 {
     QTest::addColumn<QStringList>("args");
@@ -1015,7 +1063,7 @@ void TestPower::commandLineRejectsInput_data()
     QTest::newRow("unknown adjustment") << ok + QStringList{u"--adjust"_s, u"holm"_s}
                                         << u"--adjust: unknown adjustment 'holm'; expected none, bonferroni or sidak"_s;
     QTest::newRow("differences count") << levels + sizes + QStringList{u"--differences"_s, u"1"_s, u"--sd"_s, u"1"_s}
-                                       << u"--differences: 1 values for 3 levels; give one for each level other than the baseline 'a' (2)"_s;
+                                       << u"--differences: 1 value(s) for 3 levels; give one for each level other than the baseline 'a' (2)"_s;
     QTest::newRow("unknown baseline") << levels + sizes + QStringList{u"--differences"_s, u"1,2"_s, u"--baseline"_s, u"z"_s, u"--sd"_s, u"1"_s}
                                       << u"--baseline: 'z' is not one of the levels (a, b, c)"_s;
     QTest::newRow("ratio zero") << levels + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1"_s, u"--ratios"_s, u"1,0,1"_s, u"--total"_s, u"30"_s}

@@ -80,7 +80,7 @@ QString readMeans(const QCommandLineParser &p, const QStringList &levels, PowerS
     if (!differences)
         return differences.error();
     if (differences->size() != size_t(levels.size() - 1))
-        return u"--differences: %1 values for %2 levels; give one for each level other than the baseline '%3' (%4)"_s
+        return u"--differences: %1 value(s) for %2 levels; give one for each level other than the baseline '%3' (%4)"_s
             .arg(differences->size())
             .arg(levels.size())
             .arg(levels[baseline])
