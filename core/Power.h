@@ -76,7 +76,7 @@ struct ContrastPower
     bool welch = false;
     double alpha = 0.0;            // per-test alpha after the adjustment
     double power = 0.0;            // at the planned sizes
-    SampleSize required;           // smallest sizes reaching the target
+    SampleSize required;           // smallest sizes reaching the target; not searched when psi is 0, or negative one-sided
     bool zeroEstimate = false;     // psi is 0: power equals alpha at every n
     bool fewerThanOmnibus = false; // reaches the target with a smaller total than the omnibus test
     QStringList notes;
