@@ -1,5 +1,7 @@
 #include "AnalysisReport.h"
 
+#include "Design.h"
+
 #include <cmath>
 
 using namespace Qt::StringLiterals;
@@ -146,6 +148,28 @@ QString analysisReport(const Scheme &s, const Analysis &a)
             out += u"  [%1] %2\n"_s.arg(tag, f.message);
         }
     }
+    return out;
+}
+
+QString designReport(const Design &d, const DesignAnalysis &da)
+{
+    QString out;
+    QStringList factors;
+    for (const Scheme &s : d.factors)
+        factors << u"%1 (%2: %3)"_s.arg(s.factor.name, schemeTitle(s.kind), s.factor.levels.join(u", "_s));
+    out += u"Design: %1\n"_s.arg(factors.join(u" x "_s));
+    out += u"Cells (first factor slowest): %1\n"_s.arg(da.cells.join(u", "_s));
+    out += u"Terms: %1\n\n"_s.arg(da.termNames.join(u", "_s));
+    if (!da.emptyCells.isEmpty() || da.cellScheme.columns.empty()) {
+        for (const Finding &f : da.analysis.findings)
+            out += u"[problem] %1\n"_s.arg(f.message);
+        return out;
+    }
+    QStringList colTerms;
+    for (size_t j = 0; j < da.columnTerm.size(); ++j)
+        colTerms << u"  column %1 '%2' belongs to %3"_s.arg(j + 1).arg(da.cellScheme.columns[j].name, da.termNames[da.columnTerm[j]]);
+    out += colTerms.join(u"\n"_s) + u"\n\n"_s;
+    out += analysisReport(da.cellScheme, da.analysis);
     return out;
 }
 

@@ -24,11 +24,11 @@ QJsonArray weightsToJson(const std::vector<Weight> &ws)
 class Reader
 {
 public:
-    explicit Reader(QString where) : m_where(std::move(where)) {}
+    Reader(QString where, QString prefix) : m_where(std::move(where)), m_prefix(std::move(prefix)) {}
 
     QString fail(const QString &field, const QString &what) const
     {
-        return u"%1: field '%2': %3"_s.arg(m_where, field, what);
+        return u"%1: field '%2': %3"_s.arg(m_where, m_prefix + field, what);
     }
 
     bool string(const QJsonObject &o, const QString &key, const QString &path, QString &out, QString &err, bool required = true) const
@@ -76,11 +76,12 @@ public:
 
 private:
     QString m_where;
+    QString m_prefix;
 };
 
 } // namespace
 
-QByteArray schemeToJson(const Scheme &s)
+QJsonObject schemeToObject(const Scheme &s)
 {
     QJsonObject factor;
     factor[u"name"_s] = s.factor.name;
@@ -111,19 +112,25 @@ QByteArray schemeToJson(const Scheme &s)
         columns.append(o);
     }
     QJsonObject root;
-    root[u"format"_s] = QString::fromLatin1(kSchemeFormatTag);
-    root[u"version"_s] = kSchemeFormatVersion;
     root[u"factor"_s] = factor;
     root[u"scheme"_s] = origin;
     root[u"intercept"_s] = s.intercept;
     root[u"columns"_s] = columns;
     root[u"notes"_s] = s.notes;
+    return root;
+}
+
+QByteArray schemeToJson(const Scheme &s)
+{
+    QJsonObject root = schemeToObject(s);
+    root[u"format"_s] = QString::fromLatin1(kSchemeFormatTag);
+    root[u"version"_s] = kSchemeFormatVersion;
     return QJsonDocument(root).toJson(QJsonDocument::Indented);
 }
 
-Result<Scheme> schemeFromJson(const QByteArray &data, const QString &where)
+Result<QJsonObject> schemeDocumentRoot(const QByteArray &data, const QString &where)
 {
-    using R = Result<Scheme>;
+    using R = Result<QJsonObject>;
     QJsonParseError pe;
     const QJsonDocument doc = QJsonDocument::fromJson(data, &pe);
     if (pe.error != QJsonParseError::NoError) {
@@ -136,18 +143,33 @@ Result<Scheme> schemeFromJson(const QByteArray &data, const QString &where)
     if (!doc.isObject())
         return R::failure(u"%1: expected a JSON object at the top level"_s.arg(where));
     const QJsonObject root = doc.object();
-    Reader rd(where);
-    QString err;
-
+    Reader rd(where, {});
     if (root.value(u"format"_s).toString() != QString::fromLatin1(kSchemeFormatTag))
         return R::failure(rd.fail(u"format"_s, u"expected \"%1\"; this is not a Contrast Bench scheme file"_s.arg(QString::fromLatin1(kSchemeFormatTag))));
     const QJsonValue version = root.value(u"version"_s);
     if (!version.isDouble() || version.toDouble() != double(version.toInt()) || version.toInt() < 1)
-        return R::failure(rd.fail(u"version"_s, u"expected a whole number such as 1"_s));
+        return R::failure(rd.fail(u"version"_s, u"expected a whole number such as %1"_s.arg(kSchemeFormatVersion)));
     if (version.toInt() > kSchemeFormatVersion)
         return R::failure(u"%1: the file has format version %2, newer than this program reads (up to %3); please update Contrast Bench"_s
                               .arg(where).arg(version.toInt()).arg(kSchemeFormatVersion));
+    return R(root);
+}
 
+Result<Scheme> schemeFromJson(const QByteArray &data, const QString &where)
+{
+    auto root = schemeDocumentRoot(data, where);
+    if (!root)
+        return Result<Scheme>::failure(root.error());
+    if (root->contains(u"design"_s))
+        return Result<Scheme>::failure(u"%1: this file holds a design of several factors, not a single factor's scheme"_s.arg(where));
+    return schemeFromObject(*root, where, {});
+}
+
+Result<Scheme> schemeFromObject(const QJsonObject &root, const QString &where, const QString &prefix)
+{
+    using R = Result<Scheme>;
+    Reader rd(where, prefix);
+    QString err;
     Scheme s;
     const QJsonValue fv = root.value(u"factor"_s);
     if (!fv.isObject())

@@ -5,15 +5,24 @@
 
 #include <QByteArray>
 #include <QIODevice>
+#include <QJsonObject>
 #include <QString>
 
 namespace cb {
 
 // The scheme file: versioned JSON of our own (see DEVELOPERS.md, "Scheme files").
-inline constexpr int kSchemeFormatVersion = 1;
+// Version 1: one factor. Version 2: also designs of several crossed factors (core/Design.h).
+inline constexpr int kSchemeFormatVersion = 2;
 inline constexpr auto kSchemeFormatTag = "contrast-bench-scheme";
 
 QByteArray schemeToJson(const Scheme &scheme);
+// The body of a scheme (factor, scheme, intercept, columns, notes) without format and version;
+// designs hold one per factor.
+QJsonObject schemeToObject(const Scheme &scheme);
+// Reads a body; messages name fields as "<prefix><field>", e.g. "design.factors[1].columns[0]".
+Result<Scheme> schemeFromObject(const QJsonObject &object, const QString &where, const QString &prefix);
+// Parses a file and checks its format tag and version.
+Result<QJsonObject> schemeDocumentRoot(const QByteArray &data, const QString &where);
 // `where` names the source in messages (a path, "recovery file", ...).
 Result<Scheme> schemeFromJson(const QByteArray &data, const QString &where);
 

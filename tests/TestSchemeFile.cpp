@@ -113,7 +113,7 @@ void TestSchemeFile::loadErrors_data()
     QTest::newRow("wrong format tag") << QByteArray("contrast-bench-scheme") << QByteArray("something-else")
                                       << u"roast.json: field 'format': expected \"contrast-bench-scheme\"; this is not a Contrast Bench scheme file"_s;
     QTest::newRow("version not a number") << QByteArray("\"version\": 1") << QByteArray("\"version\": \"1\"")
-                                          << u"roast.json: field 'version': expected a whole number such as 1"_s;
+                                          << u"roast.json: field 'version': expected a whole number such as 2"_s;
     QTest::newRow("levels missing") << QByteArray("\"levels\"") << QByteArray("\"levelz\"")
                                     << u"roast.json: field 'factor.levels': expected an array of level names"_s;
     QTest::newRow("level not a string") << QByteArray("\"medium\",") << QByteArray("7,")
@@ -164,7 +164,7 @@ void TestSchemeFile::newerVersionRefused()
     data.replace("\"version\": 1", "\"version\": 7");
     auto s = schemeFromJson(data, u"future.json"_s);
     QVERIFY(!s.ok());
-    QCOMPARE(s.error(), u"future.json: the file has format version 7, newer than this program reads (up to 1); please update Contrast Bench"_s);
+    QCOMPARE(s.error(), u"future.json: the file has format version 7, newer than this program reads (up to 2); please update Contrast Bench"_s);
 }
 
 void TestSchemeFile::missingFile()

@@ -5,6 +5,9 @@
 #include "Analysis.h"
 #include "AnalysisJson.h"
 #include "AnalysisReport.h"
+#include "Design.h"
+
+#include <QFile>
 
 #include <QCommandLineParser>
 #include <QJsonDocument>
@@ -43,6 +46,26 @@ int runAnalyze(const QStringList &args, Io &io)
     if (p.isSet(u"help"_s)) {
         io.out << p.helpText();
         return kExitOk;
+    }
+    if (p.isSet(u"file"_s)) {
+        // A file of several crossed factors is analysed over its cells.
+        QFile f(p.value(u"file"_s));
+        if (f.open(QIODevice::ReadOnly)) {
+            const QByteArray data = f.read(64 * 1024 * 1024);
+            if (isDesignJson(data)) {
+                auto design = designFromJson(data, p.value(u"file"_s));
+                if (!design)
+                    return badInput(io, u"analyze"_s, design.error());
+                if (p.isSet(u"no-intercept"_s))
+                    design->intercept = false;
+                const DesignAnalysis da = analyzeDesign(*design);
+                if (p.isSet(u"json"_s))
+                    io.out << QString::fromUtf8(QJsonDocument(designAnalysisToJson(*design, da)).toJson(QJsonDocument::Indented));
+                else
+                    io.out << designReport(*design, da);
+                return kExitOk;
+            }
+        }
     }
     auto scheme = schemeFromOptions(p);
     if (!scheme)

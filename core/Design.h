@@ -1,0 +1,70 @@
+#pragma once
+
+#include "Analysis.h"
+#include "Scheme.h"
+
+#include <QJsonObject>
+#include <QString>
+#include <QStringList>
+
+#include <vector>
+
+namespace cb {
+
+// A term of a crossed design: a main effect ({A}), an interaction ({A, B}, {A, B, C}),
+// or a factor's contrasts nested within each level of another (factors = {A}, within = B).
+struct Term
+{
+    std::vector<int> factors; // indices into Design::factors, ascending
+    int within = -1;          // for nested terms: the factor whose levels split A's contrasts
+};
+
+// Two or three crossed factors, each with its own coding; cells are all level
+// combinations, ordered with the first factor varying slowest ("A-major").
+struct Design
+{
+    std::vector<Scheme> factors; // each with its factor (name, levels) and coding columns
+    std::vector<Term> terms;
+    std::vector<Rational> cellN; // planned n per cell, A-major; empty means equal; 0 marks an empty cell
+    bool intercept = true;
+    QString notes;
+
+    int cellCount() const;
+    QStringList cellNames() const; // "weekly:sandy"
+    // Empty when valid; otherwise names the field and what was expected.
+    QString validate() const;
+    // The full factorial model: every main effect and every interaction.
+    static std::vector<Term> fullFactorial(int factorCount);
+};
+
+inline constexpr int kMaxDesignFactors = 3;
+
+QString termName(const Design &design, const Term &term); // "A", "A x B", "A within B"
+
+// What a design implies over the cell means.
+struct DesignAnalysis
+{
+    QStringList cells;
+    QStringList termNames;
+    std::vector<int> columnTerm;  // term index of each coding column
+    Scheme cellScheme;            // the equivalent one-factor scheme over the cells
+    Analysis analysis;            // hypotheses, diagnostics and findings over the cells
+    // term x term: every column of one term orthogonal to every column of the other under the cell n
+    std::vector<std::vector<bool>> termsOrthogonalInDesign;
+    QStringList emptyCells;
+};
+
+// The design as one factor whose levels are the cells, columns the Kronecker products
+// of the factors' codings (C_A (x) C_B ...), with constant vectors for factors not in a term.
+Result<Scheme> cellScheme(const Design &design);
+DesignAnalysis analyzeDesign(const Design &design);
+
+QJsonObject designAnalysisToJson(const Design &design, const DesignAnalysis &analysis);
+
+// Files: version 2 of the scheme format holds designs ("design" object); version 1 files
+// still load (as one-factor schemes, through schemeFromJson).
+QByteArray designToJson(const Design &design);
+Result<Design> designFromJson(const QByteArray &data, const QString &where);
+bool isDesignJson(const QByteArray &data);
+
+} // namespace cb
