@@ -283,6 +283,9 @@ QString sourceLabel(const QString &path)
     return path == u"-"_s ? u"standard input"_s : path;
 }
 
+// Bytes readable after the end of the data, so that short keys can be loaded as whole words.
+constexpr size_t kSlackBytes = 32;
+
 // Reads a source in blocks and hands out regions of whole lines: [pos(), end())
 // always ends with '\n' (one is added after the last line when the data lack it).
 // What the caller leaves unconsumed is kept and continued by the next block.
@@ -294,7 +297,8 @@ public:
     BlockStream(ByteSource &source, qsizetype blockBytes, std::function<bool(qint64)> progress)
         : m_source(source), m_block(std::max<qsizetype>(1, blockBytes)), m_progress(std::move(progress))
     {
-        m_buf.resize(size_t(2 * m_block + 1));
+        m_cap = size_t(2 * m_block);
+        m_buf.resize(m_cap + 1 + kSlackBytes);
     }
 
     // Moves on to the next region, keeping the bytes from consumedUpTo on.
@@ -325,12 +329,13 @@ private:
         if (m_atEof)
             return m_end < m_have ? (m_end = m_have, Status::Ok) : Status::End;
         for (;;) {
-            if (m_buf.size() - 1 - m_have == 0) {
-                if (qsizetype(m_buf.size()) > kMaxRecordBytes + 2 * m_block)
+            if (m_have == m_cap) {
+                if (qsizetype(m_cap) > kMaxRecordBytes + 2 * m_block)
                     return Status::TooLong;
-                m_buf.resize(m_buf.size() * 2);
+                m_cap *= 2;
+                m_buf.resize(m_cap + 1 + kSlackBytes);
             }
-            const qint64 want = std::min<qint64>(m_block, qint64(m_buf.size() - 1 - m_have));
+            const qint64 want = std::min<qint64>(m_block, qint64(m_cap - m_have));
             const qint64 got = m_source.read(m_buf.data() + m_have, want);
             if (got < 0)
                 return Status::ReadError;
@@ -359,7 +364,8 @@ private:
     ByteSource &m_source;
     qsizetype m_block;
     std::function<bool(qint64)> m_progress;
-    std::vector<char> m_buf;
+    std::vector<char> m_buf; // m_cap bytes of data, one for the final '\n', then kSlackBytes
+    size_t m_cap = 0;
     size_t m_have = 0; // bytes held
     size_t m_end = 0;  // end of the current region
     qint64 m_total = 0;
@@ -695,28 +701,140 @@ public:
 // ---------------------------------------------------------------------------
 // The long-format reader
 
+// A factor value as found in a record. Keys of up to 16 bytes are also held as two
+// little-endian words, so that finding a level costs two loads and compares.
+struct LevelKey
+{
+    std::string_view text;
+    uint64_t w0 = 0;
+    uint64_t w1 = 0;
+    uint64_t hash = 0;
+};
+
+inline uint64_t load8(const char *p)
+{
+    uint64_t v;
+    std::memcpy(&v, p, 8);
+    return v;
+}
+
+inline uint64_t lowBytes(uint64_t v, size_t n)
+{
+    return n >= 8 ? v : v & ((uint64_t(1) << (8 * n)) - 1);
+}
+
+// readable16: 16 bytes from text.data() may be read (true inside the block buffer).
+inline LevelKey makeKey(std::string_view text, bool readable16)
+{
+    LevelKey k{text};
+    const size_t n = text.size();
+    if (n <= 16) {
+        char copy[16] = {};
+        const char *p = text.data();
+        if (!readable16) {
+            std::memcpy(copy, p, n);
+            p = copy;
+        }
+        k.w0 = lowBytes(load8(p), n);
+        k.w1 = n > 8 ? lowBytes(load8(p + 8), n - 8) : 0;
+        const uint64_t h = (k.w0 ^ (k.w1 * 0x9E3779B97F4A7C15ull) ^ n) * 0xFF51AFD7ED558CCDull;
+        k.hash = h ^ (h >> 29);
+        return k;
+    }
+    k.hash = 1469598103934665603ull; // FNV-1a
+    for (char c : text) {
+        k.hash ^= static_cast<unsigned char>(c);
+        k.hash *= 1099511628211ull;
+    }
+    return k;
+}
+
+// One level's statistics while reading. Within chunks of up to kChunkRows values the
+// reader keeps sums of deviations from a shift, the chunk's first value (no division per
+// row); each full chunk is merged into the running statistics with the pairwise formula
+// of Chan, Golub & LeVeque (1983). As the shift is one of the chunk's values, the chunk's
+// sum of squares loses at most about (1 + kChunkRows) units of rounding. The running
+// statistics are kept about the level's first value (the origin), so that updating a
+// mean of, say, 1e9 + 50 does not round away the digits that the variance needs.
+struct LevelAccumulator
+{
+    static constexpr int kChunkRows = 64;
+
+    void add(double y, double weight = 1.0)
+    {
+        if (m_count == 0)
+            startChunk(y);
+        const double d = y - m_shift;
+        m_w += weight;
+        m_s1 += weight * d;
+        m_s2 += weight * d * d;
+        if (++m_count == kChunkRows)
+            flush();
+    }
+    void flush()
+    {
+        if (m_count > 0) {
+            RunningStats chunk;
+            chunk.rows = m_count;
+            chunk.n = m_w;
+            if (m_w > 0.0) {
+                const double offset = m_s1 / m_w;
+                chunk.mean = (m_shift - m_origin) + offset;
+                chunk.m2 = std::max(0.0, m_s2 - m_s1 * offset);
+            }
+            m_total.merge(chunk);
+        }
+        m_count = 0;
+        m_w = m_s1 = m_s2 = 0.0;
+    }
+    // The statistics so far (call after flush()).
+    RunningStats result() const
+    {
+        RunningStats r = m_total;
+        r.mean += m_origin;
+        return r;
+    }
+
+private:
+    void startChunk(double y)
+    {
+        if (m_total.rows == 0)
+            m_origin = y;
+        m_shift = y;
+    }
+
+    RunningStats m_total; // about m_origin
+    double m_origin = 0.0;
+    double m_shift = 0.0;
+    double m_w = 0.0;
+    double m_s1 = 0.0;
+    double m_s2 = 0.0;
+    int m_count = 0;
+};
+
+// Open-addressing table from factor value to level index, in order of first appearance.
 class LevelTable
 {
 public:
     LevelTable() { m_slots.assign(64, Slot{}); }
 
     // Index of the level with this key, or -1 when it is new (then call insert).
-    int find(std::string_view key, uint64_t hash) const
+    int find(const LevelKey &key) const
     {
-        size_t i = size_t(hash) & (m_slots.size() - 1);
-        for (;;) {
+        const size_t mask = m_slots.size() - 1;
+        for (size_t i = size_t(key.hash) & mask;; i = (i + 1) & mask) {
             const Slot &s = m_slots[i];
             if (s.index < 0)
                 return -1;
-            if (s.hash == hash && m_keys[size_t(s.index)] == key)
+            if (s.hash == key.hash && s.w0 == key.w0 && s.w1 == key.w1 && s.length == key.text.size()
+                && (s.length <= 16 || m_keys[size_t(s.index)] == key.text))
                 return s.index;
-            i = (i + 1) & (m_slots.size() - 1);
         }
     }
-    int insert(std::string_view key, uint64_t hash)
+    int insert(const LevelKey &key)
     {
         const int index = int(m_keys.size());
-        m_keys.emplace_back(key);
+        m_keys.emplace_back(key.text);
         stats.emplace_back();
         if (m_keys.size() * 2 > m_slots.size()) {
             std::vector<Slot> old(m_slots.size() * 2, Slot{});
@@ -725,27 +843,21 @@ public:
                 if (s.index >= 0)
                     place(s);
         }
-        place(Slot{hash, index});
+        place(Slot{key.hash, key.w0, key.w1, key.text.size(), index});
         return index;
-    }
-    static uint64_t hashOf(std::string_view key)
-    {
-        uint64_t h = 1469598103934665603ull; // FNV-1a
-        for (char c : key) {
-            h ^= static_cast<unsigned char>(c);
-            h *= 1099511628211ull;
-        }
-        return h;
     }
     size_t size() const { return m_keys.size(); }
     const std::string &key(size_t i) const { return m_keys[i]; }
 
-    std::vector<RunningStats> stats;
+    std::vector<LevelAccumulator> stats;
 
 private:
     struct Slot
     {
         uint64_t hash = 0;
+        uint64_t w0 = 0;
+        uint64_t w1 = 0;
+        size_t length = 0;
         int index = -1;
     };
     void place(const Slot &slot)
@@ -758,6 +870,36 @@ private:
     std::vector<Slot> m_slots;
     std::vector<std::string> m_keys;
 };
+
+// Clinger's fast path (Clinger 1990, "How to read floating point numbers accurately"):
+// a plain decimal of at most 15 significant digits and no exponent is an exact integer
+// over an exact power of ten, and one IEEE division rounds it correctly, giving the same
+// double as std::from_chars. Returns the end of the number, or nullptr when it is not
+// such a number (then std::from_chars decides).
+inline const char *parsePlainDecimal(const char *p, double &out)
+{
+    static constexpr double kPow10[] = {1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7,
+                                        1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15};
+    const bool negative = *p == '-';
+    p += negative;
+    uint64_t m = 0;
+    const char *start = p;
+    while (unsigned(*p - '0') < 10u)
+        m = m * 10 + unsigned(*p++ - '0');
+    const ptrdiff_t whole = p - start;
+    ptrdiff_t frac = 0;
+    if (*p == '.') {
+        const char *f = ++p;
+        while (unsigned(*p - '0') < 10u)
+            m = m * 10 + unsigned(*p++ - '0');
+        frac = p - f;
+    }
+    if (whole + frac == 0 || whole + frac > 15 || *p == 'e' || *p == 'E')
+        return nullptr;
+    const double v = double(m) / kPow10[frac];
+    out = negative ? -v : v;
+    return p;
+}
 
 // What the two table readers share: the start of the file, the summary being
 // filled, and the order of the steps.
@@ -946,9 +1088,13 @@ private:
                 if (f == ri) {
                     const unsigned char c0 = static_cast<unsigned char>(*p);
                     if (unsigned(c0 - '0') < 10u || c0 == '-' || c0 == '.') {
-                        const auto r = std::from_chars(p, end, y);
-                        if (r.ec == std::errc() && (*r.ptr == delim || *r.ptr == '\n' || *r.ptr == '\r')) {
-                            p = r.ptr;
+                        const char *q = parsePlainDecimal(p, y);
+                        if (!q) {
+                            const auto r = std::from_chars(p, end, y);
+                            q = r.ec == std::errc() ? r.ptr : nullptr;
+                        }
+                        if (q && (*q == delim || *q == '\n' || *q == '\r')) {
+                            p = q;
                             yParsed = true;
                         }
                     }
@@ -1019,7 +1165,7 @@ private:
             ++m_out.records;
             if (yParsed && !std::isfinite(y))
                 yParsed = false;
-            addRow(line, level, yParsed, y, response, weight, error);
+            addRow(line, level, !slow, yParsed, y, response, weight, error);
             if (!error.isEmpty())
                 return true;
             line += newlines;
@@ -1027,15 +1173,17 @@ private:
         return true;
     }
 
-    void addRow(qint64 line, std::string_view level, bool yParsed, double y, std::string_view response,
+    // inBuffer: the views point into the block buffer (not into a parsed copy).
+    void addRow(qint64 line, std::string_view level, bool inBuffer, bool yParsed, double y, std::string_view response,
                 std::string_view weight, QString &error)
     {
-        const std::string_view key = (level.empty() || (level.front() != ' ' && level.back() != ' ' && level.front() != '\t' && level.back() != '\t'))
-                                         ? level
-                                         : trimmed(level);
-        if (key.empty())
-            return skip(line, u"factor (column '%1') is empty"_s.arg(m_out.columns[m_out.factorIndex]));
-        if (!yParsed) {
+        if (level.empty() || level.front() == ' ' || level.back() == ' ' || level.front() == '\t' || level.back() == '\t')
+            [[unlikely]] {
+            level = trimmed(level);
+            if (level.empty())
+                return skip(line, u"factor (column '%1') is empty"_s.arg(m_out.columns[m_out.factorIndex]));
+        }
+        if (!yParsed) [[unlikely]] {
             const auto v = parseNumberField(response);
             if (!v)
                 return skip(line, u"response (column '%1') %2"_s.arg(m_out.columns[m_out.responseIndex],
@@ -1053,27 +1201,30 @@ private:
                                       m_out.columns[m_out.weightIndex], quoteText(trimmed(weight))));
             w = *v;
         }
-        const uint64_t h = LevelTable::hashOf(key);
-        int index = m_levels.find(key, h);
-        if (index < 0) {
-            if (!decodeUtf8(key)) {
-                error = fail(line, u"the factor value is not valid UTF-8; save the file as UTF-8"_s);
+        const LevelKey key = makeKey(level, inBuffer);
+        int index = m_levels.find(key);
+        if (index < 0) [[unlikely]] {
+            index = newLevel(line, key, error);
+            if (index < 0)
                 return;
-            }
-            if (int(m_levels.size()) >= kMaxDataLevels) {
-                error = fail(line, u"column '%1' has more than %2 different values; is it really the factor?"_s
-                                       .arg(m_out.columns[m_out.factorIndex])
-                                       .arg(kMaxDataLevels));
-                return;
-            }
-            index = m_levels.insert(key, h);
         }
-        RunningStats &s = m_levels.stats[size_t(index)];
-        if (m_out.weightIndex >= 0)
-            s.add(y, w);
-        else
-            s.add(y);
+        m_levels.stats[size_t(index)].add(y, w);
         ++m_out.usedRows;
+    }
+
+    int newLevel(qint64 line, const LevelKey &key, QString &error)
+    {
+        if (!decodeUtf8(key.text)) {
+            error = fail(line, u"the factor value is not valid UTF-8; save the file as UTF-8"_s);
+            return -1;
+        }
+        if (int(m_levels.size()) >= kMaxDataLevels) {
+            error = fail(line, u"column '%1' has more than %2 different values; is it really the factor?"_s
+                                   .arg(m_out.columns[m_out.factorIndex])
+                                   .arg(kMaxDataLevels));
+            return -1;
+        }
+        return m_levels.insert(key);
     }
 
     void skip(qint64 line, const QString &message)
@@ -1087,7 +1238,8 @@ private:
     {
         for (size_t i = 0; i < m_levels.size(); ++i) {
             const std::string &k = m_levels.key(i);
-            m_out.levels.push_back({QString::fromUtf8(k.data(), qsizetype(k.size())), m_levels.stats[i]});
+            m_levels.stats[i].flush();
+            m_out.levels.push_back({QString::fromUtf8(k.data(), qsizetype(k.size())), m_levels.stats[i].result()});
         }
     }
 

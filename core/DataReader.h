@@ -121,7 +121,9 @@ struct DataSummary
 };
 
 // Reads a long-format CSV/TSV file (path "-" reads standard input) in fixed-size
-// blocks into per-level statistics. Handles RFC 4180 quoting (delimiters, quotes
+// blocks into per-level statistics, in one pass and bounded memory. Per level, values
+// are summed as deviations from a shift in chunks of 64 and the chunks merged pairwise
+// (Chan, Golub & LeVeque), about the level's first value: stable for data far from zero. Handles RFC 4180 quoting (delimiters, quotes
 // and line breaks inside quoted fields), a UTF-8 byte-order mark, LF or CRLF.
 // A missing or non-numeric response (or weight) leaves the row out and is
 // reported; a file-level problem (missing column, ragged row, unterminated quote,

@@ -111,6 +111,7 @@ private slots:
     void sameResultForAnyBlockSize();
     void streamsLargeInputInBlocks();
     void welfordIsStable();
+    void stableForSortedDataFarFromZero();
     void mergeMatchesOnePass();
     void caseWeightsActAsRepeatedRows();
     void columnsByNumber_data();
@@ -282,6 +283,29 @@ void TestDataReader::welfordIsStable()
     QVERIFY2(r.ok(), qPrintable(r.error()));
     QCOMPARE(r->levels[0].stats.mean, 1000000010.0);
     QVERIFY(std::fabs(r->levels[0].stats.variance() - 30.0) < 1e-6);
+}
+
+// Sorted values far from zero: 1e9 + i/1000 for i = 0 .. 99999. The variance of an
+// arithmetic sequence of n terms with step h is h^2 n (n + 1) / 12 (closed form), here
+// 833.341666...; the one-pass sum of squares would lose every digit of it.
+void TestDataReader::stableForSortedDataFarFromZero()
+{
+    QByteArray bytes = "g,y,w\n";
+    const int n = 100000;
+    for (int i = 0; i < n; ++i)
+        bytes += "a," + QByteArray::number(1000000000 + i / 1000) + '.' + QByteArray::number(i % 1000).rightJustified(3, '0')
+            + ",1\n";
+    const double exact = 1e-6 * n * (n + 1.0) / 12.0;
+    for (const QString &weight : {QString(), u"w"_s}) {
+        DataReadOptions o = columns(u"g"_s, u"y"_s);
+        o.weightColumn = weight;
+        auto r = readLevelDataFromBytes(bytes, u"sorted.csv"_s, o);
+        QVERIFY2(r.ok(), qPrintable(r.error()));
+        const RunningStats &s = r->levels[0].stats;
+        QVERIFY2(std::fabs(s.variance() - exact) < 1e-9 * exact,
+                 qPrintable(u"variance %1, exact %2"_s.arg(s.variance(), 0, 'g', 17).arg(exact, 0, 'g', 17)));
+        QVERIFY(std::fabs(s.mean - (1e9 + 49.9995)) < 1e-6);
+    }
 }
 
 void TestDataReader::mergeMatchesOnePass()

@@ -131,9 +131,10 @@ Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a
     return readLevelData(p.value(u"data"_s), o);
 }
 
+// Left-justified in width, with at least one space after.
 QString pad(const QString &s, qsizetype width)
 {
-    return s.leftJustified(width);
+    return s.size() < width ? s.leftJustified(width) : s + u' ';
 }
 
 void printReport(const Scheme &scheme, const DataSummary &data, const FitResult &fit, Io &io)
