@@ -2,6 +2,7 @@
 
 #include <charconv>
 #include <cmath>
+#include <limits>
 #include <algorithm>
 #include <numeric>
 #include <optional>
@@ -79,8 +80,9 @@ std::optional<Frac> toFrac(const Weight &w)
     }
     if (std::abs(w.value()) < 1e-13)
         return Frac{};
-    if (auto r = recogniseFraction(w.value()))
-        return makeFrac(r->get_num().get_si(), r->get_den().get_si());
+    long long n = 0, d = 1;
+    if (recogniseFraction(w.value(), n, d))
+        return Frac{n, d};
     return std::nullopt;
 }
 
@@ -139,34 +141,60 @@ QString exactCombination(const std::vector<Frac> &w, const QStringList &levels)
 
 // "0.67082 high - 0.22361 low ...": six decimals (or six significant digits when tiny or huge).
 // Written with std::to_chars into one reserved string: rows can have hundreds of terms.
+// Writes |a| with six decimals, trailing zeros trimmed (1e-4 <= a < 1e6), into buf; returns the length.
+// Hand-rolled because rows can have hundreds of terms and std::to_chars with a precision is slow.
+int fixedSix(double a, char *buf)
+{
+    const long long scaled = std::llround(a * 1e6);
+    long long whole = scaled / 1000000, frac = scaled % 1000000;
+    char digits[24];
+    int n = 0;
+    do {
+        digits[n++] = char('0' + whole % 10);
+        whole /= 10;
+    } while (whole > 0);
+    int len = 0;
+    while (n > 0)
+        buf[len++] = digits[--n];
+    if (frac != 0) {
+        buf[len++] = '.';
+        int width = 6;
+        while (frac % 10 == 0) {
+            frac /= 10;
+            --width;
+        }
+        for (int i = width - 1; i >= 0; --i) {
+            buf[len + i] = char('0' + frac % 10);
+            frac /= 10;
+        }
+        len += width;
+    }
+    return len;
+}
+
 QString numericCombination(const std::vector<Weight> &row, const QStringList &levels)
 {
     QString s;
-    s.reserve(qsizetype(row.size()) * 16);
+    s.reserve(qsizetype(row.size()) * 24);
     char buf[40];
     for (size_t i = 0; i < row.size(); ++i) {
         const double v = row[i].value();
         if (v == 0.0 || (!row[i].isExact() && std::abs(v) < 1e-14))
             continue;
         const double a = std::abs(v);
-        const bool sci = a < 1e-4 || a >= 1e6;
-        auto r = sci ? std::to_chars(buf, buf + sizeof buf, a, std::chars_format::general, 6)
-                     : std::to_chars(buf, buf + sizeof buf, a, std::chars_format::fixed, 6);
-        char *end = r.ptr;
-        if (!sci) {
-            while (end > buf && end[-1] == '0')
-                --end;
-            if (end > buf && end[-1] == '.')
-                --end;
-        }
+        int len = 0;
+        if (a < 1e-4 || a >= 1e6)
+            len = int(std::to_chars(buf, buf + sizeof buf, a, std::chars_format::general, 6).ptr - buf);
+        else
+            len = fixedSix(a, buf);
         if (s.isEmpty()) {
             if (v < 0)
                 s += u'-';
         } else {
             s += v < 0 ? u" - "_s : u" + "_s;
         }
-        if (!(end - buf == 1 && buf[0] == '1')) {
-            s += QLatin1StringView(buf, end - buf);
+        if (!(len == 1 && buf[0] == '1')) {
+            s += QLatin1StringView(buf, len);
             s += u' ';
         }
         s += levels[qsizetype(i)];
@@ -184,8 +212,15 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
     // Exact weights, recognising simple fractions in floating ones; the sum on the way.
     std::vector<Frac> w(k);
     std::optional<Frac> total = Frac{};
+    // Rows repeat values (a group's weights are equal): remember the last conversion.
+    double lastValue = std::numeric_limits<double>::quiet_NaN();
+    std::optional<Frac> lastFrac;
     for (size_t i = 0; i < k && total; ++i) {
-        const auto f = toFrac(row[i]);
+        if (row[i].isExact() || row[i].value() != lastValue) {
+            lastFrac = toFrac(row[i]);
+            lastValue = row[i].isExact() ? std::numeric_limits<double>::quiet_NaN() : row[i].value();
+        }
+        const auto &f = lastFrac;
         if (f) {
             w[i] = *f;
             total = add(*total, *f);

@@ -194,14 +194,17 @@ QString doubleToString(double x)
     return QString::fromLatin1(buf, r.ptr - buf);
 }
 
-std::optional<Rational> recogniseFraction(double x, long maxDenominator)
+bool recogniseFraction(double x, long long &numerator, long long &denominator, long maxDenominator)
 {
-    if (!std::isfinite(x))
-        return std::nullopt;
-    if (std::abs(x) > 1e12)
-        return std::nullopt;
+    if (!std::isfinite(x) || std::abs(x) > 1e12)
+        return false;
+    if (x == std::floor(x)) {
+        numerator = static_cast<long long>(x);
+        denominator = 1;
+        return true;
+    }
     const double tol = 1e-12 * std::max(1.0, std::abs(x));
-    // Continued fraction expansion.
+    // Continued fraction expansion of |x|.
     long long p0 = 0, q0 = 1, p1 = 1, q1 = 0;
     double frac = std::abs(x);
     for (int iter = 0; iter < 40; ++iter) {
@@ -214,18 +217,27 @@ std::optional<Rational> recogniseFraction(double x, long maxDenominator)
         if (q2 > maxDenominator)
             break;
         p0 = p1; q0 = q1; p1 = p2; q1 = q2;
-        const double approx = static_cast<double>(p1) / static_cast<double>(q1);
-        if (std::abs(approx - std::abs(x)) <= tol) {
-            Rational r(static_cast<long>(p1), static_cast<unsigned long>(q1));
-            r.canonicalize();
-            return x < 0 ? Rational(-r) : r;
+        if (std::abs(static_cast<double>(p1) / static_cast<double>(q1) - std::abs(x)) <= tol) {
+            numerator = x < 0 ? -p1 : p1;
+            denominator = q1;
+            return true;
         }
         const double rest = frac - a;
         if (rest <= 0)
             break;
         frac = 1.0 / rest;
     }
-    return std::nullopt;
+    return false;
+}
+
+std::optional<Rational> recogniseFraction(double x, long maxDenominator)
+{
+    long long p = 0, q = 1;
+    if (!recogniseFraction(x, p, q, maxDenominator))
+        return std::nullopt;
+    Rational r(static_cast<long>(p), static_cast<unsigned long>(q));
+    r.canonicalize();
+    return r;
 }
 
 QString Weight::storageString() const

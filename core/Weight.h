@@ -68,6 +68,8 @@ QString rationalToString(const Rational &q, bool unicodeMinus = false);
 // The simple fraction p/q (q <= maxDenominator) within rounding of x, if any.
 // "Within rounding" means |x - p/q| <= 1e-12 * max(1, |x|).
 std::optional<Rational> recogniseFraction(double x, long maxDenominator = 1000);
+// The same without allocating: numerator/denominator in lowest terms, denominator > 0.
+bool recogniseFraction(double x, long long &numerator, long long &denominator, long maxDenominator = 1000);
 
 // Shortest decimal text that reads back to the same double.
 QString doubleToString(double x);
