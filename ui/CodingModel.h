@@ -1,0 +1,46 @@
+#pragma once
+
+#include "ColumnStatus.h"
+#include "WeightTableModel.h"
+
+#include <vector>
+
+namespace cb {
+
+// The coding grid: one row per level, one column per coding column, followed
+// by footer rows that say, per column, whether it sums to zero, which columns
+// it is not orthogonal to under the planned n, and its VIF.
+class CodingModel : public WeightTableModel
+{
+    Q_OBJECT
+
+public:
+    enum FooterRow { SumRow, OrthogonalityRow, VifRow, FooterRowCount };
+
+    explicit CodingModel(Document *document, QObject *parent = nullptr);
+
+    int weightRowCount() const override;
+    std::optional<Weight> weightAt(int row, int column) const override;
+    QString cellName(int row, int column) const override;
+    // Which footer row a table row is, or -1 for a level row.
+    int footerRow(int row) const;
+    const ColumnStatus *status(int column) const;
+
+    QVariant data(const QModelIndex &index, int role = Qt::DisplayRole) const override;
+    QVariant headerData(int section, Qt::Orientation orientation, int role = Qt::DisplayRole) const override;
+    bool setHeaderData(int section, Qt::Orientation orientation, const QVariant &value, int role = Qt::EditRole) override;
+    Qt::ItemFlags flags(const QModelIndex &index) const override;
+
+protected:
+    Shape currentShape() const override;
+    void aboutToFollow() override;
+    bool applyWeights(const std::vector<edits::CellWeight> &cells, const QString &actionName, const QString &mergeKey) override;
+
+private:
+    QVariant footerData(int footer, int column, int role) const;
+    QVariant footerHeader(int footer, int role) const;
+
+    std::vector<ColumnStatus> m_status;
+};
+
+} // namespace cb

@@ -1,0 +1,211 @@
+#include "CodingPanel.h"
+
+#include "CodingModel.h"
+#include "ColumnStatus.h"
+#include "Document.h"
+#include "HypothesisModel.h"
+#include "Look.h"
+#include "PairsModel.h"
+#include "SchemeEdits.h"
+#include "SchemePicker.h"
+#include "WeightGridView.h"
+
+#include <QHBoxLayout>
+#include <QHeaderView>
+#include <QLabel>
+#include <QPushButton>
+#include <QTabWidget>
+#include <QVBoxLayout>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+
+void styleNotice(QLabel *label, look::State state)
+{
+    label->setWordWrap(true);
+    label->setTextInteractionFlags(Qt::TextSelectableByMouse);
+    label->setStyleSheet(u"QLabel { background: %1; color: %2; border-left: 4px solid %2; padding: 5px 8px; }"_s
+                             .arg(look::tint(state).name(), look::ink(state).name()));
+    label->hide();
+}
+
+} // namespace
+
+CodingPanel::CodingPanel(Document *document, QWidget *parent)
+    : QWidget(parent)
+    , m_document(document)
+    , m_coding(new CodingModel(document, this))
+    , m_hypotheses(new HypothesisModel(document, this))
+    , m_pairs(new PairsModel(document, this))
+    , m_picker(new SchemePicker(document, this))
+    , m_tabs(new QTabWidget(this))
+    , m_notice(new QLabel(this))
+{
+    styleNotice(m_notice, look::State::Problem);
+    m_tabs->addTab(buildCodingTab(), tr("Coding \u2192 hypotheses"));
+    m_tabs->addTab(buildHypothesisTab(), tr("Hypotheses \u2192 coding"));
+    m_tabs->setTabToolTip(0, tr("Type the coding weights that go into the model; read what each coefficient tests on the right."));
+    m_tabs->setTabToolTip(1, tr("Type the weights on the level means you want each coefficient to test; the coding follows."));
+    m_tabs->setDocumentMode(true);
+
+    auto *layout = new QVBoxLayout(this);
+    layout->setContentsMargins(6, 6, 6, 6);
+    layout->addWidget(m_picker);
+    layout->addWidget(m_tabs, 1);
+    layout->addWidget(m_notice);
+
+    auto refused = [this](const QString &text) {
+        showNotice(text);
+        emit message(text);
+    };
+    connect(m_coding, &WeightTableModel::editRefused, this, refused);
+    connect(m_hypotheses, &WeightTableModel::editRefused, this, refused);
+    connect(m_picker, &SchemePicker::editRefused, this, refused);
+    connect(m_coding, &WeightTableModel::editAccepted, this, [this] { showNotice({}); });
+    connect(m_hypotheses, &WeightTableModel::editAccepted, this, [this] { showNotice({}); });
+    connect(m_hypotheses, &HypothesisModel::draftChanged, this, [this](const QString &problem) {
+        m_draftNotice->setText(problem.isEmpty() ? QString()
+                                                 : tr("\u2717 Typed, not applied yet: %1. The coding changes as soon as the hypotheses "
+                                                      "can be tested together.").arg(problem));
+        m_draftNotice->setVisible(!problem.isEmpty());
+    });
+    connect(document, &Document::changed, this, &CodingPanel::follow);
+    follow();
+}
+
+QWidget *CodingPanel::buildCodingTab()
+{
+    auto *tab = new QWidget(this);
+    m_codingView = new WeightGridView(tab);
+    m_codingView->setWeightModel(m_coding);
+    m_codingView->setColumnsRenamable(true);
+    m_codingView->setObjectName(u"codingGrid"_s);
+
+    auto *add = new QPushButton(tr("+ Column"), tab);
+    auto *remove = new QPushButton(tr("\u2212 Column"), tab);
+    add->setToolTip(tr("Add a coding column of zeros (at most one per level)."));
+    remove->setToolTip(tr("Remove the coding column the cursor is in."));
+    connect(add, &QPushButton::clicked, this, &CodingPanel::addColumn);
+    connect(remove, &QPushButton::clicked, this, &CodingPanel::removeColumn);
+    auto *bar = new QHBoxLayout;
+    bar->addWidget(look::note(tr("Rows are levels, columns are coding columns. Type fractions (1/3) or decimals; paste blocks from a "
+                           "spreadsheet; double-click a column name to rename it."), tab), 1);
+    bar->addWidget(add);
+    bar->addWidget(remove);
+
+    auto *pairsBox = new QWidget(tab);
+    m_pairsCaption = look::note(QString(), pairsBox);
+    m_pairsView = new QTableView(pairsBox);
+    m_pairsView->setModel(m_pairs);
+    m_pairsView->setObjectName(u"pairsGrid"_s);
+    m_pairsView->setSelectionMode(QAbstractItemView::NoSelection);
+    m_pairsView->setEditTriggers(QAbstractItemView::NoEditTriggers);
+    m_pairsView->horizontalHeader()->setDefaultSectionSize(30);
+    m_pairsView->horizontalHeader()->setMinimumSectionSize(24);
+    m_pairsView->horizontalHeader()->setSectionResizeMode(QHeaderView::Fixed);
+    m_pairsView->verticalHeader()->setDefaultSectionSize(24);
+    m_pairsView->verticalHeader()->setSectionResizeMode(QHeaderView::Fixed);
+    m_pairsView->setSizeAdjustPolicy(QAbstractScrollArea::AdjustToContents);
+    auto *pairsLayout = new QHBoxLayout(pairsBox);
+    pairsLayout->setContentsMargins(0, 4, 0, 0);
+    pairsLayout->addWidget(m_pairsView, 0, Qt::AlignTop | Qt::AlignLeft);
+    pairsLayout->addWidget(m_pairsCaption, 1, Qt::AlignTop);
+
+    // The pairs table takes the room it needs, up to a limit, and scrolls beyond it.
+    m_pairsView->setMaximumHeight(260);
+    pairsBox->setSizePolicy(QSizePolicy::Preferred, QSizePolicy::Maximum);
+
+    auto *layout = new QVBoxLayout(tab);
+    layout->setContentsMargins(0, 4, 0, 0);
+    layout->addLayout(bar);
+    layout->addWidget(m_codingView, 1);
+    layout->addWidget(pairsBox);
+
+    connect(m_codingView->selectionModel(), &QItemSelectionModel::currentChanged, this, [this](const QModelIndex &i) {
+        if (i.isValid())
+            emit currentCoefficientChanged(i.column() + (m_document->scheme().intercept ? 1 : 0));
+    });
+    return tab;
+}
+
+QWidget *CodingPanel::buildHypothesisTab()
+{
+    auto *tab = new QWidget(this);
+    m_hypothesisView = new WeightGridView(tab);
+    m_hypothesisView->setWeightModel(m_hypotheses);
+    m_hypothesisView->setObjectName(u"hypothesisGrid"_s);
+    m_hypothesisView->horizontalHeader()->setDefaultSectionSize(150);
+    m_draftNotice = new QLabel(tab);
+    styleNotice(m_draftNotice, look::State::Problem);
+    auto *layout = new QVBoxLayout(tab);
+    layout->setContentsMargins(0, 4, 0, 0);
+    layout->addWidget(look::note(tr("Each column is what one coefficient tests: weights on the level means. A comparison's weights sum to 0; "
+                              "the intercept's sum to 1. Edit them and the coding grid is rebuilt to test exactly these."), tab));
+    layout->addWidget(m_hypothesisView, 1);
+    layout->addWidget(m_draftNotice);
+    connect(m_hypotheses, &QAbstractItemModel::modelReset, m_hypothesisView, [this] {
+        m_hypothesisView->setEnabled(!m_document->analysis().hypotheses.empty());
+    });
+    return tab;
+}
+
+void CodingPanel::follow()
+{
+    const bool planned = m_document->scheme().factor.hasPlannedN();
+    m_pairsCaption->setText(tr("<b>Pairs of columns.</b><br>Above the diagonal: orthogonal as written (the products of their weights sum "
+                               "to 0).<br>Below the diagonal: orthogonal %1, which is what makes their estimates uncorrelated."
+                               "<br>%2 yes &nbsp; %3 no. Hover a cell for the cross-product.")
+                                .arg(sizesPhrase(planned), look::mark(look::State::Good), look::mark(look::State::Problem)));
+    m_hypothesisView->setEnabled(!m_document->analysis().hypotheses.empty());
+}
+
+void CodingPanel::showDirection(Direction direction)
+{
+    m_tabs->setCurrentIndex(direction == CodingDirection ? 0 : 1);
+}
+
+WeightGridView *CodingPanel::activeView() const
+{
+    return m_tabs->currentIndex() == 0 ? m_codingView : m_hypothesisView;
+}
+
+QString CodingPanel::notice() const
+{
+    return m_notice->isVisible() ? m_notice->text() : QString();
+}
+
+void CodingPanel::showNotice(const QString &message)
+{
+    m_notice->setText(message);
+    m_notice->setVisible(!message.isEmpty());
+}
+
+void CodingPanel::addColumn()
+{
+    auto next = edits::withColumnAdded(m_document->scheme());
+    if (!next) {
+        showNotice(tr("Not added: %1").arg(next.error()));
+        return;
+    }
+    m_document->edit(next.take(), tr("Add a coding column"));
+    showNotice({});
+}
+
+void CodingPanel::removeColumn()
+{
+    const Scheme &s = m_document->scheme();
+    const QModelIndex cur = m_codingView->currentIndex();
+    const int column = cur.isValid() ? cur.column() : s.columnCount() - 1;
+    auto next = edits::withColumnRemoved(s, column);
+    if (!next) {
+        showNotice(tr("Not removed: %1").arg(next.error()));
+        return;
+    }
+    m_document->edit(next.take(), tr("Remove column %1 \u2018%2\u2019").arg(column + 1).arg(s.columns[size_t(column)].name));
+    showNotice({});
+}
+
+} // namespace cb

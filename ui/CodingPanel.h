@@ -1,0 +1,74 @@
+#pragma once
+
+#include <QWidget>
+
+class QLabel;
+class QTableView;
+class QTabWidget;
+class QToolButton;
+
+namespace cb {
+
+class CodingModel;
+class Document;
+class HypothesisModel;
+class PairsModel;
+class SchemePicker;
+class WeightGridView;
+
+// The middle of the window: the scheme picker, the coding grid with its
+// footer indicators and the compact pairwise view, and the reverse direction
+// (a grid of hypothesis weights). Refused edits are explained in a notice
+// under the grids.
+class CodingPanel : public QWidget
+{
+    Q_OBJECT
+
+public:
+    enum Direction { CodingDirection, HypothesisDirection };
+
+    explicit CodingPanel(Document *document, QWidget *parent = nullptr);
+
+    WeightGridView *codingView() const { return m_codingView; }
+    WeightGridView *hypothesisView() const { return m_hypothesisView; }
+    QTableView *pairsView() const { return m_pairsView; }
+    CodingModel *codingModel() const { return m_coding; }
+    HypothesisModel *hypothesisModel() const { return m_hypotheses; }
+    SchemePicker *picker() const { return m_picker; }
+    void showDirection(Direction direction);
+    // The grid the user works in now.
+    WeightGridView *activeView() const;
+
+    // The message under the grids (empty when hidden).
+    QString notice() const;
+    void showNotice(const QString &message);
+
+public slots:
+    void addColumn();
+    void removeColumn();
+
+signals:
+    // The coding column the user is on changed (for the meaning list).
+    void currentCoefficientChanged(int coefficient);
+    void message(const QString &text);
+
+private:
+    void follow();
+    QWidget *buildCodingTab();
+    QWidget *buildHypothesisTab();
+
+    Document *m_document;
+    CodingModel *m_coding;
+    HypothesisModel *m_hypotheses;
+    PairsModel *m_pairs;
+    SchemePicker *m_picker;
+    QTabWidget *m_tabs;
+    WeightGridView *m_codingView = nullptr;
+    WeightGridView *m_hypothesisView = nullptr;
+    QTableView *m_pairsView = nullptr;
+    QLabel *m_pairsCaption = nullptr;
+    QLabel *m_draftNotice = nullptr;
+    QLabel *m_notice;
+};
+
+} // namespace cb

@@ -1,0 +1,32 @@
+#include "Demos.h"
+
+#include "SchemeFile.h"
+
+#include <QCoreApplication>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+QList<DemoStudy> demoStudies()
+{
+    auto tr = [](const char *text) { return QCoreApplication::translate("cb::Demos", text); };
+    return {
+        {u"irrigation"_s, tr("Irrigation trial: four schedules against no irrigation"), u":/demos/irrigation.json"_s},
+        {u"roast"_s, tr("Roast tasting panel: trends over unevenly spaced temperatures"), u":/demos/roast.json"_s},
+        {u"onboarding"_s, tr("Onboarding flows: one control, three variants, very unequal groups"), u":/demos/onboarding.json"_s},
+    };
+}
+
+Result<Scheme> loadDemo(const QString &name)
+{
+    QStringList known;
+    for (const DemoStudy &d : demoStudies()) {
+        if (d.name == name)
+            return loadScheme(d.resourcePath);
+        known << d.name;
+    }
+    return Result<Scheme>::failure(u"demo '%1' does not exist; the demos are: %2"_s.arg(name, known.join(u", "_s)));
+}
+
+} // namespace cb

@@ -1,0 +1,77 @@
+#include "Document.h"
+
+#include <QFileInfo>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+// Each step keeps two copies of the scheme; for k = 50 one copy is about 200 KB.
+constexpr int kUndoLimit = 500;
+} // namespace
+
+Document::Document(QObject *parent)
+    : QObject(parent)
+{
+    m_undo.setUndoLimit(kUndoLimit);
+    connect(&m_undo, &QUndoStack::cleanChanged, this, [this](bool clean) { emit modifiedChanged(!clean); });
+    applyScheme(starterScheme());
+}
+
+QString Document::displayName() const
+{
+    return m_filePath.isEmpty() ? u"untitled"_s : QFileInfo(m_filePath).fileName();
+}
+
+void Document::edit(Scheme next, const QString &actionName, MergeId mergeId, const QString &mergeKey)
+{
+    m_undo.push(new SchemeCommand(this, m_scheme, std::move(next), actionName, mergeId, mergeKey));
+}
+
+void Document::reset(Scheme scheme, const QString &filePath)
+{
+    m_undo.clear();
+    setFilePath(filePath);
+    applyScheme(scheme);
+    m_undo.setClean();
+}
+
+void Document::restore(Scheme scheme, const QString &filePath)
+{
+    m_undo.clear();
+    setFilePath(filePath);
+    edit(std::move(scheme), tr("Restore unsaved work"));
+}
+
+void Document::markSaved(const QString &filePath)
+{
+    setFilePath(filePath);
+    m_undo.setClean();
+}
+
+void Document::applyScheme(const Scheme &scheme)
+{
+    m_scheme = scheme;
+    m_analysis = analyze(m_scheme);
+    ++m_revision;
+    emit changed();
+}
+
+void Document::setFilePath(const QString &filePath)
+{
+    if (filePath == m_filePath)
+        return;
+    m_filePath = filePath;
+    emit filePathChanged(m_filePath);
+}
+
+Scheme Document::starterScheme()
+{
+    Factor f;
+    f.name = u"group"_s;
+    f.levels = {u"A"_s, u"B"_s, u"C"_s, u"D"_s};
+    return makeScheme(f, SchemeKind::Treatment).take();
+}
+
+} // namespace cb

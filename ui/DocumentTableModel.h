@@ -1,0 +1,44 @@
+#pragma once
+
+#include <QAbstractTableModel>
+
+namespace cb {
+
+class Document;
+
+// Base of the window's thin table models. Each follows one Document: when a
+// change keeps the table's shape it emits dataChanged for the whole table
+// (views repaint only what they show); when the shape changes it resets.
+class DocumentTableModel : public QAbstractTableModel
+{
+    Q_OBJECT
+
+public:
+    explicit DocumentTableModel(Document *document, QObject *parent = nullptr);
+
+    int rowCount(const QModelIndex &parent = {}) const override;
+    int columnCount(const QModelIndex &parent = {}) const override;
+    Document *document() const { return m_document; }
+
+protected:
+    struct Shape
+    {
+        int rows = 0;
+        int columns = 0;
+        friend bool operator==(const Shape &, const Shape &) = default;
+    };
+    // The table's shape for the document as it is now.
+    virtual Shape currentShape() const = 0;
+    // Derived constructors call this once; afterwards it runs on every change.
+    void follow();
+    // Roles that may change with the document (custom roles are added by derived models).
+    virtual QList<int> changedRoles() const;
+    // Hook for derived models to drop cached state before the views hear of a change.
+    virtual void aboutToFollow() {}
+
+private:
+    Document *m_document;
+    Shape m_shape;
+};
+
+} // namespace cb

@@ -1,0 +1,25 @@
+#pragma once
+
+#include "DocumentTableModel.h"
+
+namespace cb {
+
+// Core's findings about the scheme in plain words, worst first.
+class FindingsModel : public DocumentTableModel
+{
+    Q_OBJECT
+
+public:
+    explicit FindingsModel(Document *document, QObject *parent = nullptr);
+
+    QVariant data(const QModelIndex &index, int role = Qt::DisplayRole) const override;
+
+protected:
+    Shape currentShape() const override;
+    void aboutToFollow() override;
+
+private:
+    std::vector<int> m_order; // indices into the analysis' findings, problems first
+};
+
+} // namespace cb

@@ -1,0 +1,63 @@
+#include "LevelsView.h"
+
+#include "LevelsModel.h"
+
+#include <QHeaderView>
+#include <QKeyEvent>
+
+namespace cb {
+
+LevelsView::LevelsView(QWidget *parent)
+    : QTableView(parent)
+{
+    setSelectionBehavior(QAbstractItemView::SelectRows);
+    setSelectionMode(QAbstractItemView::SingleSelection);
+    setDragEnabled(true);
+    setAcceptDrops(true);
+    setDropIndicatorShown(true);
+    setDragDropMode(QAbstractItemView::InternalMove);
+    setDragDropOverwriteMode(false);
+    setDefaultDropAction(Qt::MoveAction);
+    setEditTriggers(QAbstractItemView::AnyKeyPressed | QAbstractItemView::DoubleClicked | QAbstractItemView::EditKeyPressed);
+    verticalHeader()->setSectionResizeMode(QHeaderView::Fixed);
+    setWordWrap(false);
+}
+
+void LevelsView::setLevelsModel(LevelsModel *model)
+{
+    m_model = model;
+    setModel(model);
+    horizontalHeader()->setSectionResizeMode(LevelsModel::NameColumn, QHeaderView::Stretch);
+    for (int c = LevelsModel::SizeColumn; c < LevelsModel::ColumnCount; ++c)
+        horizontalHeader()->setSectionResizeMode(c, QHeaderView::ResizeToContents);
+}
+
+bool LevelsView::moveCurrent(int step)
+{
+    const QModelIndex cur = currentIndex();
+    if (!m_model || !cur.isValid())
+        return false;
+    const int to = cur.row() + step;
+    const int column = cur.column();
+    if (!m_model->moveLevel(cur.row(), to))
+        return false;
+    setCurrentIndex(m_model->index(to, column));
+    return true;
+}
+
+void LevelsView::keyPressEvent(QKeyEvent *event)
+{
+    if (event->modifiers() & Qt::ControlModifier) {
+        if (event->key() == Qt::Key_Up) {
+            moveCurrent(-1);
+            return;
+        }
+        if (event->key() == Qt::Key_Down) {
+            moveCurrent(+1);
+            return;
+        }
+    }
+    QTableView::keyPressEvent(event);
+}
+
+} // namespace cb

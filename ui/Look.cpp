@@ -1,0 +1,73 @@
+#include "Look.h"
+
+#include <QLabel>
+
+using namespace Qt::StringLiterals;
+
+namespace cb::look {
+
+// Our palette: a deep teal for "fine", a burnt amber for "caution", a plum red
+// for "problem". The three differ in lightness as well as hue, and every state
+// also carries its own symbol.
+QString mark(State state)
+{
+    switch (state) {
+    case State::Good: return u"\u2713"_s;
+    case State::Caution: return u"!"_s;
+    case State::Problem: return u"\u2717"_s;
+    case State::Neutral: break;
+    }
+    return u"\u00b7"_s;
+}
+
+QString word(State state)
+{
+    switch (state) {
+    case State::Good: return u"fine"_s;
+    case State::Caution: return u"caution"_s;
+    case State::Problem: return u"problem"_s;
+    case State::Neutral: break;
+    }
+    return {};
+}
+
+QColor ink(State state)
+{
+    switch (state) {
+    case State::Good: return QColor(0x17, 0x6b, 0x5f);
+    case State::Caution: return QColor(0x9a, 0x55, 0x00);
+    case State::Problem: return QColor(0xa3, 0x1f, 0x4f);
+    case State::Neutral: break;
+    }
+    return QColor(0x44, 0x4b, 0x55);
+}
+
+QColor tint(State state)
+{
+    switch (state) {
+    case State::Good: return QColor(0xe6, 0xf3, 0xf0);
+    case State::Caution: return QColor(0xfd, 0xf0, 0xda);
+    case State::Problem: return QColor(0xf9, 0xe1, 0xea);
+    case State::Neutral: break;
+    }
+    return QColor(0xf4, 0xf5, 0xf7);
+}
+
+QColor raisedBar() { return QColor(0x2b, 0x6c, 0xb0); }
+QColor loweredBar() { return QColor(0xd6, 0x7a, 0x1e); }
+QColor baseline() { return QColor(0x5a, 0x60, 0x6b); }
+QColor quietText() { return QColor(0x8a, 0x90, 0x99); }
+QColor footerBackground() { return QColor(0xee, 0xf0, 0xf3); }
+QString approxMark() { return u"\u2248"_s; }
+
+QLabel *note(const QString &text, QWidget *parent)
+{
+    auto *l = new QLabel(text, parent);
+    l->setWordWrap(true);
+    QPalette p = l->palette();
+    p.setColor(QPalette::WindowText, ink(State::Neutral));
+    l->setPalette(p);
+    return l;
+}
+
+} // namespace cb::look

@@ -1,0 +1,33 @@
+#pragma once
+
+#include <QColor>
+#include <QString>
+
+class QLabel;
+class QWidget;
+
+namespace cb::look {
+
+// How a property reads at a glance. Every state has a symbol and a word as
+// well as a colour, so nothing depends on telling colours apart.
+enum class State { Good, Caution, Problem, Neutral };
+
+QString mark(State state);  // "✓", "!", "✗", "·"
+QString word(State state);  // "fine", "caution", "problem", ""
+QColor ink(State state);    // text and symbol colour
+QColor tint(State state);   // cell background
+
+// Bars of the hypothesis pictures: weights above zero and below zero.
+QColor raisedBar();
+QColor loweredBar();
+QColor baseline();
+QColor quietText(); // defaults shown in grey (equal sizes, positions 1..k)
+QColor footerBackground();
+
+// The symbol for a value that is stored as a floating number, not an exact fraction.
+QString approxMark(); // "≈"
+
+// A wrapped label in the quiet colour, for hints and explanations.
+QLabel *note(const QString &text, QWidget *parent);
+
+} // namespace cb::look

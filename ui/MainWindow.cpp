@@ -1,0 +1,382 @@
+#include "MainWindow.h"
+
+#include "CodingPanel.h"
+#include "Demos.h"
+#include "Document.h"
+#include "HealthPanel.h"
+#include "LevelsPanel.h"
+#include "MeaningPanel.h"
+#include "Prompter.h"
+#include "SchemeFile.h"
+#include "WeightGridView.h"
+
+#include <QApplication>
+#include <QCloseEvent>
+#include <QDir>
+#include <QDockWidget>
+#include <QFileInfo>
+#include <QLabel>
+#include <QLocale>
+#include <QMenuBar>
+#include <QMessageBox>
+#include <QMimeData>
+#include <QStatusBar>
+#include <QTimer>
+#include <QToolBar>
+#include <QUndoStack>
+#include <QUrl>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
+    : QMainWindow(parent)
+    , m_options(options)
+    , m_ownPrompter(options.prompter ? nullptr : std::make_unique<DialogPrompter>())
+    , m_prompter(options.prompter ? options.prompter : m_ownPrompter.get())
+    , m_document(new Document(this))
+    , m_coding(new CodingPanel(m_document, this))
+    , m_recent(options.settingsFile)
+    , m_recovery(options.recoveryDirectory)
+    , m_autosave(new QTimer(this))
+{
+    setObjectName(u"mainWindow"_s);
+    setWindowIcon(QIcon(u":/contrast-bench.svg"_s));
+    setCentralWidget(m_coding);
+    setAcceptDrops(true);
+    setDockNestingEnabled(true);
+    buildDocks();
+    buildMenus();
+
+    m_arithmetic = new QLabel(this);
+    statusBar()->addPermanentWidget(m_arithmetic);
+    connect(m_coding, &CodingPanel::message, this, &MainWindow::showMessage);
+    connect(m_levels, &LevelsPanel::message, this, &MainWindow::showMessage);
+    connect(m_coding, &CodingPanel::currentCoefficientChanged, m_meaning, &MeaningPanel::showCoefficient);
+    connect(m_document, &Document::modifiedChanged, this, &MainWindow::updateTitle);
+    connect(m_document, &Document::filePathChanged, this, &MainWindow::updateTitle);
+    connect(m_document, &Document::changed, this, [this] {
+        m_arithmetic->setText(m_document->analysis().exact ? tr("exact fractions") : tr("floating point"));
+    });
+    connect(m_document->undoStack(), &QUndoStack::cleanChanged, this, [this](bool clean) {
+        if (clean && m_options.useRecovery)
+            m_recovery.discard();
+    });
+
+    m_autosave->setInterval(options.autosaveIntervalMs);
+    connect(m_autosave, &QTimer::timeout, this, &MainWindow::writeRecovery);
+    if (options.useRecovery)
+        m_autosave->start();
+
+    m_arithmetic->setText(m_document->analysis().exact ? tr("exact fractions") : tr("floating point"));
+    updateTitle();
+    resize(1400, 900);
+}
+
+MainWindow::~MainWindow()
+{
+    // The document is destroyed with the other children, after this object's members:
+    // its last signals (the undo stack clearing itself) must not reach them.
+    m_document->undoStack()->disconnect(this);
+    m_document->disconnect(this);
+}
+
+void MainWindow::buildDocks()
+{
+    auto dock = [this](QWidget *w, const QString &title, const QString &name, Qt::DockWidgetArea area) {
+        auto *d = new QDockWidget(title, this);
+        d->setObjectName(name);
+        d->setWidget(w);
+        d->setFeatures(QDockWidget::DockWidgetMovable | QDockWidget::DockWidgetFloatable | QDockWidget::DockWidgetClosable);
+        addDockWidget(area, d);
+        return d;
+    };
+    m_levels = new LevelsPanel(m_document, this);
+    m_meaning = new MeaningPanel(m_document, this);
+    m_health = new HealthPanel(m_document, this);
+    setCorner(Qt::BottomLeftCorner, Qt::LeftDockWidgetArea);
+    setCorner(Qt::BottomRightCorner, Qt::BottomDockWidgetArea);
+    auto *levels = dock(m_levels, tr("Factor and levels"), u"levelsDock"_s, Qt::LeftDockWidgetArea);
+    auto *meaning = dock(m_meaning, tr("What each coefficient tests"), u"meaningDock"_s, Qt::RightDockWidgetArea);
+    m_healthDock = dock(m_health, tr("Design health"), u"healthDock"_s, Qt::BottomDockWidgetArea);
+    resizeDocks({levels, meaning}, {330, 400}, Qt::Horizontal);
+    resizeDocks({m_healthDock}, {230}, Qt::Vertical);
+}
+
+QDockWidget *MainWindow::addPanel(QWidget *panel, const QString &title, const QString &objectName)
+{
+    auto *d = new QDockWidget(title, this);
+    d->setObjectName(objectName);
+    d->setWidget(panel);
+    addDockWidget(Qt::BottomDockWidgetArea, d);
+    tabifyDockWidget(m_healthDock, d);
+    m_healthDock->raise();
+    if (m_viewMenu)
+        m_viewMenu->addAction(d->toggleViewAction());
+    return d;
+}
+
+void MainWindow::buildMenus()
+{
+    QMenu *file = menuBar()->addMenu(tr("&File"));
+    QAction *newAction = file->addAction(tr("&New scheme"), this, [this] { newScheme(); });
+    newAction->setShortcut(QKeySequence::New);
+    QAction *openAction = file->addAction(tr("&Open\u2026"), this, [this] {
+        if (!maybeSave())
+            return;
+        const QString start = m_document->filePath().isEmpty() ? QString() : QFileInfo(m_document->filePath()).absolutePath();
+        const QString path = m_prompter->askOpenPath(this, start);
+        if (!path.isEmpty())
+            load(path);
+    });
+    openAction->setShortcut(QKeySequence::Open);
+    m_recentMenu = file->addMenu(tr("Open &recent"));
+    connect(m_recentMenu, &QMenu::aboutToShow, this, &MainWindow::rebuildRecentMenu);
+    QMenu *demos = file->addMenu(tr("&Demo studies"));
+    for (const DemoStudy &d : demoStudies())
+        demos->addAction(d.title, this, [this, name = d.name] { openDemo(name); });
+    file->addSeparator();
+    QAction *saveAction = file->addAction(tr("&Save"), this, [this] { save(); });
+    saveAction->setShortcut(QKeySequence::Save);
+    QAction *saveAsAction = file->addAction(tr("Save &as\u2026"), this, [this] { saveAs(); });
+    saveAsAction->setShortcut(QKeySequence::SaveAs);
+    file->addSeparator();
+    QAction *quit = file->addAction(tr("&Quit"), this, &QWidget::close);
+    quit->setShortcut(QKeySequence::Quit);
+
+    QMenu *edit = menuBar()->addMenu(tr("&Edit"));
+    QAction *undo = m_document->undoStack()->createUndoAction(this, tr("Undo"));
+    QAction *redo = m_document->undoStack()->createRedoAction(this, tr("Redo"));
+    undo->setShortcut(QKeySequence::Undo);
+    redo->setShortcut(QKeySequence::Redo);
+    edit->addAction(undo);
+    edit->addAction(redo);
+    edit->addSeparator();
+    auto gridAction = [this, edit](const QString &text, const QKeySequence &keys, void (*run)(WeightGridView *)) {
+        QAction *a = edit->addAction(text, this, [this, run] {
+            auto *focused = qobject_cast<WeightGridView *>(QApplication::focusWidget());
+            run(focused ? focused : m_coding->activeView());
+        });
+        a->setShortcut(keys);
+        a->setShortcutContext(Qt::WidgetWithChildrenShortcut);
+        m_coding->addAction(a);
+        return a;
+    };
+    gridAction(tr("&Copy cells"), QKeySequence::Copy, [](WeightGridView *v) { v->copy(); });
+    gridAction(tr("&Paste cells"), QKeySequence::Paste, [](WeightGridView *v) { v->paste(); });
+    gridAction(tr("C&lear cells to 0 (Del)"), {}, [](WeightGridView *v) { v->clearSelectedCells(); });
+    edit->addSeparator();
+    edit->addAction(tr("Add a &level"), m_levels, &LevelsPanel::addLevel);
+    edit->addAction(tr("Remove the level"), m_levels, &LevelsPanel::removeLevel);
+    edit->addAction(tr("Add a coding c&olumn"), m_coding, &CodingPanel::addColumn);
+    edit->addAction(tr("Remove the coding column"), m_coding, &CodingPanel::removeColumn);
+
+    m_viewMenu = menuBar()->addMenu(tr("&View"));
+    QAction *forward = m_viewMenu->addAction(tr("Coding \u2192 hypotheses"), this, [this] { m_coding->showDirection(CodingPanel::CodingDirection); });
+    forward->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_1));
+    QAction *backward = m_viewMenu->addAction(tr("Hypotheses \u2192 coding"), this, [this] { m_coding->showDirection(CodingPanel::HypothesisDirection); });
+    backward->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_2));
+    m_viewMenu->addSeparator();
+    const QList<QDockWidget *> docks = findChildren<QDockWidget *>();
+    for (QDockWidget *d : docks)
+        m_viewMenu->addAction(d->toggleViewAction());
+
+    QMenu *help = menuBar()->addMenu(tr("&Help"));
+    help->addAction(tr("&About Contrast Bench"), this, [this] {
+        QMessageBox::about(this, tr("About Contrast Bench"),
+                           tr("<b>Contrast Bench %1</b><p>A workbench for designing contrast codings of categorical predictors: "
+                              "type a coding and read, in exact fractions, what each coefficient tests.</p>")
+                               .arg(QCoreApplication::applicationVersion()));
+    });
+
+    QToolBar *bar = addToolBar(tr("Main"));
+    bar->setObjectName(u"mainToolBar"_s);
+    bar->setMovable(false);
+    bar->setToolButtonStyle(Qt::ToolButtonTextOnly);
+    bar->addAction(newAction);
+    bar->addAction(openAction);
+    bar->addAction(saveAction);
+    bar->addSeparator();
+    bar->addAction(undo);
+    bar->addAction(redo);
+}
+
+void MainWindow::rebuildRecentMenu()
+{
+    m_recentMenu->clear();
+    const QStringList paths = m_recent.paths();
+    for (const QString &p : paths)
+        m_recentMenu->addAction(QFileInfo(p).fileName() + u"   \u2014 "_s + QFileInfo(p).absolutePath(), this, [this, p] { openFile(p); });
+    if (paths.isEmpty())
+        m_recentMenu->addAction(tr("(none yet)"))->setEnabled(false);
+    else {
+        m_recentMenu->addSeparator();
+        m_recentMenu->addAction(tr("Forget these files"), this, [this] { m_recent.clear(); });
+    }
+}
+
+void MainWindow::updateTitle()
+{
+    setWindowTitle(tr("%1[*] \u2014 Contrast Bench").arg(m_document->displayName()));
+    setWindowModified(m_document->isModified());
+}
+
+void MainWindow::showMessage(const QString &text)
+{
+    statusBar()->showMessage(text, 10'000);
+}
+
+bool MainWindow::maybeSave()
+{
+    if (!m_document->isModified())
+        return true;
+    switch (m_prompter->askSaveChanges(this, m_document->displayName())) {
+    case Prompter::SaveChoice::Save: return save();
+    case Prompter::SaveChoice::Discard: return true;
+    case Prompter::SaveChoice::Cancel: break;
+    }
+    return false;
+}
+
+bool MainWindow::newScheme()
+{
+    if (!maybeSave())
+        return false;
+    m_document->reset(Document::starterScheme(), {});
+    return true;
+}
+
+bool MainWindow::openFile(const QString &path)
+{
+    return maybeSave() && load(path);
+}
+
+bool MainWindow::load(const QString &path)
+{
+    auto scheme = loadScheme(path);
+    if (!scheme) {
+        m_prompter->tell(this, tr("Cannot open the scheme"), scheme.error());
+        if (!QFileInfo::exists(path))
+            m_recent.remove(path);
+        return false;
+    }
+    m_document->reset(scheme.take(), QFileInfo(path).absoluteFilePath());
+    m_recent.add(path);
+    showMessage(tr("Opened %1").arg(QDir::toNativeSeparators(path)));
+    return true;
+}
+
+bool MainWindow::openDemo(const QString &name)
+{
+    if (!maybeSave())
+        return false;
+    auto scheme = loadDemo(name);
+    if (!scheme) {
+        m_prompter->tell(this, tr("Cannot open the demo"), scheme.error());
+        return false;
+    }
+    // A demo opens as a new, unnamed scheme, so saving never writes into the program's resources.
+    m_document->reset(scheme.take(), {});
+    showMessage(tr("Demo study \u2018%1\u2019 opened. Save it under a name of your own to keep changes.").arg(name));
+    return true;
+}
+
+bool MainWindow::save()
+{
+    if (m_document->filePath().isEmpty())
+        return saveAs();
+    return saveTo(m_document->filePath());
+}
+
+bool MainWindow::saveAs()
+{
+    const QString suggestion = m_document->filePath().isEmpty()
+        ? (m_document->scheme().factor.name.isEmpty() ? u"scheme"_s : m_document->scheme().factor.name) + u".json"_s
+        : m_document->filePath();
+    const QString path = m_prompter->askSavePath(this, suggestion);
+    return !path.isEmpty() && saveTo(path);
+}
+
+bool MainWindow::saveTo(const QString &path)
+{
+    if (const QString error = saveScheme(m_document->scheme(), path); !error.isEmpty()) {
+        m_prompter->tell(this, tr("Cannot save the scheme"), error);
+        return false;
+    }
+    m_document->markSaved(QFileInfo(path).absoluteFilePath());
+    m_recent.add(path);
+    showMessage(tr("Saved %1").arg(QDir::toNativeSeparators(path)));
+    return true;
+}
+
+bool MainWindow::writeRecovery()
+{
+    if (!m_options.useRecovery || !m_document->isModified() || m_document->revision() == m_recoveredRevision)
+        return false;
+    if (const QString error = m_recovery.save(m_document->scheme(), m_document->filePath()); !error.isEmpty()) {
+        showMessage(tr("Could not write the recovery file: %1").arg(error));
+        return false;
+    }
+    m_recoveredRevision = m_document->revision();
+    return true;
+}
+
+bool MainWindow::offerRecovery()
+{
+    if (!m_options.useRecovery || !m_recovery.exists())
+        return false;
+    auto recovered = m_recovery.load();
+    if (!recovered) {
+        const QString aside = m_recovery.setAside();
+        if (aside.isEmpty())
+            m_recovery.discard();
+        m_prompter->tell(this, tr("Unsaved work could not be restored"),
+                         tr("The recovery file could not be read: %1\n\n%2")
+                             .arg(recovered.error(), aside.isEmpty() ? tr("It was removed.") : tr("It was moved to %1.").arg(aside)));
+        return false;
+    }
+    const QString what = recovered->originalPath.isEmpty() ? tr("a new, unnamed scheme")
+                                                            : QDir::toNativeSeparators(recovered->originalPath);
+    const QString when = recovered->savedAt.isValid() ? QLocale().toString(recovered->savedAt.toLocalTime(), QLocale::ShortFormat) : tr("an unknown time");
+    const bool restore = m_prompter->askRestoreRecovery(
+        this, tr("Contrast Bench was closed without saving changes to %1 (last kept at %2). Restore them?").arg(what, when));
+    if (!restore) {
+        m_recovery.discard();
+        return false;
+    }
+    m_document->restore(recovered->scheme, recovered->originalPath);
+    showMessage(tr("Restored unsaved work. Save it to keep it."));
+    return true;
+}
+
+void MainWindow::closeEvent(QCloseEvent *event)
+{
+    if (!maybeSave()) {
+        event->ignore();
+        return;
+    }
+    if (m_options.useRecovery)
+        m_recovery.discard();
+    event->accept();
+}
+
+void MainWindow::dragEnterEvent(QDragEnterEvent *event)
+{
+    const QList<QUrl> urls = event->mimeData()->urls();
+    if (!urls.isEmpty() && urls.first().isLocalFile())
+        event->acceptProposedAction();
+}
+
+void MainWindow::dropEvent(QDropEvent *event)
+{
+    const QList<QUrl> urls = event->mimeData()->urls();
+    if (urls.isEmpty() || !urls.first().isLocalFile())
+        return;
+    event->acceptProposedAction();
+    // Open after the drop has finished, so a question dialog does not run inside the drag.
+    const QString path = urls.first().toLocalFile();
+    QTimer::singleShot(0, this, [this, path] { openFile(path); });
+}
+
+} // namespace cb

@@ -1,0 +1,102 @@
+#pragma once
+
+#include "RecentFiles.h"
+#include "RecoveryStore.h"
+
+#include <QMainWindow>
+
+#include <memory>
+
+class QDockWidget;
+class QLabel;
+class QMenu;
+class QTimer;
+
+namespace cb {
+
+class CodingPanel;
+class Document;
+class HealthPanel;
+class LevelsPanel;
+class MeaningPanel;
+class Prompter;
+
+// What the window is given from outside; tests replace each part.
+struct WindowOptions
+{
+    Prompter *prompter = nullptr;    // not owned; null means the real dialogs
+    QString settingsFile;            // empty: the application's QSettings
+    QString recoveryDirectory;       // empty: QStandardPaths::AppDataLocation
+    int autosaveIntervalMs = 30'000; // while there are unsaved changes
+    bool useRecovery = true;         // off for screenshots
+};
+
+// The workbench window: levels on the left, the coding grid in the middle,
+// what each coefficient tests on the right, design health below. Other
+// panels (power, data fit, export) are added with addPanel().
+class MainWindow : public QMainWindow
+{
+    Q_OBJECT
+
+public:
+    explicit MainWindow(const WindowOptions &options = {}, QWidget *parent = nullptr);
+    ~MainWindow() override;
+
+    Document *document() const { return m_document; }
+    CodingPanel *codingPanel() const { return m_coding; }
+    MeaningPanel *meaningPanel() const { return m_meaning; }
+    HealthPanel *healthPanel() const { return m_health; }
+    LevelsPanel *levelsPanel() const { return m_levels; }
+    const RecoveryStore &recoveryStore() const { return m_recovery; }
+    RecentFiles &recentFiles() { return m_recent; }
+    QTimer *autosaveTimer() const { return m_autosave; }
+
+    // Adds a panel as a tab beside "Design health" and returns its dock.
+    QDockWidget *addPanel(QWidget *panel, const QString &title, const QString &objectName);
+
+    // File commands. Each asks about unsaved work first where that applies,
+    // and reports failures through the prompter. They return whether they happened.
+    bool newScheme();
+    bool openFile(const QString &path);
+    bool openDemo(const QString &name);
+    bool save();
+    bool saveAs();
+    bool saveTo(const QString &path);
+    // At start: offers to restore work left by a crash. Returns true when restored.
+    bool offerRecovery();
+    // The autosave step: writes the recovery file when there is unsaved, unwritten work.
+    bool writeRecovery();
+
+protected:
+    void closeEvent(QCloseEvent *event) override;
+    void dragEnterEvent(QDragEnterEvent *event) override;
+    void dropEvent(QDropEvent *event) override;
+
+private:
+    bool maybeSave();
+    bool load(const QString &path);
+    void buildDocks();
+    void buildMenus();
+    void rebuildRecentMenu();
+    void updateTitle();
+    void showMessage(const QString &text);
+
+    WindowOptions m_options;
+    std::unique_ptr<Prompter> m_ownPrompter;
+    Prompter *m_prompter;
+    Document *m_document;
+    CodingPanel *m_coding;
+    MeaningPanel *m_meaning = nullptr;
+    HealthPanel *m_health = nullptr;
+    LevelsPanel *m_levels = nullptr;
+    QDockWidget *m_healthDock = nullptr;
+    QMenu *m_recentMenu = nullptr;
+    QMenu *m_viewMenu = nullptr;
+    QLabel *m_arithmetic = nullptr;
+    RecentFiles m_recent;
+    RecoveryStore m_recovery;
+    QTimer *m_autosave;
+    quint64 m_recoveredRevision = 0;
+};
+
+} // namespace cb

@@ -1,0 +1,44 @@
+#pragma once
+
+#include <QStyledItemDelegate>
+
+class QAbstractItemView;
+
+namespace cb {
+
+// Paints one coefficient of the meaning list as a card: its name, the
+// hypothesis in symbols and in words, and a bar per level showing the weight
+// the hypothesis puts on that level's mean (above the line: counted in,
+// below: subtracted).
+class MeaningDelegate : public QStyledItemDelegate
+{
+    Q_OBJECT
+
+public:
+    explicit MeaningDelegate(QAbstractItemView *view);
+
+    void paint(QPainter *painter, const QStyleOptionViewItem &option, const QModelIndex &index) const override;
+    QSize sizeHint(const QStyleOptionViewItem &option, const QModelIndex &index) const override;
+
+    // Draws hypothesis weights as bars in `area` (used by the cards; public for reuse in panels).
+    static void paintBars(QPainter *painter, const QRect &area, const QList<double> &weights, const QStringList &labels,
+                          const QStringList &valueTexts, const QFont &smallFont);
+    static int barsHeight(int levelCount, const QFont &smallFont);
+
+private:
+    struct Parts
+    {
+        QRect title;
+        QRect symbols;
+        QRect words;
+        QRect bars;
+        int height = 0;
+    };
+    Parts layout(const QRect &rect, const QStyleOptionViewItem &option, const QModelIndex &index) const;
+    QFont titleFont(const QStyleOptionViewItem &option) const;
+    QFont smallFont(const QStyleOptionViewItem &option) const;
+
+    QAbstractItemView *m_view;
+};
+
+} // namespace cb

@@ -1,0 +1,64 @@
+#include "Prompter.h"
+
+#include <QCoreApplication>
+#include <QAbstractButton>
+#include <QFileDialog>
+#include <QMessageBox>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+QString tr(const char *text)
+{
+    return QCoreApplication::translate("cb::Prompter", text);
+}
+QString schemeFilter()
+{
+    return tr("Contrast Bench schemes (*.json);;All files (*)");
+}
+} // namespace
+
+Prompter::SaveChoice DialogPrompter::askSaveChanges(QWidget *parent, const QString &documentName)
+{
+    QMessageBox box(QMessageBox::Warning, tr("Unsaved changes"),
+                    tr("%1 has changes that are not saved.").arg(documentName),
+                    QMessageBox::Save | QMessageBox::Discard | QMessageBox::Cancel, parent);
+    box.setInformativeText(tr("Save them before going on?"));
+    box.setDefaultButton(QMessageBox::Save);
+    switch (box.exec()) {
+    case QMessageBox::Save: return SaveChoice::Save;
+    case QMessageBox::Discard: return SaveChoice::Discard;
+    default: return SaveChoice::Cancel;
+    }
+}
+
+QString DialogPrompter::askOpenPath(QWidget *parent, const QString &startDirectory)
+{
+    return QFileDialog::getOpenFileName(parent, tr("Open a scheme"), startDirectory, schemeFilter());
+}
+
+QString DialogPrompter::askSavePath(QWidget *parent, const QString &suggestedPath)
+{
+    QString path = QFileDialog::getSaveFileName(parent, tr("Save the scheme"), suggestedPath, schemeFilter());
+    if (!path.isEmpty() && !path.contains(u'.'))
+        path += u".json"_s;
+    return path;
+}
+
+bool DialogPrompter::askRestoreRecovery(QWidget *parent, const QString &description)
+{
+    QMessageBox box(QMessageBox::Question, tr("Restore unsaved work?"), description, QMessageBox::Yes | QMessageBox::No, parent);
+    box.button(QMessageBox::Yes)->setText(tr("Restore"));
+    box.button(QMessageBox::No)->setText(tr("Discard it"));
+    box.setDefaultButton(QMessageBox::Yes);
+    return box.exec() == QMessageBox::Yes;
+}
+
+void DialogPrompter::tell(QWidget *parent, const QString &title, const QString &message)
+{
+    QMessageBox::warning(parent, title, message);
+}
+
+} // namespace cb

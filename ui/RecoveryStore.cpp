@@ -1,0 +1,92 @@
+#include "RecoveryStore.h"
+
+#include "SchemeFile.h"
+
+#include <QDir>
+#include <QFile>
+#include <QJsonDocument>
+#include <QJsonObject>
+#include <QStandardPaths>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+const QString kFormat = u"contrast-bench-recovery"_s;
+constexpr int kVersion = 1;
+constexpr qint64 kMaxRecoveryFile = 64 * 1024 * 1024;
+} // namespace
+
+RecoveryStore::RecoveryStore(QString directory)
+    : m_directory(directory.isEmpty() ? QStandardPaths::writableLocation(QStandardPaths::AppDataLocation) : std::move(directory))
+{
+}
+
+QString RecoveryStore::path() const
+{
+    return QDir(m_directory).filePath(u"recovery.json"_s);
+}
+
+bool RecoveryStore::exists() const
+{
+    return QFile::exists(path());
+}
+
+QString RecoveryStore::save(const Scheme &scheme, const QString &originalPath) const
+{
+    if (!QDir().mkpath(m_directory))
+        return u"%1: cannot create the directory for the recovery file"_s.arg(m_directory);
+    QJsonObject root;
+    root[u"format"_s] = kFormat;
+    root[u"version"_s] = kVersion;
+    root[u"original_path"_s] = originalPath;
+    root[u"saved_at"_s] = QDateTime::currentDateTimeUtc().toString(Qt::ISODate);
+    root[u"scheme"_s] = QJsonDocument::fromJson(schemeToJson(scheme)).object();
+    return writeFileAtomically(path(), QJsonDocument(root).toJson(QJsonDocument::Compact));
+}
+
+Result<RecoveryStore::Recovered> RecoveryStore::load() const
+{
+    using R = Result<Recovered>;
+    const QString where = path();
+    QFile f(where);
+    if (!f.open(QIODevice::ReadOnly))
+        return R::failure(u"%1: cannot open the recovery file: %2"_s.arg(where, f.errorString()));
+    if (f.size() > kMaxRecoveryFile)
+        return R::failure(u"%1: the recovery file is %2 bytes, more than any scheme needs"_s.arg(where).arg(f.size()));
+    QJsonParseError error;
+    const QJsonDocument doc = QJsonDocument::fromJson(f.readAll(), &error);
+    if (error.error != QJsonParseError::NoError || !doc.isObject())
+        return R::failure(u"%1: not valid JSON (%2)"_s.arg(where, error.errorString()));
+    const QJsonObject root = doc.object();
+    if (root.value(u"format"_s).toString() != kFormat)
+        return R::failure(u"%1: field 'format': expected \"%2\""_s.arg(where, kFormat));
+    if (root.value(u"version"_s).toInt() != kVersion)
+        return R::failure(u"%1: field 'version': expected %2"_s.arg(where).arg(kVersion));
+    if (!root.value(u"scheme"_s).isObject())
+        return R::failure(u"%1: field 'scheme': expected an object"_s.arg(where));
+    auto scheme = schemeFromJson(QJsonDocument(root.value(u"scheme"_s).toObject()).toJson(), where);
+    if (!scheme)
+        return R::failure(scheme.error());
+    Recovered r;
+    r.scheme = scheme.take();
+    r.originalPath = root.value(u"original_path"_s).toString();
+    r.savedAt = QDateTime::fromString(root.value(u"saved_at"_s).toString(), Qt::ISODate);
+    return R(std::move(r));
+}
+
+QString RecoveryStore::setAside() const
+{
+    const QString target = QDir(m_directory).filePath(
+        u"recovery-unreadable-%1.json"_s.arg(QDateTime::currentDateTimeUtc().toString(u"yyyyMMdd-HHmmss-zzz"_s)));
+    QFile::remove(target);
+    return QFile::rename(path(), target) ? target : QString();
+}
+
+void RecoveryStore::discard() const
+{
+    QFile::remove(path());
+}
+
+} // namespace cb

@@ -1,0 +1,71 @@
+#include "VifModel.h"
+
+#include "ColumnStatus.h"
+#include "Document.h"
+#include "Look.h"
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+VifModel::VifModel(Document *document, QObject *parent)
+    : DocumentTableModel(document, parent)
+{
+    follow();
+}
+
+DocumentTableModel::Shape VifModel::currentShape() const
+{
+    const Analysis &a = document()->analysis();
+    return {int(a.vif.size()) == a.columnCount ? a.columnCount : 0, ColumnCount};
+}
+
+QVariant VifModel::data(const QModelIndex &index, int role) const
+{
+    if (!index.isValid())
+        return {};
+    const Analysis &a = document()->analysis();
+    const int j = index.row();
+    const auto &vif = a.vif[size_t(j)];
+    const look::State state = vifState(vif);
+    switch (index.column()) {
+    case NameColumn:
+        return role == Qt::DisplayRole ? QVariant(u"%1  %2"_s.arg(j + 1).arg(a.columnNames.value(j))) : QVariant();
+    case VifColumn:
+        if (role == Qt::DisplayRole)
+            return formatVif(vif);
+        if (role == Qt::TextAlignmentRole)
+            return QVariant::fromValue(Qt::AlignRight | Qt::AlignVCenter);
+        return {};
+    case VerdictColumn:
+        if (role == Qt::DisplayRole) {
+            switch (state) {
+            case look::State::Good: return tr("%1 below %2").arg(look::mark(state)).arg(kVifCaution);
+            case look::State::Caution: return tr("%1 notable (%2 or more)").arg(look::mark(state)).arg(kVifCaution);
+            case look::State::Problem: return tr("%1 serious (%2 or more)").arg(look::mark(state)).arg(kVifProblem);
+            case look::State::Neutral: return tr("undefined");
+            }
+        }
+        if (role == Qt::ForegroundRole)
+            return look::ink(state);
+        if (role == Qt::BackgroundRole && state != look::State::Good)
+            return look::tint(state);
+        return {};
+    default:
+        return {};
+    }
+}
+
+QVariant VifModel::headerData(int section, Qt::Orientation orientation, int role) const
+{
+    if (orientation != Qt::Horizontal || role != Qt::DisplayRole)
+        return {};
+    switch (section) {
+    case NameColumn: return tr("Column");
+    case VifColumn: return tr("VIF");
+    case VerdictColumn: return tr("Verdict");
+    default: return {};
+    }
+}
+
+} // namespace cb
