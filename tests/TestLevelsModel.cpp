@@ -1,0 +1,175 @@
+#include "CodingPanel.h"
+#include "Document.h"
+#include "LevelsModel.h"
+#include "LevelsPanel.h"
+#include "LevelsView.h"
+#include "MeaningModel.h"
+#include "MeaningPanel.h"
+#include "SchemePicker.h"
+#include "WindowFixture.h"
+
+#include <QAbstractItemModelTester>
+#include <QMimeData>
+#include <QSignalSpy>
+#include <QTest>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+class TestLevelsModel : public QObject
+{
+    Q_OBJECT
+
+private slots:
+    void passesTheModelTester();
+    void aRenamedLevelAppearsInEveryHypothesis_data();
+    void aRenamedLevelAppearsInEveryHypothesis();
+    void aClashingNameIsRefused();
+    void keyboardReorderMovesTheLevelAndItsWeights();
+    void droppingARowMovesTheLevel();
+    void plannedSizesAndPositions();
+    void addAndRemoveLevelsAreUndoable();
+};
+
+namespace {
+QStringList allHypothesisTexts(MainWindow &w)
+{
+    QStringList out;
+    MeaningModel *m = w.meaningPanel()->model();
+    for (int r = 0; r < m->rowCount(); ++r)
+        out << m->index(r, 0).data(MeaningModel::SymbolsRole).toString() + u" | "_s + m->index(r, 0).data(MeaningModel::WordsRole).toString();
+    return out;
+}
+} // namespace
+
+void TestLevelsModel::passesTheModelTester()
+{
+    WindowFixture f;
+    LevelsModel *m = f.window->levelsPanel()->model();
+    QAbstractItemModelTester tester(m, QAbstractItemModelTester::FailureReportingMode::QtTest);
+    QVERIFY(m->addLevel());
+    QVERIFY(m->moveLevel(4, 0));
+    QVERIFY(m->removeLevel(2));
+}
+
+void TestLevelsModel::aRenamedLevelAppearsInEveryHypothesis_data()
+{
+    QTest::addColumn<QString>("scheme");
+    QTest::newRow("treatment") << u"treatment"_s;
+    QTest::newRow("sum") << u"sum"_s;
+    QTest::newRow("reverse helmert") << u"reverse-helmert"_s;
+    QTest::newRow("custom") << u"custom"_s;
+}
+
+void TestLevelsModel::aRenamedLevelAppearsInEveryHypothesis()
+{
+    QFETCH(QString, scheme);
+    WindowFixture f;
+    MainWindow &w = *f.window;
+    if (scheme == u"custom"_s) {
+        // Every column involves level A.
+        Scheme s = w.document()->scheme();
+        s.kind = SchemeKind::Custom;
+        for (Column &c : s.columns)
+            c.weights[0] = Weight(-1);
+        w.document()->edit(s, u"custom"_s);
+    } else {
+        QVERIFY(w.codingPanel()->picker()->applyStandard(*schemeFromId(scheme)));
+    }
+    LevelsModel *m = w.levelsPanel()->model();
+    QVERIFY(m->setData(m->index(0, LevelsModel::NameColumn), u"no irrigation"_s));
+    const QStringList texts = allHypothesisTexts(w);
+    QCOMPARE(texts.size(), 4);
+    for (const QString &t : texts) {
+        QVERIFY2(t.contains(u"no irrigation"_s), qPrintable(t));
+        QVERIFY2(!t.contains(u"(A"_s) && !t.contains(u"A)"_s) && !t.contains(u" A "_s), qPrintable(t));
+    }
+    // One undo step, named after what happened.
+    QCOMPARE(w.document()->undoStack()->undoText(), u"Rename level \u2018A\u2019 to \u2018no irrigation\u2019"_s);
+    w.document()->undoStack()->undo();
+    for (const QString &t : allHypothesisTexts(w))
+        QVERIFY2(!t.contains(u"no irrigation"_s), qPrintable(t));
+}
+
+void TestLevelsModel::aClashingNameIsRefused()
+{
+    WindowFixture f;
+    LevelsModel *m = f.window->levelsPanel()->model();
+    QSignalSpy refused(m, &LevelsModel::editRefused);
+    QVERIFY(!m->setData(m->index(0, LevelsModel::NameColumn), u"B"_s));
+    QCOMPARE(refused.count(), 1);
+    QVERIFY(refused.first().first().toString().contains(u"unique"_s));
+    QCOMPARE(f.window->document()->scheme().factor.levels[0], u"A"_s);
+}
+
+void TestLevelsModel::keyboardReorderMovesTheLevelAndItsWeights()
+{
+    WindowFixture f;
+    QVERIFY(f.show());
+    MainWindow &w = *f.window;
+    Document *d = w.document();
+    Scheme s = d->scheme();
+    s.kind = SchemeKind::Custom;
+    s.columns[0].weights = {Weight(1), Weight(2), Weight(3), Weight(4)};
+    d->edit(s, u"custom"_s);
+    LevelsView *v = w.levelsPanel()->view();
+    v->setFocus();
+    v->setCurrentIndex(v->model()->index(0, LevelsModel::NameColumn));
+    QTest::keyClick(v, Qt::Key_Down, Qt::ControlModifier);
+    QTest::keyClick(v, Qt::Key_Down, Qt::ControlModifier);
+    QCOMPARE(d->scheme().factor.levels, (QStringList{u"B"_s, u"C"_s, u"A"_s, u"D"_s}));
+    QCOMPARE(d->scheme().columns[0].weights, (std::vector<Weight>{Weight(2), Weight(3), Weight(1), Weight(4)}));
+    QCOMPARE(v->currentIndex().row(), 2); // the cursor follows the level
+    QTest::keyClick(v, Qt::Key_Up, Qt::ControlModifier);
+    QCOMPARE(d->scheme().factor.levels, (QStringList{u"B"_s, u"A"_s, u"C"_s, u"D"_s}));
+    QCOMPARE(d->undoStack()->undoText(), u"Move level \u2018A\u2019 to place 2"_s);
+}
+
+void TestLevelsModel::droppingARowMovesTheLevel()
+{
+    WindowFixture f;
+    LevelsModel *m = f.window->levelsPanel()->model();
+    std::unique_ptr<QMimeData> data(m->mimeData({m->index(3, 0)}));
+    // Dropped between rows 0 and 1: D becomes the second level.
+    QVERIFY(!m->dropMimeData(data.get(), Qt::MoveAction, 1, 0, {})); // false: the view must not remove the source row
+    QCOMPARE(f.window->document()->scheme().factor.levels, (QStringList{u"A"_s, u"D"_s, u"B"_s, u"C"_s}));
+    // The treatment reference stays with A, and columns are rebuilt for the new order.
+    QCOMPARE(f.window->document()->scheme().reference, 0);
+    QCOMPARE(f.window->document()->scheme().columns[0].name, u"D vs A"_s);
+}
+
+void TestLevelsModel::plannedSizesAndPositions()
+{
+    WindowFixture f;
+    LevelsModel *m = f.window->levelsPanel()->model();
+    QCOMPARE(m->index(0, LevelsModel::SizeColumn).data().toString(), u"1"_s);
+    QVERIFY(m->index(0, LevelsModel::SizeColumn).data(Qt::ForegroundRole).isValid()); // grey: none planned
+    QVERIFY(m->setData(m->index(1, LevelsModel::SizeColumn), u"30"_s));
+    QCOMPARE(f.window->document()->scheme().factor.plannedN, (std::vector<Rational>{1, 30, 1, 1}));
+    QVERIFY(!m->setData(m->index(1, LevelsModel::SizeColumn), u"0"_s));
+    QVERIFY(m->setData(m->index(3, LevelsModel::PositionColumn), u"10"_s));
+    QCOMPARE(f.window->document()->scheme().factor.positions()[3], Weight(10));
+    QVERIFY(!m->setData(m->index(3, LevelsModel::PositionColumn), u"1"_s)); // same position as A
+    QVERIFY(m->useEqualSizes());
+    QVERIFY(!f.window->document()->scheme().factor.hasPlannedN());
+}
+
+void TestLevelsModel::addAndRemoveLevelsAreUndoable()
+{
+    WindowFixture f;
+    LevelsModel *m = f.window->levelsPanel()->model();
+    Document *d = f.window->document();
+    QVERIFY(m->addLevel());
+    QCOMPARE(d->scheme().levelCount(), 5);
+    QCOMPARE(d->scheme().columnCount(), 4); // treatment rebuilt for five levels
+    QVERIFY(m->removeLevel(0));
+    QCOMPARE(d->scheme().factor.levels.first(), u"B"_s);
+    QCOMPARE(d->undoStack()->count(), 2);
+    d->undoStack()->undo();
+    d->undoStack()->undo();
+    QCOMPARE(d->scheme().factor.levels, (QStringList{u"A"_s, u"B"_s, u"C"_s, u"D"_s}));
+    QVERIFY(!d->isModified());
+}
+
+QTEST_MAIN(TestLevelsModel)
+#include "TestLevelsModel.moc"

@@ -1,0 +1,327 @@
+#include "CodingPanel.h"
+#include "Demos.h"
+#include "Document.h"
+#include "HealthPanel.h"
+#include "MeaningModel.h"
+#include "MeaningPanel.h"
+#include "SchemeEdits.h"
+#include "SchemeFile.h"
+#include "SchemePicker.h"
+#include "WindowFixture.h"
+
+#include <QCloseEvent>
+#include <QDir>
+#include <QDockWidget>
+#include <QFile>
+#include <QLabel>
+#include <QMimeData>
+#include <QTest>
+#include <QTimer>
+#include <QUrl>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+class TestMainWindow : public QObject
+{
+    Q_OBJECT
+
+private slots:
+    void eachDemoLoads_data();
+    void eachDemoLoads();
+    void onboardingDemoShowsTwoDifferentIntercepts();
+    void saveThenOpenRoundTrips();
+    void saveAsAsksForAPathAndRemembersIt();
+    void saveFailureIsReportedAndKeepsTheWorkUnsaved();
+    void closingAsksAboutUnsavedWork_data();
+    void closingAsksAboutUnsavedWork();
+    void openingABadFileReportsItAndKeepsTheDocument();
+    void droppingAFileOpensIt();
+    void autosaveWritesTheRecoveryFileOnlyWhenThereIsNewWork();
+    void recoveryIsOfferedAndRestores();
+    void declinedRecoveryIsDiscarded();
+    void corruptRecoveryIsReportedAndSetAside();
+    void savingRemovesTheRecoveryFile();
+    void addPanelTabsBesideDesignHealth();
+    void titleShowsNameAndUnsavedMark();
+};
+
+namespace {
+QString writeFile(const QString &path, const QByteArray &data)
+{
+    QFile f(path);
+    if (!f.open(QIODevice::WriteOnly))
+        return {};
+    f.write(data);
+    return path;
+}
+} // namespace
+
+void TestMainWindow::eachDemoLoads_data()
+{
+    QTest::addColumn<QString>("name");
+    QTest::addColumn<int>("levels");
+    QTest::addColumn<QString>("kind");
+    QTest::newRow("irrigation") << u"irrigation"_s << 5 << u"custom"_s;
+    QTest::newRow("roast") << u"roast"_s << 4 << u"polynomial"_s;
+    QTest::newRow("onboarding") << u"onboarding"_s << 4 << u"sum"_s;
+}
+
+void TestMainWindow::eachDemoLoads()
+{
+    QFETCH(QString, name);
+    QFETCH(int, levels);
+    QFETCH(QString, kind);
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(name));
+    const Scheme &s = f.window->document()->scheme();
+    QCOMPARE(s.levelCount(), levels);
+    QCOMPARE(schemeId(s.kind), kind);
+    QVERIFY(!s.notes.isEmpty());
+    QVERIFY(f.window->document()->analysis().fullRank);
+    QVERIFY(f.window->document()->filePath().isEmpty()); // never saved back into the resources
+    QVERIFY(!f.window->document()->isModified());
+    QCOMPARE(f.window->meaningPanel()->model()->rowCount(), levels);
+    // The installed copy in resources/demos is the same file.
+    auto installed = loadScheme(QString::fromUtf8(CB_SOURCE_DIR) + u"/resources/demos/"_s + name + u".json"_s);
+    QVERIFY(installed.ok());
+    QCOMPARE(schemeToJson(*installed), schemeToJson(s));
+    QVERIFY(f.prompter.told.isEmpty());
+}
+
+void TestMainWindow::onboardingDemoShowsTwoDifferentIntercepts()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"onboarding"_s));
+    MeaningModel *m = f.window->meaningPanel()->model();
+    // Sum coding: the unweighted mean of the four flow means.
+    QVERIFY(m->index(0, 0).data(MeaningModel::WordsRole).toString().contains(u"unweighted mean"_s));
+    QVERIFY(f.window->codingPanel()->picker()->applyStandard(SchemeKind::WeightedEffect));
+    // Weighted effect: weights n_i / N = 1200/1565 = 240/313 for the current flow (by hand), the mean of all people.
+    QVERIFY(m->index(0, 0).data(MeaningModel::WordsRole).toString().contains(u"weighted by the planned n"_s));
+    QCOMPARE(m->index(0, 0).data(MeaningModel::WeightTextsRole).toStringList().first(), u"240/313"_s);
+    QCOMPARE(f.window->document()->undoStack()->undoText(), u"Start from Weighted effect coding"_s);
+}
+
+void TestMainWindow::saveThenOpenRoundTrips()
+{
+    WindowFixture f;
+    MainWindow &w = *f.window;
+    QVERIFY(w.openDemo(u"irrigation"_s));
+    Scheme s = w.document()->scheme();
+    s.columns[0].weights[0] = Weight::exact(Rational(-7, 9));
+    s.columns[1].weights[2] = Weight::approx(0.1234567890123);
+    s.factor.plannedN = {8, 7, 8, 6, 8};
+    w.document()->edit(s, u"edit"_s);
+    const QString path = f.dir.filePath(u"trial.json"_s);
+    QVERIFY(w.saveTo(path));
+    QVERIFY(!w.document()->isModified());
+    QCOMPARE(w.document()->filePath(), path);
+
+    WindowFixture g;
+    QVERIFY(g.window->openFile(path));
+    const Scheme &t = g.window->document()->scheme();
+    QCOMPARE(schemeToJson(t), schemeToJson(s));
+    QCOMPARE(t.columns[1].weights[2], Weight::approx(0.1234567890123));
+    QCOMPARE(g.window->document()->analysis().hypothesisSymbols, w.document()->analysis().hypothesisSymbols);
+    QCOMPARE(g.window->recentFiles().paths().first(), path);
+}
+
+void TestMainWindow::saveAsAsksForAPathAndRemembersIt()
+{
+    WindowFixture f;
+    f.prompter.savePath = f.dir.filePath(u"named.json"_s);
+    QVERIFY(f.window->save()); // no path yet: asks
+    QVERIFY(QFile::exists(f.prompter.savePath));
+    QCOMPARE(f.window->recentFiles().paths(), QStringList{f.prompter.savePath});
+    f.prompter.savePath.clear(); // cancelled
+    QVERIFY(!f.window->saveAs());
+}
+
+void TestMainWindow::saveFailureIsReportedAndKeepsTheWorkUnsaved()
+{
+    WindowFixture f;
+    Document *d = f.window->document();
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(3)}}), u"edit"_s);
+    QVERIFY(!f.window->saveTo(f.dir.filePath(u"no/such/dir/x.json"_s)));
+    QCOMPARE(f.prompter.told.size(), 1);
+    QVERIFY(f.prompter.told.first().contains(u"no/such/dir"_s));
+    QVERIFY(d->isModified());
+}
+
+void TestMainWindow::closingAsksAboutUnsavedWork_data()
+{
+    QTest::addColumn<int>("choice");
+    QTest::addColumn<bool>("closes");
+    QTest::addColumn<bool>("saved");
+    QTest::newRow("cancel") << int(Prompter::SaveChoice::Cancel) << false << false;
+    QTest::newRow("discard") << int(Prompter::SaveChoice::Discard) << true << false;
+    QTest::newRow("save") << int(Prompter::SaveChoice::Save) << true << true;
+}
+
+void TestMainWindow::closingAsksAboutUnsavedWork()
+{
+    QFETCH(int, choice);
+    QFETCH(bool, closes);
+    QFETCH(bool, saved);
+    WindowFixture f;
+    QVERIFY(f.show());
+    f.prompter.saveChoice = static_cast<Prompter::SaveChoice>(choice);
+    f.prompter.savePath = f.dir.filePath(u"closing.json"_s);
+    // Nothing to ask about while the work is saved.
+    QVERIFY(f.window->close());
+    QCOMPARE(f.prompter.saveQuestions, 0);
+    f.show();
+    Document *d = f.window->document();
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(3)}}), u"edit"_s);
+    QCOMPARE(f.window->close(), closes);
+    QCOMPARE(f.prompter.saveQuestions, 1);
+    QCOMPARE(QFile::exists(f.prompter.savePath), saved);
+    QCOMPARE(f.window->isVisible(), !closes);
+}
+
+void TestMainWindow::openingABadFileReportsItAndKeepsTheDocument()
+{
+    WindowFixture f;
+    const QString path = writeFile(f.dir.filePath(u"broken.json"_s), "{\"format\": \"contrast-bench-scheme\", \"version\": 1,");
+    const QByteArray before = schemeToJson(f.window->document()->scheme());
+    QVERIFY(!f.window->openFile(path));
+    QCOMPARE(f.prompter.told.size(), 1);
+    QVERIFY2(f.prompter.told.first().contains(u"broken.json"_s), qPrintable(f.prompter.told.first()));
+    QCOMPARE(schemeToJson(f.window->document()->scheme()), before);
+}
+
+void TestMainWindow::droppingAFileOpensIt()
+{
+    WindowFixture f;
+    QVERIFY(f.show());
+    const QString path = f.dir.filePath(u"dropped.json"_s);
+    QVERIFY(saveScheme(*loadDemo(u"roast"_s), path).isEmpty());
+    QMimeData data;
+    data.setUrls({QUrl::fromLocalFile(path)});
+    const QPoint at = f.window->rect().center();
+    QDragEnterEvent enter(at, Qt::CopyAction, &data, Qt::LeftButton, Qt::NoModifier);
+    QCoreApplication::sendEvent(f.window.get(), &enter);
+    QVERIFY(enter.isAccepted());
+    QDropEvent drop(at, Qt::CopyAction, &data, Qt::LeftButton, Qt::NoModifier);
+    QCoreApplication::sendEvent(f.window.get(), &drop);
+    QTRY_COMPARE(f.window->document()->filePath(), path);
+    QCOMPARE(f.window->document()->scheme().factor.name, u"roast"_s);
+}
+
+void TestMainWindow::autosaveWritesTheRecoveryFileOnlyWhenThereIsNewWork()
+{
+    WindowFixture f(50);
+    QVERIFY(f.window->autosaveTimer()->isActive());
+    QCOMPARE(f.window->autosaveTimer()->interval(), 50);
+    const QString path = f.window->recoveryStore().path();
+    QTest::qWait(150);
+    QVERIFY(!QFile::exists(path)); // nothing unsaved yet
+    Document *d = f.window->document();
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(3)}}), u"edit"_s);
+    QTRY_VERIFY(QFile::exists(path));
+    QVERIFY(!f.window->writeRecovery()); // already written for this revision
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(4)}}), u"edit"_s);
+    QVERIFY(f.window->writeRecovery());
+    // The default interval is thirty seconds.
+    WindowFixture g;
+    QCOMPARE(g.window->autosaveTimer()->interval(), 30'000);
+}
+
+void TestMainWindow::recoveryIsOfferedAndRestores()
+{
+    WindowFixture f;
+    const QString original = f.dir.filePath(u"study.json"_s);
+    QVERIFY(f.window->saveTo(original));
+    Document *d = f.window->document();
+    d->edit(edits::withWeights(d->scheme(), {{2, 1, Weight::exact(Rational(5, 7))}}), u"edit"_s);
+    QVERIFY(f.window->writeRecovery());
+    const QByteArray unsaved = schemeToJson(d->scheme());
+    // A crash: the window goes away without closing, so the recovery file stays.
+    f.window.release()->deleteLater();
+    QVERIFY(QFile::exists(QDir(f.dir.filePath(u"recovery"_s)).filePath(u"recovery.json"_s)));
+
+    f.open();
+    QVERIFY(f.window->offerRecovery());
+    QCOMPARE(f.prompter.restoreQuestions, 1);
+    QCOMPARE(schemeToJson(f.window->document()->scheme()), unsaved);
+    QCOMPARE(f.window->document()->filePath(), original);
+    QVERIFY(f.window->document()->isModified()); // restored work still needs saving
+    QCOMPARE(f.window->document()->scheme().columns[1].weights[2], Weight::exact(Rational(5, 7)));
+}
+
+void TestMainWindow::declinedRecoveryIsDiscarded()
+{
+    WindowFixture f;
+    Document *d = f.window->document();
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(9)}}), u"edit"_s);
+    QVERIFY(f.window->writeRecovery());
+    f.window.release()->deleteLater();
+    f.open();
+    f.prompter.restore = false;
+    QVERIFY(!f.window->offerRecovery());
+    QCOMPARE(f.prompter.restoreQuestions, 1);
+    QVERIFY(!f.window->recoveryStore().exists());
+    QVERIFY(!f.window->document()->isModified());
+    QVERIFY(!f.window->offerRecovery()); // nothing left to offer
+    QCOMPARE(f.prompter.restoreQuestions, 1);
+}
+
+void TestMainWindow::corruptRecoveryIsReportedAndSetAside()
+{
+    WindowFixture f;
+    QVERIFY(QDir().mkpath(f.dir.filePath(u"recovery"_s)));
+    const QString path = f.window->recoveryStore().path();
+    writeFile(path, "{\"format\": \"contrast-bench-recovery\", \"version\": 1, \"scheme\": {\"format\": 7}}");
+    QVERIFY(!f.window->offerRecovery());
+    QCOMPARE(f.prompter.restoreQuestions, 0);
+    QCOMPARE(f.prompter.told.size(), 1);
+    QVERIFY2(f.prompter.told.first().contains(u"moved to"_s), qPrintable(f.prompter.told.first()));
+    QVERIFY(!QFile::exists(path));
+    const QStringList aside = QDir(f.dir.filePath(u"recovery"_s)).entryList({u"recovery-unreadable-*.json"_s});
+    QCOMPARE(aside.size(), 1);
+    // Truncated JSON is reported the same way.
+    writeFile(path, "{\"format\": \"contr");
+    QVERIFY(!f.window->offerRecovery());
+    QCOMPARE(f.prompter.told.size(), 2);
+}
+
+void TestMainWindow::savingRemovesTheRecoveryFile()
+{
+    WindowFixture f;
+    Document *d = f.window->document();
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(9)}}), u"edit"_s);
+    QVERIFY(f.window->writeRecovery());
+    QVERIFY(f.window->recoveryStore().exists());
+    QVERIFY(f.window->saveTo(f.dir.filePath(u"kept.json"_s)));
+    QVERIFY(!f.window->recoveryStore().exists());
+}
+
+void TestMainWindow::addPanelTabsBesideDesignHealth()
+{
+    WindowFixture f;
+    auto *panel = new QLabel(u"power"_s);
+    QDockWidget *dock = f.window->addPanel(panel, u"Power"_s, u"powerDock"_s);
+    QCOMPARE(dock->widget(), panel);
+    QCOMPARE(f.window->dockWidgetArea(dock), Qt::BottomDockWidgetArea);
+    const QList<QDockWidget *> tabbed = f.window->tabifiedDockWidgets(dock);
+    QCOMPARE(tabbed.size(), 1);
+    QCOMPARE(tabbed.first()->widget(), f.window->healthPanel());
+}
+
+void TestMainWindow::titleShowsNameAndUnsavedMark()
+{
+    WindowFixture f;
+    QCOMPARE(f.window->windowTitle(), u"untitled[*] \u2014 Contrast Bench"_s);
+    QVERIFY(!f.window->isWindowModified());
+    Document *d = f.window->document();
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(9)}}), u"edit"_s);
+    QVERIFY(f.window->isWindowModified());
+    QVERIFY(f.window->saveTo(f.dir.filePath(u"titled.json"_s)));
+    QCOMPARE(f.window->windowTitle(), u"titled.json[*] \u2014 Contrast Bench"_s);
+    QVERIFY(!f.window->isWindowModified());
+    QVERIFY(f.window->healthPanel()->summaryText().contains(u"Rank 4 of 4"_s));
+}
+
+QTEST_MAIN(TestMainWindow)
+#include "TestMainWindow.moc"
