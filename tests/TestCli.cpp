@@ -2,27 +2,20 @@
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QJsonObject>
-#include <QProcess>
 #include <QTemporaryDir>
+
+#include "ProcessRunner.h"
 #include <QTest>
 
 using namespace Qt::StringLiterals;
 
 namespace {
 
-struct Run
-{
-    int exitCode = -1;
-    QByteArray out;
-    QString err;
-};
+using Run = cb::test::ProcessRun;
 
 Run cli(const QStringList &args)
 {
-    QProcess p;
-    p.start(QString::fromUtf8(CB_BINARY_DIR) + u"/app/contrast-bench-cli"_s, args);
-    p.waitForFinished(60000);
-    return Run{p.exitCode(), p.readAllStandardOutput(), QString::fromUtf8(p.readAllStandardError())};
+    return cb::test::runCli(args);
 }
 
 QJsonObject json(const Run &r)
@@ -125,7 +118,7 @@ void TestCli::fileRoundTrip()
     QVERIFY(json(r)[u"depends_on_sizes"_s].toBool());
     const Run bad = cli({u"analyze"_s, u"--file"_s, path, u"--scheme"_s, u"sum"_s});
     QCOMPARE(bad.exitCode, 2);
-    QVERIFY(bad.err.contains(u"--scheme cannot be combined with --file"_s));
+    QVERIFY(bad.errText().contains(u"--scheme cannot be combined with --file"_s));
 }
 
 void TestCli::badInput_data()
@@ -164,7 +157,7 @@ void TestCli::badInput()
     QFETCH(QString, message);
     const Run r = cli(args);
     QCOMPARE(r.exitCode, 2);
-    QVERIFY2(r.err.contains(message), qPrintable(r.err));
+    QVERIFY2(r.errText().contains(message), r.err.constData());
 }
 
 void TestCli::textReport()

@@ -12,6 +12,8 @@
 #include <QDir>
 #include <QFile>
 #include <QProcess>
+
+#include "ProcessRunner.h"
 #include <QRegularExpression>
 #include <QSet>
 #include <QTemporaryDir>
@@ -226,28 +228,11 @@ bool sameDouble(double a, double b)
     return std::memcmp(&a, &b, sizeof a) == 0;
 }
 
-struct Run
-{
-    bool started = false;
-    int exitCode = -1;
-    QByteArray out;
-    QByteArray err;
-};
+using Run = cb::test::ProcessRun;
 
 Run run(const QString &program, const QStringList &args, const QString &workDir, int timeoutMs = 240000)
 {
-    QProcess p;
-    p.setWorkingDirectory(workDir);
-    p.start(program, args);
-    Run r;
-    r.started = p.waitForStarted(20000);
-    if (!r.started)
-        return r;
-    p.waitForFinished(timeoutMs);
-    r.exitCode = p.exitStatus() == QProcess::NormalExit ? p.exitCode() : -1;
-    r.out = p.readAllStandardOutput();
-    r.err = p.readAllStandardError();
-    return r;
+    return cb::test::runProcess(program, args, {}, timeoutMs, workDir);
 }
 
 bool writeFile(const QString &path, const QString &text)

@@ -2,7 +2,7 @@
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QJsonObject>
-#include <QProcess>
+#include "ProcessRunner.h"
 #include <QTemporaryDir>
 #include <QTest>
 
@@ -12,27 +12,11 @@ using namespace Qt::StringLiterals;
 
 namespace {
 
-struct Run
-{
-    int exitCode = -1;
-    QByteArray out;
-    QString err;
-};
+using Run = cb::test::ProcessRun;
 
 Run runCli(const QStringList &args, const QByteArray &input = {})
 {
-    QProcess process;
-    process.start(QStringLiteral(CB_BINARY_DIR "/app/contrast-bench-cli"), QStringList{u"fit"_s} + args);
-    Run r;
-    if (!process.waitForStarted(30000))
-        return r;
-    process.write(input);
-    process.closeWriteChannel();
-    process.waitForFinished(60000);
-    r.exitCode = process.exitCode();
-    r.out = process.readAllStandardOutput();
-    r.err = QString::fromUtf8(process.readAllStandardError());
-    return r;
+    return cb::test::runCli(QStringList{u"fit"_s} + args, input);
 }
 
 const QString kPlants = QStringLiteral(CB_TEST_DATA "/fit_plant_growth.csv");
@@ -68,7 +52,7 @@ private slots:
 void TestFitCommand::fitsPlantGrowthAsJson()
 {
     const Run r = runCli(plantArgs() + QStringList{u"--json"_s, u"--adjust"_s, u"bonferroni"_s});
-    QVERIFY2(r.exitCode == 0, qPrintable(r.err));
+    QVERIFY2(r.exitCode == 0, r.err.constData());
     const QJsonObject o = parse(r);
     const QJsonArray levels = o.value(u"levels"_s).toArray();
     QCOMPARE(levels.size(), 3);
@@ -99,7 +83,7 @@ void TestFitCommand::readsStandardInput()
     QFile f(kPlants);
     QVERIFY(f.open(QIODevice::ReadOnly));
     const Run r = runCli(plantArgs(u"-"_s) + QStringList{u"--json"_s}, f.readAll());
-    QVERIFY2(r.exitCode == 0, qPrintable(r.err));
+    QVERIFY2(r.exitCode == 0, r.err.constData());
     const QJsonObject o = parse(r);
     QCOMPARE(qRound(o.value(u"f"_s).toDouble() * 1000), 4846);
     QCOMPARE(o.value(u"data"_s).toObject().value(u"source"_s).toString(), u"standard input"_s);
@@ -113,7 +97,7 @@ void TestFitCommand::reportsLeftOutRows()
     bytes.replace("trt1,4.17\n", "trt1,\n");
     bytes.replace("trt2,5.29\n", "trt2,5.29 g\n");
     const Run r = runCli(plantArgs(u"-"_s) + QStringList{u"--json"_s}, bytes);
-    QVERIFY2(r.exitCode == 0, qPrintable(r.err));
+    QVERIFY2(r.exitCode == 0, r.err.constData());
     const QJsonObject skipped = parse(r).value(u"skipped_rows"_s).toObject();
     QCOMPARE(skipped.value(u"count"_s).toInt(), 2);
     const QJsonArray first = skipped.value(u"first"_s).toArray();
@@ -134,7 +118,7 @@ void TestFitCommand::fitsSummaryTable()
     f.close();
     const Run r = runCli({u"--data"_s, path, u"--summary"_s, u"--levels"_s, u"ctrl,trt1,trt2"_s, u"--scheme"_s,
                           u"treatment"_s, u"--json"_s});
-    QVERIFY2(r.exitCode == 0, qPrintable(r.err));
+    QVERIFY2(r.exitCode == 0, r.err.constData());
     QCOMPARE(qRound(parse(r).value(u"sigma"_s).toDouble() * 10000), 6234);
     QVERIFY(parse(r).value(u"data"_s).toObject().value(u"summary_table"_s).toBool());
 }
@@ -142,7 +126,7 @@ void TestFitCommand::fitsSummaryTable()
 void TestFitCommand::printsReport()
 {
     const Run r = runCli(plantArgs() + QStringList{u"--adjust"_s, u"holm"_s});
-    QVERIFY2(r.exitCode == 0, qPrintable(r.err));
+    QVERIFY2(r.exitCode == 0, r.err.constData());
     const QString text = QString::fromUtf8(r.out);
     QVERIFY2(text.contains(u"Residual SD 0.6234 on 27 df; R squared 0.2641"_s), qPrintable(text));
     QVERIFY(text.contains(u"F(2, 27) = 4.846, p = 0.01591; tests that all level means are equal"_s));
@@ -185,7 +169,7 @@ void TestFitCommand::refusesBadInput()
     QFETCH(QString, message);
     const Run r = runCli(args, input);
     QCOMPARE(r.exitCode, 2);
-    QVERIFY2(r.err.startsWith(u"contrast-bench-cli fit: "_s + message), qPrintable(r.err));
+    QVERIFY2(r.errText().startsWith(u"contrast-bench-cli fit: "_s + message), r.err.constData());
     QVERIFY(r.out.isEmpty());
 }
 

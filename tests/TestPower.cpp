@@ -8,6 +8,8 @@
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QProcess>
+
+#include "ProcessRunner.h"
 #include <QTemporaryDir>
 #include <QTest>
 
@@ -923,11 +925,10 @@ struct CliRun
 // Runs the built contrast-bench-cli with "power" and the arguments.
 CliRun runCli(const QStringList &args)
 {
-    QProcess p;
-    p.start(QString::fromUtf8(CB_BINARY_DIR) + u"/app/contrast-bench-cli"_s, QStringList{u"power"_s} + args);
-    if (!p.waitForStarted(30000) || !p.waitForFinished(120000))
+    const cb::test::ProcessRun r = cb::test::runCli(QStringList{u"power"_s} + args);
+    if (!r.started)
         qFatal("could not run contrast-bench-cli in %s/app", CB_BINARY_DIR);
-    return {p.exitCode(), QString::fromUtf8(p.readAllStandardOutput()), QString::fromUtf8(p.readAllStandardError())};
+    return {r.exitCode, r.outText(), r.errText()};
 }
 
 const QStringList kCliCase = {u"--levels"_s, u"control,low,high"_s, u"--scheme"_s, u"treatment"_s, u"--means"_s,

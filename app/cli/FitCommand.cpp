@@ -201,12 +201,9 @@ int runFit(const QStringList &args, Io &io)
 {
     QCommandLineParser p;
     addDataOptions(p);
-    // The scheme options define --factor too (the factor's name); the data column added
-    // above keeps the name, and it names the factor as well. Qt's warning about the
-    // second definition is expected, so it is silenced for this one call.
-    const QtMessageHandler previous = qInstallMessageHandler([](QtMsgType, const QMessageLogContext &, const QString &) {});
-    addSchemeOptions(p);
-    qInstallMessageHandler(previous);
+    // Here --factor is the data column (it names the factor as well), so the scheme
+    // options leave their own --factor out.
+    addSchemeOptions(p, SchemeOptionSet::WithoutFactorName);
     if (QString e = parseArguments(p, u"fit"_s, args); !e.isEmpty())
         return badInput(io, e);
     if (p.isSet(u"help"_s)) {

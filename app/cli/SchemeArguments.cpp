@@ -6,11 +6,12 @@ using namespace Qt::StringLiterals;
 
 namespace cb::cli {
 
-void addSchemeOptions(QCommandLineParser &p)
+void addSchemeOptions(QCommandLineParser &p, SchemeOptionSet set)
 {
     p.addOption({u"file"_s, u"Read the scheme from a scheme file (JSON)."_s, u"scheme.json"_s});
     p.addOption({u"levels"_s, u"Level names, in order, separated by commas."_s, u"a,b,c"_s});
-    p.addOption({u"factor"_s, u"The factor's name (with --levels)."_s, u"name"_s});
+    if (set == SchemeOptionSet::All)
+        p.addOption({u"factor"_s, u"The factor's name (with --levels)."_s, u"name"_s});
     p.addOption({u"scheme"_s, u"A standard scheme: indicator, treatment, sum, weighted-effect, simple, helmert, reverse-helmert, successive, polynomial."_s, u"NAME"_s});
     p.addOption({u"reference"_s, u"Reference level (treatment, simple) or base level coded -1 (sum, weighted-effect)."_s, u"LEVEL"_s});
     p.addOption({u"spacing"_s, u"Numeric position of each level, for polynomial trends."_s, u"x,y,z"_s});

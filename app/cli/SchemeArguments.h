@@ -10,7 +10,8 @@ namespace cb::cli {
 // Options shared by every subcommand that works on one scheme:
 // --file, --levels, --scheme, --reference, --spacing, --n, --columns, --no-intercept,
 // --poly-form, --poly-weighted.
-void addSchemeOptions(QCommandLineParser &parser);
+enum class SchemeOptionSet { All, WithoutFactorName };
+void addSchemeOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOptionSet::All);
 // The scheme the options describe; the message names the argument and what was wrong.
 Result<Scheme> schemeFromOptions(const QCommandLineParser &parser);
 
