@@ -287,6 +287,28 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
         out.words = u"nothing: every weight is 0"_s;
         return out;
     }
+    // One level against the mean of all levels (sum coding), unweighted or weighted by n
+    // (weighted-effect coding): w = e_j - 1/k, or w = e_j - n/N.
+    if (*total == zero && posNames.size() == 1 && negNames.size() + 1 == qsizetype(k)) {
+        const qsizetype j = levels.indexOf(posNames[0]);
+        bool unweighted = true, weighted = true;
+        Rational nTotal = 0;
+        for (const Rational &n : sizes)
+            nTotal += n;
+        for (size_t i = 0; i < k; ++i) {
+            const Rational wi(static_cast<long>(w[i].n), static_cast<unsigned long>(w[i].d));
+            const Rational unit = qsizetype(i) == j ? 1 : 0;
+            unweighted = unweighted && wi == unit - Rational(1, static_cast<long>(k));
+            weighted = weighted && wi == unit - sizes[i] / nTotal;
+        }
+        if (unweighted || weighted) {
+            const QString what = unweighted ? u"the unweighted mean of all %1 level means"_s.arg(k)
+                                            : u"the mean of all %1 levels weighted by the planned n"_s.arg(k);
+            out.symbols = label + u": mean(%1) - %2 = 0"_s.arg(posNames[0], unweighted ? u"grand mean"_s : u"weighted grand mean"_s);
+            out.words = posNames[0] + u" minus "_s + what;
+            return out;
+        }
+    }
     // A difference of two averages, possibly scaled: all positive weights equal,
     // all negative weights equal, and the two groups balance.
     if (*total == zero && posValues.size() == 1 && negValues.size() == 1) {

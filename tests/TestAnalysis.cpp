@@ -95,6 +95,10 @@ void TestAnalysis::hypothesisTexts_data()
                                       << u"b2: none/3 = 0"_s
                                       << u"not a pure comparison: the weights sum to 1/3, so it mixes the overall level with differences: none/3"_s
                                       << u"none/3"_s;
+    QTest::newRow("level minus grand mean (sum coding)") << QStringList{u"-1/4"_s, u"3/4"_s, u"-1/4"_s, u"-1/4"_s}
+                                                         << u"b2: mean(weekly) - grand mean = 0"_s
+                                                         << u"weekly minus the unweighted mean of all 4 level means"_s
+                                                         << u"3 weekly/4 - (none + twice + daily)/4"_s;
     QTest::newRow("all zero") << QStringList{u"0"_s, u"0"_s, u"0"_s, u"0"_s} << u"b2: 0 = 0"_s << u"nothing: every weight is 0"_s << u"0"_s;
     QTest::newRow("irrational") << QStringList{u"~-0.7071067811865476"_s, u"0"_s, u"0"_s, u"~0.7071067811865476"_s}
                                 << u"b2: -0.707107 none + 0.707107 daily = 0"_s
@@ -132,6 +136,8 @@ void TestAnalysis::interceptMeanings()
     auto wec = analyze(makeScheme(f, SchemeKind::WeightedEffect).take());
     QCOMPARE(wec.hypothesisWords[0], u"the mean of the level means weighted by the planned n (the overall mean of all observations)"_s);
     QCOMPARE(wec.hypothesisCombinations[0], u"(none + 2 weekly + 3 twice + 4 daily)/10"_s);
+    QCOMPARE(wec.hypothesisSymbols[1], u"b1: mean(none) - weighted grand mean = 0"_s);
+    QCOMPARE(wec.hypothesisWords[1], u"none minus the mean of all 4 levels weighted by the planned n"_s);
 }
 
 void TestAnalysis::treatmentTwoLevelConditionNumber()
