@@ -155,7 +155,7 @@ QWidget *CodingPanel::buildHypothesisTab()
 void CodingPanel::follow()
 {
     const bool planned = m_document->scheme().factor.hasPlannedN();
-    m_pairsCaption->setText(tr("<b>Pairs of columns.</b><br>Above the diagonal: orthogonal as written (the products of their weights sum "
+    look::setText(m_pairsCaption, tr("<b>Pairs of columns.</b><br>Above the diagonal: orthogonal as written (the products of their weights sum "
                                "to 0).<br>Below the diagonal: orthogonal %1, which is what makes their estimates uncorrelated."
                                "<br>%2 yes &nbsp; %3 no. Hover a cell for the cross-product.")
                                 .arg(sizesPhrase(planned), look::mark(look::State::Good), look::mark(look::State::Problem)));
@@ -179,7 +179,7 @@ QString CodingPanel::notice() const
 
 void CodingPanel::showNotice(const QString &message)
 {
-    m_notice->setText(message);
+    look::setText(m_notice, message);
     m_notice->setVisible(!message.isEmpty());
 }
 

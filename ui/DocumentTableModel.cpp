@@ -32,11 +32,14 @@ void DocumentTableModel::follow()
     if (next != m_shape) {
         beginResetModel();
         aboutToFollow();
+        showsChange(); // lets the model note what it shows now
         m_shape = next;
         endResetModel();
         return;
     }
     aboutToFollow();
+    if (!showsChange())
+        return;
     if (m_shape.rows > 0 && m_shape.columns > 0)
         emit dataChanged(index(0, 0), index(m_shape.rows - 1, m_shape.columns - 1), changedRoles());
     if (m_shape.columns > 0)

@@ -35,6 +35,9 @@ protected:
     virtual QList<int> changedRoles() const;
     // Hook for derived models to drop cached state before the views hear of a change.
     virtual void aboutToFollow() {}
+    // Whether a change that keeps the shape changed anything this model shows
+    // (a model that shows only part of the scheme can say no and spare the repaint).
+    virtual bool showsChange() { return true; }
 
 private:
     Document *m_document;

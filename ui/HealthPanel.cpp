@@ -53,8 +53,12 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
     m_vifView->verticalHeader()->hide();
     m_vifView->verticalHeader()->setDefaultSectionSize(22);
     m_vifView->horizontalHeader()->setSectionResizeMode(VifModel::NameColumn, QHeaderView::Stretch);
-    m_vifView->horizontalHeader()->setSectionResizeMode(VifModel::VifColumn, QHeaderView::ResizeToContents);
-    m_vifView->horizontalHeader()->setSectionResizeMode(VifModel::VerdictColumn, QHeaderView::ResizeToContents);
+    // Fixed widths for the number and the verdict: measuring every row on every edit is not needed.
+    const QFontMetrics fm(font());
+    m_vifView->horizontalHeader()->setSectionResizeMode(VifModel::VifColumn, QHeaderView::Fixed);
+    m_vifView->horizontalHeader()->setSectionResizeMode(VifModel::VerdictColumn, QHeaderView::Fixed);
+    m_vifView->setColumnWidth(VifModel::VifColumn, fm.horizontalAdvance(u"0000.00"_s) + 12);
+    m_vifView->setColumnWidth(VifModel::VerdictColumn, fm.horizontalAdvance(tr("! notable (5 or more)")) + 12);
     m_vifView->setSelectionMode(QAbstractItemView::NoSelection);
     m_findingsView->setModel(m_findings);
     m_findingsView->setObjectName(u"findingsList"_s);
@@ -117,7 +121,7 @@ void HealthPanel::follow()
     lines << (a.exact ? tr("Arithmetic: exact fractions.") : tr("Arithmetic: floating point."));
     if (a.dependsOnSizes)
         lines << stateSpan(State::Caution, tr("Fewer columns than levels \u2212 1: what each coefficient tests depends on the planned n."));
-    m_summary->setText(lines.join(u"<br>"_s));
+    look::setText(m_summary, lines.join(u"<br>"_s));
 }
 
 } // namespace cb

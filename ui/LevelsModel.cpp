@@ -27,6 +27,17 @@ DocumentTableModel::Shape LevelsModel::currentShape() const
     return {document()->scheme().levelCount(), ColumnCount};
 }
 
+bool LevelsModel::showsChange()
+{
+    const Scheme &s = document()->scheme();
+    const bool same = s.factor.levels == m_shown.levels && s.factor.plannedN == m_shown.plannedN
+                      && s.factor.spacing == m_shown.spacing && s.kind == m_shownKind && s.reference == m_shownReference;
+    m_shown = s.factor;
+    m_shownKind = s.kind;
+    m_shownReference = s.reference;
+    return !same;
+}
+
 QString LevelsModel::roleOf(int level) const
 {
     const Scheme &s = document()->scheme();

@@ -42,10 +42,16 @@ signals:
 
 protected:
     Shape currentShape() const override;
+    bool showsChange() override;
 
 private:
     bool commit(const Result<Scheme> &next, const QString &actionName, MergeId mergeId = MergeId::None, const QString &mergeKey = {});
     QString roleOf(int level) const;
+
+    // What the table showed last: the factor and the scheme's reference role.
+    Factor m_shown;
+    SchemeKind m_shownKind = SchemeKind::Custom;
+    int m_shownReference = -1;
 };
 
 } // namespace cb

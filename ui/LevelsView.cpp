@@ -28,8 +28,18 @@ void LevelsView::setLevelsModel(LevelsModel *model)
     m_model = model;
     setModel(model);
     horizontalHeader()->setSectionResizeMode(LevelsModel::NameColumn, QHeaderView::Stretch);
-    for (int c = LevelsModel::SizeColumn; c < LevelsModel::ColumnCount; ++c)
-        horizontalHeader()->setSectionResizeMode(c, QHeaderView::ResizeToContents);
+    // The number columns are fitted when levels come or go, not on every edit (that would
+    // measure every row each time).
+    auto fit = [this] {
+        for (int c = LevelsModel::SizeColumn; c < LevelsModel::ColumnCount; ++c)
+            resizeColumnToContents(c);
+    };
+    connect(model, &QAbstractItemModel::modelReset, this, fit);
+    connect(model, &QAbstractItemModel::dataChanged, this, [this, fit](const QModelIndex &, const QModelIndex &, const QList<int> &) {
+        if (isVisible())
+            fit();
+    });
+    fit();
 }
 
 bool LevelsView::moveCurrent(int step)

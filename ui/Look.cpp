@@ -70,4 +70,10 @@ QLabel *note(const QString &text, QWidget *parent)
     return l;
 }
 
+void setText(QLabel *label, const QString &text)
+{
+    if (label->text() != text)
+        label->setText(text);
+}
+
 } // namespace cb::look

@@ -29,5 +29,7 @@ QString approxMark(); // "≈"
 
 // A wrapped label in the quiet colour, for hints and explanations.
 QLabel *note(const QString &text, QWidget *parent);
+// Sets a label's text only when it differs (a rich-text label lays itself out again on every set).
+void setText(QLabel *label, const QString &text);
 
 } // namespace cb::look

@@ -21,16 +21,28 @@ constexpr int kMaxBarWidth = 34;
 // Up to this many levels the picture names each level and writes its weight.
 constexpr int kLabelledLevels = 10;
 
-int wrappedHeight(const QFont &font, int width, const QString &text)
-{
-    return QFontMetrics(font).boundingRect(QRect(0, 0, std::max(width, 10), 100000), Qt::TextWordWrap, text).height();
-}
+constexpr int kMaxRememberedHeights = 4000;
 } // namespace
 
 MeaningDelegate::MeaningDelegate(QAbstractItemView *view)
     : QStyledItemDelegate(view)
     , m_view(view)
 {
+}
+
+int MeaningDelegate::textHeight(const QFont &font, int width, const QString &text) const
+{
+    if (width != m_heightsWidth || m_heights.size() > kMaxRememberedHeights) {
+        m_heights.clear();
+        m_heightsWidth = width;
+    }
+    const QString key = font.key() + u'\x1f' + text;
+    auto it = m_heights.constFind(key);
+    if (it != m_heights.constEnd())
+        return *it;
+    const int h = QFontMetrics(font).boundingRect(QRect(0, 0, std::max(width, 10), 100000), Qt::TextWordWrap, text).height();
+    m_heights.insert(key, h);
+    return h;
 }
 
 QFont MeaningDelegate::titleFont(const QStyleOptionViewItem &option) const
@@ -67,9 +79,9 @@ MeaningDelegate::Parts MeaningDelegate::layout(const QRect &rect, const QStyleOp
         r = QRect(rect.left() + kPad, y, w, h);
         y += h + kGap;
     };
-    place(p.title, wrappedHeight(tf, w, title));
-    place(p.symbols, wrappedHeight(smallFont(option), w, symbols));
-    place(p.words, wrappedHeight(option.font, w, words));
+    place(p.title, textHeight(tf, w, title));
+    place(p.symbols, textHeight(smallFont(option), w, symbols));
+    place(p.words, textHeight(option.font, w, words));
     place(p.bars, barsHeight(k, smallFont(option)));
     p.height = y - rect.top() + kPad - kGap;
     return p;

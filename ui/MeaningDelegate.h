@@ -1,5 +1,6 @@
 #pragma once
 
+#include <QHash>
 #include <QStyledItemDelegate>
 
 class QAbstractItemView;
@@ -35,10 +36,15 @@ private:
         int height = 0;
     };
     Parts layout(const QRect &rect, const QStyleOptionViewItem &option, const QModelIndex &index) const;
+    // Height of wrapped text, remembered per text and width: after an edit only the
+    // hypotheses that changed are measured again.
+    int textHeight(const QFont &font, int width, const QString &text) const;
     QFont titleFont(const QStyleOptionViewItem &option) const;
     QFont smallFont(const QStyleOptionViewItem &option) const;
 
     QAbstractItemView *m_view;
+    mutable QHash<QString, int> m_heights;
+    mutable int m_heightsWidth = -1;
 };
 
 } // namespace cb

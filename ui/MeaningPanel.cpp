@@ -48,7 +48,7 @@ void MeaningPanel::follow()
     const QString bars = tr("Bars: weight on each level\u2019s mean, <span style='color:%1'>\u25b2 above the line counted in</span>, "
                             "<span style='color:%2'>\u25bc below it subtracted</span>.")
                              .arg(look::raisedBar().name(), look::loweredBar().name());
-    m_header->setText(a.dependsOnSizes
+    look::setText(m_header, a.dependsOnSizes
                           ? tr("Fewer columns than levels \u2212 1: each coefficient is a least-squares combination that depends on the "
                                "planned n.<br>%1").arg(bars)
                           : bars);

@@ -129,7 +129,7 @@ void SchemePicker::follow()
     m_reference->setCurrentIndex(usesReference ? s.reference : -1);
     m_reference->setVisible(usesReference);
     m_referenceLabel->setVisible(usesReference);
-    m_referenceLabel->setText(s.kind == SchemeKind::Sum || s.kind == SchemeKind::WeightedEffect ? tr("Base level (coded \u22121):")
+    look::setText(m_referenceLabel, s.kind == SchemeKind::Sum || s.kind == SchemeKind::WeightedEffect ? tr("Base level (coded \u22121):")
                                                                                                 : tr("Reference level:"));
     const bool polynomial = s.kind == SchemeKind::Polynomial;
     m_integer->setVisible(polynomial);
@@ -137,7 +137,7 @@ void SchemePicker::follow()
     m_integer->setChecked(s.polynomialForm == PolynomialForm::Integer);
     m_weighted->setChecked(s.polynomialWeighted);
     m_intercept->setChecked(s.intercept);
-    m_summary->setText(s.kind == SchemeKind::Custom
+    look::setText(m_summary, s.kind == SchemeKind::Custom
                            ? tr("Custom: the weights were typed or edited by hand. The panels show what they test.")
                            : schemeSummary(s.kind));
 }
