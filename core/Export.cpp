@@ -888,7 +888,7 @@ Result<ExportTable> readCsvTable(const QString &text)
         std::vector<Weight> row;
         row.reserve(size_t(rec.fields.size() - 1));
         for (qsizetype j = 1; j < rec.fields.size(); ++j) {
-            auto w = parseWeight(rec.fields[j]);
+            auto w = parseStoredWeight(rec.fields[j]);
             if (!w)
                 return Result<ExportTable>::failure(u"CSV line %1, field %2 (column %3): "_s.arg(rec.line).arg(j + 1)
                                                         .arg(shortQuoted(table.columnNames[j - 1])) + w.error());

@@ -1,6 +1,7 @@
 #include "SchemeFile.h"
 
 #include <QFile>
+#include <QFileInfo>
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QJsonObject>
@@ -64,7 +65,7 @@ public:
                 err = fail(itemPath, u"expected a weight as a string such as \"-2/3\" or a number"_s);
                 return false;
             }
-            auto w = parseWeight(text);
+            auto w = parseStoredWeight(text);
             if (!w) {
                 err = fail(itemPath, w.error());
                 return false;
@@ -282,6 +283,15 @@ QString writeAll(QIODevice &device, const QByteArray &data, const QString &where
 
 QString writeFileAtomically(const QString &path, const QByteArray &data)
 {
+    // A device, pipe or socket (/dev/full, /dev/stdout, a FIFO) cannot be replaced by a
+    // renamed temporary file: QSaveFile would put a regular file in its place (and as root
+    // it may). Such a target is written directly.
+    if (const QFileInfo info(path); info.exists() && !info.isFile() && !info.isDir()) {
+        QFile direct(path);
+        if (!direct.open(QIODevice::WriteOnly | QIODevice::Unbuffered))
+            return u"%1: cannot open for writing: %2"_s.arg(path, direct.errorString());
+        return writeAll(direct, data, path);
+    }
     QSaveFile f(path);
     if (!f.open(QIODevice::WriteOnly))
         return u"%1: cannot open for writing: %2"_s.arg(path, f.errorString());

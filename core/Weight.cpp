@@ -30,7 +30,7 @@ QString quoted(QStringView text)
 }
 
 // Parses an unsigned decimal "12", "0.25", "1e-3", ".5", "3." exactly.
-bool parseDecimal(QStringView s, Rational &out)
+bool parseDecimal(QStringView s, Rational &out, qsizetype maxLength)
 {
     qsizetype i = 0;
     std::string mantissa;
@@ -81,7 +81,7 @@ bool parseDecimal(QStringView s, Rational &out)
         out = 0;
         return true;
     }
-    if (scale > kMaxExponent || scale < -kMaxExponent - kMaxWeightTextLength) {
+    if (scale > kMaxExponent || scale < -kMaxExponent - maxLength) {
         // Far outside the accepted range: return a stand-in that the range check rejects.
         mpz_class big;
         mpz_ui_pow_ui(big.get_mpz_t(), 10, kMaxExponent);
@@ -272,14 +272,16 @@ QString Weight::display(bool unicodeMinus) const
     return s;
 }
 
-Result<Weight> parseWeight(QStringView input)
+namespace {
+
+Result<Weight> parseWeightUpTo(QStringView input, qsizetype maxLength)
 {
     const QStringView text = input.trimmed();
     if (text.isEmpty())
         return Result<Weight>::failure(u"empty weight: "_s + expectedNumber());
-    if (text.size() > kMaxWeightTextLength)
+    if (text.size() > maxLength)
         return Result<Weight>::failure(u"weight %1 is too long (%2 characters; at most %3)"_s
-                                           .arg(quoted(text)).arg(text.size()).arg(kMaxWeightTextLength));
+                                           .arg(quoted(text)).arg(text.size()).arg(maxLength));
     QString s = text.toString();
     s.replace(QChar(kUnicodeMinus), u'-');
     s.remove(u' ');
@@ -304,13 +306,13 @@ Result<Weight> parseWeight(QStringView input)
     if (isNonFiniteWord(s))
         return Result<Weight>::failure(u"weight %1 is not a finite number: "_s.arg(quoted(text)) + expectedNumber());
 
-    auto signedDecimal = [](QStringView part, Rational &out) {
+    auto signedDecimal = [maxLength](QStringView part, Rational &out) {
         bool negative = false;
         if (!part.isEmpty() && (part[0] == u'-' || part[0] == u'+')) {
             negative = part[0] == u'-';
             part = part.mid(1);
         }
-        if (!parseDecimal(part, out))
+        if (!parseDecimal(part, out, maxLength))
             return false;
         if (negative)
             out = -out;
@@ -343,6 +345,18 @@ Result<Weight> parseWeight(QStringView input)
             return Result<Weight>::failure(u"weight %1 is too small: non-zero magnitudes down to 1e-300 are accepted"_s.arg(quoted(text)));
     }
     return Result<Weight>(Weight::exact(value));
+}
+
+} // namespace
+
+Result<Weight> parseWeight(QStringView text)
+{
+    return parseWeightUpTo(text, kMaxWeightTextLength);
+}
+
+Result<Weight> parseStoredWeight(QStringView text)
+{
+    return parseWeightUpTo(text, kMaxStoredWeightLength);
 }
 
 } // namespace cb

@@ -59,6 +59,12 @@ inline constexpr double kWeightMinMagnitude = 1e-300;
 // say what is expected.
 Result<Weight> parseWeight(QStringView text);
 
+// The same for text that storageString() wrote (scheme files, exact CSV): an exact weight
+// derived by the program can need far more than a typed one's 400 characters, so the
+// length limit is kMaxStoredWeightLength instead.
+inline constexpr qsizetype kMaxStoredWeightLength = 1 << 24;
+Result<Weight> parseStoredWeight(QStringView text);
+
 // The double nearest to q (ties to even); GMP's own conversion truncates.
 double nearestDouble(const Rational &q);
 
