@@ -1,6 +1,7 @@
 #include "CodingPanel.h"
 #include "Document.h"
 #include "HypothesisModel.h"
+#include "SchemeEdits.h"
 #include "WeightGridView.h"
 #include "WindowFixture.h"
 
@@ -26,6 +27,7 @@ private slots:
     void untestableHypothesesStayADraft();
     void undoAfterAReverseEditRestoresBoth();
     void rankDeficientCodingHasNoHypothesesToEdit();
+    void aNewComparisonIsADraftUntilItsWeightsAreTyped();
 };
 
 namespace {
@@ -179,6 +181,33 @@ void TestHypothesisModel::rankDeficientCodingHasNoHypothesesToEdit()
     QCOMPARE(m->index(0, 0).data().toString(), u"\u2014"_s);
     QVERIFY(!(m->flags(m->index(0, 0)) & Qt::ItemIsEditable));
     QVERIFY(m->index(0, 0).data(Qt::ToolTipRole).toString().contains(u"rank deficient"_s));
+}
+
+void TestHypothesisModel::aNewComparisonIsADraftUntilItsWeightsAreTyped()
+{
+    WindowFixture f;
+    Document *d = f.window->document();
+    HypothesisModel *m = f.window->codingPanel()->hypothesisModel();
+    QSignalSpy refused(m, &WeightTableModel::editRefused);
+    QVERIFY(!m->addComparison()); // treatment on four levels: already three comparisons
+    QCOMPARE(refused.count(), 1);
+
+    d->edit(edits::withColumnRemoved(d->scheme(), 2).take(), u"drop D vs A"_s);
+    QCOMPARE(m->columnCount(), 3);
+    QVERIFY(m->addComparison());
+    QCOMPARE(m->columnCount(), 4);
+    QVERIFY(m->hasDraft());
+    QCOMPARE(m->headerData(3, Qt::Horizontal).toString().replace(u'\n', u' '), u"\u2717 b3  new comparison"_s);
+    QCOMPARE(d->undoStack()->count(), 1); // nothing applied yet
+    // D against the average of B and C.
+    QVERIFY(m->setCellTexts({{1, 3, u"-1/2"_s}, {2, 3, u"-1/2"_s}, {3, 3, u"1"_s}}, u"new comparison"_s));
+    QVERIFY(!m->hasDraft());
+    QCOMPARE(d->scheme().columnCount(), 3);
+    QCOMPARE(d->scheme().columns[2].name, u"comparison 3"_s);
+    QCOMPARE(d->analysis().hypotheses[3], (std::vector<Weight>{q(0), q(-1, 2), q(-1, 2), q(1)}));
+    // Undo takes the comparison away again.
+    d->undoStack()->undo();
+    QCOMPARE(m->columnCount(), 3);
 }
 
 QTEST_MAIN(TestHypothesisModel)

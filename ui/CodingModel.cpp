@@ -173,7 +173,7 @@ QVariant CodingModel::headerData(int section, Qt::Orientation orientation, int r
     const look::State state = st ? st->overall() : look::State::Neutral;
     switch (role) {
     case Qt::DisplayRole: {
-        const QString name = u"%1  %2"_s.arg(section + 1).arg(s.columns[size_t(section)].name);
+        const QString name = look::twoLines(u"%1  %2"_s.arg(section + 1).arg(s.columns[size_t(section)].name));
         return state == look::State::Caution || state == look::State::Problem ? look::mark(state) + u" "_s + name : name;
     }
     case Qt::EditRole:

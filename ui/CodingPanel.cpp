@@ -14,7 +14,9 @@
 #include <QHeaderView>
 #include <QLabel>
 #include <QPushButton>
+#include <QSplitter>
 #include <QTabWidget>
+#include <QTimer>
 #include <QVBoxLayout>
 
 using namespace Qt::StringLiterals;
@@ -109,20 +111,27 @@ QWidget *CodingPanel::buildCodingTab()
     m_pairsView->verticalHeader()->setDefaultSectionSize(24);
     m_pairsView->verticalHeader()->setSectionResizeMode(QHeaderView::Fixed);
     m_pairsView->setSizeAdjustPolicy(QAbstractScrollArea::AdjustToContents);
-    auto *pairsLayout = new QHBoxLayout(pairsBox);
+    auto *pairsLayout = new QVBoxLayout(pairsBox);
     pairsLayout->setContentsMargins(0, 4, 0, 0);
-    pairsLayout->addWidget(m_pairsView, 0, Qt::AlignTop | Qt::AlignLeft);
-    pairsLayout->addWidget(m_pairsCaption, 1, Qt::AlignTop);
+    pairsLayout->setSpacing(2);
+    pairsLayout->addWidget(m_pairsCaption);
+    pairsLayout->addWidget(m_pairsView, 1, Qt::AlignLeft);
 
-    // The pairs table takes the room it needs, up to a limit, and scrolls beyond it.
-    m_pairsView->setMaximumHeight(260);
-    pairsBox->setSizePolicy(QSizePolicy::Preferred, QSizePolicy::Maximum);
+    // The grid comes first; the pairs table gets the room it needs up to a share of the
+    // height (fitSplit), and the person can move the divider.
+    m_split = new QSplitter(Qt::Vertical, tab);
+    m_split->addWidget(m_codingView);
+    m_split->addWidget(pairsBox);
+    m_split->setChildrenCollapsible(false);
+    m_split->setStretchFactor(0, 1);
+    m_split->setStretchFactor(1, 0);
+    connect(m_split, &QSplitter::splitterMoved, this, [this] { m_splitMoved = true; });
+    connect(m_pairs, &QAbstractItemModel::modelReset, this, &CodingPanel::fitSplit);
 
     auto *layout = new QVBoxLayout(tab);
     layout->setContentsMargins(0, 4, 0, 0);
     layout->addLayout(bar);
-    layout->addWidget(m_codingView, 1);
-    layout->addWidget(pairsBox);
+    layout->addWidget(m_split, 1);
 
     connect(m_codingView->selectionModel(), &QItemSelectionModel::currentChanged, this, [this](const QModelIndex &i) {
         if (i.isValid())
@@ -142,8 +151,18 @@ QWidget *CodingPanel::buildHypothesisTab()
     styleNotice(m_draftNotice, look::State::Problem);
     auto *layout = new QVBoxLayout(tab);
     layout->setContentsMargins(0, 4, 0, 0);
-    layout->addWidget(look::note(tr("Each column is what one coefficient tests: weights on the level means. A comparison's weights sum to 0; "
-                              "the intercept's sum to 1. Edit them and the coding grid is rebuilt to test exactly these."), tab));
+    auto *add = new QPushButton(tr("+ Comparison"), tab);
+    auto *remove = new QPushButton(tr("\u2212 Comparison"), tab);
+    add->setToolTip(tr("Add a comparison: type its weights on the level means, summing to 0."));
+    remove->setToolTip(tr("Remove the comparison the cursor is in (its coding column goes too)."));
+    connect(add, &QPushButton::clicked, this, &CodingPanel::addComparison);
+    connect(remove, &QPushButton::clicked, this, &CodingPanel::removeComparison);
+    auto *bar = new QHBoxLayout;
+    bar->addWidget(look::note(tr("Each column is what one coefficient tests: weights on the level means. A comparison's weights sum to 0; "
+                                 "the intercept's sum to 1. Edit them and the coding grid is rebuilt to test exactly these."), tab), 1);
+    bar->addWidget(add);
+    bar->addWidget(remove);
+    layout->addLayout(bar);
     layout->addWidget(m_hypothesisView, 1);
     layout->addWidget(m_draftNotice);
     connect(m_hypotheses, &QAbstractItemModel::modelReset, m_hypothesisView, [this] {
@@ -155,11 +174,29 @@ QWidget *CodingPanel::buildHypothesisTab()
 void CodingPanel::follow()
 {
     const bool planned = m_document->scheme().factor.hasPlannedN();
-    look::setText(m_pairsCaption, tr("<b>Pairs of columns.</b><br>Above the diagonal: orthogonal as written (the products of their weights sum "
-                               "to 0).<br>Below the diagonal: orthogonal %1, which is what makes their estimates uncorrelated."
-                               "<br>%2 yes &nbsp; %3 no. Hover a cell for the cross-product.")
+    look::setText(m_pairsCaption, tr("<b>Pairs of columns</b> (%2 yes, %3 no; hover a cell for the cross-product). Above the diagonal: "
+                                     "orthogonal as written, the products of their weights sum to 0. Below: orthogonal %1, which "
+                                     "makes their estimates uncorrelated.")
                                 .arg(sizesPhrase(planned), look::mark(look::State::Good), look::mark(look::State::Problem)));
     m_hypothesisView->setEnabled(!m_document->analysis().hypotheses.empty());
+}
+
+void CodingPanel::fitSplit()
+{
+    if (m_splitMoved || !m_split || m_split->height() <= 0)
+        return;
+    const int total = m_split->height();
+    const int table = m_pairsView->horizontalHeader()->height() + 24 * m_pairs->rowCount() + 2 * m_pairsView->frameWidth() + 2;
+    const int wanted = m_pairsCaption->sizeHint().height() + 8 + table;
+    const int pairs = std::min(wanted, total * 38 / 100);
+    m_split->setSizes({total - pairs, pairs});
+}
+
+void CodingPanel::resizeEvent(QResizeEvent *event)
+{
+    QWidget::resizeEvent(event);
+    // After the layout has given the splitter its new height.
+    QTimer::singleShot(0, this, &CodingPanel::fitSplit);
 }
 
 void CodingPanel::showDirection(Direction direction)
@@ -196,9 +233,40 @@ void CodingPanel::addColumn()
 
 void CodingPanel::removeColumn()
 {
-    const Scheme &s = m_document->scheme();
     const QModelIndex cur = m_codingView->currentIndex();
-    const int column = cur.isValid() ? cur.column() : s.columnCount() - 1;
+    removeCodingColumn(cur.isValid() ? cur.column() : m_document->scheme().columnCount() - 1);
+}
+
+void CodingPanel::addComparison()
+{
+    if (m_hypotheses->addComparison()) {
+        showNotice({});
+        const QModelIndex first = m_hypotheses->index(0, m_hypotheses->columnCount() - 1);
+        m_hypothesisView->setCurrentIndex(first);
+        m_hypothesisView->scrollTo(first);
+    }
+}
+
+void CodingPanel::removeComparison()
+{
+    const Scheme &s = m_document->scheme();
+    const QModelIndex cur = m_hypothesisView->currentIndex();
+    const int offset = s.intercept ? 1 : 0;
+    const int coefficient = cur.isValid() ? cur.column() : m_hypotheses->columnCount() - 1;
+    if (coefficient >= offset + s.columnCount()) { // a new comparison not applied yet
+        m_hypotheses->discardDraft();
+        return;
+    }
+    if (coefficient < offset) {
+        showNotice(tr("Not removed: the intercept is switched off with the \u2018Intercept\u2019 box above, not removed here."));
+        return;
+    }
+    removeCodingColumn(coefficient - offset);
+}
+
+void CodingPanel::removeCodingColumn(int column)
+{
+    const Scheme &s = m_document->scheme();
     auto next = edits::withColumnRemoved(s, column);
     if (!next) {
         showNotice(tr("Not removed: %1").arg(next.error()));

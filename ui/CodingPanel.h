@@ -3,6 +3,7 @@
 #include <QWidget>
 
 class QLabel;
+class QSplitter;
 class QTableView;
 class QTabWidget;
 class QToolButton;
@@ -46,14 +47,22 @@ public:
 public slots:
     void addColumn();
     void removeColumn();
+    // The same from the hypothesis grid: a new comparison starts as a draft.
+    void addComparison();
+    void removeComparison();
 
 signals:
     // The coding column the user is on changed (for the meaning list).
     void currentCoefficientChanged(int coefficient);
     void message(const QString &text);
 
+protected:
+    void resizeEvent(QResizeEvent *event) override;
+
 private:
     void follow();
+    void fitSplit();
+    void removeCodingColumn(int column);
     QWidget *buildCodingTab();
     QWidget *buildHypothesisTab();
 
@@ -67,6 +76,8 @@ private:
     WeightGridView *m_hypothesisView = nullptr;
     QTableView *m_pairsView = nullptr;
     QLabel *m_pairsCaption = nullptr;
+    QSplitter *m_split = nullptr;
+    bool m_splitMoved = false;
     QLabel *m_draftNotice = nullptr;
     QLabel *m_notice;
 };

@@ -58,7 +58,7 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
     m_vifView->horizontalHeader()->setSectionResizeMode(VifModel::VifColumn, QHeaderView::Fixed);
     m_vifView->horizontalHeader()->setSectionResizeMode(VifModel::VerdictColumn, QHeaderView::Fixed);
     m_vifView->setColumnWidth(VifModel::VifColumn, fm.horizontalAdvance(u"0000.00"_s) + 12);
-    m_vifView->setColumnWidth(VifModel::VerdictColumn, fm.horizontalAdvance(tr("! notable (5 or more)")) + 12);
+    m_vifView->setColumnWidth(VifModel::VerdictColumn, fm.horizontalAdvance(tr("undefined")) + 16);
     m_vifView->setSelectionMode(QAbstractItemView::NoSelection);
     m_findingsView->setModel(m_findings);
     m_findingsView->setObjectName(u"findingsList"_s);

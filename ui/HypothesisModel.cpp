@@ -17,13 +17,18 @@ HypothesisModel::HypothesisModel(Document *document, QObject *parent)
 DocumentTableModel::Shape HypothesisModel::currentShape() const
 {
     const Analysis &a = document()->analysis();
-    return {a.levelCount, a.coefficientCount};
+    return {a.levelCount, draftIsCurrent() ? int(m_draft->size()) : a.coefficientCount};
+}
+
+bool HypothesisModel::draftIsCurrent() const
+{
+    return m_draft && m_draftRevision == document()->revision();
 }
 
 void HypothesisModel::aboutToFollow()
 {
     // Any change of the document (our own commit, an undo, a level edit) ends a draft.
-    if (m_draft) {
+    if (m_draft && !draftIsCurrent()) {
         m_draft.reset();
         m_draftColumns.clear();
         m_draftProblem.clear();
@@ -35,14 +40,39 @@ void HypothesisModel::discardDraft()
 {
     if (!m_draft)
         return;
-    aboutToFollow();
-    if (rowCount() > 0 && columnCount() > 0)
-        emit dataChanged(index(0, 0), index(rowCount() - 1, columnCount() - 1), changedRoles());
+    m_draftRevision = document()->revision() + 1; // no longer current
+    follow();
+}
+
+bool HypothesisModel::addComparison()
+{
+    const auto *current = rows();
+    const Analysis &a = document()->analysis();
+    if (!current) {
+        emit editRefused(tr("Not added: the coding is rank deficient, so there are no hypotheses to add to. Fix the coding first."));
+        return false;
+    }
+    if (int(current->size()) >= a.levelCount) {
+        emit editRefused(tr("Not added: %1 levels allow at most %2 comparisons beside the intercept.")
+                             .arg(a.levelCount).arg(a.intercept ? a.levelCount - 1 : a.levelCount));
+        return false;
+    }
+    std::vector<std::vector<Weight>> next = *current;
+    next.emplace_back(size_t(a.levelCount), Weight(0));
+    QSet<int> touched = m_draft ? m_draftColumns : QSet<int>();
+    touched.insert(int(next.size()) - 1);
+    m_draft = std::move(next);
+    m_draftRevision = document()->revision();
+    m_draftColumns = touched;
+    m_draftProblem = tr("the new comparison has no weights yet; type weights on the level means that sum to 0");
+    follow();
+    emit draftChanged(m_draftProblem);
+    return true;
 }
 
 const std::vector<std::vector<Weight>> *HypothesisModel::rows() const
 {
-    if (m_draft)
+    if (draftIsCurrent())
         return &*m_draft;
     const auto &h = document()->analysis().hypotheses;
     return h.empty() ? nullptr : &h;
@@ -64,6 +94,8 @@ std::optional<Weight> HypothesisModel::weightAt(int row, int column) const
 QString HypothesisModel::coefficientLabel(int column) const
 {
     const Analysis &a = document()->analysis();
+    if (column >= a.coefficientNames.size() && column < columnCount())
+        return u"b%1  %2"_s.arg(a.intercept ? column : column + 1).arg(tr("new comparison"));
     if (column < 0 || column >= a.coefficientNames.size())
         return {};
     const int number = a.intercept ? column : column + 1;
@@ -91,9 +123,10 @@ bool HypothesisModel::applyWeights(const std::vector<edits::CellWeight> &cells, 
     auto coded = edits::withHypotheses(d->scheme(), next);
     if (!coded) {
         m_draft = std::move(next);
+        m_draftRevision = d->revision();
         m_draftColumns = touched;
         m_draftProblem = coded.error();
-        emit dataChanged(index(0, 0), index(rowCount() - 1, columnCount() - 1), changedRoles());
+        follow();
         emit draftChanged(m_draftProblem);
         return true;
     }
@@ -111,7 +144,7 @@ QVariant HypothesisModel::data(const QModelIndex &index, int role) const
     if (!index.isValid())
         return {};
     const auto w = weightAt(index.row(), index.column());
-    const bool pending = m_draft && m_draftColumns.contains(index.column());
+    const bool pending = draftIsCurrent() && m_draftColumns.contains(index.column());
     switch (role) {
     case Qt::DisplayRole:
         return w ? formatWeight(*w) : u"\u2014"_s;
@@ -141,12 +174,12 @@ QVariant HypothesisModel::headerData(int section, Qt::Orientation orientation, i
             return a.levels[section];
         return {};
     }
-    if (section < 0 || section >= a.coefficientCount)
+    if (section < 0 || section >= columnCount())
         return {};
-    const bool pending = m_draft && m_draftColumns.contains(section);
+    const bool pending = draftIsCurrent() && m_draftColumns.contains(section);
     switch (role) {
     case Qt::DisplayRole:
-        return pending ? look::mark(look::State::Problem) + u" "_s + coefficientLabel(section) : coefficientLabel(section);
+        return look::twoLines(pending ? look::mark(look::State::Problem) + u" "_s + coefficientLabel(section) : coefficientLabel(section));
     case Qt::ForegroundRole:
         return pending ? QVariant(look::ink(look::State::Problem)) : QVariant();
     case Qt::ToolTipRole:

@@ -25,10 +25,13 @@ public:
     std::optional<Weight> weightAt(int row, int column) const override;
     QString cellName(int row, int column) const override;
 
-    bool hasDraft() const { return m_draft.has_value(); }
+    bool hasDraft() const { return draftIsCurrent(); }
     QString draftProblem() const { return m_draftProblem; }
     // Drops the draft and shows the hypotheses of the current coding again.
     void discardDraft();
+    // Starts a new comparison (a column of zeros, kept as a draft until its weights make a
+    // testable set). Refused, with a message, when every level already has a coefficient.
+    bool addComparison();
 
     QVariant data(const QModelIndex &index, int role = Qt::DisplayRole) const override;
     QVariant headerData(int section, Qt::Orientation orientation, int role = Qt::DisplayRole) const override;
@@ -47,7 +50,10 @@ private:
     const std::vector<std::vector<Weight>> *rows() const;
     QString coefficientLabel(int column) const;
 
+    bool draftIsCurrent() const;
+
     std::optional<std::vector<std::vector<Weight>>> m_draft; // coefficient x level
+    quint64 m_draftRevision = 0; // the document revision the draft was typed against
     QSet<int> m_draftColumns;
     QString m_draftProblem;
 };

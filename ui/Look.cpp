@@ -2,6 +2,8 @@
 
 #include <QLabel>
 
+#include <cstdlib>
+
 using namespace Qt::StringLiterals;
 
 namespace cb::look {
@@ -68,6 +70,20 @@ QLabel *note(const QString &text, QWidget *parent)
     p.setColor(QPalette::WindowText, ink(State::Neutral));
     l->setPalette(p);
     return l;
+}
+
+QString twoLines(const QString &text, int longestLine)
+{
+    if (text.size() <= longestLine || text.contains(u'\n'))
+        return text;
+    const qsizetype middle = text.size() / 2;
+    qsizetype best = -1;
+    for (qsizetype i = 0; i < text.size(); ++i)
+        if (text[i] == u' ' && (best < 0 || std::abs(i - middle) < std::abs(best - middle)))
+            best = i;
+    if (best <= 0)
+        return text;
+    return text.left(best).trimmed() + u'\n' + text.mid(best + 1).trimmed();
 }
 
 void setText(QLabel *label, const QString &text)

@@ -29,6 +29,8 @@ QString approxMark(); // "≈"
 
 // A wrapped label in the quiet colour, for hints and explanations.
 QLabel *note(const QString &text, QWidget *parent);
+// A long header title broken at the space nearest its middle, so that columns stay narrow.
+QString twoLines(const QString &text, int longestLine = 16);
 // Sets a label's text only when it differs (a rich-text label lays itself out again on every set).
 void setText(QLabel *label, const QString &text);
 

@@ -100,7 +100,7 @@ void MainWindow::buildDocks()
     auto *levels = dock(m_levels, tr("Factor and levels"), u"levelsDock"_s, Qt::LeftDockWidgetArea);
     auto *meaning = dock(m_meaning, tr("What each coefficient tests"), u"meaningDock"_s, Qt::RightDockWidgetArea);
     m_healthDock = dock(m_health, tr("Design health"), u"healthDock"_s, Qt::BottomDockWidgetArea);
-    resizeDocks({levels, meaning}, {330, 400}, Qt::Horizontal);
+    resizeDocks({levels, meaning}, {290, 380}, Qt::Horizontal);
     resizeDocks({m_healthDock}, {230}, Qt::Vertical);
 }
 

@@ -257,8 +257,11 @@ Result<Scheme> withHypotheses(const Scheme &scheme, const std::vector<std::vecto
         return Result<Scheme>::failure(columns.error());
     Scheme s = asCustom(scheme);
     std::vector<Column> cols = columns.take();
+    QStringList names;
     for (size_t j = 0; j < cols.size() && j < scheme.columns.size(); ++j)
-        cols[j].name = scheme.columns[j].name;
+        names << (cols[j].name = scheme.columns[j].name);
+    for (size_t j = scheme.columns.size(); j < cols.size(); ++j)
+        names << (cols[j].name = freshName(names, u"comparison"_s));
     s.columns = std::move(cols);
     return Result<Scheme>(std::move(s));
 }

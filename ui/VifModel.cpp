@@ -40,9 +40,9 @@ QVariant VifModel::data(const QModelIndex &index, int role) const
     case VerdictColumn:
         if (role == Qt::DisplayRole) {
             switch (state) {
-            case look::State::Good: return tr("%1 below %2").arg(look::mark(state)).arg(kVifCaution);
-            case look::State::Caution: return tr("%1 notable (%2 or more)").arg(look::mark(state)).arg(kVifCaution);
-            case look::State::Problem: return tr("%1 serious (%2 or more)").arg(look::mark(state)).arg(kVifProblem);
+            case look::State::Good: return tr("%1 fine").arg(look::mark(state));
+            case look::State::Caution: return tr("%1 notable").arg(look::mark(state));
+            case look::State::Problem: return tr("%1 serious").arg(look::mark(state));
             case look::State::Neutral: return tr("undefined");
             }
         }
@@ -50,6 +50,8 @@ QVariant VifModel::data(const QModelIndex &index, int role) const
             return look::ink(state);
         if (role == Qt::BackgroundRole && state != look::State::Good)
             return look::tint(state);
+        if (role == Qt::ToolTipRole)
+            return tr("VIF %1: fine below %2, notable from %2, serious from %3 (common practice).").arg(formatVif(vif)).arg(kVifCaution).arg(kVifProblem);
         return {};
     default:
         return {};
@@ -58,7 +60,12 @@ QVariant VifModel::data(const QModelIndex &index, int role) const
 
 QVariant VifModel::headerData(int section, Qt::Orientation orientation, int role) const
 {
-    if (orientation != Qt::Horizontal || role != Qt::DisplayRole)
+    if (orientation != Qt::Horizontal)
+        return {};
+    if (role == Qt::ToolTipRole)
+        return tr("Variance inflation under the planned n: how much the column's variance grows because it overlaps the others. "
+                  "Fine below %1, notable from %1, serious from %2 (common practice).").arg(kVifCaution).arg(kVifProblem);
+    if (role != Qt::DisplayRole)
         return {};
     switch (section) {
     case NameColumn: return tr("Column");
