@@ -76,9 +76,7 @@ int runAnalyze(const QStringList &args, Io &io)
 int runDesign(const QStringList &args, Io &io)
 {
     QCommandLineParser p;
-    p.addOption({u"levels"_s, u"Level names, in order, separated by commas."_s, u"a,b,c"_s});
-    p.addOption({u"factor"_s, u"The factor's name."_s, u"name"_s});
-    p.addOption({u"n"_s, u"Planned group size of each level."_s, u"n1,n2,n3"_s});
+    addFactorOptions(p);
     p.addOption({u"hypotheses"_s, u"One row of k weights on the level means per coefficient, rows separated by ';'."_s, u"h,h,h;h,h,h"_s});
     p.addOption({u"intercept-row"_s, u"The intercept's weights on the level means (default: the unweighted mean)."_s, u"h,h,h"_s});
     p.addOption({u"no-intercept"_s, u"No intercept: one row per coefficient, k rows for a full set."_s});
@@ -91,43 +89,24 @@ int runDesign(const QStringList &args, Io &io)
     }
     if (!p.isSet(u"levels"_s) || !p.isSet(u"hypotheses"_s))
         return badInput(io, u"design"_s, u"give --levels and --hypotheses"_s);
-    Factor f;
-    f.name = p.value(u"factor"_s);
-    f.levels = splitList(p.value(u"levels"_s));
-    if (QString e = f.validate(); !e.isEmpty())
-        return badInput(io, u"design"_s, u"--"_s + e);
-    if (p.isSet(u"n"_s)) {
-        auto n = parseSizes(splitList(p.value(u"n"_s)), f.levelCount(), u"--n"_s);
-        if (!n)
-            return badInput(io, u"design"_s, n.error());
-        f.plannedN = n.take();
-    }
-    auto parseRow = [&](const QString &text, const QString &where, std::vector<Weight> &row) -> QString {
-        const QStringList items = splitList(text);
-        if (items.size() != f.levelCount())
-            return u"%1 has %2 weights for %3 levels; give one per level"_s.arg(where).arg(items.size()).arg(f.levelCount());
-        for (qsizetype i = 0; i < items.size(); ++i) {
-            auto w = parseWeight(items[i]);
-            if (!w)
-                return u"%1, level %2 ('%3'): %4"_s.arg(where).arg(i + 1).arg(f.levels[i], w.error());
-            row.push_back(*w);
-        }
-        return {};
-    };
+    auto factor = factorFromOptions(p);
+    if (!factor)
+        return badInput(io, u"design"_s, factor.error());
+    const Factor f = factor.take();
     std::vector<std::vector<Weight>> rows;
     const QStringList groups = p.value(u"hypotheses"_s).split(u';');
     for (qsizetype g = 0; g < groups.size(); ++g) {
-        std::vector<Weight> row;
-        if (QString e = parseRow(groups[g], u"--hypotheses: row %1"_s.arg(g + 1), row); !e.isEmpty())
-            return badInput(io, u"design"_s, e);
-        rows.push_back(std::move(row));
+        auto row = weightRowFromText(groups[g], f, u"--hypotheses: row %1"_s.arg(g + 1));
+        if (!row)
+            return badInput(io, u"design"_s, row.error());
+        rows.push_back(row.take());
     }
     std::optional<std::vector<Weight>> interceptRow;
     if (p.isSet(u"intercept-row"_s)) {
-        std::vector<Weight> row;
-        if (QString e = parseRow(p.value(u"intercept-row"_s), u"--intercept-row"_s, row); !e.isEmpty())
-            return badInput(io, u"design"_s, e);
-        interceptRow = std::move(row);
+        auto row = weightRowFromText(p.value(u"intercept-row"_s), f, u"--intercept-row"_s);
+        if (!row)
+            return badInput(io, u"design"_s, row.error());
+        interceptRow = row.take();
     }
     const bool intercept = !p.isSet(u"no-intercept"_s);
     auto cols = codingFromHypotheses(f, rows, intercept, interceptRow);

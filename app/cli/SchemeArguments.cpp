@@ -6,16 +6,54 @@ using namespace Qt::StringLiterals;
 
 namespace cb::cli {
 
-void addSchemeOptions(QCommandLineParser &p, SchemeOptionSet set)
+void addFactorOptions(QCommandLineParser &p, SchemeOptionSet set)
 {
-    p.addOption({u"file"_s, u"Read the scheme from a scheme file (JSON)."_s, u"scheme.json"_s});
     p.addOption({u"levels"_s, u"Level names, in order, separated by commas."_s, u"a,b,c"_s});
     if (set == SchemeOptionSet::All)
         p.addOption({u"factor"_s, u"The factor's name (with --levels)."_s, u"name"_s});
+    p.addOption({u"n"_s, u"Planned group size of each level."_s, u"n1,n2,n3"_s});
+}
+
+Result<Factor> factorFromOptions(const QCommandLineParser &p)
+{
+    using R = Result<Factor>;
+    Factor f;
+    f.name = p.value(u"factor"_s); // defined by the scheme options or, for fit, as the data column
+    f.levels = splitList(p.value(u"levels"_s));
+    if (QString e = f.validate(); !e.isEmpty())
+        return R::failure(u"--"_s + e);
+    if (p.isSet(u"n"_s)) {
+        auto n = parseSizes(splitList(p.value(u"n"_s)), f.levelCount(), u"--n"_s);
+        if (!n)
+            return R::failure(n.error());
+        f.plannedN = n.take();
+    }
+    return R(std::move(f));
+}
+
+Result<std::vector<Weight>> weightRowFromText(const QString &text, const Factor &f, const QString &where)
+{
+    using R = Result<std::vector<Weight>>;
+    const QStringList items = splitList(text);
+    if (items.size() != f.levelCount())
+        return R::failure(u"%1 has %2 weights for %3 levels; give one per level"_s.arg(where).arg(items.size()).arg(f.levelCount()));
+    std::vector<Weight> row;
+    for (qsizetype i = 0; i < items.size(); ++i) {
+        auto w = parseWeight(items[i]);
+        if (!w)
+            return R::failure(u"%1, level %2 ('%3'): %4"_s.arg(where).arg(i + 1).arg(f.levels[i], w.error()));
+        row.push_back(*w);
+    }
+    return R(std::move(row));
+}
+
+void addSchemeOptions(QCommandLineParser &p, SchemeOptionSet set)
+{
+    p.addOption({u"file"_s, u"Read the scheme from a scheme file (JSON)."_s, u"scheme.json"_s});
+    addFactorOptions(p, set);
     p.addOption({u"scheme"_s, u"A standard scheme: indicator, treatment, sum, weighted-effect, simple, helmert, reverse-helmert, successive, polynomial."_s, u"NAME"_s});
     p.addOption({u"reference"_s, u"Reference level (treatment, simple) or base level coded -1 (sum, weighted-effect)."_s, u"LEVEL"_s});
     p.addOption({u"spacing"_s, u"Numeric position of each level, for polynomial trends."_s, u"x,y,z"_s});
-    p.addOption({u"n"_s, u"Planned group size of each level."_s, u"n1,n2,n3"_s});
     p.addOption({u"columns"_s, u"Custom weights: one group of k weights per column, groups separated by ';'."_s, u"w,w,w;w,w,w"_s});
     p.addOption({u"no-intercept"_s, u"Fit without an intercept."_s});
     p.addOption({u"integer"_s, u"Polynomial trends as smallest integers instead of orthonormal columns."_s});
@@ -53,17 +91,10 @@ Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
             s.intercept = false;
         return R(std::move(s));
     }
-    Factor f;
-    f.name = p.value(u"factor"_s);
-    f.levels = splitList(p.value(u"levels"_s));
-    if (QString e = f.validate(); !e.isEmpty())
-        return R::failure(u"--"_s + e);
-    if (p.isSet(u"n"_s)) {
-        auto n = parseSizes(splitList(p.value(u"n"_s)), f.levelCount(), u"--n"_s);
-        if (!n)
-            return R::failure(n.error());
-        f.plannedN = n.take();
-    }
+    auto factor = factorFromOptions(p);
+    if (!factor)
+        return R::failure(factor.error());
+    Factor f = factor.take();
     if (p.isSet(u"spacing"_s)) {
         auto sp = parseSpacing(splitList(p.value(u"spacing"_s)), f.levelCount(), u"--spacing"_s);
         if (!sp)
@@ -102,17 +133,10 @@ Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
         s.kind = SchemeKind::Custom;
         const QStringList groups = p.value(u"columns"_s).split(u';');
         for (qsizetype g = 0; g < groups.size(); ++g) {
-            const QStringList items = splitList(groups[g]);
-            if (items.size() != f.levelCount())
-                return R::failure(u"--columns: column %1 has %2 weights for %3 levels; give one per level"_s.arg(g + 1).arg(items.size()).arg(f.levelCount()));
-            Column c{u"c%1"_s.arg(g + 1), {}};
-            for (qsizetype i = 0; i < items.size(); ++i) {
-                auto w = parseWeight(items[i]);
-                if (!w)
-                    return R::failure(u"--columns: column %1, level %2 ('%3'): %4"_s.arg(g + 1).arg(i + 1).arg(f.levels[i], w.error()));
-                c.weights.push_back(*w);
-            }
-            s.columns.push_back(std::move(c));
+            auto row = weightRowFromText(groups[g], f, u"--columns: column %1"_s.arg(g + 1));
+            if (!row)
+                return R::failure(row.error());
+            s.columns.push_back(Column{u"c%1"_s.arg(g + 1), row.take()});
         }
     }
     if (p.isSet(u"no-intercept"_s))

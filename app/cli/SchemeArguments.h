@@ -15,6 +15,12 @@ void addSchemeOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOp
 // The scheme the options describe; the message names the argument and what was wrong.
 Result<Scheme> schemeFromOptions(const QCommandLineParser &parser);
 
+// The factor alone: --levels, --factor (unless left out), --n.
+void addFactorOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOptionSet::All);
+Result<Factor> factorFromOptions(const QCommandLineParser &parser);
+// One row of k weights from "w, w, w"; where names the argument ("--columns: column 2").
+Result<std::vector<Weight>> weightRowFromText(const QString &text, const Factor &factor, const QString &where);
+
 // Parses args (without program name and subcommand) into parser; on failure returns
 // the message. Adds --help handling: returns an empty Result error with helpRequested.
 QString parseArguments(QCommandLineParser &parser, const QString &command, const QStringList &args);
