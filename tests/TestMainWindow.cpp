@@ -1,4 +1,7 @@
+#include "CodingModel.h"
 #include "CodingPanel.h"
+#include "LevelsModel.h"
+#include "LevelsPanel.h"
 #include "Demos.h"
 #include "Document.h"
 #include "HealthPanel.h"
@@ -10,6 +13,8 @@
 #include "WindowFixture.h"
 
 #include <QCloseEvent>
+#include <QComboBox>
+#include <QTableView>
 #include <QDir>
 #include <QDockWidget>
 #include <QFile>
@@ -44,6 +49,7 @@ private slots:
     void savingRemovesTheRecoveryFile();
     void addPanelTabsBesideDesignHealth();
     void titleShowsNameAndUnsavedMark();
+    void firstTaskFromTheReadme();
 };
 
 namespace {
@@ -321,6 +327,58 @@ void TestMainWindow::titleShowsNameAndUnsavedMark()
     QCOMPARE(f.window->windowTitle(), u"titled.json[*] \u2014 Contrast Bench"_s);
     QVERIFY(!f.window->isWindowModified());
     QVERIFY(f.window->healthPanel()->summaryText().contains(u"Rank 4 of 4"_s));
+}
+
+// The README's first task, step by step, through the same models the window's views use.
+void TestMainWindow::firstTaskFromTheReadme()
+{
+    WindowFixture f;
+    QVERIFY(f.show());
+    MainWindow &w = *f.window;
+    QVERIFY(w.newScheme());
+    // Levels and planned n.
+    QAbstractItemModel *levels = w.levelsPanel()->model();
+    const QStringList names = {u"control"_s, u"low"_s, u"mid"_s, u"high"_s};
+    const QStringList sizes = {u"20"_s, u"10"_s, u"10"_s, u"10"_s};
+    for (int r = 0; r < 4; ++r) {
+        QVERIFY(levels->setData(levels->index(r, LevelsModel::NameColumn), names[r]));
+        QVERIFY(levels->setData(levels->index(r, LevelsModel::SizeColumn), sizes[r]));
+    }
+    // Three columns typed cell by cell.
+    CodingModel *coding = w.codingPanel()->codingModel();
+    const QList<QStringList> columns = {{u"1"_s, u"1"_s, u"-1"_s, u"-1"_s}, {u"1"_s, u"-1"_s, u"0"_s, u"0"_s}, {u"0"_s, u"0"_s, u"1"_s, u"-1"_s}};
+    for (int c = 0; c < 3; ++c)
+        for (int r = 0; r < 4; ++r)
+            QVERIFY(coding->setData(coding->index(r, c), columns[c][r]));
+    QCOMPARE(w.document()->scheme().kind, SchemeKind::Custom);
+    QCOMPARE(w.codingPanel()->picker()->schemeBox()->currentText(), u"Custom (typed by hand)"_s);
+    // What the README says you see: columns 1 and 2 clash under the planned n, not as written.
+    const int footer = 4;
+    QCOMPARE(coding->index(footer + CodingModel::OrthogonalityRow, 0).data().toString(), u"! 2"_s);
+    QCOMPARE(coding->index(footer + CodingModel::OrthogonalityRow, 1).data().toString(), u"! 1"_s);
+    QAbstractItemModel *pairs = w.codingPanel()->pairsView()->model();
+    QCOMPARE(pairs->index(0, 1).data().toString(), u"\u2713"_s);
+    QCOMPARE(pairs->index(1, 0).data().toString(), u"\u2717"_s);
+    QVERIFY(pairs->index(1, 0).data(Qt::ToolTipRole).toString().contains(u"is 8"_s));
+    MeaningModel *meaning = w.meaningPanel()->model();
+    QCOMPARE(meaning->index(2, 0).data(MeaningModel::SymbolsRole).toString(), u"b2: 1/2 * (mean(control) - mean(low)) = 0"_s);
+    // The fix: -2 for low in column 2.
+    QVERIFY(coding->setData(coding->index(1, 1), u"-2"_s));
+    QCOMPARE(coding->index(footer + CodingModel::OrthogonalityRow, 0).data().toString(), u"\u2713 none"_s);
+    QCOMPARE(pairs->index(1, 0).data().toString(), u"\u2713"_s);
+    // Column 2 still compares control with low (a third of the difference); column 1 now
+    // weights control and low by their n, 2 : 1.
+    QCOMPARE(meaning->index(2, 0).data(MeaningModel::SymbolsRole).toString(), u"b2: 1/3 * (mean(control) - mean(low)) = 0"_s);
+    QVERIFY2(meaning->index(1, 0).data(MeaningModel::SymbolsRole).toString().contains(u"2 control + low"_s),
+             qPrintable(meaning->index(1, 0).data(MeaningModel::SymbolsRole).toString()));
+    // Save.
+    f.prompter.savePath = f.dir.filePath(u"dose.json"_s);
+    QVERIFY(w.save());
+    QVERIFY(!w.document()->isModified());
+    auto saved = loadScheme(f.prompter.savePath);
+    QVERIFY(saved.ok());
+    QCOMPARE(saved->columns[1].weights[1], Weight(-2));
+    QCOMPARE(saved->factor.plannedN, (std::vector<Rational>{20, 10, 10, 10}));
 }
 
 QTEST_MAIN(TestMainWindow)

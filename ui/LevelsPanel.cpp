@@ -104,7 +104,12 @@ LevelsPanel::LevelsPanel(Document *document, QWidget *parent)
 void LevelsPanel::follow()
 {
     const Scheme &s = m_document->scheme();
-    m_view->setColumnHidden(LevelsModel::RoleColumn, s.kind == SchemeKind::Custom || !schemeUsesReference(s.kind));
+    const bool roleHidden = s.kind == SchemeKind::Custom || !schemeUsesReference(s.kind);
+    if (m_view->isColumnHidden(LevelsModel::RoleColumn) != roleHidden) {
+        m_view->setColumnHidden(LevelsModel::RoleColumn, roleHidden);
+        if (!roleHidden)
+            m_view->resizeColumnToContents(LevelsModel::RoleColumn);
+    }
     if (m_factorName->text() != s.factor.name && !m_factorName->hasFocus())
         m_factorName->setText(s.factor.name);
     if (m_notes->toPlainText() != s.notes) {

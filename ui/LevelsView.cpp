@@ -28,17 +28,14 @@ void LevelsView::setLevelsModel(LevelsModel *model)
     m_model = model;
     setModel(model);
     horizontalHeader()->setSectionResizeMode(LevelsModel::NameColumn, QHeaderView::Stretch);
-    // The number columns are fitted when levels come or go, not on every edit (that would
-    // measure every row each time).
+    // The number columns are fitted when the levels change, not on every edit of a weight
+    // (the model stays silent then; measuring every row each time would cost).
     auto fit = [this] {
         for (int c = LevelsModel::SizeColumn; c < LevelsModel::ColumnCount; ++c)
             resizeColumnToContents(c);
     };
     connect(model, &QAbstractItemModel::modelReset, this, fit);
-    connect(model, &QAbstractItemModel::dataChanged, this, [this, fit](const QModelIndex &, const QModelIndex &, const QList<int> &) {
-        if (isVisible())
-            fit();
-    });
+    connect(model, &QAbstractItemModel::dataChanged, this, fit); // only when levels, sizes or roles changed
     fit();
 }
 

@@ -52,10 +52,15 @@ int main(int argc, char *argv[])
 {
     QElapsedTimer clock;
     clock.start();
-    // A screenshot is rendered offscreen unless a platform was chosen explicitly.
-    for (int i = 1; i < argc; ++i)
-        if (std::strncmp(argv[i], "--screenshot", 12) == 0 && qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM"))
+    // A screenshot is rendered offscreen unless a platform was chosen explicitly; help and
+    // version need no display either.
+    for (int i = 1; i < argc; ++i) {
+        const bool noDisplay = std::strncmp(argv[i], "--screenshot", 12) == 0 || std::strcmp(argv[i], "--help") == 0
+                               || std::strcmp(argv[i], "-h") == 0 || std::strcmp(argv[i], "--help-all") == 0
+                               || std::strcmp(argv[i], "--version") == 0 || std::strcmp(argv[i], "-v") == 0;
+        if (noDisplay && qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM"))
             qputenv("QT_QPA_PLATFORM", "offscreen");
+    }
 
     QApplication app(argc, argv);
     QApplication::setApplicationName(u"contrast-bench"_s);
