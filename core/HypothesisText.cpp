@@ -141,37 +141,6 @@ QString exactCombination(const std::vector<Frac> &w, const QStringList &levels)
 
 // "0.67082 high - 0.22361 low ...": six decimals (or six significant digits when tiny or huge).
 // Written with std::to_chars into one reserved string: rows can have hundreds of terms.
-// Writes |a| with six decimals, trailing zeros trimmed (1e-4 <= a < 1e6), into buf; returns the length.
-// Hand-rolled because rows can have hundreds of terms and std::to_chars with a precision is slow.
-int fixedSix(double a, char *buf)
-{
-    const long long scaled = std::llround(a * 1e6);
-    long long whole = scaled / 1000000, frac = scaled % 1000000;
-    char digits[24];
-    int n = 0;
-    do {
-        digits[n++] = char('0' + whole % 10);
-        whole /= 10;
-    } while (whole > 0);
-    int len = 0;
-    while (n > 0)
-        buf[len++] = digits[--n];
-    if (frac != 0) {
-        buf[len++] = '.';
-        int width = 6;
-        while (frac % 10 == 0) {
-            frac /= 10;
-            --width;
-        }
-        for (int i = width - 1; i >= 0; --i) {
-            buf[len + i] = char('0' + frac % 10);
-            frac /= 10;
-        }
-        len += width;
-    }
-    return len;
-}
-
 QString numericCombination(const std::vector<Weight> &row, const QStringList &levels)
 {
     QString s;
@@ -181,12 +150,7 @@ QString numericCombination(const std::vector<Weight> &row, const QStringList &le
         const double v = row[i].value();
         if (v == 0.0 || (!row[i].isExact() && std::abs(v) < 1e-14))
             continue;
-        const double a = std::abs(v);
-        int len = 0;
-        if (a < 1e-4 || a >= 1e6)
-            len = int(std::to_chars(buf, buf + sizeof buf, a, std::chars_format::general, 6).ptr - buf);
-        else
-            len = fixedSix(a, buf);
+        const int len = shortDecimal(std::abs(v), buf);
         if (s.isEmpty()) {
             if (v < 0)
                 s += u'-';

@@ -247,28 +247,60 @@ QString Weight::storageString() const
     return u"~"_s + doubleToString(m_d);
 }
 
+int shortDecimal(double magnitude, char *buf)
+{
+    if (magnitude == 0.0) {
+        buf[0] = '0';
+        return 1;
+    }
+    if (magnitude < 1e-4 || magnitude >= 1e6 || !std::isfinite(magnitude))
+        return int(std::to_chars(buf, buf + 32, magnitude, std::chars_format::general, 6).ptr - buf);
+    // Six decimals, trailing zeros trimmed, written by hand (std::to_chars with a precision is slow).
+    const long long scaled = std::llround(magnitude * 1e6);
+    long long whole = scaled / 1000000, frac = scaled % 1000000;
+    char digits[24];
+    int n = 0;
+    do {
+        digits[n++] = char('0' + whole % 10);
+        whole /= 10;
+    } while (whole > 0);
+    int len = 0;
+    while (n > 0)
+        buf[len++] = digits[--n];
+    if (frac != 0) {
+        buf[len++] = '.';
+        int width = 6;
+        while (frac % 10 == 0) {
+            frac /= 10;
+            --width;
+        }
+        for (int i = width - 1; i >= 0; --i) {
+            buf[len + i] = char('0' + frac % 10);
+            frac /= 10;
+        }
+        len += width;
+    }
+    return len;
+}
+
 QString Weight::display(bool unicodeMinus) const
 {
     if (m_exact)
         return rationalToString(rational(), unicodeMinus);
-    if (auto r = recogniseFraction(m_d))
-        return rationalToString(*r, unicodeMinus);
-    QString s;
-    const double a = std::abs(m_d);
-    if (a != 0.0 && (a < 1e-4 || a >= 1e6))
-        s = QString::number(m_d, 'g', 6);
-    else
-        s = QString::number(m_d, 'f', 6);
-    if (s.contains(u'.') && !s.contains(u'e')) {
-        while (s.endsWith(u'0'))
-            s.chop(1);
-        if (s.endsWith(u'.'))
-            s.chop(1);
+    long long p = 0, q = 1;
+    if (recogniseFraction(m_d, p, q)) {
+        QString s = QString::number(p);
+        if (q != 1)
+            s += u'/' + QString::number(q);
+        if (unicodeMinus && p < 0)
+            s[0] = QChar(kUnicodeMinus);
+        return s;
     }
-    if (s == u"-0"_s)
-        s = u"0"_s;
-    if (unicodeMinus && s.startsWith(u'-'))
-        s[0] = QChar(kUnicodeMinus);
+    char buf[40];
+    const int len = shortDecimal(std::abs(m_d), buf);
+    QString s = QString::fromLatin1(buf, len);
+    if (m_d < 0 && s != u"0"_s)
+        s.prepend(unicodeMinus ? QChar(kUnicodeMinus) : QChar(u'-'));
     return s;
 }
 

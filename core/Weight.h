@@ -77,6 +77,10 @@ std::optional<Rational> recogniseFraction(double x, long maxDenominator = 1000);
 // The same without allocating: numerator/denominator in lowest terms, denominator > 0.
 bool recogniseFraction(double x, long long &numerator, long long &denominator, long maxDenominator = 1000);
 
+// A magnitude for people: six decimals with trailing zeros trimmed, or six significant digits
+// below 1e-4 and from 1e6 on. Writes at most 32 characters into buf; returns the length.
+int shortDecimal(double magnitude, char *buf);
+
 // Shortest decimal text that reads back to the same double.
 QString doubleToString(double x);
 
