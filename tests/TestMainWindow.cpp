@@ -21,6 +21,8 @@
 #include <QLabel>
 #include <QMimeData>
 #include <QTest>
+
+#include <algorithm>
 #include <QTimer>
 #include <QUrl>
 
@@ -311,8 +313,8 @@ void TestMainWindow::addPanelTabsBesideDesignHealth()
     QCOMPARE(dock->widget(), panel);
     QCOMPARE(f.window->dockWidgetArea(dock), Qt::BottomDockWidgetArea);
     const QList<QDockWidget *> tabbed = f.window->tabifiedDockWidgets(dock);
-    QCOMPARE(tabbed.size(), 1);
-    QCOMPARE(tabbed.first()->widget(), f.window->healthPanel());
+    // Beside design health (and the power and data panels the window adds itself).
+    QVERIFY(std::any_of(tabbed.begin(), tabbed.end(), [&](QDockWidget *d) { return d->widget() == f.window->healthPanel(); }));
 }
 
 void TestMainWindow::titleShowsNameAndUnsavedMark()

@@ -1,11 +1,14 @@
 #include "MainWindow.h"
 
 #include "CodingPanel.h"
+#include "DataPanel.h"
 #include "Demos.h"
+#include "ExportDialog.h"
 #include "Document.h"
 #include "HealthPanel.h"
 #include "LevelsPanel.h"
 #include "MeaningPanel.h"
+#include "PowerPanel.h"
 #include "Prompter.h"
 #include "SchemeFile.h"
 #include "WeightGridView.h"
@@ -48,6 +51,8 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     setDockNestingEnabled(true);
     buildDocks();
     buildMenus();
+    addPanel(new PowerPanel(m_document, this), tr("Power"), u"powerDock"_s);
+    addPanel(new DataPanel(m_document, this), tr("Check on data"), u"dataDock"_s);
 
     m_arithmetic = new QLabel(this);
     statusBar()->addPermanentWidget(m_arithmetic);
@@ -141,6 +146,11 @@ void MainWindow::buildMenus()
     saveAction->setShortcut(QKeySequence::Save);
     QAction *saveAsAction = file->addAction(tr("Save &as\u2026"), this, [this] { saveAs(); });
     saveAsAction->setShortcut(QKeySequence::SaveAs);
+    file->addAction(tr("&Export\u2026"), this, [this] {
+        auto *dialog = new ExportDialog(m_document, this);
+        dialog->setAttribute(Qt::WA_DeleteOnClose);
+        dialog->open();
+    })->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_E));
     file->addSeparator();
     QAction *quit = file->addAction(tr("&Quit"), this, &QWidget::close);
     quit->setShortcut(QKeySequence::Quit);

@@ -1,0 +1,168 @@
+// The data panel reads a file in the background and shows core's fit. The
+// check values are Dobson (1983), An Introduction to Statistical Modelling,
+// plant-growth data (tests/data/fit_plant_growth.csv): with treatment coding
+// the intercept is 5.032 and the effects -0.371 and 0.494 (written from memory,
+// the same values TestDataFit checks against NumPy's lstsq).
+
+#include "DataPanel.h"
+#include "Demos.h"
+#include "PanelShot.h"
+#include "Document.h"
+#include "SmallChart.h"
+
+#include <QFile>
+#include <QSignalSpy>
+#include <QTableWidget>
+#include <QTemporaryDir>
+#include <QTest>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+class TestDataPanel : public QObject
+{
+    Q_OBJECT
+
+private slots:
+    void plantGrowthTreatmentCoding();
+    void mismatchedLevelIsReportedAndCanBeMapped();
+    void skippedRowsAreListedWithLines();
+    void unreadableFileShowsMessage();
+    void rendersTheIrrigationDemo();
+
+private:
+    static void useLevels(Document &doc, const QStringList &levels);
+    static bool readAndWait(DataPanel &panel);
+};
+
+const QString kPlants = QStringLiteral(CB_TEST_DATA "/fit_plant_growth.csv");
+
+void TestDataPanel::useLevels(Document &doc, const QStringList &levels)
+{
+    Factor f;
+    f.name = u"group"_s;
+    f.levels = levels;
+    doc.reset(makeScheme(f, SchemeKind::Treatment).take(), {});
+}
+
+bool TestDataPanel::readAndWait(DataPanel &panel)
+{
+    QSignalSpy done(&panel, &DataPanel::finished);
+    panel.readAndFit();
+    return done.wait(10'000);
+}
+
+void TestDataPanel::plantGrowthTreatmentCoding()
+{
+    Document doc;
+    useLevels(doc, {u"ctrl"_s, u"trt1"_s, u"trt2"_s});
+    DataPanel panel(&doc);
+    QVERIFY(panel.openFile(kPlants));
+    // The columns are proposed from the preview: text for the level, numbers for the response.
+    QCOMPARE(panel.previewTable()->columnCount(), 2);
+    QVERIFY(readAndWait(panel));
+    QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+    const FitResult &fit = *panel.fit();
+    QCOMPARE(fit.coefficients.size(), size_t(3));
+    QCOMPARE(qRound(fit.coefficients[0].estimate * 1000), 5032);
+    QCOMPARE(qRound(fit.coefficients[1].estimate * 1000), -371);
+    QCOMPARE(qRound(fit.coefficients[2].estimate * 1000), 494);
+    QTableWidget *t = panel.coefficientTable();
+    QCOMPARE(t->rowCount(), 3);
+    QCOMPARE(t->item(0, DataPanel::EstimateColumn)->text(), u"5.032"_s);
+    QCOMPARE(t->item(1, DataPanel::EstimateColumn)->text(), u"-0.371"_s);
+    QCOMPARE(t->item(2, DataPanel::EstimateColumn)->text(), u"0.494"_s);
+    // Saturated coding: the hypotheses applied to the observed means give the same numbers.
+    QCOMPARE(t->item(2, DataPanel::FromMeansColumn)->text(), u"0.494"_s);
+    // Residual SD 0.6234 on 27 df, F(2, 27) = 4.846 (Dobson).
+    QVERIFY2(panel.summaryText().contains(u"0.6234 on 27 df"_s), qPrintable(panel.summaryText()));
+    QVERIFY(panel.summaryText().contains(u"F(2, 27) = 4.846"_s));
+    // Three level means drawn, at the observed means 5.032, 4.661, 5.526.
+    QCOMPARE(panel.meansChart()->intervals().size(), size_t(3));
+    QCOMPARE(qRound(panel.meansChart()->intervals()[1].value * 1000), 4661);
+    QVERIFY(panel.meansChart()->intervals()[1].low < 4.661 && panel.meansChart()->intervals()[1].high > 4.661);
+    QVERIFY(panel.unmatchedText().isEmpty());
+}
+
+void TestDataPanel::mismatchedLevelIsReportedAndCanBeMapped()
+{
+    Document doc;
+    useLevels(doc, {u"ctrl"_s, u"trt1"_s, u"second"_s});
+    DataPanel panel(&doc);
+    QVERIFY(panel.openFile(kPlants));
+    QVERIFY(readAndWait(panel));
+    QVERIFY(!panel.fit().has_value());
+    QVERIFY2(panel.unmatchedText().contains(u"In the data only: trt2"_s), qPrintable(panel.unmatchedText()));
+    QVERIFY(panel.unmatchedText().contains(u"In the scheme without data: second"_s));
+    QVERIFY(!panel.message().isEmpty()); // core's refusal, naming both sides
+    QVERIFY(panel.message().contains(u"trt2"_s));
+
+    panel.mapLevel(u"trt2"_s, u"second"_s);
+    QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+    QVERIFY(panel.unmatchedText().isEmpty());
+    QCOMPARE(qRound(panel.fit()->coefficients[2].estimate * 1000), 494);
+}
+
+void TestDataPanel::skippedRowsAreListedWithLines()
+{
+    QTemporaryDir dir;
+    QFile in(kPlants);
+    QVERIFY(in.open(QIODevice::ReadOnly));
+    QByteArray bytes = in.readAll();
+    bytes += "ctrl,heavy\n";
+    const QString path = dir.filePath(u"plants.csv"_s);
+    QFile out(path);
+    QVERIFY(out.open(QIODevice::WriteOnly));
+    out.write(bytes);
+    out.close();
+
+    Document doc;
+    useLevels(doc, {u"ctrl"_s, u"trt1"_s, u"trt2"_s});
+    DataPanel panel(&doc);
+    QVERIFY(panel.openFile(path));
+    QVERIFY(readAndWait(panel));
+    QVERIFY(panel.fit().has_value());
+    QVERIFY2(panel.problemsText().contains(u"line 32"_s), qPrintable(panel.problemsText()));
+    QVERIFY(panel.problemsText().contains(u"heavy"_s));
+    QCOMPARE(qRound(panel.fit()->coefficients[0].estimate * 1000), 5032);
+}
+
+void TestDataPanel::unreadableFileShowsMessage()
+{
+    Document doc;
+    DataPanel panel(&doc);
+    QVERIFY(!panel.openFile(u"/nonexistent/data.csv"_s));
+    QVERIFY(panel.message().contains(u"/nonexistent/data.csv"_s));
+}
+
+// Invented yields for the irrigation demo (eight plots per schedule, one unreadable row).
+void TestDataPanel::rendersTheIrrigationDemo()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"irrigation-yields.csv"_s);
+    QFile out(path);
+    QVERIFY(out.open(QIODevice::WriteOnly));
+    out.write("plot,schedule,yield_kg\n");
+    const char *levels[] = {"none", "daily drip", "alternate-day drip", "weekly furrow", "fortnightly furrow"};
+    const double base[] = {3.9, 5.5, 5.0, 4.8, 4.4};
+    const double wiggle[] = {-0.6, 0.3, 0.8, -0.2, 0.1, -0.9, 0.5, 0.0};
+    int plot = 1;
+    for (int l = 0; l < 5; ++l)
+        for (int i = 0; i < 8; ++i)
+            out.write(QStringLiteral("%1,%2,%3\n").arg(plot++).arg(QString::fromLatin1(levels[l])).arg(base[l] + wiggle[(i + l) % 8], 0, 'f', 2).toUtf8());
+    out.write("41,weekly furrow,lost\n");
+    out.close();
+
+    Document doc;
+    doc.reset(loadDemo(u"irrigation"_s).take(), {});
+    DataPanel panel(&doc);
+    QVERIFY(panel.openFile(path));
+    panel.setColumns(u"schedule"_s, u"yield_kg"_s);
+    QVERIFY(readAndWait(panel));
+    QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+    QVERIFY(panel.problemsText().contains(u"line 42"_s));
+    QVERIFY(renderPanel(panel, QSize(1500, 470), u"data"_s));
+}
+
+QTEST_MAIN(TestDataPanel)
+#include "TestDataPanel.moc"

@@ -1,0 +1,196 @@
+// The power panel shows core's numbers for the inputs typed into it, and
+// core's message beside a field that is wrong. The numbers themselves are
+// checked against SciPy's noncentral t and F in TestPower.
+
+#include "Demos.h"
+#include "Document.h"
+#include "PanelShot.h"
+#include "PowerPanel.h"
+#include "SmallChart.h"
+
+#include <QLineEdit>
+#include <QComboBox>
+#include <QTableWidget>
+#include <QTest>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+class TestPowerPanel : public QObject
+{
+    Q_OBJECT
+
+private slots:
+    void tableShowsCorePower_data();
+    void tableShowsCorePower();
+    void invalidInputShowsCoreMessage_data();
+    void invalidInputShowsCoreMessage();
+    void followsSchemeEdits();
+    void plannedSizesComeFromTheLevels();
+    void rendersTheIrrigationDemo();
+};
+
+void TestPowerPanel::tableShowsCorePower_data()
+{
+    QTest::addColumn<QStringList>("means");
+    QTest::addColumn<QString>("sd");
+    QTest::addColumn<QString>("total");
+    QTest::addColumn<int>("adjustment");
+    QTest::addColumn<bool>("oneSided");
+
+    QTest::newRow("equal ratios, two-sided") << QStringList{u"10"_s, u"12"_s, u"13"_s, u"10"_s} << u"4"_s << u"80"_s << 0 << false;
+    QTest::newRow("Bonferroni") << QStringList{u"10"_s, u"12"_s, u"13"_s, u"10"_s} << u"4"_s << u"80"_s << 1 << false;
+    QTest::newRow("Sidak, one-sided, fractions") << QStringList{u"0"_s, u"1/2"_s, u"3/4"_s, u"-1/4"_s} << u"1"_s << u"60"_s << 2 << true;
+}
+
+void TestPowerPanel::tableShowsCorePower()
+{
+    QFETCH(QStringList, means);
+    QFETCH(QString, sd);
+    QFETCH(QString, total);
+    QFETCH(int, adjustment);
+    QFETCH(bool, oneSided);
+
+    Document doc;
+    PowerPanel panel(&doc);
+    panel.setRatioTexts({u"1"_s, u"1"_s, u"1"_s, u"1"_s});
+    panel.totalEdit()->setText(total);
+    panel.sdEdit()->setText(sd);
+    panel.adjustmentBox()->setCurrentIndex(adjustment);
+    panel.sidedBox()->setCurrentIndex(oneSided ? 1 : 0);
+    panel.setExpectedTexts(means);
+    panel.recompute();
+    QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
+
+    // The same inputs given to core directly.
+    PowerSettings s;
+    for (const QString &m : means)
+        s.means.push_back(parseWeight(m)->value());
+    s.sd = sd.toDouble();
+    s.ratios = {1, 1, 1, 1};
+    s.total = total.toDouble();
+    s.adjustment = std::array{PowerAdjustment::None, PowerAdjustment::Bonferroni, PowerAdjustment::Sidak}[size_t(adjustment)];
+    s.oneSided = oneSided;
+    const auto rows = contrastRowsOf(doc.analysis());
+    QVERIFY(rows.ok());
+    const auto direct = computePower(rows->rows, rows->names, s);
+    QVERIFY(direct.ok());
+
+    QTableWidget *t = panel.resultTable();
+    QCOMPARE(t->rowCount(), int(direct->contrasts.size()) + 1);
+    for (int i = 0; i < int(direct->contrasts.size()); ++i) {
+        const ContrastPower &c = direct->contrasts[size_t(i)];
+        QCOMPARE(panel.report()->contrasts[size_t(i)].power, c.power);
+        QCOMPARE(t->item(i, PowerPanel::TestColumn)->text(), c.name);
+        QCOMPARE(t->item(i, PowerPanel::EstimateColumn)->text(), QString::number(c.estimate, 'g', 4));
+        QCOMPARE(t->item(i, PowerPanel::SeColumn)->text(), QString::number(c.se, 'g', 4));
+        QCOMPARE(t->item(i, PowerPanel::EffectColumn)->text(), QString::number(c.effectSize, 'g', 3));
+        QVERIFY(t->item(i, PowerPanel::PowerColumn)->text().endsWith(QString::number(c.power, 'f', 3)));
+        QCOMPARE(t->item(i, PowerPanel::NeededTotalColumn)->text(),
+                 c.required.reachable ? QString::number(c.required.total) : u"\u2014"_s);
+        QCOMPARE(t->item(i, PowerPanel::VersusOmnibusColumn)->text().isEmpty(), !c.fewerThanOmnibus);
+    }
+    const int last = t->rowCount() - 1;
+    QVERIFY(t->item(last, PowerPanel::PowerColumn)->text().endsWith(QString::number(direct->omnibus.power, 'f', 3)));
+    QCOMPARE(t->item(last, PowerPanel::EffectColumn)->text(), u"f = "_s + QString::number(direct->omnibus.effectSize, 'g', 3));
+    // One curve per contrast and one for the F test, each agreeing with core's powerCurve at its points.
+    QCOMPARE(int(panel.chart()->lines().size()), int(direct->contrasts.size()) + 1);
+    const SmallChart::Line &first = panel.chart()->lines()[1];
+    const auto curve = powerCurve(rows->rows, 0, s, {static_cast<long long>(first.points[3].x())});
+    QVERIFY(curve.ok());
+    QCOMPARE(first.points[3].y(), curve->front());
+}
+
+void TestPowerPanel::invalidInputShowsCoreMessage_data()
+{
+    QTest::addColumn<QString>("sd");
+    QTest::addColumn<QString>("alpha");
+    QTest::addColumn<QString>("field");
+    QTest::addColumn<QString>("message");
+    QTest::newRow("negative SD") << u"-1"_s << u"0.05"_s << u"sd"_s
+                                 << u"sd: -1 is not a positive standard deviation; the SD must be above 0"_s;
+    QTest::newRow("zero SD") << u"0"_s << u"0.05"_s << u"sd"_s << u"sd: 0 is not a positive standard deviation; the SD must be above 0"_s;
+    QTest::newRow("SD not a number") << u"wide"_s << u"0.05"_s << u"sd"_s << u"sd: "_s + parseWeight(u"wide"_s).error();
+    QTest::newRow("alpha of 1") << u"2"_s << u"1"_s << u"alpha"_s << u"alpha: 1 is not between 0 and 1 (both excluded)"_s;
+}
+
+void TestPowerPanel::invalidInputShowsCoreMessage()
+{
+    QFETCH(QString, sd);
+    QFETCH(QString, alpha);
+    QFETCH(QString, field);
+    QFETCH(QString, message);
+
+    Document doc;
+    PowerPanel panel(&doc);
+    panel.setRatioTexts({u"1"_s, u"1"_s, u"1"_s, u"1"_s});
+    panel.totalEdit()->setText(u"40"_s);
+    panel.setExpectedTexts({u"1"_s, u"2"_s, u"3"_s, u"4"_s});
+    panel.sdEdit()->setText(sd);
+    panel.alphaEdit()->setText(alpha);
+    panel.recompute();
+    QVERIFY(!panel.report().has_value());
+    QVERIFY2(panel.fieldMessage(field).endsWith(message), qPrintable(panel.fieldMessage(field)));
+    QCOMPARE(panel.resultTable()->rowCount(), 0);
+    QVERIFY(panel.chart()->lines().empty());
+
+    // Corrected, the message goes and the table comes back.
+    panel.sdEdit()->setText(u"2"_s);
+    panel.alphaEdit()->setText(u"0.05"_s);
+    panel.recompute();
+    QVERIFY(panel.fieldMessage(field).isEmpty());
+    QCOMPARE(panel.resultTable()->rowCount(), 4);
+}
+
+void TestPowerPanel::followsSchemeEdits()
+{
+    Document doc;
+    PowerPanel panel(&doc);
+    panel.setRatioTexts({u"1"_s, u"1"_s, u"1"_s, u"1"_s});
+    panel.totalEdit()->setText(u"40"_s);
+    panel.setExpectedTexts({u"1"_s, u"2"_s, u"3"_s, u"4"_s});
+    panel.recompute();
+    QCOMPARE(panel.resultTable()->item(0, PowerPanel::EstimateColumn)->text(), u"1"_s); // B - A
+
+    // Reference level D: the first contrast becomes A - D = -3.
+    Scheme next = makeScheme(doc.scheme().factor, SchemeKind::Treatment, SchemeOptions{3}).take();
+    doc.edit(next, u"reference D"_s);
+    QTRY_COMPARE(panel.resultTable()->item(0, PowerPanel::EstimateColumn)->text(), u"-3"_s);
+
+    // A fifth level has no expected mean yet: the message names it.
+    Factor f = doc.scheme().factor;
+    f.levels << u"E"_s;
+    doc.edit(makeScheme(f, SchemeKind::Treatment).take(), u"add E"_s);
+    QTRY_VERIFY(panel.fieldMessage(u"levels"_s).contains(u"level \u2018E\u2019: no value"_s));
+}
+
+void TestPowerPanel::plannedSizesComeFromTheLevels()
+{
+    Document doc;
+    Factor f = doc.scheme().factor;
+    f.plannedN = {Rational(10), Rational(10), Rational(20), Rational(20)};
+    doc.reset(makeScheme(f, SchemeKind::Sum).take(), {});
+    PowerPanel panel(&doc);
+    panel.setExpectedTexts({u"1"_s, u"2"_s, u"3"_s, u"4"_s});
+    panel.recompute();
+    QVERIFY(panel.report().has_value());
+    QCOMPARE(panel.report()->plannedN, (std::vector<double>{10, 10, 20, 20}));
+    QCOMPARE(panel.inputTable()->item(2, PowerPanel::PlannedNColumn)->text(), u"20"_s);
+}
+
+// The irrigation demo (invented): expected plot yields per schedule, eight plots each.
+void TestPowerPanel::rendersTheIrrigationDemo()
+{
+    Document doc;
+    doc.reset(loadDemo(u"irrigation"_s).take(), {});
+    PowerPanel panel(&doc);
+    panel.setExpectedTexts({u"4.0"_s, u"5.4"_s, u"5.1"_s, u"4.9"_s, u"4.3"_s});
+    panel.sdEdit()->setText(u"0.9"_s);
+    panel.recompute();
+    QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
+    QCOMPARE(panel.resultTable()->rowCount(), 5);
+    QVERIFY(renderPanel(panel, QSize(1500, 430), u"power"_s));
+}
+
+QTEST_MAIN(TestPowerPanel)
+#include "TestPowerPanel.moc"

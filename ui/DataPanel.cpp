@@ -1,0 +1,517 @@
+#include "DataPanel.h"
+
+#include "Document.h"
+#include "Look.h"
+#include "SmallChart.h"
+
+#include <QComboBox>
+#include <QDir>
+#include <QFileInfo>
+#include <QFileDialog>
+#include <QFormLayout>
+#include <QHBoxLayout>
+#include <QHeaderView>
+#include <QLabel>
+#include <QLineEdit>
+#include <QProgressDialog>
+#include <QPushButton>
+#include <QSplitter>
+#include <QTableWidget>
+#include <QThread>
+#include <QTimer>
+#include <QVBoxLayout>
+
+#include <cmath>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+
+QString number(double v, int digits = 4)
+{
+    return std::isfinite(v) ? QString::number(v, 'g', digits) : u"\u2014"_s;
+}
+
+QString pText(double p)
+{
+    if (!std::isfinite(p))
+        return u"\u2014"_s;
+    return p < 1e-4 ? u"< 0.0001"_s : QString::number(p, 'f', 4);
+}
+
+QTableWidgetItem *cell(const QString &text, bool numeric = true)
+{
+    auto *item = new QTableWidgetItem(text);
+    item->setFlags(Qt::ItemIsEnabled | Qt::ItemIsSelectable);
+    if (numeric)
+        item->setTextAlignment(Qt::AlignRight | Qt::AlignVCenter);
+    return item;
+}
+
+QTableWidget *table(int columns, const QStringList &headers, QWidget *parent)
+{
+    auto *t = new QTableWidget(0, columns, parent);
+    t->setHorizontalHeaderLabels(headers);
+    t->verticalHeader()->hide();
+    t->verticalHeader()->setDefaultSectionSize(22);
+    t->setWordWrap(false);
+    return t;
+}
+
+QLabel *caption(const QString &text, QWidget *parent)
+{
+    auto *l = new QLabel(u"<b>%1</b>"_s.arg(text.toHtmlEscaped()), parent);
+    return l;
+}
+
+// Whether every non-missing preview value in the column is a number.
+bool numericColumn(const DataPreview &preview, int column)
+{
+    bool any = false;
+    for (const QStringList &row : preview.rows) {
+        const QByteArray text = row.value(column).toUtf8();
+        const std::string_view view(text.constData(), size_t(text.size()));
+        if (isMissingToken(view))
+            continue;
+        if (!parseNumberField(view))
+            return false;
+        any = true;
+    }
+    return any;
+}
+
+} // namespace
+
+DataPanel::DataPanel(Document *document, QWidget *parent)
+    : QWidget(parent)
+    , m_document(document)
+    , m_fileLabel(look::note(tr("No data file yet. Open a long-format file: one row per observation, a column naming "
+                                "the level and a numeric response."), this))
+    , m_preview(table(0, {}, this))
+    , m_factor(new QComboBox(this))
+    , m_response(new QComboBox(this))
+    , m_weight(new QComboBox(this))
+    , m_readButton(new QPushButton(tr("Read and fit"), this))
+    , m_adjust(new QComboBox(this))
+    , m_alpha(new QLineEdit(u"0.05"_s, this))
+    , m_mapping(table(MappingColumnCount, {tr("Level in the data"), tr("Rows"), tr("Scheme level")}, this))
+    , m_unmatched(new QLabel(this))
+    , m_message(new QLabel(this))
+    , m_summary(new QLabel(this))
+    , m_coefficients(table(CoefficientColumnCount,
+                           {tr("Coefficient"), tr("Tests"), tr("Estimate"), tr("From means"), tr("SE"),
+                            tr("t"), tr("p"), tr("Adjusted p"), tr("Confidence interval")},
+                           this))
+    , m_chart(new SmallChart(this))
+    , m_problems(look::note({}, this))
+{
+    setObjectName(u"dataPanel"_s);
+    m_preview->setObjectName(u"dataPreview"_s);
+    m_preview->setMaximumHeight(150);
+    m_mapping->setObjectName(u"levelMapping"_s);
+    m_mapping->horizontalHeader()->setSectionResizeMode(QHeaderView::Stretch);
+    m_coefficients->setObjectName(u"fitCoefficients"_s);
+    m_coefficients->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
+    m_coefficients->horizontalHeader()->setStretchLastSection(true);
+    m_coefficients->horizontalHeaderItem(FromMeansColumn)->setToolTip(
+        tr("The coefficient's hypothesis row applied to the observed level means; it equals the estimate unless the "
+           "coding leaves out comparisons and the group sizes are unequal."));
+    m_coefficients->setSelectionMode(QAbstractItemView::NoSelection);
+    m_chart->setObjectName(u"levelMeans"_s);
+    m_chart->clear(tr("Level means with their confidence intervals appear here after a fit."));
+    for (QLabel *l : {m_unmatched, m_message, m_summary}) {
+        l->setWordWrap(true);
+        l->setTextInteractionFlags(Qt::TextSelectableByMouse);
+    }
+    m_message->setObjectName(u"dataMessage"_s);
+    m_message->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Problem).name()));
+    m_message->hide();
+    m_unmatched->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Caution).name()));
+    m_summary->setTextFormat(Qt::RichText);
+    m_problems->setObjectName(u"dataProblems"_s);
+    m_readButton->setEnabled(false);
+    for (PAdjust a : {PAdjust::Holm, PAdjust::Bonferroni, PAdjust::Sidak, PAdjust::None}) {
+        static const QHash<PAdjust, QString> titles = {{PAdjust::Holm, tr("Holm (step-down)")}, {PAdjust::Bonferroni, tr("Bonferroni")},
+                                                       {PAdjust::Sidak, tr("\u0160id\u00e1k")}, {PAdjust::None, tr("None")}};
+        m_adjust->addItem(titles.value(a), QVariant::fromValue(int(a)));
+    }
+
+    auto *open = new QPushButton(tr("Open data\u2026"), this);
+    connect(open, &QPushButton::clicked, this, [this] {
+        const QString path = m_askPath();
+        if (!path.isEmpty())
+            openFile(path);
+    });
+    m_askPath = [this] {
+        return QFileDialog::getOpenFileName(this, tr("Open a data file"), QFileInfo(m_path).absolutePath(),
+                                            tr("Delimited text (*.csv *.tsv *.txt *.dat);;All files (*)"));
+    };
+    connect(m_readButton, &QPushButton::clicked, this, &DataPanel::readAndFit);
+    connect(m_adjust, &QComboBox::currentIndexChanged, this, &DataPanel::refit);
+    connect(m_alpha, &QLineEdit::textChanged, this, &DataPanel::refit);
+    connect(document, &Document::changed, this, &DataPanel::rebuildMapping);
+
+    // Left: the file and its columns. Middle: levels and results. Right: the means.
+    auto *fileRow = new QHBoxLayout;
+    fileRow->addWidget(open);
+    fileRow->addWidget(m_readButton);
+    fileRow->addStretch(1);
+    auto *columns = new QFormLayout;
+    columns->addRow(tr("Level column:"), m_factor);
+    columns->addRow(tr("Response:"), m_response);
+    columns->addRow(tr("Case weight:"), m_weight);
+    columns->addRow(tr("Adjust p for:"), m_adjust);
+    columns->addRow(tr("Alpha (CI):"), m_alpha);
+    auto *left = new QVBoxLayout;
+    left->addLayout(fileRow);
+    left->addWidget(m_fileLabel);
+    left->addWidget(m_preview, 1);
+    left->addLayout(columns);
+    left->addWidget(caption(tr("Matching levels"), this));
+    left->addWidget(m_mapping, 1);
+    left->addWidget(m_unmatched);
+
+    auto *middle = new QVBoxLayout;
+    middle->addWidget(m_message);
+    middle->addWidget(m_summary);
+    middle->addWidget(m_coefficients, 2);
+    middle->addWidget(m_problems);
+    middle->addWidget(look::note(tr("Adjusted p-values are for the family of coefficients (the intercept is not counted). "
+                                    "Comparisons chosen after looking at the data are post hoc, not planned: "
+                                    "their p-values here are not valid as planned tests."),
+                                 this));
+
+    auto *layout = new QHBoxLayout(this);
+    layout->setContentsMargins(6, 4, 6, 4);
+    layout->addLayout(left, 4);
+    layout->addLayout(middle, 8);
+    layout->addWidget(m_chart, 3);
+}
+
+DataPanel::~DataPanel()
+{
+    if (m_thread) {
+        m_cancel->store(true);
+        m_thread->disconnect(this);
+        m_thread->wait();
+        delete m_thread;
+    }
+}
+
+bool DataPanel::openFile(const QString &path)
+{
+    const Result<DataPreview> preview = previewData(path, 20);
+    if (!preview) {
+        showMessage(preview.error());
+        return false;
+    }
+    m_path = path;
+    m_delimiter = preview->delimiter;
+    m_hasHeader = preview->hasHeader;
+    m_fileSize = preview->fileSize;
+    m_data.reset();
+    m_fit.reset();
+    m_fileLabel->setText(tr("%1 \u2014 %2-separated, %3").arg(QDir::toNativeSeparators(path), delimiterName(preview->delimiter),
+                                                              preview->hasHeader ? tr("first row is a header") : tr("no header row")));
+    m_preview->clear();
+    m_preview->setColumnCount(int(preview->columns.size()));
+    m_preview->setHorizontalHeaderLabels(preview->columns);
+    m_preview->setRowCount(int(preview->rows.size()));
+    for (int r = 0; r < int(preview->rows.size()); ++r)
+        for (int c = 0; c < int(preview->columns.size()); ++c)
+            m_preview->setItem(r, c, cell(preview->rows[size_t(r)].value(c), false));
+
+    int factor = -1, response = -1;
+    for (int c = 0; c < int(preview->columns.size()); ++c) {
+        const bool numeric = numericColumn(*preview, c);
+        if (!numeric && factor < 0)
+            factor = c;
+        else if (numeric && response < 0)
+            response = c;
+    }
+    m_factor->clear();
+    m_response->clear();
+    m_weight->clear();
+    m_factor->addItems(preview->columns);
+    m_response->addItems(preview->columns);
+    m_weight->addItem(tr("(none: every row counts once)"));
+    m_weight->addItems(preview->columns);
+    m_factor->setCurrentIndex(std::max(factor, 0));
+    m_response->setCurrentIndex(response >= 0 ? response : std::min(1, int(preview->columns.size()) - 1));
+    m_readButton->setEnabled(true);
+    showMessage({});
+    return true;
+}
+
+void DataPanel::setColumns(const QString &factor, const QString &response, const QString &weight)
+{
+    m_factor->setCurrentText(factor);
+    m_response->setCurrentText(response);
+    if (weight.isEmpty())
+        m_weight->setCurrentIndex(0);
+    else
+        m_weight->setCurrentText(weight);
+}
+
+void DataPanel::readAndFit()
+{
+    if (m_thread || m_path.isEmpty())
+        return;
+    DataReadOptions options;
+    options.factorColumn = m_factor->currentText();
+    options.responseColumn = m_response->currentText();
+    options.weightColumn = m_weight->currentIndex() > 0 ? m_weight->currentText() : QString();
+    options.delimiter = m_delimiter;
+    options.header = m_hasHeader ? HeaderMode::Present : HeaderMode::Absent;
+    m_bytesRead = std::make_shared<std::atomic<qint64>>(0);
+    m_cancel = std::make_shared<std::atomic<bool>>(false);
+    m_readResult = std::make_shared<std::optional<Result<DataSummary>>>();
+    options.progress = [bytes = m_bytesRead, cancel = m_cancel](qint64 read) {
+        bytes->store(read);
+        return !cancel->load();
+    };
+    m_readButton->setEnabled(false);
+    m_thread = QThread::create([path = m_path, options, out = m_readResult] { out->emplace(readLevelData(path, options)); });
+    connect(m_thread, &QThread::finished, this, &DataPanel::readFinished);
+
+    // Large files show their progress and can be cancelled; the window stays responsive.
+    m_progress = new QProgressDialog(tr("Reading %1\u2026").arg(QFileInfo(m_path).fileName()), tr("Cancel"), 0, 1000, this);
+    m_progress->setWindowModality(Qt::WindowModal);
+    m_progress->setMinimumDuration(500);
+    m_progress->setAutoClose(false);
+    m_progress->setAutoReset(false);
+    connect(m_progress, &QProgressDialog::canceled, this, [cancel = m_cancel] { cancel->store(true); });
+    auto *poll = new QTimer(m_progress);
+    connect(poll, &QTimer::timeout, m_progress, [this] {
+        if (m_fileSize > 0)
+            m_progress->setValue(int(1000.0 * double(m_bytesRead->load()) / double(m_fileSize)));
+    });
+    poll->start(100);
+    m_thread->start();
+}
+
+void DataPanel::readFinished()
+{
+    m_thread->deleteLater();
+    m_thread = nullptr;
+    m_progress->deleteLater();
+    m_progress = nullptr;
+    m_readButton->setEnabled(true);
+    Result<DataSummary> result = m_readResult->value();
+    if (!result) {
+        m_data.reset();
+        m_fit.reset();
+        showMessage(result.error());
+        emit finished();
+        return;
+    }
+    m_data = result.take();
+    rebuildMapping();
+    emit finished();
+}
+
+// One row per level found in the data, with the scheme level it stands for.
+void DataPanel::rebuildMapping()
+{
+    if (!m_data)
+        return;
+    const QStringList scheme = m_document->scheme().factor.levels;
+    const LevelMapping previous = currentMapping();
+    m_building = true;
+    m_mapping->setRowCount(int(m_data->levels.size()));
+    for (int r = 0; r < int(m_data->levels.size()); ++r) {
+        const LevelStats &level = m_data->levels[size_t(r)];
+        m_mapping->setItem(r, DataLevelColumn, cell(level.name, false));
+        m_mapping->setItem(r, RowsColumn, cell(QString::number(level.stats.rows)));
+        auto *box = new QComboBox(m_mapping);
+        box->addItem(tr("(no match)"), QString());
+        for (const QString &s : scheme)
+            box->addItem(s, s);
+        const QString chosen = previous.value(level.name, level.name);
+        box->setCurrentIndex(std::max(0, box->findData(chosen)));
+        connect(box, &QComboBox::currentIndexChanged, this, &DataPanel::refit);
+        m_mapping->setCellWidget(r, SchemeLevelColumn, box);
+    }
+    m_building = false;
+    refit();
+}
+
+LevelMapping DataPanel::currentMapping() const
+{
+    LevelMapping mapping;
+    for (int r = 0; r < m_mapping->rowCount(); ++r) {
+        const auto *box = qobject_cast<QComboBox *>(m_mapping->cellWidget(r, SchemeLevelColumn));
+        const QString data = m_mapping->item(r, DataLevelColumn)->text();
+        const QString scheme = box ? box->currentData().toString() : QString();
+        if (!scheme.isEmpty() && scheme != data)
+            mapping.insert(data, scheme);
+        else if (scheme.isEmpty())
+            mapping.insert(data, {});
+    }
+    return mapping;
+}
+
+void DataPanel::mapLevel(const QString &dataLevel, const QString &schemeLevel)
+{
+    for (int r = 0; r < m_mapping->rowCount(); ++r)
+        if (m_mapping->item(r, DataLevelColumn)->text() == dataLevel)
+            if (auto *box = qobject_cast<QComboBox *>(m_mapping->cellWidget(r, SchemeLevelColumn)))
+                box->setCurrentIndex(std::max(0, box->findData(schemeLevel)));
+}
+
+void DataPanel::setAdjustment(PAdjust adjust)
+{
+    m_adjust->setCurrentIndex(m_adjust->findData(QVariant::fromValue(int(adjust))));
+}
+
+void DataPanel::updateUnmatched()
+{
+    const QStringList scheme = m_document->scheme().factor.levels;
+    const LevelMapping mapping = currentMapping();
+    QStringList dataOnly, covered;
+    for (const LevelStats &l : m_data->levels) {
+        const QString target = mapping.contains(l.name) ? mapping.value(l.name) : l.name;
+        if (target.isEmpty() || !scheme.contains(target))
+            dataOnly << l.name;
+        else
+            covered << target;
+    }
+    QStringList schemeOnly;
+    for (const QString &s : scheme)
+        if (!covered.contains(s))
+            schemeOnly << s;
+    QStringList lines;
+    if (!dataOnly.isEmpty())
+        lines << tr("%1 In the data only: %2. Choose the scheme level each stands for.").arg(look::mark(look::State::Caution), dataOnly.join(u", "_s));
+    if (!schemeOnly.isEmpty())
+        lines << tr("%1 In the scheme without data: %2.").arg(look::mark(look::State::Caution), schemeOnly.join(u", "_s));
+    m_unmatched->setText(lines.join(u"\n"_s));
+    m_unmatched->setVisible(!lines.isEmpty());
+}
+
+void DataPanel::refit()
+{
+    if (m_building || !m_data)
+        return;
+    updateUnmatched();
+    m_fit.reset();
+    LevelMapping mapping = currentMapping();
+    for (auto it = mapping.begin(); it != mapping.end();)
+        it = it.value().isEmpty() ? mapping.erase(it) : std::next(it);
+    FitOptions options;
+    options.adjust = PAdjust(m_adjust->currentData().toInt());
+    const Result<Weight> alpha = parseWeight(m_alpha->text().trimmed());
+    if (!alpha || !(alpha->value() > 0.0 && alpha->value() < 1.0)) {
+        showMessage(tr("alpha: '%1' is not a number between 0 and 1 (both excluded)").arg(m_alpha->text()));
+        return;
+    }
+    options.alpha = alpha->value();
+    Result<FitResult> fit = fitScheme(m_document->scheme(), *m_data, options, mapping);
+    if (!fit) {
+        showMessage(fit.error());
+        m_coefficients->setRowCount(0);
+        m_summary->clear();
+        m_chart->clear(tr("No fit: see the message."));
+        return;
+    }
+    showMessage({});
+    m_fit = fit.take();
+    showFit(*m_fit);
+}
+
+void DataPanel::showFit(const FitResult &fit)
+{
+    const int p = int(fit.coefficients.size());
+    m_coefficients->setRowCount(p);
+    const QString level = QString::number((1.0 - fit.alpha) * 100.0, 'g', 4);
+    m_coefficients->setHorizontalHeaderItem(CiColumn, new QTableWidgetItem(tr("%1% interval").arg(level)));
+    for (int i = 0; i < p; ++i) {
+        const FitCoefficient &c = fit.coefficients[size_t(i)];
+        m_coefficients->setItem(i, NameColumn, cell(c.name, false));
+        m_coefficients->setItem(i, HypothesisColumn, cell(c.hypothesis, false));
+        m_coefficients->setItem(i, EstimateColumn, cell(number(c.estimate)));
+        QTableWidgetItem *means = cell(number(c.hypothesisEstimate));
+        if (std::isfinite(c.hypothesisEstimate) && !c.agrees) {
+            means->setText(look::mark(look::State::Caution) + u" "_s + means->text());
+            means->setForeground(look::ink(look::State::Caution));
+            means->setToolTip(tr("The estimate is not this hypothesis applied to the observed means: with these group sizes "
+                                 "the coefficient tests something else."));
+        }
+        m_coefficients->setItem(i, FromMeansColumn, means);
+        m_coefficients->setItem(i, SeColumn, cell(number(c.se)));
+        m_coefficients->setItem(i, TColumn, cell(number(c.t, 3)));
+        m_coefficients->setItem(i, PColumn, cell(pText(c.p)));
+        m_coefficients->setItem(i, PAdjustedColumn, cell(c.inFamily ? pText(c.pAdjusted) : tr("not in family")));
+        m_coefficients->setItem(i, CiColumn, cell(u"%1 to %2"_s.arg(number(c.ciLow), number(c.ciHigh))));
+    }
+
+    QStringList lines;
+    lines << tr("Residual SD %1 on %2 df \u00b7 R\u00b2 = %3%4 \u00b7 %5 observations in %6 levels")
+                 .arg(number(fit.sigma), number(fit.df, 6), number(fit.rSquared, 3), fit.centred ? QString() : tr(" (about 0)"),
+                      number(fit.totalN, 10), QString::number(fit.levels.size()))
+                 .toHtmlEscaped();
+    lines << tr("F(%1, %2) = %3, p %4 \u2014 null hypothesis: %5")
+                 .arg(number(fit.fDf1, 6), number(fit.fDf2, 6), number(fit.f), pText(fit.fP).startsWith(u'<') ? pText(fit.fP) : u"= "_s + pText(fit.fP), fit.omnibusHypothesis)
+                 .toHtmlEscaped();
+    if (!fit.hypothesesAgree)
+        lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
+                                                             tr("Some coefficients do not estimate the scheme\u2019s hypotheses at these group sizes (marked below)."));
+    m_summary->setText(lines.join(u"<br>"_s));
+
+    // Means with intervals: core's fit of the cell-means coding (one coefficient per level, pooled SD).
+    const int k = int(fit.levels.size());
+    const Eigen::MatrixXd identity = Eigen::MatrixXd::Identity(k, k);
+    const Result<FitResult> cells = fitLevels(MatchedLevels{fit.levels, fit.levelStats, {}}, identity, identity, fit.levels,
+                                              false, FitOptions{fit.alpha, PAdjust::None});
+    if (cells) {
+        std::vector<SmallChart::Interval> intervals;
+        for (const FitCoefficient &c : cells->coefficients)
+            intervals.push_back({c.name, c.estimate, c.ciLow, c.ciHigh});
+        m_chart->setAxisTitles(tr("level (mean and %1% interval, pooled SD)").arg(level), m_response->currentText());
+        m_chart->setIntervals(std::move(intervals));
+    } else {
+        m_chart->clear(cells.error());
+    }
+
+    QStringList problems;
+    if (m_data->skippedRows > 0) {
+        problems << tr("%1 of %2 rows left out:").arg(m_data->skippedRows).arg(m_data->records);
+        for (const RowProblem &r : m_data->skipped)
+            problems << tr("  line %1: %2").arg(r.line).arg(r.message);
+        if (m_data->skippedRows > qint64(m_data->skipped.size()))
+            problems << tr("  and %1 more").arg(m_data->skippedRows - qint64(m_data->skipped.size()));
+    }
+    problems << fit.notes;
+    m_problems->setText(problems.join(u"\n"_s));
+    m_problems->setVisible(!problems.isEmpty());
+}
+
+void DataPanel::showMessage(const QString &message)
+{
+    m_message->setText(message.isEmpty() ? QString() : look::mark(look::State::Problem) + u" "_s + message);
+    m_message->setVisible(!message.isEmpty());
+}
+
+QString DataPanel::message() const
+{
+    return m_message->isHidden() ? QString() : m_message->text();
+}
+
+QString DataPanel::unmatchedText() const
+{
+    return m_unmatched->isHidden() ? QString() : m_unmatched->text();
+}
+
+QString DataPanel::problemsText() const
+{
+    return m_problems->text();
+}
+
+QString DataPanel::summaryText() const
+{
+    return m_summary->text();
+}
+
+} // namespace cb

@@ -1,0 +1,115 @@
+#pragma once
+
+#include "DataFit.h"
+
+#include <QWidget>
+
+#include <atomic>
+#include <functional>
+#include <memory>
+#include <optional>
+
+class QComboBox;
+class QLabel;
+class QLineEdit;
+class QProgressDialog;
+class QPushButton;
+class QTableWidget;
+class QThread;
+
+namespace cb {
+
+class Document;
+class SmallChart;
+
+// The data check: a long-format CSV/TSV file read in the background
+// (readLevelData), its levels matched to the scheme's, and the scheme fitted
+// (fitScheme). Shows the coefficients beside the hypotheses they test, the
+// level means with intervals, the overall fit and the rows that were left out.
+class DataPanel : public QWidget
+{
+    Q_OBJECT
+
+public:
+    enum CoefficientColumn {
+        NameColumn, HypothesisColumn, EstimateColumn, FromMeansColumn, SeColumn, TColumn, PColumn, PAdjustedColumn,
+        CiColumn, CoefficientColumnCount
+    };
+    enum MappingColumn { DataLevelColumn, RowsColumn, SchemeLevelColumn, MappingColumnCount };
+
+    explicit DataPanel(Document *document, QWidget *parent = nullptr);
+    ~DataPanel() override;
+
+    // Previews the file and proposes columns. Returns false (and shows core's message) when it cannot be read.
+    bool openFile(const QString &path);
+    // Chooses the columns by header name (weight empty: none).
+    void setColumns(const QString &factor, const QString &response, const QString &weight = {});
+    // Reads the whole file in the background, then fits; finished() follows.
+    void readAndFit();
+    // Maps a data level to a scheme level (empty: not matched) and fits again.
+    void mapLevel(const QString &dataLevel, const QString &schemeLevel);
+    void setAdjustment(PAdjust adjust);
+
+    const std::optional<DataSummary> &data() const { return m_data; }
+    const std::optional<FitResult> &fit() const { return m_fit; }
+    // The message shown when reading or fitting failed; empty otherwise.
+    QString message() const;
+    // Levels found on one side only, as shown ("In the data only: …").
+    QString unmatchedText() const;
+    QString problemsText() const;
+    QString summaryText() const;
+    QTableWidget *coefficientTable() const { return m_coefficients; }
+    QTableWidget *mappingTable() const { return m_mapping; }
+    QTableWidget *previewTable() const { return m_preview; }
+    SmallChart *meansChart() const { return m_chart; }
+
+    void setPathAsker(std::function<QString()> asker) { m_askPath = std::move(asker); }
+
+signals:
+    // A read (and fit) ended, with or without success.
+    void finished();
+
+private:
+    void readFinished();
+    void rebuildMapping();
+    void refit();
+    void showFit(const FitResult &fit);
+    void showMessage(const QString &message);
+    void updateUnmatched();
+    LevelMapping currentMapping() const;
+
+    Document *m_document;
+    std::function<QString()> m_askPath;
+    QString m_path;
+    char m_delimiter = ',';
+    bool m_hasHeader = true;
+    qint64 m_fileSize = -1;
+    QLabel *m_fileLabel;
+    QTableWidget *m_preview;
+    QComboBox *m_factor;
+    QComboBox *m_response;
+    QComboBox *m_weight;
+    QPushButton *m_readButton;
+    QComboBox *m_adjust;
+    QLineEdit *m_alpha;
+    QTableWidget *m_mapping;
+    QLabel *m_unmatched;
+    QLabel *m_message;
+    QLabel *m_summary;
+    QTableWidget *m_coefficients;
+    SmallChart *m_chart;
+    QLabel *m_problems;
+
+    // The background read.
+    QThread *m_thread = nullptr;
+    QProgressDialog *m_progress = nullptr;
+    std::shared_ptr<std::atomic<qint64>> m_bytesRead;
+    std::shared_ptr<std::atomic<bool>> m_cancel;
+    std::shared_ptr<std::optional<Result<DataSummary>>> m_readResult;
+
+    std::optional<DataSummary> m_data;
+    std::optional<FitResult> m_fit;
+    bool m_building = false;
+};
+
+} // namespace cb

@@ -1,0 +1,102 @@
+#pragma once
+
+#include "Power.h"
+
+#include <QHash>
+#include <QWidget>
+
+#include <optional>
+
+class QCheckBox;
+class QComboBox;
+class QLabel;
+class QLineEdit;
+class QTableWidget;
+
+namespace cb {
+
+class Document;
+class SmallChart;
+
+// Power and sample size for the planned contrasts of the open scheme. The
+// analyst types the expected mean (or difference from a baseline) of each
+// level and the spread; every number shown comes from core's computePower and
+// powerCurve, recomputed on every edit of the inputs or of the scheme.
+class PowerPanel : public QWidget
+{
+    Q_OBJECT
+
+public:
+    // Columns of the per-level input table.
+    enum InputColumn { LevelColumn, ExpectedColumn, SdColumn, PlannedNColumn, RatioColumn, InputColumnCount };
+    // Columns of the result table.
+    enum ResultColumn {
+        TestColumn, EstimateColumn, SeColumn, EffectColumn, DfColumn, PowerColumn, NeededColumn, NeededTotalColumn,
+        VersusOmnibusColumn, ResultColumnCount
+    };
+    enum class SizeSource { PlannedN, RatiosAndTotal };
+
+    explicit PowerPanel(Document *document, QWidget *parent = nullptr);
+
+    // Inputs, for tests and scripted use: one text per level, in level order.
+    void setExpectedTexts(const QStringList &texts);
+    void setLevelSdTexts(const QStringList &texts); // switches to per-level SDs
+    void setRatioTexts(const QStringList &texts);
+    void setUseDifferences(bool differences, int baseline = 0);
+    void setSizeSource(SizeSource source);
+
+    QLineEdit *sdEdit() const { return m_sd; }
+    QLineEdit *totalEdit() const { return m_total; }
+    QLineEdit *alphaEdit() const { return m_alpha; }
+    QLineEdit *targetEdit() const { return m_target; }
+    QComboBox *adjustmentBox() const { return m_adjustment; }
+    QComboBox *sidedBox() const { return m_sided; }
+    QTableWidget *inputTable() const { return m_inputs; }
+    QTableWidget *resultTable() const { return m_results; }
+    SmallChart *chart() const { return m_chart; }
+
+    // The message shown next to an input ("sd", "total", "alpha", "target", "levels"), empty when none.
+    QString fieldMessage(const QString &field) const;
+    // The settings read from the inputs, or the first message about them.
+    Result<PowerSettings> settings() const;
+    // The last report shown; empty while the inputs are incomplete or invalid.
+    const std::optional<PowerReport> &report() const { return m_report; }
+
+public slots:
+    // Recomputes now (edits schedule this on the next turn of the event loop).
+    void recompute();
+
+private:
+    void followDocument();
+    void rebuildInputRows();
+    void updateColumnVisibility();
+    void schedule();
+    void showMessages(const QString &message);
+    void showReport(const PowerReport &report, const ContrastRows &rows, const PowerSettings &settings);
+    QStringList columnTexts(int column) const;
+
+    Document *m_document;
+    QTableWidget *m_inputs;
+    QComboBox *m_expectedKind;
+    QComboBox *m_baseline;
+    QLineEdit *m_sd;
+    QCheckBox *m_perLevelSd;
+    QComboBox *m_sizeSource;
+    QLineEdit *m_total;
+    QLineEdit *m_alpha;
+    QComboBox *m_sided;
+    QLineEdit *m_target;
+    QComboBox *m_adjustment;
+    QHash<QString, QLabel *> m_fieldNotes; // "sd", "total", "alpha", "target", "levels"
+    QLabel *m_general;
+    QTableWidget *m_results;
+    QLabel *m_notes;
+    SmallChart *m_chart;
+    QStringList m_levels;
+    bool m_building = false;
+    bool m_scheduled = false;
+    bool m_sizeSourceChosen = false;
+    std::optional<PowerReport> m_report;
+};
+
+} // namespace cb
