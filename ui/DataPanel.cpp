@@ -115,6 +115,8 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     m_coefficients->setObjectName(u"fitCoefficients"_s);
     m_coefficients->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
     m_coefficients->horizontalHeader()->setStretchLastSection(true);
+    m_coefficients->horizontalHeader()->setSectionResizeMode(HypothesisColumn, QHeaderView::Interactive);
+    m_coefficients->setTextElideMode(Qt::ElideMiddle);
     m_coefficients->horizontalHeaderItem(FromMeansColumn)->setToolTip(
         tr("The coefficient's hypothesis row applied to the observed level means; it equals the estimate unless the "
            "coding leaves out comparisons and the group sizes are unequal."));
@@ -427,10 +429,12 @@ void DataPanel::showFit(const FitResult &fit)
     m_coefficients->setRowCount(p);
     const QString level = QString::number((1.0 - fit.alpha) * 100.0, 'g', 4);
     m_coefficients->setHorizontalHeaderItem(CiColumn, new QTableWidgetItem(tr("%1% interval").arg(level)));
+    m_coefficients->setColumnWidth(HypothesisColumn, 220);
     for (int i = 0; i < p; ++i) {
         const FitCoefficient &c = fit.coefficients[size_t(i)];
         m_coefficients->setItem(i, NameColumn, cell(c.name, false));
         m_coefficients->setItem(i, HypothesisColumn, cell(c.hypothesis, false));
+        m_coefficients->item(i, HypothesisColumn)->setToolTip(c.hypothesis);
         m_coefficients->setItem(i, EstimateColumn, cell(number(c.estimate)));
         QTableWidgetItem *means = cell(number(c.hypothesisEstimate));
         if (std::isfinite(c.hypothesisEstimate) && !c.agrees) {

@@ -100,7 +100,7 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     , m_expectedKind(new QComboBox(this))
     , m_baseline(new QComboBox(this))
     , m_sd(new QLineEdit(u"1"_s, this))
-    , m_perLevelSd(new QCheckBox(tr("a different SD per level (Welch df)"), this))
+    , m_perLevelSd(new QCheckBox(tr("per level (Welch df)"), this))
     , m_sizeSource(new QComboBox(this))
     , m_total(new QLineEdit(this))
     , m_alpha(new QLineEdit(u"0.05"_s, this))
@@ -125,7 +125,7 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
         m_adjustment->addItem(powerAdjustmentTitle(a), QVariant::fromValue(int(a)));
     m_total->setPlaceholderText(tr("e.g. 120"));
     m_results->setObjectName(u"powerResults"_s);
-    m_results->setHorizontalHeaderLabels({tr("Test"), tr("Estimate \u03c8"), tr("SE"), tr("Std. effect"), tr("df"),
+    m_results->setHorizontalHeaderLabels({tr("Test"), tr("Estimate \u03c8"), tr("SE"), tr("Std. eff."), tr("df"),
                                           tr("Power at plan"), tr("n/level for target"), tr("Total N"),
                                           tr("vs F test")});
     m_results->verticalHeader()->hide();
