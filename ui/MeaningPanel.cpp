@@ -55,8 +55,8 @@ void MeaningPanel::follow()
     if (a.hypotheses.empty()) {
         QString why = tr("No hypotheses: the coefficients are not identifiable.");
         for (const Finding &f : a.findings)
-            if (f.topic == Finding::Topic::Rank && f.severity == Finding::Severity::Problem) {
-                why = look::mark(look::State::Problem) + u" "_s + f.message;
+            if (f.topic == Finding::Topic::Rank && f.severity == Finding::Severity::Problem && !f.message.isEmpty()) {
+                why = look::mark(look::State::Problem) + u" "_s + f.message.front().toUpper() + f.message.mid(1);
                 break;
             }
         m_empty->setText(why);

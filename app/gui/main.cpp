@@ -63,6 +63,9 @@ int main(int argc, char *argv[])
     }
 
     QApplication app(argc, argv);
+    // Both names are needed for QSettings (recent files); they also place the recovery file
+    // under ~/.local/share/contrast-bench/contrast-bench on Linux.
+    QApplication::setOrganizationName(u"contrast-bench"_s);
     QApplication::setApplicationName(u"contrast-bench"_s);
     QApplication::setApplicationDisplayName(u"Contrast Bench"_s);
     QApplication::setApplicationVersion(QString::fromLatin1(CB_VERSION));
