@@ -6,6 +6,8 @@
 
 #include <QApplication>
 #include <QClipboard>
+#include <QHeaderView>
+#include <QLineEdit>
 #include <QSignalSpy>
 #include <QTest>
 
@@ -24,6 +26,7 @@ private slots:
     void copyGivesTabSeparatedExactText();
     void deleteClearsSelectedCellsToZero();
     void keyboardCopyAndPasteGoThroughTheClipboard();
+    void aColumnIsRenamedInItsHeader();
 };
 
 namespace {
@@ -139,6 +142,34 @@ void TestWeightGridView::keyboardCopyAndPasteGoThroughTheClipboard()
     QCOMPARE(weightText(d, 1, 1), u"0"_s);
     QCOMPARE(weightText(d, 1, 2), u"1"_s);
     QCOMPARE(d.undoStack()->count(), 1);
+}
+
+void TestWeightGridView::aColumnIsRenamedInItsHeader()
+{
+    WindowFixture f;
+    QVERIFY(f.show());
+    WeightGridView *v = f.window->codingPanel()->codingView();
+    v->renameColumn(1);
+    auto *editor = v->horizontalHeader()->viewport()->findChild<QLineEdit *>();
+    QVERIFY(editor);
+    QCOMPARE(editor->text(), u"C vs A"_s);
+    editor->selectAll();
+    QTest::keyClicks(editor, u"mid dose"_s);
+    QTest::keyClick(editor, Qt::Key_Return);
+    QCOMPARE(f.window->document()->scheme().columns[1].name, u"mid dose"_s);
+    QCOMPARE(f.window->document()->undoStack()->undoText(), u"Rename column 2 to \u2018mid dose\u2019"_s);
+    // Escape leaves the name alone.
+    v->renameColumn(0);
+    QLineEdit *second = nullptr;
+    const QList<QLineEdit *> editors = v->horizontalHeader()->viewport()->findChildren<QLineEdit *>();
+    for (QLineEdit *e : editors)
+        if (e->isVisible())
+            second = e;
+    QVERIFY(second);
+    QTest::keyClicks(second, u"xyz"_s);
+    QTest::keyClick(second, Qt::Key_Escape);
+    QVERIFY(!second->isVisible());
+    QCOMPARE(f.window->document()->scheme().columns[0].name, u"B vs A"_s);
 }
 
 QTEST_MAIN(TestWeightGridView)

@@ -45,7 +45,7 @@ protected:
     {
         if (event->key() == Qt::Key_Escape) {
             cancelled = true;
-            clearFocus();
+            emit editingFinished(); // closes the editor whether or not it had the focus
             return;
         }
         QLineEdit::keyPressEvent(event);
