@@ -3,6 +3,7 @@
 #include "HypothesisText.h"
 #include "RationalMatrix.h"
 
+#include <Eigen/Cholesky>
 #include <Eigen/Eigenvalues>
 #include <Eigen/LU>
 #include <Eigen/SVD>
@@ -19,6 +20,8 @@ namespace {
 constexpr double kEps = std::numeric_limits<double>::epsilon();
 // Relative size below which a floating cross-product or sum counts as zero.
 constexpr double kZeroTolerance = 1e-10;
+// Above this condition number floating-point hypotheses have lost half their digits: said so.
+constexpr double kPrecisionWarning = 1e8;
 // Above this condition number the Gram matrix's eigenvalues lose too many digits:
 // singular values come from an SVD of the scaled design instead.
 constexpr double kGramConditionLimit = 1e3;
@@ -120,8 +123,10 @@ std::optional<RationalMatrix> exactRankAndInverse(Analysis &a, const RationalMat
     return inv;
 }
 
-// Floating rank and dependencies by modified Gram-Schmidt in column order.
-void floatRank(Analysis &a, const Eigen::MatrixXd &x)
+// Floating rank and dependencies by modified Gram-Schmidt in column order. x holds the
+// columns times scale (powers of two, see columnScales); dependencies are stated for the
+// unscaled columns.
+void floatRank(Analysis &a, const Eigen::MatrixXd &x, const Eigen::VectorXd &scale)
 {
     const Eigen::Index k = x.rows(), p = x.cols();
     Eigen::MatrixXd q(k, p);      // orthonormal basis of kept columns
@@ -147,7 +152,7 @@ void floatRank(Analysis &a, const Eigen::MatrixXd &x)
                 for (Eigen::Index i = 0; i < nk; ++i) {
                     if (std::abs(inK(i)) <= 1e-12 * std::max(1.0, inK.cwiseAbs().maxCoeff()))
                         continue;
-                    const double v2 = inK(i);
+                    const double v2 = inK(i) * scale(Eigen::Index(kept[size_t(i)])) / scale(c);
                     Weight w = Weight::approx(v2);
                     if (auto f = recogniseFraction(v2))
                         w = Weight::exact(*f);
@@ -165,6 +170,19 @@ void floatRank(Analysis &a, const Eigen::MatrixXd &x)
     }
     a.rank = int(kept.size());
     // Columns of r beyond the kept count are unused; r was built per kept column.
+}
+
+// A power of two per column that brings its largest magnitude near 1, so that no
+// square or cross-product of weights from 1e-300 to 1e300 overflows or underflows.
+// Multiplying by it is exact; every diagnostic is invariant to column scale.
+Eigen::VectorXd columnScales(const Eigen::MatrixXd &x)
+{
+    Eigen::VectorXd scale(x.cols());
+    for (Eigen::Index j = 0; j < x.cols(); ++j) {
+        const double largest = x.col(j).cwiseAbs().maxCoeff();
+        scale(j) = largest > 0 && std::isfinite(largest) ? std::ldexp(1.0, -std::ilogb(largest)) : 1.0;
+    }
+    return scale;
 }
 
 // Singular values of diag(sqrt n) X with unit-length columns, descending, plus the SVD when needed.
@@ -188,7 +206,9 @@ void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::Vect
         else
             s.anyZeroColumn = true;
     }
-    const Eigen::MatrixXd g = s.z.transpose() * s.z;
+    // Gram matrix by a symmetric rank update (half the work of a full product; lower triangle).
+    Eigen::MatrixXd g = Eigen::MatrixXd::Zero(s.z.cols(), s.z.cols());
+    g.selfadjointView<Eigen::Lower>().rankUpdate(s.z.transpose());
     Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd> es(g, Eigen::EigenvaluesOnly);
     Eigen::VectorXd ev = es.eigenvalues().cwiseMax(0.0); // ascending
     const Eigen::Index p = ev.size();
@@ -197,9 +217,20 @@ void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::Vect
         s.sv(i) = std::sqrt(ev(p - 1 - i));
     if (es.info() != Eigen::Success || s.sv(p - 1) < s.sv(0) / kGramConditionLimit) {
         s.svd.compute(s.z, Eigen::ComputeThinU | Eigen::ComputeThinV);
-        s.sv = s.svd.singularValues();
+        // With more columns than rows (k columns and an intercept) the SVD gives k values;
+        // the other p - k are exactly zero.
+        s.sv = Eigen::VectorXd::Zero(p);
+        s.sv.head(s.svd.singularValues().size()) = s.svd.singularValues();
         s.usedSvd = true;
     }
+}
+
+// A'A for a tall A, computed as a symmetric rank update and returned in full.
+Eigen::MatrixXd symmetricProduct(const Eigen::MatrixXd &a)
+{
+    Eigen::MatrixXd lower = Eigen::MatrixXd::Zero(a.cols(), a.cols());
+    lower.selfadjointView<Eigen::Lower>().rankUpdate(a.transpose());
+    return lower.selfadjointView<Eigen::Lower>();
 }
 
 struct Zero
@@ -208,7 +239,10 @@ struct Zero
     static bool test(double v, double scale) { return std::abs(v) <= kZeroTolerance * scale; }
 };
 
-void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::MatrixXd &c, const Eigen::VectorXd &n)
+// c holds the coding columns times scale (powers of two); sums and cross-products are
+// given back unscaled.
+void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::MatrixXd &c, const Eigen::VectorXd &scale,
+                       const Eigen::VectorXd &n)
 {
     const int m = a.columnCount;
     const int k = a.levelCount;
@@ -254,27 +288,38 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
                 a.orthogonal[size_t(i)][size_t(j)] = a.orthogonal[size_t(j)][size_t(i)] = dot == 0;
                 a.orthogonalInDesign[size_t(i)][size_t(j)] = a.orthogonalInDesign[size_t(j)][size_t(i)] = wdot == 0;
             }
-        for (int i = 0; i < m; ++i) {
+        // Correlations exactly, as r^2 = d_ij^2 / (d_ii d_jj): the cross-products themselves
+        // may lie beyond the range of a double.
+        for (int i = 0; i < m; ++i)
             constant[size_t(i)] = a.designCrossProducts[size_t(i)][size_t(i)].rational() == 0;
-            for (int j = 0; j < m; ++j)
-                designCov(i, j) = a.designCrossProducts[size_t(i)][size_t(j)].value();
-        }
+        for (int i = 0; i < m; ++i)
+            for (int j = 0; j < m; ++j) {
+                const Rational &dij = a.designCrossProducts[size_t(i)][size_t(j)].rational();
+                if (constant[size_t(i)] || constant[size_t(j)] || dij == 0) {
+                    designCov(i, j) = 0.0;
+                    continue;
+                }
+                const Rational r2 = dij * dij / (a.designCrossProducts[size_t(i)][size_t(i)].rational()
+                                                 * a.designCrossProducts[size_t(j)][size_t(j)].rational());
+                designCov(i, j) = std::copysign(std::sqrt(nearestDouble(r2)), sgn(dij));
+            }
     } else {
         const double total = n.sum();
         const Eigen::VectorXd sums = c.colwise().sum().transpose();
         const Eigen::VectorXd abssums = c.cwiseAbs().colwise().sum().transpose();
         const Eigen::VectorXd wsums = c.transpose() * n;
-        const Eigen::MatrixXd cross = c.transpose() * c;
-        const Eigen::MatrixXd wcross = c.transpose() * n.asDiagonal() * c - wsums * wsums.transpose() / total;
+        const Eigen::MatrixXd cross = symmetricProduct(c);
+        const Eigen::MatrixXd wcross = symmetricProduct(n.cwiseSqrt().asDiagonal() * c) - wsums * wsums.transpose() / total;
         const Eigen::VectorXd wsq = (c.array().square().colwise() * n.array()).colwise().sum().transpose();
+        const auto unscaled = [&](double v, int i, int j) { return Weight::approx(v / scale(i) / scale(j)); };
         for (int j = 0; j < m; ++j) {
-            a.columnSums[size_t(j)] = Weight::approx(sums(j));
+            a.columnSums[size_t(j)] = Weight::approx(sums(j) / scale(j));
             a.sumsToZero[size_t(j)] = Zero::test(sums(j), abssums(j));
         }
         for (int i = 0; i < m; ++i)
             for (int j = 0; j < m; ++j) {
-                a.crossProducts[size_t(i)][size_t(j)] = Weight::approx(cross(i, j));
-                a.designCrossProducts[size_t(i)][size_t(j)] = Weight::approx(wcross(i, j));
+                a.crossProducts[size_t(i)][size_t(j)] = unscaled(cross(i, j), i, j);
+                a.designCrossProducts[size_t(i)][size_t(j)] = unscaled(wcross(i, j), i, j);
                 a.orthogonal[size_t(i)][size_t(j)] = Zero::test(cross(i, j), std::sqrt(cross(i, i) * cross(j, j)));
                 a.orthogonalInDesign[size_t(i)][size_t(j)] = Zero::test(wcross(i, j), std::sqrt(wsq(i) * wsq(j)));
             }
@@ -299,16 +344,23 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
             a.correlation(li, lj) = r(i, j);
         }
     if (nl > 0) {
-        Eigen::PartialPivLU<Eigen::MatrixXd> lu(r);
-        if (lu.rcond() > 1e-13) {
-            const Eigen::MatrixXd inv = lu.inverse();
+        // diag(R^-1) from the Cholesky factor: R^-1 = L^-T L^-1, so entry i is |column i of L^-1|^2.
+        Eigen::LLT<Eigen::MatrixXd> llt(r);
+        if (llt.info() == Eigen::Success && llt.rcond() > 1e-13) {
+            const Eigen::MatrixXd linv = llt.matrixL().solve(Eigen::MatrixXd::Identity(nl, nl));
             for (Eigen::Index i = 0; i < nl; ++i)
-                a.vif[size_t(live[size_t(i)])] = inv(i, i);
+                a.vif[size_t(live[size_t(i)])] = linv.col(i).squaredNorm();
         }
     }
 }
 
-void diagnosticFindings(Analysis &a)
+// A cross-product for a message: beyond the range of a double it is described, not shown as inf.
+QString shownValue(const Weight &w)
+{
+    return w.isExact() || std::isfinite(w.value()) ? w.display() : u"beyond the range of double precision"_s;
+}
+
+void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
 {
     const int m = a.columnCount;
     using S = Finding::Severity;
@@ -327,9 +379,9 @@ void diagnosticFindings(Analysis &a)
                 same = a.crossProducts[size_t(i)][size_t(i)].rational() + a.crossProducts[size_t(j)][size_t(j)].rational()
                            - 2 * a.crossProducts[size_t(i)][size_t(j)].rational() == 0;
             } else {
-                const double d = a.crossProducts[size_t(i)][size_t(i)].value() + a.crossProducts[size_t(j)][size_t(j)].value()
-                                 - 2 * a.crossProducts[size_t(i)][size_t(j)].value();
-                same = Zero::test(d, a.crossProducts[size_t(i)][size_t(i)].value());
+                // |ci - cj|^2 <= tolerance |ci|^2, with norms that neither overflow nor underflow.
+                const double d = (columns.col(i) - columns.col(j)).stableNorm(), ni = columns.col(i).stableNorm();
+                same = d == 0.0 || (ni > 0 && (d / ni) * (d / ni) <= kZeroTolerance);
             }
             if (same)
                 addFinding(a, S::Problem, T::Rank, u"columns %1 and %2 are identical"_s.arg(i + 1).arg(j + 1), i, j);
@@ -344,7 +396,7 @@ void diagnosticFindings(Analysis &a)
                 if (orth[size_t(i)][size_t(j)])
                     continue;
                 if (++count <= 6)
-                    list << u"%1 and %2 (%3)"_s.arg(i + 1).arg(j + 1).arg(values[size_t(i)][size_t(j)].display());
+                    list << u"%1 and %2 (%3)"_s.arg(i + 1).arg(j + 1).arg(shownValue(values[size_t(i)][size_t(j)]));
             }
         if (count == 0)
             return;
@@ -356,6 +408,20 @@ void diagnosticFindings(Analysis &a)
     pairs(a.orthogonal, u"as written (cross-product in brackets)"_s, a.crossProducts);
     pairs(a.orthogonalInDesign, u"under the planned n (centred, n-weighted cross-product in brackets)"_s, a.designCrossProducts);
 
+    if (a.conditionNumber && !a.exact && *a.conditionNumber >= kPrecisionWarning) {
+        addFinding(a, S::Caution, T::Collinearity,
+                   u"condition number %1: the floating-point hypotheses may have lost about %2 of their 16 significant "
+                   "digits; give exact weights (fractions, at most %3 levels) to have them computed exactly"_s
+                       .arg(QString::number(*a.conditionNumber, 'g', 2))
+                       .arg(int(std::floor(std::log10(*a.conditionNumber))))
+                       .arg(kExactLevelLimit));
+    } else if (!a.conditionNumber && a.fullRank) {
+        addFinding(a, S::Caution, T::Collinearity,
+                   u"the coding is singular to floating-point precision (condition number above about 1e15)%1"_s.arg(
+                       a.exact ? u" although exact arithmetic finds full rank: the hypotheses shown are exact, but a "
+                                 "floating-point fit of this coding is unreliable"_s
+                               : QString()));
+    }
     if (a.conditionNumber) {
         for (size_t i = 0; i < a.conditionIndices.size(); ++i)
             if (a.conditionIndices[i] >= kConditionIndexFlag) {
@@ -377,8 +443,7 @@ void diagnosticFindings(Analysis &a)
     }
     bool anyUndefined = false;
     for (int j = 0; j < m; ++j) {
-        if (a.designCrossProducts[size_t(j)][size_t(j)].value() == 0.0
-            || (!a.exact && std::abs(a.designCrossProducts[size_t(j)][size_t(j)].value()) < 1e-300)) {
+        if (std::isnan(a.correlation(j, j))) { // NaN marks a constant column
             addFinding(a, S::Caution, T::Collinearity, u"%1 is constant across the levels: its VIF and correlations are undefined"_s.arg(columnLabel(a, j)), j);
         } else if (!a.vif[size_t(j)]) {
             anyUndefined = true;
@@ -433,9 +498,13 @@ Analysis analyze(const Scheme &s)
         x.col(0).setOnes();
     x.rightCols(m) = c;
 
+    // Floating work uses columns scaled by powers of two (exact; see columnScales).
+    const Eigen::VectorXd scale = columnScales(x);
+    const Eigen::MatrixXd xs = x * scale.asDiagonal();
+
     // Collinearity (always floating: singular values are irrational).
     Scaled sc;
-    scaledSingularValues(sc, x, n.cwiseSqrt());
+    scaledSingularValues(sc, xs, n.cwiseSqrt());
     const double smax = sc.sv(0);
     const double smin = sc.sv(p - 1);
 
@@ -451,7 +520,7 @@ Analysis analyze(const Scheme &s)
         }
         xInverse = exactRankAndInverse(a, xq);
     } else if (sc.anyZeroColumn || smin <= smax * 1e-10) {
-        floatRank(a, x); // near-singular: find the dependencies column by column
+        floatRank(a, xs, scale); // near-singular: find the dependencies column by column
     } else {
         a.rank = p; // well-conditioned: certainly full rank
     }
@@ -485,17 +554,19 @@ Analysis analyze(const Scheme &s)
         }
         a.hypotheses = toWeights(h);
     } else {
+        // For X = Xs S^-1 the hypotheses are S (Xs' W Xs)^-1 Xs' W: rows scaled back below.
         Eigen::MatrixXd h;
         if (!sc.usedSvd && p == k) {
-            h = x.partialPivLu().inverse();
+            h = xs.partialPivLu().inverse();
         } else if (!sc.usedSvd) {
-            const Eigen::MatrixXd xtw = x.transpose() * n.asDiagonal();
-            h = (xtw * x).ldlt().solve(xtw);
+            const Eigen::MatrixXd xtw = xs.transpose() * n.asDiagonal();
+            h = (xtw * xs).ldlt().solve(xtw);
         } else {
             // pinv(diag(sqrt n) X) diag(sqrt n) = D^-1 V S^-1 U' diag(sqrt n), with Z = diag(sqrt n) X D^-1.
             const Eigen::MatrixXd vs = sc.svd.matrixV() * sc.sv.cwiseInverse().asDiagonal();
             h = sc.colNorm.cwiseInverse().asDiagonal() * vs * sc.svd.matrixU().transpose() * n.cwiseSqrt().asDiagonal();
         }
+        h = scale.asDiagonal() * h;
         a.hypotheses = toWeights(h);
     }
     if (a.fullRank) {
@@ -515,8 +586,8 @@ Analysis analyze(const Scheme &s)
         }
     }
 
-    columnDiagnostics(a, s, a.exact, c, n);
-    diagnosticFindings(a);
+    columnDiagnostics(a, s, a.exact, xs.rightCols(m), scale.tail(m), n);
+    diagnosticFindings(a, c);
     return a;
 }
 

@@ -40,7 +40,7 @@ namespace {
 QString number(double v)
 {
     if (std::isinf(v))
-        return u"inf"_s;
+        return u"singular"_s; // a zero singular value: no number to show
     if (std::isnan(v))
         return u"undefined"_s;
     return QString::number(v, 'g', 6);

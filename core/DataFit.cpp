@@ -274,7 +274,13 @@ Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &
     const double between = (n.array() * (ybar - fit.fittedMeans).array().square()).sum();
     fit.rss = within + between;
     fit.df = totalN - double(p);
-    const double sigma2 = fit.df > 0 ? fit.rss / fit.df : kNaN;
+    // No residual variation (every observation equals its fitted mean, to rounding): the
+    // standard errors are 0 and every test would claim certainty. They are left undefined.
+    const double dataScale = within + (n.array() * ybar.array().square()).sum();
+    const bool noResidual = fit.rss <= 1e-26 * dataScale;
+    if (noResidual)
+        fit.rss = 0.0;
+    const double sigma2 = fit.df > 0 && !noResidual ? fit.rss / fit.df : kNaN;
     fit.sigma = std::sqrt(sigma2);
     fit.covariance = sigma2 * xtnxInv;
     fit.observedHypotheses = xtnxInv * X.transpose() * n.asDiagonal();
@@ -295,7 +301,7 @@ Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &
     }
     fit.fDf2 = fit.df;
     fit.rSquared = fit.tss > 0 ? 1.0 - fit.rss / fit.tss : kNaN;
-    if (fit.fDf1 > 0 && fit.df > 0) {
+    if (fit.fDf1 > 0 && fit.df > 0 && !noResidual) {
         const double model = std::max(0.0, fit.tss - fit.rss);
         fit.f = fit.rss > 0 ? (model / fit.fDf1) / sigma2 : (model > 0 ? std::numeric_limits<double>::infinity() : kNaN);
         fit.fP = fUpperP(fit.f, fit.fDf1, fit.fDf2);
@@ -334,6 +340,9 @@ Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &
     for (size_t i = 0; i < adjusted.size(); ++i)
         fit.coefficients[i].pAdjusted = adjusted[i];
 
+    if (noResidual && fit.df > 0)
+        fit.notes << u"no residual variation: every observation equals its fitted level mean, so standard errors, "
+                     "tests and intervals are undefined"_s;
     if (!(fit.df > 0))
         fit.notes << u"no residual degrees of freedom (N equals the number of coefficients): standard errors, "
                      "tests and intervals cannot be computed"_s;

@@ -208,6 +208,8 @@ QString checkLatex(const QString &text, int columns)
                 ++dollars;
             } else if (c == u'&') {
                 ++ampersands;
+            } else if ((c == u'#' || c == u'^' || c == u'_') && dollars % 2 == 0) {
+                return lineProblem(line, u"'%1' outside math mode"_s.arg(c));
             } else if (c == u'%') {
                 if (n != 0)
                     return lineProblem(line, u"an unescaped '%' comments out the rest of the line"_s);

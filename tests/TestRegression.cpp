@@ -1,0 +1,159 @@
+// Regression tests for what fuzzing (tests/fuzz/, tools/fuzz.sh) found. Each test names the
+// target that found the input and what went wrong before the fix.
+#include "Analysis.h"
+#include "AnalysisJson.h"
+#include "AnalysisReport.h"
+#include "Export.h"
+#include "Scheme.h"
+#include "SchemeFile.h"
+
+#include "fuzz/FuzzChecks.h"
+
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QJsonObject>
+#include <QProcess>
+#include <QTest>
+
+#include <cmath>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+namespace {
+
+const QString kCli = QStringLiteral(CB_BINARY_DIR "/app/contrast-bench-cli");
+
+struct CliRun
+{
+    int code = -1;
+    QByteArray out;
+    QByteArray err;
+};
+
+CliRun runCli(const QStringList &args)
+{
+    QProcess p;
+    p.start(kCli, args);
+    p.waitForFinished(60000);
+    return {p.exitStatus() == QProcess::NormalExit ? p.exitCode() : -1, p.readAllStandardOutput(), p.readAllStandardError()};
+}
+
+} // namespace
+
+class TestRegression : public QObject
+{
+    Q_OBJECT
+
+private slots:
+    void interceptBesideKColumnsReadsNoSingularValuePastTheEnd_data();
+    void interceptBesideKColumnsReadsNoSingularValuePastTheEnd();
+    void fuzzInputThroughTheCommandLine();
+    void hypothesisCsvOutsideTheWeightRangeIsRefusedClearly();
+    void longExactWeightSurvivesSaveAndLoad();
+};
+
+// FuzzCliMatrix: with k coding columns and an intercept for k levels (the indicator coding
+// with its intercept left on), the k x (k+1) design has only k singular values; analyze()
+// read one past the end of them (heap-buffer-overflow under ASan, a garbage condition
+// index without it).
+void TestRegression::interceptBesideKColumnsReadsNoSingularValuePastTheEnd_data()
+{
+    QTest::addColumn<int>("levels");
+    QTest::addColumn<bool>("exact");
+    for (int k : {2, 3, 7, 45})
+        for (bool exact : {true, false})
+            QTest::newRow(qPrintable(u"k=%1 %2"_s.arg(k).arg(exact ? u"exact"_s : u"floating"_s))) << k << exact;
+}
+
+void TestRegression::interceptBesideKColumnsReadsNoSingularValuePastTheEnd()
+{
+    QFETCH(int, levels);
+    QFETCH(bool, exact);
+    Factor f;
+    for (int i = 0; i < levels; ++i)
+        f.levels << u"l%1"_s.arg(i + 1);
+    Scheme s = makeScheme(f, SchemeKind::Indicator).value();
+    s.intercept = true;
+    if (!exact)
+        for (Column &c : s.columns)
+            for (Weight &w : c.weights)
+                w = Weight::approx(w.value());
+    const Analysis a = analyze(s);
+    QCOMPARE(a.coefficientCount, levels + 1);
+    QCOMPARE(a.rank, levels);
+    QVERIFY(!a.fullRank);
+    QVERIFY(!a.conditionNumber);
+    QCOMPARE(int(a.conditionIndices.size()), levels + 1);
+    QVERIFY(std::isinf(a.conditionIndices.back()));
+    QCOMPARE(a.dependencies.size(), 1);
+    QVERIFY(a.dependencies.front().contains(u"(Intercept)"_s));
+    const QString report = analysisReport(s, a);
+    QVERIFY2(fuzz::checkNoNonFiniteNumber(report).isEmpty(), qPrintable(report));
+}
+
+// The input FuzzCliMatrix saved (crash-e57e1fa6...): two levels "0`" and "'", columns
+// (1, 1) and (0, 2) beside the intercept: c1 equals the intercept.
+void TestRegression::fuzzInputThroughTheCommandLine()
+{
+    const CliRun r = runCli({u"analyze"_s, u"--levels"_s, u"0`,'"_s, u"--columns"_s, u"1,1;0,2"_s, u"--json"_s});
+    QCOMPARE(r.code, 0);
+    const QJsonObject o = QJsonDocument::fromJson(r.out).object();
+    QCOMPARE(o.value(u"rank"_s).toInt(), 2);
+    QCOMPARE(o.value(u"full_rank"_s).toBool(), false);
+    QCOMPARE(o.value(u"dependencies"_s).toArray().first().toString(), u"c1 = (Intercept)"_s);
+    QVERIFY(o.value(u"condition_number"_s).isNull());
+}
+
+// FuzzExport (seed huge.json): a coding with weights 1e300 has hypothesis weights near
+// 1e-300 and below; its CSV is well formed but holds values that the CSV reader, which
+// reads weights, does not accept. The refusal names the line, field and range.
+void TestRegression::hypothesisCsvOutsideTheWeightRangeIsRefusedClearly()
+{
+    Scheme s;
+    s.factor.levels = {u"a"_s, u"b"_s, u"c"_s};
+    s.columns = {{u"c1"_s, {parseWeight(u"1e300"_s).value(), parseWeight(u"-1e300"_s).value(), 0}},
+                 {u"c2"_s, {parseWeight(u"3e299"_s).value(), 0, parseWeight(u"-3e299"_s).value()}}};
+    const Analysis a = analyze(s);
+    QVERIFY(a.fullRank);
+    const ExportTable t = hypothesisTable(a).value();
+    const QString problem = fuzz::checkAllExports(t);
+    QVERIFY2(problem.isEmpty(), qPrintable(problem));
+    const QString csv = exportTable(t, ExportFormat::Csv).value();
+    auto back = readCsvTable(csv);
+    QVERIFY(!back.ok());
+    QVERIFY2(back.error().startsWith(u"CSV line 3, field 2 (column 'a'): weight '"_s) && back.error().contains(u"is too small"_s),
+             qPrintable(back.error()));
+}
+
+// FuzzWeight: a typed decimal of 400 characters (the limit) is an exact fraction whose
+// storage text "p/q" has about 800 characters; the scheme file and the exact CSV wrote it,
+// and reading them back refused it as too long, so a saved scheme did not load.
+void TestRegression::longExactWeightSurvivesSaveAndLoad()
+{
+    const QString typed = u"."_s + QString(130, u'4') + QString(130, u'9') + QString(139, u'4');
+    QCOMPARE(typed.size(), 400);
+    const Weight w = parseWeight(typed).value();
+    QVERIFY(w.storageString().size() > 700);
+    auto back = parseStoredWeight(w.storageString());
+    QVERIFY2(back.ok(), qPrintable(back.error()));
+    QVERIFY(*back == w);
+    // Typed text keeps its limit.
+    QVERIFY(parseWeight(w.storageString()).error().contains(u"is too long"_s));
+
+    Scheme s;
+    s.factor.levels = {u"a"_s, u"b"_s};
+    s.columns = {{u"c1"_s, {w, Weight(-1)}}};
+    auto loaded = schemeFromJson(schemeToJson(s), u"saved.json"_s);
+    QVERIFY2(loaded.ok(), qPrintable(loaded.error()));
+    QVERIFY(loaded->columns[0].weights[0] == w);
+
+    ExportOptions exact;
+    exact.exact = true;
+    auto csv = readCsvTable(exportTable(codingTable(s).value(), ExportFormat::Csv, exact).value());
+    QVERIFY2(csv.ok(), qPrintable(csv.error()));
+    QVERIFY(csv->cells[0][0] == w);
+}
+
+QTEST_GUILESS_MAIN(TestRegression)
+#include "TestRegression.moc"
