@@ -216,7 +216,10 @@ void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::Vect
     for (Eigen::Index i = 0; i < p; ++i)
         s.sv(i) = std::sqrt(ev(p - 1 - i));
     if (es.info() != Eigen::Success || s.sv(p - 1) < s.sv(0) / kGramConditionLimit) {
-        s.svd.compute(s.z, Eigen::ComputeThinU | Eigen::ComputeThinV);
+        // Singular vectors only when the pseudo-inverse will need them (fewer columns than
+        // levels); a square design is inverted by LU, which stays accurate here.
+        const bool vectors = s.z.cols() < s.z.rows();
+        s.svd.compute(s.z, vectors ? Eigen::ComputeThinU | Eigen::ComputeThinV : 0);
         // With more columns than rows (k columns and an intercept) the SVD gives k values;
         // the other p - k are exactly zero.
         s.sv = Eigen::VectorXd::Zero(p);
@@ -370,9 +373,32 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
             addFinding(a, S::Info, T::ColumnSum,
                        u"%1 sums to %2, not 0: it is not a centred contrast, so the intercept is not the unweighted grand mean"_s
                            .arg(columnLabel(a, j), a.columnSums[size_t(j)].display()), j);
-    // Identical columns.
+    // Identical columns. In floating point, two cheap necessary conditions come first: equal
+    // norms and equal projections on a fixed vector r (|r.ci - r.cj| <= |r| |ci - cj|).
+    Eigen::VectorXd norms, projections;
+    double rNorm = 0;
+    if (!a.exact) {
+        const Eigen::Index k = columns.rows();
+        Eigen::VectorXd r(k);
+        for (Eigen::Index i = 0; i < k; ++i)
+            r(i) = 1.0 + std::fmod(0.6180339887 * double(i + 1), 1.0);
+        rNorm = r.norm();
+        norms.resize(m);
+        projections.resize(m);
+        for (int j = 0; j < m; ++j) {
+            norms(j) = columns.col(j).stableNorm();
+            const double scale = norms(j) > 0 ? norms(j) : 1.0;
+            projections(j) = (columns.col(j) / scale).dot(r) * scale; // scaled to avoid overflow
+        }
+    }
+    const double slack = std::sqrt(kZeroTolerance);
     for (int i = 0; i < m; ++i)
         for (int j = i + 1; j < m; ++j) {
+            if (!a.exact) {
+                const double bound = slack * std::max(norms(i), norms(j));
+                if (std::abs(norms(i) - norms(j)) > bound || std::abs(projections(i) - projections(j)) > rNorm * bound)
+                    continue; // certainly not identical
+            }
             bool same = true;
             // Compare through the cross-products: |ci - cj|^2 = ci.ci + cj.cj - 2 ci.cj.
             if (a.exact) {
@@ -556,7 +582,7 @@ Analysis analyze(const Scheme &s)
     } else {
         // For X = Xs S^-1 the hypotheses are S (Xs' W Xs)^-1 Xs' W: rows scaled back below.
         Eigen::MatrixXd h;
-        if (!sc.usedSvd && p == k) {
+        if (p == k) {
             h = xs.partialPivLu().inverse();
         } else if (!sc.usedSvd) {
             const Eigen::MatrixXd xtw = xs.transpose() * n.asDiagonal();
