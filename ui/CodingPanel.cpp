@@ -15,6 +15,7 @@
 #include <QLabel>
 #include <QPushButton>
 #include <QSplitter>
+#include <QStyle>
 #include <QTabWidget>
 #include <QTimer>
 #include <QVBoxLayout>
@@ -110,12 +111,11 @@ QWidget *CodingPanel::buildCodingTab()
     m_pairsView->horizontalHeader()->setSectionResizeMode(QHeaderView::Fixed);
     m_pairsView->verticalHeader()->setDefaultSectionSize(24);
     m_pairsView->verticalHeader()->setSectionResizeMode(QHeaderView::Fixed);
-    m_pairsView->setSizeAdjustPolicy(QAbstractScrollArea::AdjustToContents);
     auto *pairsLayout = new QVBoxLayout(pairsBox);
     pairsLayout->setContentsMargins(0, 4, 0, 0);
     pairsLayout->setSpacing(2);
     pairsLayout->addWidget(m_pairsCaption);
-    pairsLayout->addWidget(m_pairsView, 1, Qt::AlignLeft);
+    pairsLayout->addWidget(m_pairsView, 1); // up to its maximum size, from the left
 
     // The grid comes first; the pairs table gets the room it needs up to a share of the
     // height (fitSplit), and the person can move the divider.
@@ -183,10 +183,16 @@ void CodingPanel::follow()
 
 void CodingPanel::fitSplit()
 {
+    // The pairs table is no larger than its cells (set here, on reset and resize, rather than
+    // by AdjustToContents, which would lay out the whole panel again on every edit).
+    const int frame = 2 * m_pairsView->frameWidth() + 2;
+    const int table = m_pairsView->horizontalHeader()->sizeHint().height() + 24 * m_pairs->rowCount() + frame;
+    const int tableWidth = m_pairsView->verticalHeader()->sizeHint().width() + 30 * m_pairs->columnCount() + frame;
+    const int bar = m_pairsView->style()->pixelMetric(QStyle::PM_ScrollBarExtent);
+    m_pairsView->setMaximumSize(tableWidth + bar, table + bar);
     if (m_splitMoved || !m_split || m_split->height() <= 0)
         return;
     const int total = m_split->height();
-    const int table = m_pairsView->horizontalHeader()->height() + 24 * m_pairs->rowCount() + 2 * m_pairsView->frameWidth() + 2;
     const int wanted = m_pairsCaption->sizeHint().height() + 8 + table;
     const int pairs = std::min(wanted, total * 38 / 100);
     m_split->setSizes({total - pairs, pairs});

@@ -19,11 +19,6 @@ namespace cb {
 
 namespace {
 
-QString stateSpan(look::State state, const QString &text)
-{
-    return u"<span style='color:%1'><b>%2</b> %3</span>"_s.arg(look::ink(state).name(), look::mark(state), text);
-}
-
 QLabel *caption(const QString &text, QWidget *parent)
 {
     auto *l = new QLabel(text, parent);
@@ -40,14 +35,15 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
     , m_document(document)
     , m_vif(new VifModel(document, this))
     , m_findings(new FindingsModel(document, this))
-    , m_summary(new QLabel(this))
     , m_vifView(new QTableView(this))
     , m_findingsView(new QListView(this))
 {
-    m_summary->setWordWrap(true);
-    m_summary->setTextFormat(Qt::RichText);
-    m_summary->setAlignment(Qt::AlignTop | Qt::AlignLeft);
-    m_summary->setTextInteractionFlags(Qt::TextSelectableByMouse);
+    for (QLabel *&l : m_lines) {
+        l = new QLabel(this);
+        l->setWordWrap(true);
+        l->setTextFormat(Qt::PlainText);
+        l->setTextInteractionFlags(Qt::TextSelectableByMouse);
+    }
     m_vifView->setModel(m_vif);
     m_vifView->setObjectName(u"vifTable"_s);
     m_vifView->verticalHeader()->hide();
@@ -65,14 +61,22 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
     m_findingsView->setWordWrap(true);
     m_findingsView->setSpacing(2);
     m_findingsView->setSelectionMode(QAbstractItemView::NoSelection);
+    // The lists take the height the dock gives them (and scroll); they do not ask for more.
+    m_vifView->setSizePolicy(QSizePolicy::Expanding, QSizePolicy::Ignored);
+    m_findingsView->setSizePolicy(QSizePolicy::Expanding, QSizePolicy::Ignored);
 
-    auto *thresholds = look::note(tr("Thresholds (common practice, not laws): a condition index of %1 or more flags strong collinearity "
-                                     "(Belsley, Kuh & Welsch 1980); VIF %2 or more is notable, %3 or more serious.")
+    auto *thresholds = look::note(tr("Flags: condition index \u2265 %1; VIF \u2265 %2 notable, \u2265 %3 serious.")
                                       .arg(kConditionIndexFlag).arg(kVifCaution).arg(kVifProblem), this);
+    thresholds->setToolTip(tr("Thresholds of common practice, not laws. A condition index of %1 or more flags strong collinearity "
+                              "(Belsley, Kuh & Welsch 1980); a VIF of %2 or more is notable, %3 or more serious.")
+                               .arg(kConditionIndexFlag).arg(kVifCaution).arg(kVifProblem));
 
     auto *left = new QVBoxLayout;
+    left->setSpacing(2);
     left->addWidget(caption(tr("Overall"), this));
-    left->addWidget(m_summary, 1);
+    for (QLabel *l : m_lines)
+        left->addWidget(l);
+    left->addStretch(1);
     left->addWidget(thresholds);
     auto *middle = new QVBoxLayout;
     middle->addWidget(caption(tr("Variance inflation per column"), this));
@@ -82,9 +86,9 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
     right->addWidget(m_findingsView, 1);
     auto *layout = new QHBoxLayout(this);
     layout->setContentsMargins(6, 4, 6, 4);
-    layout->addLayout(left, 3);
+    layout->addLayout(left, 4);
     layout->addLayout(middle, 3);
-    layout->addLayout(right, 5);
+    layout->addLayout(right, 4);
 
     connect(document, &Document::changed, this, &HealthPanel::follow);
     follow();
@@ -92,36 +96,52 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
 
 QString HealthPanel::summaryText() const
 {
-    return m_summary->text();
+    QStringList lines;
+    for (const QLabel *l : m_lines)
+        if (l->isVisibleTo(this))
+            lines << l->text();
+    return lines.join(u'\n');
+}
+
+void HealthPanel::setLine(Line line, look::State state, const QString &text)
+{
+    QLabel *l = m_lines[line];
+    const QString shown = state == look::State::Neutral ? text : look::mark(state) + u" "_s + text;
+    look::setText(l, shown);
+    QPalette p = l->palette();
+    const QColor colour = state == look::State::Neutral ? palette().color(QPalette::WindowText) : look::ink(state);
+    if (p.color(QPalette::WindowText) != colour) {
+        p.setColor(QPalette::WindowText, colour);
+        l->setPalette(p);
+    }
+    l->setVisible(!text.isEmpty());
 }
 
 void HealthPanel::follow()
 {
     const Analysis &a = m_document->analysis();
     using look::State;
-    QStringList lines;
     if (a.fullRank)
-        lines << stateSpan(State::Good, tr("Rank %1 of %2: every coefficient can be estimated.").arg(a.rank).arg(a.coefficientCount));
+        setLine(RankLine, State::Good, tr("Rank %1 of %2: every coefficient can be estimated.").arg(a.rank).arg(a.coefficientCount));
     else
-        lines << stateSpan(State::Problem, tr("Rank %1 of %2: the columns are linearly dependent.").arg(a.rank).arg(a.coefficientCount))
-                     + (a.dependencies.isEmpty() ? QString() : u"<br>&nbsp;&nbsp;"_s + a.dependencies.join(u"; "_s).toHtmlEscaped());
+        setLine(RankLine, State::Problem, tr("Rank %1 of %2: the columns are linearly dependent.").arg(a.rank).arg(a.coefficientCount)
+                                              + (a.dependencies.isEmpty() ? QString() : u"\n"_s + a.dependencies.join(u"; "_s)));
     if (a.conditionNumber) {
         const bool flagged = *a.conditionNumber >= kConditionIndexFlag;
-        lines << stateSpan(flagged ? State::Caution : State::Good,
-                           tr("Condition number %1 (flag at %2)").arg(formatIndex(*a.conditionNumber)).arg(kConditionIndexFlag));
+        setLine(ConditionLine, flagged ? State::Caution : State::Good,
+                tr("Condition number %1 (flag at %2)").arg(formatIndex(*a.conditionNumber)).arg(kConditionIndexFlag));
     } else {
-        lines << stateSpan(State::Problem, tr("Condition number: infinite (the design is singular)"));
+        setLine(ConditionLine, State::Problem, tr("Condition number: infinite (the design is singular)"));
     }
     QStringList indices;
     for (double v : a.conditionIndices)
         indices << formatIndex(v);
     if (indices.size() > 12)
         indices = indices.mid(0, 6) + QStringList{u"\u2026"_s} + indices.mid(indices.size() - 3);
-    lines << tr("Condition indices: %1").arg(indices.join(u", "_s));
-    lines << (a.exact ? tr("Arithmetic: exact fractions.") : tr("Arithmetic: floating point."));
-    if (a.dependsOnSizes)
-        lines << stateSpan(State::Caution, tr("Fewer columns than levels \u2212 1: what each coefficient tests depends on the planned n."));
-    look::setText(m_summary, lines.join(u"<br>"_s));
+    setLine(IndicesLine, State::Neutral, tr("Condition indices: %1").arg(indices.join(u", "_s)));
+    setLine(ArithmeticLine, State::Neutral, a.exact ? tr("Arithmetic: exact fractions.") : tr("Arithmetic: floating point."));
+    setLine(SizesLine, State::Caution,
+            a.dependsOnSizes ? tr("Fewer columns than levels \u2212 1: what each coefficient tests depends on the planned n.") : QString());
 }
 
 } // namespace cb

@@ -1,5 +1,7 @@
 #pragma once
 
+#include "Look.h"
+
 #include <QWidget>
 
 class QLabel;
@@ -32,7 +34,10 @@ private:
     Document *m_document;
     VifModel *m_vif;
     FindingsModel *m_findings;
-    QLabel *m_summary;
+    // One plain label per line (rich text would be laid out again on every edit).
+    enum Line { RankLine, ConditionLine, IndicesLine, ArithmeticLine, SizesLine, LineCount };
+    QLabel *m_lines[LineCount];
+    void setLine(Line line, look::State state, const QString &text);
     QTableView *m_vifView;
     QListView *m_findingsView;
 };

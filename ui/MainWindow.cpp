@@ -23,6 +23,7 @@
 #include <QMenuBar>
 #include <QMessageBox>
 #include <QMimeData>
+#include <QScrollArea>
 #include <QStatusBar>
 #include <QTimer>
 #include <QToolBar>
@@ -32,6 +33,24 @@
 using namespace Qt::StringLiterals;
 
 namespace cb {
+
+namespace {
+
+constexpr int kBottomDockHeight = 240;
+
+// Panels below the grid sit in a scroll area: none can push the grid out of sight with its
+// minimum size, and a panel whose labels change on every edit lays out only itself, not the
+// whole window.
+QScrollArea *scrolling(QWidget *panel, QWidget *parent)
+{
+    auto *scroll = new QScrollArea(parent);
+    scroll->setWidget(panel);
+    scroll->setWidgetResizable(true);
+    scroll->setFrameShape(QFrame::NoFrame);
+    return scroll;
+}
+
+} // namespace
 
 MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     : QMainWindow(parent)
@@ -104,19 +123,20 @@ void MainWindow::buildDocks()
     setCorner(Qt::BottomRightCorner, Qt::BottomDockWidgetArea);
     auto *levels = dock(m_levels, tr("Factor and levels"), u"levelsDock"_s, Qt::LeftDockWidgetArea);
     auto *meaning = dock(m_meaning, tr("What each coefficient tests"), u"meaningDock"_s, Qt::RightDockWidgetArea);
-    m_healthDock = dock(m_health, tr("Design health"), u"healthDock"_s, Qt::BottomDockWidgetArea);
+    m_healthDock = dock(scrolling(m_health, this), tr("Design health"), u"healthDock"_s, Qt::BottomDockWidgetArea);
     resizeDocks({levels, meaning}, {290, 380}, Qt::Horizontal);
-    resizeDocks({m_healthDock}, {230}, Qt::Vertical);
+    resizeDocks({m_healthDock}, {kBottomDockHeight}, Qt::Vertical);
 }
 
 QDockWidget *MainWindow::addPanel(QWidget *panel, const QString &title, const QString &objectName)
 {
     auto *d = new QDockWidget(title, this);
     d->setObjectName(objectName);
-    d->setWidget(panel);
+    d->setWidget(scrolling(panel, this));
     addDockWidget(Qt::BottomDockWidgetArea, d);
     tabifyDockWidget(m_healthDock, d);
     m_healthDock->raise();
+    resizeDocks({m_healthDock}, {kBottomDockHeight}, Qt::Vertical);
     if (m_viewMenu)
         m_viewMenu->addAction(d->toggleViewAction());
     return d;

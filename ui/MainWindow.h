@@ -51,7 +51,7 @@ public:
     RecentFiles &recentFiles() { return m_recent; }
     QTimer *autosaveTimer() const { return m_autosave; }
 
-    // Adds a panel as a tab beside "Design health" and returns its dock.
+    // Adds a panel as a tab beside "Design health" (inside a scroll area) and returns its dock.
     QDockWidget *addPanel(QWidget *panel, const QString &title, const QString &objectName);
 
     // File commands. Each asks about unsaved work first where that applies,
