@@ -593,7 +593,17 @@ Analysis analyze(const Scheme &s)
             h = sc.colNorm.cwiseInverse().asDiagonal() * vs * sc.svd.matrixU().transpose() * n.cwiseSqrt().asDiagonal();
         }
         h = scale.asDiagonal() * h;
-        a.hypotheses = toWeights(h);
+        if (h.allFinite()) {
+            a.hypotheses = toWeights(h);
+        } else {
+            // Planned sizes of wildly different magnitudes can make the weighted design singular
+            // to working precision although the coding has full rank: no number is shown.
+            a.fullRank = false;
+            addFinding(a, Finding::Severity::Problem, Finding::Topic::Rank,
+                       u"the hypotheses cannot be computed in floating point: weighted by the planned n, the design is "
+                       "singular to working precision; use planned sizes of less different magnitudes, or exact weights "
+                       "(at most %1 levels)"_s.arg(kExactLevelLimit));
+        }
     }
     if (a.fullRank) {
         a.hypothesisValues = toDouble(a.hypotheses);

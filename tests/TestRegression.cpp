@@ -51,6 +51,7 @@ private slots:
     void fuzzInputThroughTheCommandLine();
     void hypothesisCsvOutsideTheWeightRangeIsRefusedClearly();
     void longExactWeightSurvivesSaveAndLoad();
+    void wildlyUnequalSizesGiveNoInfiniteHypotheses();
 };
 
 // FuzzCliMatrix: with k coding columns and an intercept for k levels (the indicator coding
@@ -153,6 +154,21 @@ void TestRegression::longExactWeightSurvivesSaveAndLoad()
     auto csv = readCsvTable(exportTable(codingTable(s).value(), ExportFormat::Csv, exact).value());
     QVERIFY2(csv.ok(), qPrintable(csv.error()));
     QVERIFY(csv->cells[0][0] == w);
+}
+
+// FuzzCliMatrix (crash-2b9fb8c7...): an orthonormal polynomial over positions 5, 2, 488888888
+// with planned sizes 1e90, 2 and 6. The hypotheses came from the n-weighted pseudo-inverse,
+// singular to working precision, and the report showed "b0: inf low + nan mid + inf |".
+void TestRegression::wildlyUnequalSizesGiveNoInfiniteHypotheses()
+{
+    const CliRun r = runCli({u"analyze"_s, u"--levels"_s, u"low,mid,|"_s, u"--n"_s,
+                             u"1000000000000000000000000000000000000000000000000200000000000000000000000200000000000000000,2,6"_s,
+                             u"--spacing"_s, u"5,2,488888888"_s, u"--scheme"_s, u"polynomial"_s});
+    QCOMPARE(r.code, 0);
+    const QString report = QString::fromUtf8(r.out);
+    QVERIFY2(fuzz::checkNoNonFiniteNumber(report).isEmpty(), qPrintable(report));
+    QVERIFY2(report.contains(u"floating-point precision"_s) || report.contains(u"cannot be computed in floating point"_s),
+             qPrintable(report));
 }
 
 QTEST_GUILESS_MAIN(TestRegression)

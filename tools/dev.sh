@@ -2,8 +2,11 @@
 # Contrast Bench developer entry point (Debian 12).
 #   bash tools/dev.sh run    install what is missing, build, open the workbench on a demo study
 #   bash tools/dev.sh test   install what is missing, build, run every test (what CI runs)
+#   bash tools/dev.sh sanitize  the same with AddressSanitizer + UndefinedBehaviorSanitizer (leaks
+#                            count as failures; tests/lsan.supp lists the only leaks forgiven)
 #   bash tools/dev.sh deps   only install the packages
-# Environment: BUILD_DIR (default build/dev), JOBS (default: number of cores).
+# Fuzzing: bash tools/fuzz.sh smoke (what CI runs), bash tools/fuzz.sh long TARGET SECONDS.
+# Environment: BUILD_DIR (default build/dev; build/asan for sanitize), JOBS (default: number of cores).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
@@ -62,8 +65,17 @@ case "${1:-}" in
     build
     QT_QPA_PLATFORM=offscreen ctest --test-dir "$BUILD_DIR" --output-on-failure -j "$JOBS"
     ;;
+  sanitize)
+    deps
+    BUILD_DIR=${SANITIZE_BUILD_DIR:-build/asan}
+    build -DCB_SANITIZE=ON -DCB_BUILD_BENCHMARKS=OFF
+    ASAN_OPTIONS=detect_leaks=1:abort_on_error=1:strict_string_checks=1:detect_stack_use_after_return=1 \
+    LSAN_OPTIONS=suppressions="$PWD/tests/lsan.supp":print_suppressions=0 \
+    UBSAN_OPTIONS=halt_on_error=1:print_stacktrace=1 \
+    QT_QPA_PLATFORM=offscreen ctest --test-dir "$BUILD_DIR" --output-on-failure -j "$JOBS"
+    ;;
   *)
-    sed -n '2,7p' "$0"
+    sed -n '2,9p' "$0"
     exit 2
     ;;
 esac
