@@ -59,12 +59,12 @@ case "${1:-}" in
     exit $status
     ;;
   long)
-    [ $# -eq 3 ] || { sed -n '2,13p' "$0"; exit 2; }
+    [ $# -eq 3 ] || { sed -n '2,11p' "$0"; exit 2; }
     build
     run "$2" "$3" "$BUILD_DIR/work/$2"
     ;;
   *)
-    sed -n '2,13p' "$0"
+    sed -n '2,11p' "$0"
     exit 2
     ;;
 esac
