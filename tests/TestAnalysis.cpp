@@ -3,6 +3,8 @@
 #include "HypothesisText.h"
 #include "Scheme.h"
 
+#include "FindingSupport.h"
+
 #include <QTest>
 
 #include <cmath>
@@ -40,13 +42,7 @@ Scheme custom(const Factor &f, std::vector<std::vector<Weight>> cols, bool inter
     return s;
 }
 
-bool hasFinding(const Analysis &a, const QString &part)
-{
-    for (const Finding &f : a.findings)
-        if (f.message.contains(part))
-            return true;
-    return false;
-}
+using test::hasFinding;
 
 } // namespace
 

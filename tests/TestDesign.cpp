@@ -7,6 +7,8 @@
 
 #include <random>
 
+#include "FindingSupport.h"
+
 #include <QTest>
 
 using namespace Qt::StringLiterals;
@@ -46,13 +48,7 @@ std::vector<Rational> row(const Analysis &a, int r)
     return out;
 }
 
-bool hasFinding(const Analysis &a, const QString &part)
-{
-    for (const Finding &f : a.findings)
-        if (f.message.contains(part))
-            return true;
-    return false;
-}
+using test::hasFinding;
 
 } // namespace
 
