@@ -196,7 +196,54 @@ struct Scaled
     Eigen::BDCSVD<Eigen::MatrixXd> svd;
 };
 
-void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::VectorXd &sqrtN)
+// Singular values, descending, from the eigenvalues of the Gram matrix a'a (lower-triangle rank update).
+Eigen::VectorXd gramSingularValues(const Eigen::MatrixXd &a, bool &ok)
+{
+    Eigen::MatrixXd g = Eigen::MatrixXd::Zero(a.cols(), a.cols());
+    g.selfadjointView<Eigen::Lower>().rankUpdate(a.transpose());
+    Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd> es(g, Eigen::EigenvaluesOnly);
+    ok = es.info() == Eigen::Success;
+    const Eigen::VectorXd ev = es.eigenvalues().cwiseMax(0.0); // ascending
+    const Eigen::Index p = ev.size();
+    Eigen::VectorXd sv(p);
+    for (Eigen::Index i = 0; i < p; ++i)
+        sv(i) = std::sqrt(ev(p - 1 - i));
+    return sv;
+}
+
+// A square Z's singular values from the Gram matrices of Z and of its inverse. An eigenvalue of a
+// Gram matrix is accurate to about eps times the largest one, so sigma_i from Z's Gram matrix has a
+// relative error near eps (sigma_max / sigma_i)^2 and 1 / sigma_i from the inverse's near
+// eps (sigma_i / sigma_min)^2 plus the inverse's own eps cond: taking each value from the side where it
+// is large keeps every error near eps cond, without the cost of an SVD. False when zInverse is not
+// usable (not finite, or the design too ill-conditioned for this route).
+bool singularValuesWithInverse(Scaled &s, const Eigen::MatrixXd &zInverse)
+{
+    // Above this condition number the route's error (about eps cond) is no longer far below 1e-9.
+    constexpr double kInverseRouteLimit = 1e6;
+    if (!zInverse.allFinite())
+        return false;
+    bool ok = false;
+    const Eigen::VectorXd inv = gramSingularValues(zInverse, ok); // 1 / sigma, descending
+    if (!ok || !(inv(0) > 0))
+        return false;
+    const Eigen::Index p = s.sv.size();
+    const double smax = s.sv(0);
+    const double smin = 1.0 / inv(0);
+    if (!(smax / smin <= kInverseRouteLimit))
+        return false;
+    const double middle = std::sqrt(smax * smin);
+    for (Eigen::Index i = 0; i < p; ++i) {
+        // Singular values in descending order: the i-th largest of Z is 1 / the i-th smallest of Z^-1.
+        const double fromInverse = 1.0 / inv(p - 1 - i);
+        if (fromInverse < middle)
+            s.sv(i) = fromInverse;
+    }
+    return true;
+}
+
+// xsInverse: the inverse of x when it is square (nullptr otherwise or when it is singular).
+void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::VectorXd &sqrtN, const Eigen::MatrixXd *xsInverse)
 {
     s.z = sqrtN.asDiagonal() * x;
     s.colNorm = s.z.colwise().norm().transpose();
@@ -206,26 +253,24 @@ void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::Vect
         else
             s.anyZeroColumn = true;
     }
-    // Gram matrix by a symmetric rank update (half the work of a full product; lower triangle).
-    Eigen::MatrixXd g = Eigen::MatrixXd::Zero(s.z.cols(), s.z.cols());
-    g.selfadjointView<Eigen::Lower>().rankUpdate(s.z.transpose());
-    Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd> es(g, Eigen::EigenvaluesOnly);
-    Eigen::VectorXd ev = es.eigenvalues().cwiseMax(0.0); // ascending
-    const Eigen::Index p = ev.size();
-    s.sv.resize(p);
-    for (Eigen::Index i = 0; i < p; ++i)
-        s.sv(i) = std::sqrt(ev(p - 1 - i));
-    if (es.info() != Eigen::Success || s.sv(p - 1) < s.sv(0) / kGramConditionLimit) {
-        // Singular vectors only when the pseudo-inverse will need them (fewer columns than
-        // levels); a square design is inverted by LU, which stays accurate here.
-        const bool vectors = s.z.cols() < s.z.rows();
-        s.svd.compute(s.z, vectors ? Eigen::ComputeThinU | Eigen::ComputeThinV : 0);
-        // With more columns than rows (k columns and an intercept) the SVD gives k values;
-        // the other p - k are exactly zero.
-        s.sv = Eigen::VectorXd::Zero(p);
-        s.sv.head(s.svd.singularValues().size()) = s.svd.singularValues();
-        s.usedSvd = true;
-    }
+    bool ok = false;
+    s.sv = gramSingularValues(s.z, ok);
+    const Eigen::Index p = s.sv.size();
+    if (ok && s.sv(p - 1) >= s.sv(0) / kGramConditionLimit)
+        return;
+    // Z^-1 = diag(column norms) X^-1 diag(1 / sqrt n).
+    if (ok && xsInverse && !s.anyZeroColumn
+        && singularValuesWithInverse(s, s.colNorm.asDiagonal() * *xsInverse * sqrtN.cwiseInverse().asDiagonal()))
+        return;
+    // Singular vectors only when the pseudo-inverse will need them (fewer columns than
+    // levels); a square design is inverted by LU, which stays accurate here.
+    const bool vectors = s.z.cols() < s.z.rows();
+    s.svd.compute(s.z, vectors ? Eigen::ComputeThinU | Eigen::ComputeThinV : 0);
+    // With more columns than rows (k columns and an intercept) the SVD gives k values;
+    // the other p - k are exactly zero.
+    s.sv = Eigen::VectorXd::Zero(p);
+    s.sv.head(s.svd.singularValues().size()) = s.svd.singularValues();
+    s.usedSvd = true;
 }
 
 // A'A for a tall A, computed as a symmetric rank update and returned in full.
@@ -528,9 +573,14 @@ Analysis analyze(const Scheme &s)
     const Eigen::VectorXd scale = columnScales(x);
     const Eigen::MatrixXd xs = x * scale.asDiagonal();
 
+    // A square design's inverse serves the floating hypotheses and the small singular values.
+    std::optional<Eigen::MatrixXd> xsInverse;
+    if (p == k)
+        xsInverse = xs.partialPivLu().inverse();
+
     // Collinearity (always floating: singular values are irrational).
     Scaled sc;
-    scaledSingularValues(sc, xs, n.cwiseSqrt());
+    scaledSingularValues(sc, xs, n.cwiseSqrt(), xsInverse ? &*xsInverse : nullptr);
     const double smax = sc.sv(0);
     const double smin = sc.sv(p - 1);
 
@@ -583,7 +633,7 @@ Analysis analyze(const Scheme &s)
         // For X = Xs S^-1 the hypotheses are S (Xs' W Xs)^-1 Xs' W: rows scaled back below.
         Eigen::MatrixXd h;
         if (p == k) {
-            h = xs.partialPivLu().inverse();
+            h = *xsInverse;
         } else if (!sc.usedSvd) {
             const Eigen::MatrixXd xtw = xs.transpose() * n.asDiagonal();
             h = (xtw * xs).ldlt().solve(xtw);

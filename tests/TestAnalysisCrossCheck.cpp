@@ -1,6 +1,9 @@
 // Cross-check of the analysis against NumPy (numpy.linalg.pinv, matrix_rank, cond, svd, inv)
 // on 240 random codings: k from 2 to 40, random planned n, rational and irrational weights,
 // full and partial column sets, some rank deficient. Agreement to 1e-9 relative.
+// A second set: square codings made ill-conditioned on purpose (condition numbers about 1e3 to
+// 1e7, k up to 200), where the singular values come from the Gram matrices of the design and
+// of its inverse, or from the SVD fallback.
 #include "Analysis.h"
 
 #include "NumpyReference.h"
@@ -15,6 +18,7 @@ class TestAnalysisCrossCheck : public QObject
     Q_OBJECT
 private slots:
     void randomCodingsAgreeWithNumpy();
+    void illConditionedSquareCodingsAgreeWithNumpy();
 };
 
 namespace {
@@ -60,7 +64,56 @@ Scheme randomScheme(std::mt19937 &rng, int index)
     return s;
 }
 
+// k - 1 Gaussian columns and an intercept; the last column is the first plus delta times noise,
+// which sets the condition number near 1 / delta (1e-7 keeps the VIFs, near 1e14, clear of the
+// point where both sides call them undefined, near 1e10 to 1e13).
+Scheme nearlyDependentScheme(std::mt19937 &rng, int k, double delta, bool randomSizes)
+{
+    std::normal_distribution<double> gauss;
+    std::uniform_int_distribution<int> nDist(1, 60);
+    Scheme s;
+    for (int i = 0; i < k; ++i)
+        s.factor.levels << u"g%1"_s.arg(i + 1);
+    if (randomSizes)
+        for (int i = 0; i < k; ++i)
+            s.factor.plannedN.push_back(Rational(nDist(rng)));
+    for (int j = 0; j + 1 < k; ++j) {
+        Column c{u"c%1"_s.arg(j + 1), {}};
+        for (int i = 0; i < k; ++i)
+            c.weights.push_back(Weight::approx(gauss(rng)));
+        s.columns.push_back(std::move(c));
+    }
+    for (int i = 0; i < k; ++i)
+        s.columns.back().weights[size_t(i)] = Weight::approx(s.columns[0].weights[size_t(i)].value() + delta * gauss(rng));
+    return s;
+}
+
 } // namespace
+
+void TestAnalysisCrossCheck::illConditionedSquareCodingsAgreeWithNumpy()
+{
+    std::mt19937 rng(20261202u);
+    std::vector<Scheme> schemes;
+    std::vector<Analysis> analyses;
+    for (int k : {10, 50, 200})
+        for (double delta : {1e-1, 1e-2, 1e-3, 1e-4, 1e-7})
+            for (bool randomSizes : {false, true}) {
+                schemes.push_back(nearlyDependentScheme(rng, k, delta, randomSizes));
+                analyses.push_back(analyze(schemes.back()));
+            }
+    int moderate = 0, severe = 0;
+    for (const Analysis &a : analyses) {
+        QVERIFY(a.conditionNumber.has_value());
+        moderate += *a.conditionNumber > 1e3 && *a.conditionNumber <= 1e6 ? 1 : 0;
+        severe += *a.conditionNumber > 1e6 ? 1 : 0;
+    }
+    // Both routes above the Gram matrix's own limit were taken.
+    QVERIFY2(moderate >= 10, qPrintable(QString::number(moderate)));
+    QVERIFY2(severe >= 2, qPrintable(QString::number(severe)));
+    testing::CrossCheckCounts counts;
+    QVERIFY(testing::compareWithNumpy(schemes, analyses, counts));
+    qInfo("%d codings with condition numbers in (1e3, 1e6], %d above 1e6", moderate, severe);
+}
 
 void TestAnalysisCrossCheck::randomCodingsAgreeWithNumpy()
 {

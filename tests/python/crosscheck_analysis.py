@@ -6,7 +6,10 @@ intercept flag) from argv[1] and writes, per case, what NumPy says:
   h         pinv(diag(sqrt n) X) diag(sqrt n)   (= inv(X) when square)
   cond      numpy.linalg.cond of diag(sqrt n) X with unit-length columns
   indices   largest singular value over each singular value, ascending
-  vif       diagonal of inv(R), R the n-weighted correlation matrix of the coding columns
+  vif       diagonal of inv(R), R the n-weighted correlation matrix of the coding columns;
+            undefined (None) where R is singular to working precision, by the tool's rule:
+            reciprocal condition number in the 1-norm at most 1e-13
+  vif_cond  numpy.linalg.cond(R), which bounds how closely any method can agree on the VIFs
 """
 import json
 import sys
@@ -42,7 +45,9 @@ def main():
         vif = [None] * cols.shape[1]
         if live.any():
             r = cov[np.ix_(live, live)] / np.sqrt(np.outer(d[live], d[live]))
-            if np.linalg.cond(r) < 1e10:
+            if np.isfinite(np.linalg.cond(r)):
+                res["vif_cond"] = float(np.linalg.cond(r))
+            if 1.0 / np.linalg.cond(r, 1) > 1e-13:
                 inv_diag = np.diag(np.linalg.inv(r))
                 for idx, v in zip(np.flatnonzero(live), inv_diag):
                     vif[int(idx)] = float(v)
