@@ -5,6 +5,7 @@
 #include <limits>
 #include <algorithm>
 #include <numeric>
+#include <memory>
 #include <optional>
 
 using namespace Qt::StringLiterals;
@@ -13,24 +14,106 @@ namespace cb {
 
 namespace {
 
-QString joinWords(const QStringList &items)
+// The texts name many levels per row (k can be in the hundreds), so they are written by
+// appending into one plain buffer (a fraction of the cost of QString or std::u16string
+// appends of short names), never through intermediate lists and joins.
+using Indices = std::vector<qsizetype>;
+
+class TextBuilder
 {
-    if (items.size() <= 1)
-        return items.join(QString());
-    if (items.size() == 2)
-        return items[0] + u" and "_s + items[1];
-    return QStringList(items.mid(0, items.size() - 1)).join(u", "_s) + u" and "_s + items.last();
+public:
+    TextBuilder &operator<<(QStringView v)
+    {
+        put(reinterpret_cast<const char16_t *>(v.utf16()), size_t(v.size()));
+        return *this;
+    }
+    TextBuilder &operator<<(char16_t c)
+    {
+        room(1);
+        m_buffer[m_size++] = c;
+        return *this;
+    }
+    // ASCII digits and signs from std::to_chars.
+    void appendAscii(const char *begin, const char *end)
+    {
+        room(size_t(end - begin));
+        for (const char *c = begin; c != end; ++c)
+            m_buffer[m_size++] = char16_t(*c);
+    }
+    void reserve(qsizetype capacity) { grow(size_t(capacity)); }
+    bool isEmpty() const { return m_size == 0; }
+    QString toString() const { return QString(reinterpret_cast<const QChar *>(m_buffer.get()), qsizetype(m_size)); }
+
+private:
+    void put(const char16_t *text, size_t n)
+    {
+        room(n);
+        // Level names are short: a plain loop beats a call to memcpy.
+        char16_t *to = m_buffer.get() + m_size;
+        for (size_t i = 0; i < n; ++i)
+            to[i] = text[i];
+        m_size += n;
+    }
+    void room(size_t n)
+    {
+        if (m_size + n > m_capacity)
+            grow(std::max(m_capacity * 2, m_size + n));
+    }
+    void grow(size_t capacity)
+    {
+        if (capacity <= m_capacity)
+            return;
+        auto bigger = std::make_unique_for_overwrite<char16_t[]>(capacity);
+        std::copy(m_buffer.get(), m_buffer.get() + m_size, bigger.get());
+        m_buffer = std::move(bigger);
+        m_capacity = capacity;
+    }
+
+    std::unique_ptr<char16_t[]> m_buffer;
+    size_t m_size = 0;
+    size_t m_capacity = 0;
+};
+
+void appendNames(TextBuilder &out, const QStringList &levels, const Indices &which, QStringView separator)
+{
+    for (size_t i = 0; i < which.size(); ++i) {
+        if (i > 0)
+            out << separator;
+        out << levels[which[i]];
+    }
+}
+
+// "a", "a and b", "a, b and c"
+void appendWordList(TextBuilder &out, const QStringList &levels, const Indices &which)
+{
+    for (size_t i = 0; i < which.size(); ++i) {
+        if (i > 0)
+            out << (i + 1 == which.size() ? QStringView(u" and ") : QStringView(u", "));
+        out << levels[which[i]];
+    }
 }
 
 // "weekly" or "the average of weekly and twice"
-QString averageWords(const QStringList &names)
+void appendAverageWords(TextBuilder &out, const QStringList &levels, const Indices &which)
 {
-    return names.size() == 1 ? names[0] : u"the average of "_s + joinWords(names);
+    if (which.size() > 1)
+        out << u"the average of ";
+    appendWordList(out, levels, which);
 }
 
-QString meanSymbol(const QStringList &names)
+// "mean(weekly, twice)"
+void appendMeanSymbol(TextBuilder &out, const QStringList &levels, const Indices &which)
 {
-    return u"mean("_s + names.join(u", "_s) + u")"_s;
+    out << u"mean(";
+    appendNames(out, levels, which, u", ");
+    out << u')';
+}
+
+Indices allIndices(qsizetype k)
+{
+    Indices all(static_cast<size_t>(k));
+    std::iota(all.begin(), all.end(), qsizetype(0));
+    return all;
 }
 
 // A small exact fraction for the texts (64-bit; rows that do not fit are shown as decimals).
@@ -50,15 +133,24 @@ std::optional<Frac> makeFrac(__int128 n, __int128 d)
         n = -n;
         d = -d;
     }
-    __int128 a = n < 0 ? -n : n, b = d;
-    while (b != 0) {
-        const __int128 t = a % b;
-        a = b;
-        b = t;
-    }
-    if (a > 1) {
-        n /= a;
-        d /= a;
+    constexpr __int128 kWide = static_cast<__int128>(1) << 62;
+    if (n < kWide && n > -kWide && d < kWide) {
+        // The common case, in 64 bits: 128-bit division is a slow library call.
+        const long long ln = static_cast<long long>(n), ld = static_cast<long long>(d);
+        const long long g = std::gcd(ln, ld);
+        n = g > 1 ? ln / g : ln;
+        d = g > 1 ? ld / g : ld;
+    } else {
+        __int128 a = n < 0 ? -n : n, b = d;
+        while (b != 0) {
+            const __int128 t = a % b;
+            a = b;
+            b = t;
+        }
+        if (a > 1) {
+            n /= a;
+            d /= a;
+        }
     }
     if (n > kFracLimit || n < -kFracLimit || d > kFracLimit)
         return std::nullopt;
@@ -91,32 +183,42 @@ QString fracText(const Frac &f)
     return f.d == 1 ? QString::number(f.n) : u"%1/%2"_s.arg(f.n).arg(f.d);
 }
 
-// "(2 weekly + twice)/3" for terms with positive weights a_i/d.
-QString groupText(const std::vector<std::pair<Frac, qsizetype>> &terms, const QStringList &levels)
+// Appends "(2 weekly + twice)/3" for terms with positive weights a_i/d; false when the common
+// denominator does not fit.
+bool appendGroup(TextBuilder &out, const std::vector<std::pair<Frac, qsizetype>> &terms, const QStringList &levels, bool parenthesise)
 {
     long long d = 1;
     for (const auto &t : terms) {
         d = std::lcm(d, t.first.d);
         if (d > kFracLimit)
-            return {};
+            return false;
     }
-    QString body;
-    for (const auto &t : terms) {
-        const __int128 a = static_cast<__int128>(t.first.n) * (d / t.first.d);
-        if (!body.isEmpty())
-            body += u" + "_s;
-        if (a != 1)
-            body += QString::number(static_cast<long long>(a)) + u' ';
-        body += levels[t.second];
+    const bool brackets = terms.size() > 1 && (d != 1 || parenthesise);
+    if (brackets)
+        out << u'(';
+    char buf[24];
+    for (size_t i = 0; i < terms.size(); ++i) {
+        const auto &t = terms[i];
+        const long long a = static_cast<long long>(static_cast<__int128>(t.first.n) * (d / t.first.d));
+        if (i > 0)
+            out << u" + ";
+        if (a != 1) {
+            out.appendAscii(buf, std::to_chars(buf, buf + sizeof buf, a).ptr);
+            out << u' ';
+        }
+        out << levels[t.second];
     }
-    if (d == 1)
-        return body;
-    if (terms.size() > 1)
-        body = u"("_s + body + u")"_s;
-    return body + u"/"_s + QString::number(d);
+    if (brackets)
+        out << u')';
+    if (d != 1) {
+        out << u'/';
+        out.appendAscii(buf, std::to_chars(buf, buf + sizeof buf, d).ptr);
+    }
+    return true;
 }
 
-QString exactCombination(const std::vector<Frac> &w, const QStringList &levels)
+// Empty when a denominator does not fit.
+QString exactCombination(const std::vector<Frac> &w, const QStringList &levels, qsizetype reserve)
 {
     std::vector<std::pair<Frac, qsizetype>> pos, neg;
     for (size_t i = 0; i < w.size(); ++i) {
@@ -127,24 +229,28 @@ QString exactCombination(const std::vector<Frac> &w, const QStringList &levels)
     }
     if (pos.empty() && neg.empty())
         return u"0"_s;
-    QString s;
-    if (!pos.empty())
-        s = groupText(pos, levels);
+    TextBuilder s;
+    s.reserve(reserve);
+    if (!pos.empty() && !appendGroup(s, pos, levels, false))
+        return {};
     if (!neg.empty()) {
-        QString n = groupText(neg, levels);
-        if (neg.size() > 1 && !n.startsWith(u'('))
-            n = u"("_s + n + u")"_s; // "x - (a + b)", not "x - a + b"
-        s += (pos.empty() ? u"-"_s : u" - "_s) + n;
+        s << (pos.empty() ? QStringView(u"-") : QStringView(u" - "));
+        // "x - (a + b)", not "x - a + b"
+        if (!appendGroup(s, neg, levels, true))
+            return {};
     }
-    return s;
+    return s.toString();
 }
 
 // "0.67082 high - 0.22361 low ...": six decimals (or six significant digits when tiny or huge).
 // Written with std::to_chars into one reserved string: rows can have hundreds of terms.
 QString numericCombination(const std::vector<Weight> &row, const QStringList &levels)
 {
-    QString s;
-    s.reserve(qsizetype(row.size()) * 24);
+    TextBuilder s;
+    qsizetype room = 0;
+    for (const QString &l : levels)
+        room += l.size() + 24;
+    s.reserve(room);
     char buf[40];
     for (size_t i = 0; i < row.size(); ++i) {
         const double v = row[i].value();
@@ -153,17 +259,17 @@ QString numericCombination(const std::vector<Weight> &row, const QStringList &le
         const int len = shortDecimal(std::abs(v), buf);
         if (s.isEmpty()) {
             if (v < 0)
-                s += u'-';
+                s << u'-';
         } else {
-            s += v < 0 ? u" - "_s : u" + "_s;
+            s << (v < 0 ? QStringView(u" - ") : QStringView(u" + "));
         }
         if (!(len == 1 && buf[0] == '1')) {
-            s += QLatin1StringView(buf, len);
-            s += u' ';
+            s.appendAscii(buf, buf + len);
+            s << u' ';
         }
-        s += levels[qsizetype(i)];
+        s << levels[qsizetype(i)];
     }
-    return s.isEmpty() ? u"0"_s : s;
+    return s.isEmpty() ? u"0"_s : s.toString();
 }
 
 } // namespace
@@ -173,6 +279,10 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
 {
     HypothesisText out;
     const size_t k = row.size();
+    // Room for every level name once, with separators: the longest text names each level once.
+    qsizetype room = label.size() + 64;
+    for (qsizetype i = 0; i < qsizetype(k); ++i)
+        room += levels[i].size() + 8;
     // Exact weights, recognising simple fractions in floating ones; the sum on the way.
     std::vector<Frac> w(k);
     std::optional<Frac> total = Frac{};
@@ -193,16 +303,33 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
         }
     }
     if (total)
-        out.combination = exactCombination(w, levels);
+        out.combination = exactCombination(w, levels, room);
+    // "b1: " then the statement.
+    TextBuilder sym, words;
+    const auto symbolsStart = [&] {
+        sym.reserve(room + out.combination.size());
+        sym << label << u": ";
+    };
+    const auto done = [&] {
+        if (!sym.isEmpty())
+            out.symbols = sym.toString();
+        if (!words.isEmpty())
+            out.words = words.toString();
+        return out;
+    };
     if (!total || out.combination.isEmpty()) {
         out.combination = numericCombination(row, levels);
-        out.symbols = label + u": "_s + out.combination + (isIntercept ? QString() : u" = 0"_s);
-        out.words = isIntercept ? u"a weighted combination of the level means: "_s + out.combination
-                                : u"a weighted combination of the level means (weights not simple fractions): "_s + out.combination;
-        return out;
+        symbolsStart();
+        sym << out.combination;
+        if (!isIntercept)
+            sym << u" = 0";
+        words << (isIntercept ? QStringView(u"a weighted combination of the level means: ")
+                              : QStringView(u"a weighted combination of the level means (weights not simple fractions): "))
+              << out.combination;
+        return done();
     }
 
-    QStringList posNames, negNames;
+    Indices pos, neg;
     std::vector<Frac> posValues, negValues; // distinct values, at most two kept
     auto note = [](std::vector<Frac> &values, const Frac &f) {
         if (values.size() < 2 && std::find(values.begin(), values.end(), f) == values.end())
@@ -210,98 +337,128 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
     };
     for (size_t i = 0; i < k; ++i) {
         if (w[i].n > 0) {
-            posNames << levels[qsizetype(i)];
+            pos.push_back(qsizetype(i));
             note(posValues, w[i]);
         } else if (w[i].n < 0) {
-            negNames << levels[qsizetype(i)];
+            neg.push_back(qsizetype(i));
             note(negValues, w[i]);
         }
     }
     const Frac zero{}, one{1, 1};
+    const auto combinationStatement = [&](bool equalsZero) {
+        symbolsStart();
+        sym << out.combination;
+        if (equalsZero)
+            sym << u" = 0";
+    };
 
-    if (isIntercept) {
+    // Is sign w_i + [i == at] = n_i / N for every level? (Checked only when needed: it takes
+    // arbitrary precision.)
+    const auto weightsAreShares = [&](int sign, qsizetype at) {
         Rational nTotal = 0;
         for (const Rational &n : sizes)
             nTotal += n;
-        bool equal = true, byN = true, sizesEqual = true;
+        Rational wi;
         for (size_t i = 0; i < k; ++i) {
-            equal = equal && w[i] == Frac{1, static_cast<long long>(k)};
-            byN = byN && Rational(static_cast<long>(w[i].n), static_cast<unsigned long>(w[i].d)) == sizes[i] / nTotal;
-            sizesEqual = sizesEqual && sizes[i] == sizes[0];
+            wi = Rational(static_cast<long>(sign * w[i].n), static_cast<unsigned long>(w[i].d));
+            if (qsizetype(i) == at)
+                wi += 1;
+            if (wi != sizes[i] / nTotal)
+                return false;
         }
-        if (posNames.size() == 1 && negNames.isEmpty() && posValues[0] == one) {
-            out.symbols = label + u": "_s + meanSymbol(posNames);
-            out.words = u"the mean of "_s + posNames[0];
+        return true;
+    };
+    if (isIntercept) {
+        bool equal = true, sizesEqual = true;
+        for (size_t i = 0; i < k && equal; ++i)
+            equal = w[i] == Frac{1, static_cast<long long>(k)};
+        for (size_t i = 0; i < k && sizesEqual; ++i)
+            sizesEqual = sizes[i] == sizes[0];
+        if (pos.size() == 1 && neg.empty() && posValues[0] == one) {
+            symbolsStart();
+            appendMeanSymbol(sym, levels, pos);
+            words << u"the mean of " << levels[pos[0]];
         } else if (equal) {
-            out.symbols = label + u": "_s + meanSymbol(levels);
-            out.words = u"the unweighted mean of the %1 level means"_s.arg(k);
-        } else if (byN && !sizesEqual) {
-            out.symbols = label + u": "_s + out.combination;
-            out.words = u"the mean of the level means weighted by the planned n (the overall mean of all observations)"_s;
+            symbolsStart();
+            appendMeanSymbol(sym, levels, allIndices(qsizetype(k)));
+            words << u"the unweighted mean of the " << QString::number(k) << u" level means";
+        } else if (!sizesEqual && weightsAreShares(1, -1)) {
+            combinationStatement(false);
+            words << u"the mean of the level means weighted by the planned n (the overall mean of all observations)";
         } else {
-            out.symbols = label + u": "_s + out.combination;
-            out.words = *total == one ? u"a weighted average of the level means: "_s + out.combination
-                                      : u"a combination of the level means whose weights sum to %1: "_s.arg(fracText(*total)) + out.combination;
+            combinationStatement(false);
+            if (*total == one)
+                words << u"a weighted average of the level means: ";
+            else
+                words << u"a combination of the level means whose weights sum to " << fracText(*total) << u": ";
+            words << out.combination;
         }
-        return out;
+        return done();
     }
 
-    if (posNames.isEmpty() && negNames.isEmpty()) {
+    if (pos.empty() && neg.empty()) {
         out.symbols = label + u": 0 = 0"_s;
         out.words = u"nothing: every weight is 0"_s;
         return out;
     }
     // One level against the mean of all levels (sum coding), unweighted or weighted by n
     // (weighted-effect coding): w = e_j - 1/k, or w = e_j - n/N.
-    if (*total == zero && posNames.size() == 1 && negNames.size() + 1 == qsizetype(k)) {
-        const qsizetype j = levels.indexOf(posNames[0]);
-        bool unweighted = true, weighted = true;
-        Rational nTotal = 0;
-        for (const Rational &n : sizes)
-            nTotal += n;
-        for (size_t i = 0; i < k; ++i) {
-            const Rational wi(static_cast<long>(w[i].n), static_cast<unsigned long>(w[i].d));
-            const Rational unit = qsizetype(i) == j ? 1 : 0;
-            unweighted = unweighted && wi == unit - Rational(1, static_cast<long>(k));
-            weighted = weighted && wi == unit - sizes[i] / nTotal;
-        }
+    if (*total == zero && pos.size() == 1 && neg.size() + 1 == k) {
+        const qsizetype j = pos[0];
+        // Unweighted: w = e_j - 1/k, checked in small fractions; weighted: w + n/N = e_j.
+        bool unweighted = true;
+        const long long kk = static_cast<long long>(k);
+        for (size_t i = 0; i < k && unweighted; ++i)
+            unweighted = w[i] == (qsizetype(i) == j ? Frac{kk - 1, kk} : Frac{-1, kk});
+        const bool weighted = !unweighted && weightsAreShares(-1, j);
         if (unweighted || weighted) {
             const QString what = unweighted ? u"the unweighted mean of all %1 level means"_s.arg(k)
                                             : u"the mean of all %1 levels weighted by the planned n"_s.arg(k);
-            out.symbols = label + u": mean(%1) - %2 = 0"_s.arg(posNames[0], unweighted ? u"grand mean"_s : u"weighted grand mean"_s);
-            out.words = posNames[0] + u" minus "_s + what;
-            return out;
+            symbolsStart();
+            sym << u"mean(" << levels[j] << u") - " << (unweighted ? QStringView(u"grand mean") : QStringView(u"weighted grand mean")) << u" = 0";
+            words << levels[j] << u" minus " << what;
+            return done();
         }
     }
     // A difference of two averages, possibly scaled: all positive weights equal,
     // all negative weights equal, and the two groups balance.
     if (*total == zero && posValues.size() == 1 && negValues.size() == 1) {
-        const auto scale = makeFrac(static_cast<__int128>(posValues[0].n) * posNames.size(), posValues[0].d);
-        QString diff = meanSymbol(posNames) + u" - "_s + meanSymbol(negNames);
-        QString words = averageWords(posNames) + u" minus "_s + averageWords(negNames);
-        if (scale && !(*scale == one)) {
-            diff = fracText(*scale) + u" * ("_s + diff + u")"_s;
-            words = fracText(*scale) + u" times the difference: "_s + words;
-        }
+        const auto scale = makeFrac(static_cast<__int128>(posValues[0].n) * qsizetype(pos.size()), posValues[0].d);
         if (scale) {
-            out.symbols = label + u": "_s + diff + u" = 0"_s;
-            out.words = words;
-            return out;
+            const bool scaled = !(*scale == one);
+            symbolsStart();
+            if (scaled)
+                sym << fracText(*scale) << u" * (";
+            appendMeanSymbol(sym, levels, pos);
+            sym << u" - ";
+            appendMeanSymbol(sym, levels, neg);
+            sym << (scaled ? QStringView(u") = 0") : QStringView(u" = 0"));
+            words.reserve(room);
+            if (scaled)
+                words << fracText(*scale) << u" times the difference: ";
+            appendAverageWords(words, levels, pos);
+            words << u" minus ";
+            appendAverageWords(words, levels, neg);
+            return done();
         }
     }
-    if (negNames.isEmpty() && posValues.size() == 1 && *total == one) {
+    if (neg.empty() && posValues.size() == 1 && *total == one) {
         // An average of level means itself (cell-means style), tested against 0.
-        out.symbols = label + u": "_s + meanSymbol(posNames) + u" = 0"_s;
-        out.words = averageWords(posNames) + u" itself (its test asks whether it is 0)"_s;
-        return out;
+        symbolsStart();
+        appendMeanSymbol(sym, levels, pos);
+        sym << u" = 0";
+        words.reserve(room);
+        appendAverageWords(words, levels, pos);
+        words << u" itself (its test asks whether it is 0)";
+        return done();
     }
-    out.symbols = label + u": "_s + out.combination + u" = 0"_s;
+    combinationStatement(true);
     if (*total == zero)
-        out.words = u"a contrast of the level means (weights sum to 0): "_s + out.combination;
+        words << u"a contrast of the level means (weights sum to 0): ";
     else
-        out.words = u"not a pure comparison: the weights sum to %1, so it mixes the overall level with differences: "_s
-                        .arg(fracText(*total)) + out.combination;
-    return out;
+        words << u"not a pure comparison: the weights sum to " << fracText(*total) << u", so it mixes the overall level with differences: ";
+    words << out.combination;
+    return done();
 }
 
 } // namespace cb

@@ -7,12 +7,41 @@
 
 #include <gmpxx.h>
 
+#include <memory>
 #include <optional>
 #include <vector>
 
 namespace cb {
 
 using Rational = mpq_class;
+
+// An optional Rational behind one pointer (8 bytes instead of std::optional's 40): analyses
+// hold m x m tables of weights, most of them approximate or zero. Copies are deep.
+class RationalSlot
+{
+public:
+    RationalSlot() = default;
+    RationalSlot(const RationalSlot &o) : m_p(o.m_p ? std::make_unique<Rational>(*o.m_p) : nullptr) {}
+    RationalSlot(RationalSlot &&) noexcept = default;
+    RationalSlot &operator=(const RationalSlot &o)
+    {
+        if (this != &o)
+            m_p = o.m_p ? std::make_unique<Rational>(*o.m_p) : nullptr;
+        return *this;
+    }
+    RationalSlot &operator=(RationalSlot &&) noexcept = default;
+    RationalSlot &operator=(const Rational &q)
+    {
+        m_p = std::make_unique<Rational>(q);
+        return *this;
+    }
+    explicit operator bool() const { return bool(m_p); }
+    Rational &operator*() const { return *m_p; }
+    Rational *operator->() const { return m_p.get(); }
+
+private:
+    std::unique_ptr<Rational> m_p;
+};
 
 // One coding weight: an exact rational when it was typed or derived exactly,
 // otherwise a double (for example an orthonormal polynomial coefficient).
@@ -44,9 +73,9 @@ public:
 
 private:
     static const Rational &zero();
-    bool m_exact = true;
-    std::optional<Rational> m_q; // empty for exact zero and for approximate weights (no allocation)
+    RationalSlot m_q; // empty for exact zero and for approximate weights (no allocation)
     double m_d = 0.0;
+    bool m_exact = true;
 };
 
 // Largest magnitude accepted for a weight, and the smallest non-zero one.
