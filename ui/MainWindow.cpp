@@ -331,7 +331,13 @@ bool MainWindow::saveAs()
 bool MainWindow::saveTo(const QString &path)
 {
     if (const QString error = saveScheme(m_document->scheme(), path); !error.isEmpty()) {
-        m_prompter->tell(this, tr("Cannot save the scheme"), error);
+        // The work stays open; a copy goes to the recovery file now rather than at the next autosave.
+        writeRecovery();
+        const bool kept = m_options.useRecovery && m_document->isModified() && m_document->revision() == m_recoveredRevision
+                          && m_recovery.exists();
+        m_prompter->tell(this, tr("Cannot save the scheme"),
+                         kept ? tr("%1\n\nThe changes are still open here, and a copy is kept in the recovery file.").arg(error)
+                              : error);
         return false;
     }
     m_document->markSaved(QFileInfo(path).absoluteFilePath());
