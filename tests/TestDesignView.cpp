@@ -5,6 +5,8 @@
 #include "DesignPanel.h"
 #include "Document.h"
 #include "LevelsModel.h"
+#include "Power.h"
+#include "PowerPanel.h"
 #include "RecoveryStore.h"
 #include "SchemeEdits.h"
 #include "SchemeFile.h"
@@ -12,6 +14,7 @@
 
 #include <QDockWidget>
 #include <QFile>
+#include <QLineEdit>
 #include <QTableWidget>
 #include <QTest>
 #include <QTreeWidget>
@@ -36,6 +39,7 @@ private slots:
     void saveThenOpenRoundTripsTheDesign();
     void badDesignFileNamesTheFieldAndKeepsTheWork();
     void recoveryKeepsTheDesign();
+    void powerIsPerDesignColumnOverTheCells();
 };
 
 namespace {
@@ -356,6 +360,39 @@ void TestDesignView::recoveryKeepsTheDesign()
     QVERIFY(f.window->offerRecovery());
     QVERIFY(f.window->document()->isDesign());
     QCOMPARE(designToJson(f.window->document()->design()), kept);
+}
+
+void TestDesignView::powerIsPerDesignColumnOverTheCells()
+{
+    WindowFixture f;
+    Document *d = f.window->document();
+    Study s = twoByTwo();
+    s.design.cellN.assign(4, Rational(10));
+    d->reset(s, {});
+    auto *power = f.window->findChild<PowerPanel *>();
+    QVERIFY(power);
+    QCOMPARE(power->inputTable()->rowCount(), 4); // one row per cell
+    power->setSizeSource(PowerPanel::SizeSource::PlannedN);
+    power->sdEdit()->setText(u"1"_s);
+    power->setExpectedTexts({u"0"_s, u"0"_s, u"0"_s, u"1"_s}); // only invalid:high differs
+    power->recompute();
+    QVERIFY2(power->report().has_value(), qPrintable(power->settings().error()));
+    const PowerReport &r = *power->report();
+    QCOMPARE(r.contrasts.size(), size_t(3));
+    // Interaction row (1, -1, -1, 1), n = 10 per cell, sd 1: psi = 1, SE = sqrt(4/10), df = 36.
+    // SciPy 1.10 stats.nct, two-sided alpha .05: 0.3371329261052971.
+    QCOMPARE(r.contrasts[2].df, 36.0);
+    QVERIFY(std::abs(r.contrasts[2].power - 0.3371329261052971) < 1e-6);
+    // The same as core given the design's rows directly.
+    PowerSettings direct;
+    direct.means = {0, 0, 0, 1};
+    direct.n = {10, 10, 10, 10};
+    const auto rows = contrastRowsOf(d->designAnalysis().analysis);
+    QVERIFY(rows.ok());
+    const auto expected = computePower(rows->rows, rows->names, direct);
+    QVERIFY(expected.ok());
+    for (size_t i = 0; i < r.contrasts.size(); ++i)
+        QCOMPARE(r.contrasts[i].power, expected->contrasts[i].power);
 }
 
 QTEST_MAIN(TestDesignView)

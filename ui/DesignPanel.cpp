@@ -225,7 +225,8 @@ void DesignPanel::fillTerms()
     m_terms->expandAll();
     if (current)
         m_terms->setCurrentItem(current);
-    const int rowHeight = std::max(m_terms->sizeHintForRow(0), m_terms->fontMetrics().height() + 2);
+    const int hinted = m_terms->sizeHintForRow(0);
+    const int rowHeight = hinted > 0 ? hinted : m_terms->fontMetrics().height() + 2;
     m_terms->setFixedHeight(std::min(rows, 16) * rowHeight + 2 * m_terms->frameWidth() + 2);
 }
 

@@ -80,9 +80,14 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     connect(m_levels, &LevelsPanel::message, this, &MainWindow::showMessage);
     connect(m_design, &DesignPanel::message, this, &MainWindow::showMessage);
     connect(m_document, &Document::changed, this, [this] {
-        if (m_document->isDesign() && !m_wasDesign) {
-            m_designDock->raise();
-            resizeDocks({m_designDock}, {460}, Qt::Horizontal);
+        if (m_document->isDesign() != m_wasDesign) {
+            // A design needs room for its cell picture and findings: the right-hand docks then
+            // run the full height of the window.
+            setCorner(Qt::BottomRightCorner, m_document->isDesign() ? Qt::RightDockWidgetArea : Qt::BottomDockWidgetArea);
+            if (m_document->isDesign()) {
+                m_designDock->raise();
+                resizeDocks({m_designDock}, {470}, Qt::Horizontal);
+            }
         }
         m_wasDesign = m_document->isDesign();
     });
