@@ -127,6 +127,7 @@ void CellPicture::paintEvent(QPaintEvent *)
         const int left = m.rowHeader + b * (cols * m.cell + m.blockGap);
         int y = 0;
         if (!m_content.blocks.isEmpty()) {
+            p.setPen(palette().color(QPalette::WindowText));
             p.setFont(bold);
             p.drawText(QRect(left, y, cols * m.cell, lineH), Qt::AlignHCenter | Qt::AlignVCenter,
                        u"%1 = %2"_s.arg(m_content.blockFactor, m_content.blocks[b]));
