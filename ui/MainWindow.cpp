@@ -90,6 +90,11 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
             }
         }
         m_wasDesign = m_document->isDesign();
+        // In a design the one-factor panels show the active factor on its own: their titles say so.
+        const QString name = m_document->scheme().factor.name;
+        m_healthDock->setWindowTitle(m_document->isDesign() ? tr("Health of the %1 coding on its own").arg(name) : tr("Design health"));
+        if (auto *levels = findChild<QDockWidget *>(u"levelsDock"_s))
+            levels->setWindowTitle(m_document->isDesign() ? tr("Factor %1 and its levels (\u270e in the design)").arg(name) : tr("Factor and levels"));
     });
     connect(m_coding, &CodingPanel::currentCoefficientChanged, m_meaning, &MeaningPanel::showCoefficient);
     connect(m_document, &Document::modifiedChanged, this, &MainWindow::updateTitle);
