@@ -15,18 +15,34 @@ QList<DemoStudy> demoStudies()
         {u"irrigation"_s, tr("Irrigation trial: four schedules against no irrigation"), u":/demos/irrigation.json"_s},
         {u"roast"_s, tr("Roast tasting panel: trends over unevenly spaced temperatures"), u":/demos/roast.json"_s},
         {u"onboarding"_s, tr("Onboarding flows: one control, three variants, very unequal groups"), u":/demos/onboarding.json"_s},
+        {u"hedgerow"_s, tr("Field margins \u00d7 mowing: a 3 \u00d7 2 crossed design with uneven plots"), u":/demos/hedgerow.json"_s},
     };
 }
 
-Result<Scheme> loadDemo(const QString &name)
+namespace {
+
+template<typename T, typename Load>
+Result<T> findDemo(const QString &name, Load load)
 {
     QStringList known;
     for (const DemoStudy &d : demoStudies()) {
         if (d.name == name)
-            return loadScheme(d.resourcePath);
+            return load(d.resourcePath);
         known << d.name;
     }
-    return Result<Scheme>::failure(u"demo '%1' does not exist; the demos are: %2"_s.arg(name, known.join(u", "_s)));
+    return Result<T>::failure(u"demo '%1' does not exist; the demos are: %2"_s.arg(name, known.join(u", "_s)));
+}
+
+} // namespace
+
+Result<Scheme> loadDemo(const QString &name)
+{
+    return findDemo<Scheme>(name, [](const QString &path) { return loadScheme(path); });
+}
+
+Result<Study> loadDemoStudy(const QString &name)
+{
+    return findDemo<Study>(name, [](const QString &path) { return loadStudy(path); });
 }
 
 } // namespace cb

@@ -2,6 +2,7 @@
 
 #include "Result.h"
 #include "Scheme.h"
+#include "Study.h"
 
 #include <QList>
 #include <QString>
@@ -17,7 +18,9 @@ struct DemoStudy
 };
 
 QList<DemoStudy> demoStudies();
-// The demo's scheme, or a message naming the known demos.
+// The demo's scheme, or a message naming the known demos (one-factor demos only).
 Result<Scheme> loadDemo(const QString &name);
+// Any demo: one factor or a design.
+Result<Study> loadDemoStudy(const QString &name);
 
 } // namespace cb

@@ -7,7 +7,7 @@ using namespace Qt::StringLiterals;
 namespace cb {
 
 namespace {
-// Each step keeps two copies of the scheme; for k = 50 one copy is about 200 KB.
+// Each step keeps two copies of the study; for k = 50 one copy is about 200 KB.
 constexpr int kUndoLimit = 500;
 } // namespace
 
@@ -16,7 +16,7 @@ Document::Document(QObject *parent)
 {
     m_undo.setUndoLimit(kUndoLimit);
     connect(&m_undo, &QUndoStack::cleanChanged, this, [this](bool clean) { emit modifiedChanged(!clean); });
-    applyScheme(starterScheme());
+    applyStudy(studyOf(starterScheme()));
 }
 
 QString Document::displayName() const
@@ -26,22 +26,37 @@ QString Document::displayName() const
 
 void Document::edit(Scheme next, const QString &actionName, MergeId mergeId, const QString &mergeKey)
 {
-    m_undo.push(new SchemeCommand(this, m_scheme, std::move(next), actionName, mergeId, mergeKey));
+    editStudy(withActiveScheme(m_study, std::move(next)), actionName, mergeId, mergeKey);
+}
+
+void Document::editStudy(Study next, const QString &actionName, MergeId mergeId, const QString &mergeKey)
+{
+    m_undo.push(new SchemeCommand(this, m_study, std::move(next), actionName, mergeId, mergeKey));
 }
 
 void Document::reset(Scheme scheme, const QString &filePath)
 {
+    reset(studyOf(std::move(scheme)), filePath);
+}
+
+void Document::reset(Study study, const QString &filePath)
+{
     m_undo.clear();
     setFilePath(filePath);
-    applyScheme(scheme);
+    applyStudy(study);
     m_undo.setClean();
 }
 
 void Document::restore(Scheme scheme, const QString &filePath)
 {
+    restore(studyOf(std::move(scheme)), filePath);
+}
+
+void Document::restore(Study study, const QString &filePath)
+{
     m_undo.clear();
     setFilePath(filePath);
-    edit(std::move(scheme), tr("Restore unsaved work"));
+    editStudy(std::move(study), tr("Restore unsaved work"));
 }
 
 void Document::markSaved(const QString &filePath)
@@ -50,10 +65,11 @@ void Document::markSaved(const QString &filePath)
     m_undo.setClean();
 }
 
-void Document::applyScheme(const Scheme &scheme)
+void Document::applyStudy(const Study &study)
 {
-    m_scheme = scheme;
-    m_analysis = analyze(m_scheme);
+    m_study = study;
+    m_analysis = analyze(m_study.activeScheme());
+    m_designAnalysis = m_study.isDesign() ? analyzeDesign(m_study.design) : DesignAnalysis{};
     ++m_revision;
     emit changed();
 }

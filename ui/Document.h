@@ -1,8 +1,10 @@
 #pragma once
 
 #include "Analysis.h"
+#include "Design.h"
 #include "Scheme.h"
 #include "SchemeCommand.h"
+#include "Study.h"
 
 #include <QObject>
 #include <QString>
@@ -10,10 +12,12 @@
 
 namespace cb {
 
-// The open scheme: its value, its undo history, its file and its latest
-// analysis. Views read from here and change it only through edit(), which
-// pushes a SchemeCommand. The analysis is recomputed once per change, before
-// changed() is emitted.
+// The open study: one factor's scheme or a design of 2-3 crossed factors, its
+// undo history, its file and its latest analyses. scheme() is the active
+// factor's scheme, which every one-factor panel shows and edits. Views change
+// the document only through edit() (the active factor) or editStudy() (the
+// design), both pushing a SchemeCommand. The analyses are recomputed once per
+// change, before changed() is emitted.
 class Document : public QObject
 {
     Q_OBJECT
@@ -21,8 +25,13 @@ class Document : public QObject
 public:
     explicit Document(QObject *parent = nullptr);
 
-    const Scheme &scheme() const { return m_scheme; }
+    const Scheme &scheme() const { return m_study.activeScheme(); }
     const Analysis &analysis() const { return m_analysis; }
+    const Study &study() const { return m_study; }
+    bool isDesign() const { return m_study.isDesign(); }
+    const Design &design() const { return m_study.design; }
+    // The design's analysis over the cell means; empty unless isDesign().
+    const DesignAnalysis &designAnalysis() const { return m_designAnalysis; }
     QUndoStack *undoStack() { return &m_undo; }
 
     // Path of the file this scheme was read from or saved to; empty when new.
@@ -36,15 +45,20 @@ public:
 
     // One undoable step named `actionName`. Consecutive edits with the same
     // merge id and key fold into one step (typing into the same cell).
+    // The edit replaces the active factor (cell sizes follow its level names).
     void edit(Scheme next, const QString &actionName, MergeId mergeId = MergeId::None, const QString &mergeKey = {});
+    // An edit of the study itself: factors added or removed, terms, cell sizes, active factor.
+    void editStudy(Study next, const QString &actionName, MergeId mergeId = MergeId::None, const QString &mergeKey = {});
     // A whole swap (New, Open): history is cleared and the document is clean.
     void reset(Scheme scheme, const QString &filePath);
+    void reset(Study study, const QString &filePath);
     // A swap that counts as an unsaved change (restoring recovered work).
     void restore(Scheme scheme, const QString &filePath);
+    void restore(Study study, const QString &filePath);
     void markSaved(const QString &filePath);
 
     // For SchemeCommand only.
-    void applyScheme(const Scheme &scheme);
+    void applyStudy(const Study &study);
 
     // A small factor to start from: four levels, treatment coding.
     static Scheme starterScheme();
@@ -58,8 +72,9 @@ signals:
 private:
     void setFilePath(const QString &filePath);
 
-    Scheme m_scheme;
+    Study m_study;
     Analysis m_analysis;
+    DesignAnalysis m_designAnalysis;
     QUndoStack m_undo;
     QString m_filePath;
     quint64 m_revision = 0;

@@ -9,18 +9,6 @@ using namespace Qt::StringLiterals;
 
 namespace cb {
 
-namespace {
-look::State stateOf(Finding::Severity s)
-{
-    switch (s) {
-    case Finding::Severity::Problem: return look::State::Problem;
-    case Finding::Severity::Caution: return look::State::Caution;
-    case Finding::Severity::Info: break;
-    }
-    return look::State::Neutral;
-}
-} // namespace
-
 FindingsModel::FindingsModel(Document *document, QObject *parent)
     : DocumentTableModel(document, parent)
 {
@@ -59,7 +47,7 @@ QVariant FindingsModel::data(const QModelIndex &index, int role) const
     if (size_t(index.row()) >= m_order.size())
         return {};
     const Finding &f = findings[size_t(m_order[size_t(index.row())])];
-    const look::State state = stateOf(f.severity);
+    const look::State state = look::ofSeverity(f.severity);
     switch (role) {
     case Qt::DisplayRole: {
         const QString mark = state == look::State::Neutral ? u"i"_s : look::mark(state);

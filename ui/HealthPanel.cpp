@@ -17,19 +17,6 @@ using namespace Qt::StringLiterals;
 
 namespace cb {
 
-namespace {
-
-QLabel *caption(const QString &text, QWidget *parent)
-{
-    auto *l = new QLabel(text, parent);
-    QFont f = l->font();
-    f.setBold(true);
-    l->setFont(f);
-    return l;
-}
-
-} // namespace
-
 HealthPanel::HealthPanel(Document *document, QWidget *parent)
     : QWidget(parent)
     , m_document(document)
@@ -73,16 +60,16 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
 
     auto *left = new QVBoxLayout;
     left->setSpacing(2);
-    left->addWidget(caption(tr("Overall"), this));
+    left->addWidget(look::caption(tr("Overall"), this));
     for (QLabel *l : m_lines)
         left->addWidget(l);
     left->addStretch(1);
     left->addWidget(thresholds);
     auto *middle = new QVBoxLayout;
-    middle->addWidget(caption(tr("Variance inflation per column"), this));
+    middle->addWidget(look::caption(tr("Variance inflation per column"), this));
     middle->addWidget(m_vifView, 1);
     auto *right = new QVBoxLayout;
-    right->addWidget(caption(tr("What to look at"), this));
+    right->addWidget(look::caption(tr("What to look at"), this));
     right->addWidget(m_findingsView, 1);
     auto *layout = new QHBoxLayout(this);
     layout->setContentsMargins(6, 4, 6, 4);

@@ -62,6 +62,25 @@ QColor quietText() { return QColor(0x8a, 0x90, 0x99); }
 QColor footerBackground() { return QColor(0xee, 0xf0, 0xf3); }
 QString approxMark() { return u"\u2248"_s; }
 
+State ofSeverity(Finding::Severity severity)
+{
+    switch (severity) {
+    case Finding::Severity::Problem: return State::Problem;
+    case Finding::Severity::Caution: return State::Caution;
+    case Finding::Severity::Info: break;
+    }
+    return State::Neutral;
+}
+
+QLabel *caption(const QString &text, QWidget *parent)
+{
+    auto *l = new QLabel(text, parent);
+    QFont f = l->font();
+    f.setBold(true);
+    l->setFont(f);
+    return l;
+}
+
 QLabel *note(const QString &text, QWidget *parent)
 {
     auto *l = new QLabel(text, parent);

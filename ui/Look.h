@@ -1,5 +1,7 @@
 #pragma once
 
+#include "Analysis.h"
+
 #include <QColor>
 #include <QString>
 
@@ -27,6 +29,10 @@ QColor footerBackground();
 // The symbol for a value that is stored as a floating number, not an exact fraction.
 QString approxMark(); // "≈"
 
+// How a finding of the given severity reads (Info is neutral).
+State ofSeverity(Finding::Severity severity);
+// A bold caption above a part of a panel.
+QLabel *caption(const QString &text, QWidget *parent);
 // A wrapped label in the quiet colour, for hints and explanations.
 QLabel *note(const QString &text, QWidget *parent);
 // A long header title broken at the space nearest its middle, so that columns stay narrow.

@@ -2,6 +2,7 @@
 
 #include "CodingPanel.h"
 #include "DataPanel.h"
+#include "DesignPanel.h"
 #include "Demos.h"
 #include "ExportDialog.h"
 #include "Document.h"
@@ -77,6 +78,24 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     statusBar()->addPermanentWidget(m_arithmetic);
     connect(m_coding, &CodingPanel::message, this, &MainWindow::showMessage);
     connect(m_levels, &LevelsPanel::message, this, &MainWindow::showMessage);
+    connect(m_design, &DesignPanel::message, this, &MainWindow::showMessage);
+    connect(m_document, &Document::changed, this, [this] {
+        if (m_document->isDesign() != m_wasDesign) {
+            // A design needs room for its cell picture and findings: the right-hand docks then
+            // run the full height of the window.
+            setCorner(Qt::BottomRightCorner, m_document->isDesign() ? Qt::RightDockWidgetArea : Qt::BottomDockWidgetArea);
+            if (m_document->isDesign()) {
+                m_designDock->raise();
+                resizeDocks({m_designDock}, {470}, Qt::Horizontal);
+            }
+        }
+        m_wasDesign = m_document->isDesign();
+        // In a design the one-factor panels show the active factor on its own: their titles say so.
+        const QString name = m_document->scheme().factor.name;
+        m_healthDock->setWindowTitle(m_document->isDesign() ? tr("Health of the %1 coding on its own").arg(name) : tr("Design health"));
+        if (auto *levels = findChild<QDockWidget *>(u"levelsDock"_s))
+            levels->setWindowTitle(m_document->isDesign() ? tr("Factor %1 and its levels (\u270e in the design)").arg(name) : tr("Factor and levels"));
+    });
     connect(m_coding, &CodingPanel::currentCoefficientChanged, m_meaning, &MeaningPanel::showCoefficient);
     connect(m_document, &Document::modifiedChanged, this, &MainWindow::updateTitle);
     connect(m_document, &Document::filePathChanged, this, &MainWindow::updateTitle);
@@ -119,11 +138,16 @@ void MainWindow::buildDocks()
     m_levels = new LevelsPanel(m_document, this);
     m_meaning = new MeaningPanel(m_document, this);
     m_health = new HealthPanel(m_document, this);
+    m_design = new DesignPanel(m_document, this);
     setCorner(Qt::BottomLeftCorner, Qt::LeftDockWidgetArea);
     setCorner(Qt::BottomRightCorner, Qt::BottomDockWidgetArea);
     auto *levels = dock(m_levels, tr("Factor and levels"), u"levelsDock"_s, Qt::LeftDockWidgetArea);
     auto *meaning = dock(m_meaning, tr("What each coefficient tests"), u"meaningDock"_s, Qt::RightDockWidgetArea);
     m_healthDock = dock(scrolling(m_health, this), tr("Design health"), u"healthDock"_s, Qt::BottomDockWidgetArea);
+    // The design view: a tab beside the coefficient cards, brought forward when the study becomes a design.
+    m_designDock = dock(scrolling(m_design, this), tr("Design"), u"designDock"_s, Qt::RightDockWidgetArea);
+    tabifyDockWidget(meaning, m_designDock);
+    meaning->raise();
     resizeDocks({levels, meaning}, {290, 380}, Qt::Horizontal);
     resizeDocks({m_healthDock}, {kBottomDockHeight}, Qt::Vertical);
 }
@@ -284,14 +308,14 @@ bool MainWindow::openFile(const QString &path)
 
 bool MainWindow::load(const QString &path)
 {
-    auto scheme = loadScheme(path);
-    if (!scheme) {
-        m_prompter->tell(this, tr("Cannot open the scheme"), scheme.error());
+    auto study = loadStudy(path);
+    if (!study) {
+        m_prompter->tell(this, tr("Cannot open the scheme"), study.error());
         if (!QFileInfo::exists(path))
             m_recent.remove(path);
         return false;
     }
-    m_document->reset(scheme.take(), QFileInfo(path).absoluteFilePath());
+    m_document->reset(study.take(), QFileInfo(path).absoluteFilePath());
     m_recent.add(path);
     showMessage(tr("Opened %1").arg(QDir::toNativeSeparators(path)));
     return true;
@@ -301,13 +325,13 @@ bool MainWindow::openDemo(const QString &name)
 {
     if (!maybeSave())
         return false;
-    auto scheme = loadDemo(name);
-    if (!scheme) {
-        m_prompter->tell(this, tr("Cannot open the demo"), scheme.error());
+    auto study = loadDemoStudy(name);
+    if (!study) {
+        m_prompter->tell(this, tr("Cannot open the demo"), study.error());
         return false;
     }
     // A demo opens as a new, unnamed scheme, so saving never writes into the program's resources.
-    m_document->reset(scheme.take(), {});
+    m_document->reset(study.take(), {});
     showMessage(tr("Demo study \u2018%1\u2019 opened. Save it under a name of your own to keep changes.").arg(name));
     return true;
 }
@@ -321,16 +345,17 @@ bool MainWindow::save()
 
 bool MainWindow::saveAs()
 {
-    const QString suggestion = m_document->filePath().isEmpty()
-        ? (m_document->scheme().factor.name.isEmpty() ? u"scheme"_s : m_document->scheme().factor.name) + u".json"_s
-        : m_document->filePath();
+    QString name = m_document->isDesign() ? u"design"_s : m_document->scheme().factor.name;
+    if (name.isEmpty())
+        name = u"scheme"_s;
+    const QString suggestion = m_document->filePath().isEmpty() ? name + u".json"_s : m_document->filePath();
     const QString path = m_prompter->askSavePath(this, suggestion);
     return !path.isEmpty() && saveTo(path);
 }
 
 bool MainWindow::saveTo(const QString &path)
 {
-    if (const QString error = saveScheme(m_document->scheme(), path); !error.isEmpty()) {
+    if (const QString error = saveStudy(m_document->study(), path); !error.isEmpty()) {
         // The work stays open; a copy goes to the recovery file now rather than at the next autosave.
         writeRecovery();
         const bool kept = m_options.useRecovery && m_document->isModified() && m_document->revision() == m_recoveredRevision
@@ -350,7 +375,7 @@ bool MainWindow::writeRecovery()
 {
     if (!m_options.useRecovery || !m_document->isModified() || m_document->revision() == m_recoveredRevision)
         return false;
-    if (const QString error = m_recovery.save(m_document->scheme(), m_document->filePath()); !error.isEmpty()) {
+    if (const QString error = m_recovery.save(m_document->study(), m_document->filePath()); !error.isEmpty()) {
         showMessage(tr("Could not write the recovery file: %1").arg(error));
         return false;
     }
@@ -381,7 +406,7 @@ bool MainWindow::offerRecovery()
         m_recovery.discard();
         return false;
     }
-    m_document->restore(recovered->scheme, recovered->originalPath);
+    m_document->restore(recovered->study, recovered->originalPath);
     showMessage(tr("Restored unsaved work. Save it to keep it."));
     return true;
 }

@@ -15,6 +15,7 @@ class QTimer;
 namespace cb {
 
 class CodingPanel;
+class DesignPanel;
 class Document;
 class HealthPanel;
 class LevelsPanel;
@@ -47,6 +48,8 @@ public:
     MeaningPanel *meaningPanel() const { return m_meaning; }
     HealthPanel *healthPanel() const { return m_health; }
     LevelsPanel *levelsPanel() const { return m_levels; }
+    DesignPanel *designPanel() const { return m_design; }
+    QDockWidget *designDock() const { return m_designDock; }
     const RecoveryStore &recoveryStore() const { return m_recovery; }
     RecentFiles &recentFiles() { return m_recent; }
     QTimer *autosaveTimer() const { return m_autosave; }
@@ -89,6 +92,9 @@ private:
     MeaningPanel *m_meaning = nullptr;
     HealthPanel *m_health = nullptr;
     LevelsPanel *m_levels = nullptr;
+    DesignPanel *m_design = nullptr;
+    QDockWidget *m_designDock = nullptr;
+    bool m_wasDesign = false;
     QDockWidget *m_healthDock = nullptr;
     QMenu *m_recentMenu = nullptr;
     QMenu *m_viewMenu = nullptr;

@@ -225,9 +225,21 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     recompute();
 }
 
+// For a design, power is per design column over the cell means: the "levels" are the cells,
+// their planned n the cell sizes, the contrasts the design's hypothesis rows.
+const Factor &PowerPanel::factor() const
+{
+    return m_document->isDesign() ? m_document->designAnalysis().cellScheme.factor : m_document->scheme().factor;
+}
+
+const Analysis &PowerPanel::analysis() const
+{
+    return m_document->isDesign() ? m_document->designAnalysis().analysis : m_document->analysis();
+}
+
 void PowerPanel::followDocument()
 {
-    const Factor &f = m_document->scheme().factor;
+    const Factor &f = factor();
     if (!m_sizeSourceChosen) {
         const QSignalBlocker block(m_sizeSource);
         m_sizeSource->setCurrentIndex(f.hasPlannedN() ? 0 : 1);
@@ -247,7 +259,7 @@ void PowerPanel::followDocument()
 // renamed elsewhere only if the name is kept; new levels start empty.
 void PowerPanel::rebuildInputRows()
 {
-    const Factor &f = m_document->scheme().factor;
+    const Factor &f = factor();
     QHash<QString, QStringList> kept;
     for (int r = 0; r < m_inputs->rowCount(); ++r) {
         QStringList values;
@@ -390,7 +402,7 @@ Result<PowerSettings> PowerPanel::settings() const
         s.sd = *sd;
     }
     if (m_sizeSource->currentIndex() == 0) {
-        const Factor &f = m_document->scheme().factor;
+        const Factor &f = factor();
         if (!f.hasPlannedN())
             return R::failure(u"n: the levels have no planned group sizes yet; enter them in the levels panel, "
                               u"or choose ratios with a total N"_s);
@@ -442,7 +454,7 @@ void PowerPanel::recompute()
         m_notes->clear();
         m_chart->clear(tr("The power curves appear once every input is valid."));
     };
-    const Result<ContrastRows> rows = contrastRowsOf(m_document->analysis());
+    const Result<ContrastRows> rows = contrastRowsOf(analysis());
     if (!rows)
         return fail(rows.error());
     const Result<PowerSettings> s = settings();

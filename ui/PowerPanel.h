@@ -1,5 +1,7 @@
 #pragma once
 
+#include "Analysis.h"
+#include "Factor.h"
 #include "Power.h"
 
 #include <QHash>
@@ -18,9 +20,9 @@ namespace cb {
 class Document;
 class SmallChart;
 
-// Power and sample size for the planned contrasts of the open scheme. The
-// analyst types the expected mean (or difference from a baseline) of each
-// level and the spread; every number shown comes from core's computePower and
+// Power and sample size for the planned contrasts of the open scheme (for a
+// design: of each design column over the cell means). The analyst types the
+// expected mean (or difference from a baseline) of each level or cell and the spread; every number shown comes from core's computePower and
 // powerCurve, recomputed on every edit of the inputs or of the scheme.
 class PowerPanel : public QWidget
 {
@@ -68,6 +70,8 @@ public slots:
 
 private:
     void followDocument();
+    const Factor &factor() const;     // the scheme's factor, or the design's cells
+    const Analysis &analysis() const; // the scheme's analysis, or the design's over the cells
     void rebuildInputRows();
     void updateColumnVisibility();
     void schedule();

@@ -33,7 +33,7 @@ bool RecoveryStore::exists() const
     return QFile::exists(path());
 }
 
-QString RecoveryStore::save(const Scheme &scheme, const QString &originalPath) const
+QString RecoveryStore::save(const Study &study, const QString &originalPath) const
 {
     if (!QDir().mkpath(m_directory))
         return u"%1: cannot create the directory for the recovery file"_s.arg(m_directory);
@@ -42,7 +42,8 @@ QString RecoveryStore::save(const Scheme &scheme, const QString &originalPath) c
     root[u"version"_s] = kVersion;
     root[u"original_path"_s] = originalPath;
     root[u"saved_at"_s] = QDateTime::currentDateTimeUtc().toString(Qt::ISODate);
-    root[u"scheme"_s] = QJsonDocument::fromJson(schemeToJson(scheme)).object();
+    // The same object as a scheme or design file.
+    root[u"scheme"_s] = QJsonDocument::fromJson(studyToJson(study)).object();
     return writeFileAtomically(path(), QJsonDocument(root).toJson(QJsonDocument::Compact));
 }
 
@@ -66,11 +67,11 @@ Result<RecoveryStore::Recovered> RecoveryStore::load() const
         return R::failure(u"%1: field 'version': expected %2"_s.arg(where).arg(kVersion));
     if (!root.value(u"scheme"_s).isObject())
         return R::failure(u"%1: field 'scheme': expected an object"_s.arg(where));
-    auto scheme = schemeFromJson(QJsonDocument(root.value(u"scheme"_s).toObject()).toJson(), where);
-    if (!scheme)
-        return R::failure(scheme.error());
+    auto study = studyFromJson(QJsonDocument(root.value(u"scheme"_s).toObject()).toJson(), where);
+    if (!study)
+        return R::failure(study.error());
     Recovered r;
-    r.scheme = scheme.take();
+    r.study = study.take();
     r.originalPath = root.value(u"original_path"_s).toString();
     r.savedAt = QDateTime::fromString(root.value(u"saved_at"_s).toString(), Qt::ISODate);
     return R(std::move(r));

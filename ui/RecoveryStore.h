@@ -1,7 +1,7 @@
 #pragma once
 
 #include "Result.h"
-#include "Scheme.h"
+#include "Study.h"
 
 #include <QDateTime>
 #include <QString>
@@ -16,7 +16,7 @@ class RecoveryStore
 public:
     struct Recovered
     {
-        Scheme scheme;
+        Study study; // one factor's scheme or a design
         QString originalPath; // the file the work belonged to, empty when it was new
         QDateTime savedAt;
     };
@@ -26,8 +26,8 @@ public:
 
     QString path() const;
     bool exists() const;
-    // Writes the scheme; returns an error message or an empty string.
-    QString save(const Scheme &scheme, const QString &originalPath) const;
+    // Writes the study; returns an error message or an empty string.
+    QString save(const Study &study, const QString &originalPath) const;
     Result<Recovered> load() const;
     // Moves an unreadable recovery file out of the way and returns its new path.
     QString setAside() const;

@@ -4,7 +4,7 @@
 
 namespace cb {
 
-SchemeCommand::SchemeCommand(Document *document, Scheme before, Scheme after, const QString &text, MergeId mergeId,
+SchemeCommand::SchemeCommand(Document *document, Study before, Study after, const QString &text, MergeId mergeId,
                              QString mergeKey)
     : QUndoCommand(text)
     , m_document(document)
@@ -17,12 +17,12 @@ SchemeCommand::SchemeCommand(Document *document, Scheme before, Scheme after, co
 
 void SchemeCommand::undo()
 {
-    m_document->applyScheme(m_before);
+    m_document->applyStudy(m_before);
 }
 
 void SchemeCommand::redo()
 {
-    m_document->applyScheme(m_after);
+    m_document->applyStudy(m_after);
 }
 
 int SchemeCommand::id() const

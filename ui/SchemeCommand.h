@@ -1,6 +1,6 @@
 #pragma once
 
-#include "Scheme.h"
+#include "Study.h"
 
 #include <QString>
 #include <QUndoCommand>
@@ -20,14 +20,16 @@ enum class MergeId : int {
     ColumnName,
     FactorName,
     Notes,
+    CellSize,      // one cell of the design's planned n
 };
 
-// The one edit command: the scheme before and after. Every change to a
-// document goes through it, so every change can be undone.
+// The one edit command: the study (one factor's scheme, or a design of several)
+// before and after. Every change to a document goes through it, so every change
+// can be undone.
 class SchemeCommand : public QUndoCommand
 {
 public:
-    SchemeCommand(Document *document, Scheme before, Scheme after, const QString &text,
+    SchemeCommand(Document *document, Study before, Study after, const QString &text,
                   MergeId mergeId = MergeId::None, QString mergeKey = {});
 
     void undo() override;
@@ -37,8 +39,8 @@ public:
 
 private:
     Document *m_document;
-    Scheme m_before;
-    Scheme m_after;
+    Study m_before;
+    Study m_after;
     MergeId m_mergeId;
     QString m_mergeKey;
 };

@@ -119,7 +119,7 @@ int main(int argc, char *argv[])
     const bool restored = !screenshot && window.offerRecovery();
     if (!restored) {
         if (parser.isSet(demoOption)) {
-            const auto demo = cb::loadDemo(parser.value(demoOption));
+            const auto demo = cb::loadDemoStudy(parser.value(demoOption));
             if (!demo) {
                 fail(demo.error());
                 return 2;

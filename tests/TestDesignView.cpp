@@ -1,0 +1,399 @@
+#include "CellPicture.h"
+#include "CodingModel.h"
+#include "CodingPanel.h"
+#include "Demos.h"
+#include "DesignPanel.h"
+#include "Document.h"
+#include "LevelsModel.h"
+#include "Power.h"
+#include "PowerPanel.h"
+#include "RecoveryStore.h"
+#include "SchemeEdits.h"
+#include "SchemeFile.h"
+#include "WindowFixture.h"
+
+#include <QDockWidget>
+#include <QFile>
+#include <QLineEdit>
+#include <QTableWidget>
+#include <QTest>
+#include <QTreeWidget>
+#include <QUndoStack>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+class TestDesignView : public QObject
+{
+    Q_OBJECT
+
+private slots:
+    void demoLoadsAsADesign();
+    void pictureShowsCoresWeightsForTheInteraction();
+    void pictureHasOneGridPerLevelOfAThirdFactor();
+    void editingTheActiveFactorUpdatesTheDesignAndUndoRestores();
+    void leavingOutATermShowsTheCellSizeDependence();
+    void addingAndRemovingAFactorIsUndoable();
+    void cellSizesFollowTheLevelNames();
+    void emptyCellIsNamed();
+    void saveThenOpenRoundTripsTheDesign();
+    void badDesignFileNamesTheFieldAndKeepsTheWork();
+    void recoveryKeepsTheDesign();
+    void powerIsPerDesignColumnOverTheCells();
+};
+
+namespace {
+
+Scheme centred(const QString &name, const QString &a, const QString &b)
+{
+    Scheme s;
+    s.kind = SchemeKind::Custom;
+    s.factor.name = name;
+    s.factor.levels = {a, b};
+    s.columns.push_back(Column{u"%1 vs %2"_s.arg(a, b), {Weight::exact(Rational(1, 2)), Weight::exact(Rational(-1, 2))}});
+    return s;
+}
+
+Study twoByTwo()
+{
+    Study s;
+    s.design.factors = {centred(u"cue"_s, u"valid"_s, u"invalid"_s), centred(u"load"_s, u"low"_s, u"high"_s)};
+    s.design.terms = Design::fullFactorial(2);
+    return s;
+}
+
+QTreeWidgetItem *termItem(QTreeWidget *tree, const QString &name)
+{
+    for (int i = 0; i < tree->topLevelItemCount(); ++i)
+        if (tree->topLevelItem(i)->text(0) == name)
+            return tree->topLevelItem(i);
+    return nullptr;
+}
+
+QStringList texts(const std::vector<Weight> &weights)
+{
+    QStringList out;
+    for (const Weight &w : weights)
+        out << w.display(true);
+    return out;
+}
+
+bool hasFinding(const QString &text, const QString &part)
+{
+    return text.contains(part, Qt::CaseInsensitive);
+}
+
+} // namespace
+
+void TestDesignView::demoLoadsAsADesign()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    QVERIFY(d->isDesign());
+    QCOMPARE(d->design().factors.size(), size_t(2));
+    QCOMPARE(d->design().cellCount(), 6);
+    QVERIFY(!d->isModified());
+    DesignPanel *p = f.window->designPanel();
+    QCOMPARE(p->factorTable()->rowCount(), 2);
+    QCOMPARE(p->factorTable()->item(1, 1)->text(), u"mowing"_s);
+    QCOMPARE(p->cellSizeTable()->item(2, 1)->text(), u"4"_s); // wildflower:late
+    QVERIFY(!p->picture()->isEmpty());
+    QCOMPARE(p->picture()->cellTexts().size(), 6);
+    // Treatment coding of mowing: the margin columns compare early-mown plots only.
+    QVERIFY2(hasFinding(p->findingsText(), u"simple effect"_s), qPrintable(p->findingsText()));
+    QVERIFY(p->findingsText().contains(u"Condition number"_s));
+    QVERIFY(p->findingsText().contains(u"VIF"_s));
+    QVERIFY(f.show());
+    QVERIFY(!f.window->designDock()->visibleRegion().isEmpty()); // raised for a design
+    QVERIFY(demoStudies().size() >= 4);
+}
+
+void TestDesignView::pictureShowsCoresWeightsForTheInteraction()
+{
+    // Centred +-1/2 coding of a balanced 2 x 2: the interaction coefficient tests
+    // (valid:low - valid:high) - (invalid:low - invalid:high), cell weights +1, -1, -1, +1
+    // (Schad, Vasishth, Hohenstein & Kliegl 2020, J Mem Lang 110, 104038, the 2 x 2 example).
+    WindowFixture f;
+    Document *d = f.window->document();
+    d->reset(twoByTwo(), {});
+    DesignPanel *p = f.window->designPanel();
+    p->selectColumn(2);
+    const QStringList expected{u"1"_s, u"\u22121"_s, u"\u22121"_s, u"1"_s};
+    QCOMPARE(p->picture()->cellTexts(), expected);
+    QCOMPARE(p->picture()->cellSigns(), (QStringList{u"\u25b2"_s, u"\u25bc"_s, u"\u25bc"_s, u"\u25b2"_s}));
+    QCOMPARE(p->picture()->cellTexts(), texts(d->designAnalysis().analysis.hypotheses[3]));
+    // Core writes it as a difference of differences (the same contrast, oriented its own way).
+    QVERIFY2(p->hypothesisText().contains(u"(invalid:high - valid:high) - (invalid:low - valid:low)"_s), qPrintable(p->hypothesisText()));
+    // Main effect of cue: the average over load, cell weights 1/2, 1/2, -1/2, -1/2 (same source).
+    p->selectColumn(0);
+    QCOMPARE(p->picture()->cellTexts(), (QStringList{u"1/2"_s, u"1/2"_s, u"\u22121/2"_s, u"\u22121/2"_s}));
+    QVERIFY(!hasFinding(p->findingsText(), u"simple effect"_s));
+    // Choosing a column in the term tree shows it too.
+    QTreeWidgetItem *interaction = termItem(p->termTree(), u"cue x load"_s);
+    QVERIFY(interaction);
+    QCOMPARE(interaction->childCount(), 1);
+    p->termTree()->setCurrentItem(interaction->child(0));
+    QCOMPARE(p->selectedColumn(), 2);
+    QCOMPARE(p->picture()->cellTexts(), expected);
+}
+
+void TestDesignView::pictureHasOneGridPerLevelOfAThirdFactor()
+{
+    WindowFixture f;
+    Document *d = f.window->document();
+    Study s = twoByTwo();
+    s.design.factors.push_back(centred(u"age"_s, u"young"_s, u"old"_s));
+    s.design.terms = Design::fullFactorial(3);
+    d->reset(s, {});
+    DesignPanel *p = f.window->designPanel();
+    p->selectColumn(6); // the three-way interaction
+    QCOMPARE(p->picture()->cellTexts(), texts(d->designAnalysis().analysis.hypotheses[7]));
+    QCOMPARE(p->picture()->cellTexts().size(), 8);
+    QCOMPARE(p->picture()->blockCount(), 2); // one grid per age group, side by side
+    // Three-way interaction over +-1/2 codings: the product of the three signs (+1 where an
+    // even number of factors sit at their second level).
+    QCOMPARE(p->picture()->cellSigns(), (QStringList{u"\u25b2"_s, u"\u25bc"_s, u"\u25bc"_s, u"\u25b2"_s,
+                                                     u"\u25bc"_s, u"\u25b2"_s, u"\u25b2"_s, u"\u25bc"_s}));
+}
+
+void TestDesignView::editingTheActiveFactorUpdatesTheDesignAndUndoRestores()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    DesignPanel *p = f.window->designPanel();
+    p->makeActive(1);
+    QCOMPARE(d->study().active, 1);
+    QCOMPARE(d->scheme().factor.name, u"mowing"_s);
+    QCOMPARE(p->factorTable()->item(1, 0)->text(), u"\u270e"_s);
+    QVERIFY(hasFinding(p->findingsText(), u"simple effect"_s));
+    const std::vector<Weight> before = d->designAnalysis().analysis.hypotheses[1];
+    const int steps = d->undoStack()->count();
+
+    // Type +1/2 and -1/2 into mowing's column in the coding grid.
+    CodingModel *grid = f.window->codingPanel()->codingModel();
+    QVERIFY(grid->setData(grid->index(0, 0), u"1/2"_s, Qt::EditRole));
+    QVERIFY(grid->setData(grid->index(1, 0), u"-1/2"_s, Qt::EditRole));
+    QCOMPARE(d->design().factors[1].columns[0].weights[1].display(), u"-1/2"_s);
+    // b1 (grass vs bare) now averages over mowing dates: half of each grass cell minus half of each bare cell.
+    p->selectColumn(0);
+    QCOMPARE(p->picture()->cellTexts(), (QStringList{u"−1/2"_s, u"−1/2"_s, u"1/2"_s, u"1/2"_s, u"0"_s, u"0"_s}));
+    QVERIFY2(!hasFinding(p->findingsText(), u"of margin compares cells only"_s), qPrintable(p->findingsText()));
+    // The warning moves to mowing's column, which compares bare plots only while margin keeps treatment coding.
+    QVERIFY(hasFinding(p->findingsText(), u"of mowing compares cells only at margin = bare"_s));
+    QVERIFY(texts(d->designAnalysis().analysis.hypotheses[1]) != texts(before));
+
+    while (d->undoStack()->count() > steps && d->undoStack()->canUndo() && d->undoStack()->index() > steps)
+        d->undoStack()->undo();
+    QCOMPARE(texts(d->designAnalysis().analysis.hypotheses[1]), texts(before));
+    QVERIFY(hasFinding(p->findingsText(), u"of margin compares cells only at mowing = early"_s));
+}
+
+void TestDesignView::leavingOutATermShowsTheCellSizeDependence()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    DesignPanel *p = f.window->designPanel();
+    QVERIFY(!hasFinding(p->findingsText(), u"depend on the cell sizes"_s));
+    QTreeWidgetItem *interaction = termItem(p->termTree(), u"margin x mowing"_s);
+    QVERIFY(interaction);
+    interaction->setCheckState(0, Qt::Unchecked);
+    QCOMPARE(d->design().terms.size(), size_t(2));
+    QVERIFY2(hasFinding(p->findingsText(), u"depend on the cell sizes"_s), qPrintable(p->findingsText()));
+    QVERIFY(hasFinding(p->findingsText(), u"main effects only"_s));
+    QVERIFY(!termItem(p->termTree(), u"margin x mowing"_s)->childCount());
+    d->undoStack()->undo();
+    QCOMPARE(d->design().terms.size(), size_t(3));
+    QVERIFY(!hasFinding(p->findingsText(), u"depend on the cell sizes"_s));
+
+    // A nested term instead of the main effect and the interaction: margin within mowing.
+    termItem(p->termTree(), u"margin within mowing"_s)->setCheckState(0, Qt::Checked);
+    QVERIFY(hasFinding(p->findingsText(), u"columns for"_s)); // too many columns: core's message
+    QVERIFY(p->picture()->isEmpty());
+    termItem(p->termTree(), u"margin"_s)->setCheckState(0, Qt::Unchecked);
+    termItem(p->termTree(), u"margin x mowing"_s)->setCheckState(0, Qt::Unchecked);
+    QCOMPARE(d->designAnalysis().analysis.columnCount, 5);
+    QVERIFY(!p->picture()->isEmpty());
+}
+
+void TestDesignView::addingAndRemovingAFactorIsUndoable()
+{
+    WindowFixture f;
+    Document *d = f.window->document();
+    DesignPanel *p = f.window->designPanel();
+    QVERIFY(!d->isDesign());
+    const QByteArray start = schemeToJson(d->scheme());
+    p->addFactor();
+    QVERIFY(d->isDesign());
+    QCOMPARE(d->design().factors.size(), size_t(2));
+    QCOMPARE(d->study().active, 1); // the new factor is the one the grid edits
+    QCOMPARE(d->scheme().levelCount(), 2);
+    QCOMPARE(d->design().terms.size(), size_t(3));
+    QCOMPARE(p->picture()->cellTexts().size(), 8);
+    p->addFactor();
+    QCOMPARE(d->design().factors.size(), size_t(3));
+    QVERIFY(d->design().factors[1].factor.name != d->design().factors[2].factor.name);
+    d->undoStack()->undo();
+    QCOMPARE(d->design().factors.size(), size_t(2));
+    d->undoStack()->undo();
+    QVERIFY(!d->isDesign());
+    QCOMPARE(schemeToJson(d->scheme()), start);
+    d->undoStack()->redo();
+    QVERIFY(d->isDesign());
+    p->factorTable()->selectRow(1);
+    p->removeFactor();
+    QVERIFY(!d->isDesign());
+    QCOMPARE(schemeToJson(d->scheme()), start);
+    d->undoStack()->undo();
+    QCOMPARE(d->design().factors.size(), size_t(2));
+}
+
+void TestDesignView::cellSizesFollowTheLevelNames()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    DesignPanel *p = f.window->designPanel();
+    // Move wildflower to the top of margin's levels: its sizes (6, 4) move with it.
+    auto moved = edits::withLevelMoved(d->scheme(), 2, 0);
+    QVERIFY(moved);
+    d->edit(moved.take(), u"Move level"_s);
+    QCOMPARE(d->design().factors[0].factor.levels.first(), u"wildflower"_s);
+    QCOMPARE(rationalToString(d->design().cellN[1]), u"4"_s);
+    QCOMPARE(rationalToString(d->design().cellN[5]), u"5"_s);
+    // A renamed level keeps its place.
+    d->edit(edits::withLevelName(d->scheme(), 0, u"meadow"_s).take(), u"Rename"_s);
+    QCOMPARE(rationalToString(d->design().cellN[1]), u"4"_s);
+    QVERIFY(d->study().cellSizeNote.isEmpty());
+    // A new level has no sizes: back to equal, with a note beside the table.
+    d->edit(edits::withLevelAdded(d->scheme()).take(), u"Add level"_s);
+    QVERIFY(d->design().cellN.empty());
+    QVERIFY2(p->cellSizeNote().contains(u"back to equal"_s), qPrintable(p->cellSizeNote()));
+    d->undoStack()->undo();
+    QCOMPARE(rationalToString(d->design().cellN[1]), u"4"_s);
+    QVERIFY(!p->cellSizeNote().contains(u"back to equal"_s));
+}
+
+void TestDesignView::emptyCellIsNamed()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    DesignPanel *p = f.window->designPanel();
+    QTableWidgetItem *cell = p->cellSizeTable()->item(1, 1); // grass:late
+    cell->setText(u"0"_s);
+    QCOMPARE(rationalToString(d->design().cellN[3]), u"0"_s);
+    QVERIFY2(hasFinding(p->findingsText(), u"empty cells (planned n = 0): grass:late"_s), qPrintable(p->findingsText()));
+    QVERIFY(p->cellSizeTable()->item(1, 1)->text().startsWith(u"\u2717"_s));
+    p->cellSizeTable()->item(1, 1)->setText(u"x"_s); // refused, nothing changes
+    QCOMPARE(rationalToString(d->design().cellN[3]), u"0"_s);
+    d->undoStack()->undo();
+    QCOMPARE(rationalToString(d->design().cellN[3]), u"5"_s);
+}
+
+void TestDesignView::saveThenOpenRoundTripsTheDesign()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    f.window->designPanel()->makeActive(1);
+    termItem(f.window->designPanel()->termTree(), u"margin x mowing"_s)->setCheckState(0, Qt::Unchecked);
+    const QByteArray saved = designToJson(d->design());
+    const QString path = f.dir.filePath(u"field.json"_s);
+    QVERIFY(f.window->saveTo(path));
+    QVERIFY(!d->isModified());
+    QVERIFY(isDesignJson([&] {
+        QFile file(path);
+        return file.open(QIODevice::ReadOnly) ? file.readAll() : QByteArray();
+    }()));
+    QVERIFY(f.window->newScheme());
+    QVERIFY(!d->isDesign());
+    QVERIFY(f.window->openFile(path));
+    QVERIFY(d->isDesign());
+    QCOMPARE(designToJson(d->design()), saved);
+    QCOMPARE(d->design().terms.size(), size_t(2));
+
+    // One factor stays in the one-factor format.
+    QVERIFY(f.window->newScheme());
+    const QString single = f.dir.filePath(u"single.json"_s);
+    QVERIFY(f.window->saveTo(single));
+    QVERIFY(loadScheme(single));
+}
+
+void TestDesignView::badDesignFileNamesTheFieldAndKeepsTheWork()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    f.window->designPanel()->makeActive(1);
+    const QByteArray work = designToJson(d->design());
+    QByteArray bad = designToJson(d->design());
+    bad.replace("\"margin\",\n", "\"hedge\",\n");
+    QVERIFY(bad.contains("\"hedge\""));
+    const QString path = f.dir.filePath(u"bad.json"_s);
+    QFile file(path);
+    QVERIFY(file.open(QIODevice::WriteOnly));
+    file.write(bad);
+    file.close();
+    f.prompter.saveChoice = ScriptedPrompter::SaveChoice::Discard;
+    QVERIFY(!f.window->openFile(path));
+    QCOMPARE(f.prompter.told.size(), 1);
+    QVERIFY2(f.prompter.told.first().contains(u"design.terms[2].factors[0]"_s), qPrintable(f.prompter.told.first()));
+    QVERIFY(f.prompter.told.first().contains(u"'hedge' is not a factor of the design"_s));
+    QCOMPARE(designToJson(d->design()), work);
+    QCOMPARE(d->study().active, 1);
+}
+
+void TestDesignView::recoveryKeepsTheDesign()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    f.window->designPanel()->makeActive(1);
+    QVERIFY(f.window->document()->isModified());
+    QVERIFY(f.window->writeRecovery());
+    const QByteArray kept = designToJson(f.window->document()->design());
+    f.window.reset();
+    f.prompter.restore = true;
+    f.open();
+    QVERIFY(f.window->offerRecovery());
+    QVERIFY(f.window->document()->isDesign());
+    QCOMPARE(designToJson(f.window->document()->design()), kept);
+}
+
+void TestDesignView::powerIsPerDesignColumnOverTheCells()
+{
+    WindowFixture f;
+    Document *d = f.window->document();
+    Study s = twoByTwo();
+    s.design.cellN.assign(4, Rational(10));
+    d->reset(s, {});
+    auto *power = f.window->findChild<PowerPanel *>();
+    QVERIFY(power);
+    QCOMPARE(power->inputTable()->rowCount(), 4); // one row per cell
+    power->setSizeSource(PowerPanel::SizeSource::PlannedN);
+    power->sdEdit()->setText(u"1"_s);
+    power->setExpectedTexts({u"0"_s, u"0"_s, u"0"_s, u"1"_s}); // only invalid:high differs
+    power->recompute();
+    QVERIFY2(power->report().has_value(), qPrintable(power->settings().error()));
+    const PowerReport &r = *power->report();
+    QCOMPARE(r.contrasts.size(), size_t(3));
+    // Interaction row (1, -1, -1, 1), n = 10 per cell, sd 1: psi = 1, SE = sqrt(4/10), df = 36.
+    // SciPy 1.10 stats.nct, two-sided alpha .05: 0.3371329261052971.
+    QCOMPARE(r.contrasts[2].df, 36.0);
+    QVERIFY(std::abs(r.contrasts[2].power - 0.3371329261052971) < 1e-6);
+    // The same as core given the design's rows directly.
+    PowerSettings direct;
+    direct.means = {0, 0, 0, 1};
+    direct.n = {10, 10, 10, 10};
+    const auto rows = contrastRowsOf(d->designAnalysis().analysis);
+    QVERIFY(rows.ok());
+    const auto expected = computePower(rows->rows, rows->names, direct);
+    QVERIFY(expected.ok());
+    for (size_t i = 0; i < r.contrasts.size(); ++i)
+        QCOMPARE(r.contrasts[i].power, expected->contrasts[i].power);
+}
+
+QTEST_MAIN(TestDesignView)
+#include "TestDesignView.moc"

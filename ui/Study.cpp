@@ -1,0 +1,297 @@
+#include "Study.h"
+
+#include "SchemeFile.h"
+
+#include <QCoreApplication>
+#include <QFile>
+#include <QJsonDocument>
+#include <QJsonObject>
+
+#include <algorithm>
+#include <map>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+
+using R = Result<Study>;
+
+// For each level of `next`, the level of `before` it continues: same name, else the same
+// place when the count is unchanged (a rename); -1 when it is new.
+std::vector<int> levelMap(const Factor &before, const Factor &next)
+{
+    std::vector<int> out(size_t(next.levelCount()), -1);
+    for (int l = 0; l < next.levelCount(); ++l) {
+        out[size_t(l)] = int(before.levels.indexOf(next.levels[l]));
+        if (out[size_t(l)] < 0 && before.levelCount() == next.levelCount())
+            out[size_t(l)] = l;
+    }
+    return out;
+}
+
+// Cell index (A-major) from level indices.
+int cellIndex(const Design &d, const std::vector<int> &levels)
+{
+    int idx = 0;
+    for (size_t f = 0; f < d.factors.size(); ++f)
+        idx = idx * d.factors[f].levelCount() + levels[f];
+    return idx;
+}
+
+std::vector<int> levelsOfCell(const Design &d, int cell)
+{
+    std::vector<int> out(d.factors.size());
+    for (size_t f = d.factors.size(); f-- > 0;) {
+        const int k = d.factors[f].levelCount();
+        out[f] = cell % k;
+        cell /= k;
+    }
+    return out;
+}
+
+// The intercept and the notes belong to the design; every factor shows them, so the
+// one-factor panels (intercept box, notes) read and edit them.
+void syncShared(Design &d)
+{
+    for (Scheme &s : d.factors) {
+        s.intercept = d.intercept;
+        s.notes = d.notes;
+    }
+}
+
+QString factorName(const Design &d, int f)
+{
+    return d.factors[size_t(f)].factor.name;
+}
+
+} // namespace
+
+Study studyOf(Scheme scheme)
+{
+    Study s;
+    s.design.intercept = scheme.intercept;
+    s.design.notes = scheme.notes;
+    s.design.factors.push_back(std::move(scheme));
+    return s;
+}
+
+Study withActiveScheme(const Study &study, Scheme next)
+{
+    Study out = study;
+    Design &d = out.design;
+    const Scheme before = d.factors[size_t(study.active)];
+    if (!out.isDesign()) {
+        d.factors[0] = std::move(next);
+        d.intercept = d.factors[0].intercept;
+        d.notes = d.factors[0].notes;
+        return out;
+    }
+    d.factors[size_t(study.active)] = std::move(next);
+    const Scheme &edited = d.factors[size_t(study.active)];
+    if (edited.intercept != d.intercept || edited.notes != d.notes) {
+        d.intercept = edited.intercept;
+        d.notes = edited.notes;
+        syncShared(d);
+    }
+    if (study.design.cellN.empty() || before.factor.levels == d.factors[size_t(study.active)].factor.levels)
+        return out;
+    const std::vector<int> map = levelMap(before.factor, d.factors[size_t(study.active)].factor);
+    if (std::find(map.begin(), map.end(), -1) != map.end()) {
+        d.cellN.clear();
+        out.cellSizeNote = QCoreApplication::translate("cb::Study", "Cell sizes went back to equal: %1 has a new level whose cells have no planned n yet.")
+                               .arg(factorName(d, study.active));
+        return out;
+    }
+    std::vector<Rational> n(size_t(d.cellCount()));
+    for (int c = 0; c < d.cellCount(); ++c) {
+        std::vector<int> lv = levelsOfCell(d, c);
+        lv[size_t(study.active)] = map[size_t(lv[size_t(study.active)])];
+        n[size_t(c)] = study.design.cellN[size_t(cellIndex(study.design, lv))];
+    }
+    d.cellN = std::move(n);
+    return out;
+}
+
+Result<Study> withFactorAdded(const Study &study)
+{
+    if (study.factorCount() >= kMaxDesignFactors)
+        return R::failure(QCoreApplication::translate("cb::Study", "Not added: a design crosses at most %1 factors.").arg(kMaxDesignFactors));
+    Study out = study;
+    Design &d = out.design;
+    if (!study.isDesign()) {
+        d.intercept = d.factors[0].intercept;
+        d.notes = d.factors[0].notes;
+    }
+    // A two-level starter coded +1/2 and -1/2 (centred: its main effect averages over the others).
+    Scheme s;
+    s.kind = SchemeKind::Custom;
+    s.factor.name = u"factor %1"_s.arg(QChar(u'A' + study.factorCount()));
+    for (int i = 1; d.factors.end() != std::find_if(d.factors.begin(), d.factors.end(), [&](const Scheme &x) { return x.factor.name == s.factor.name; }); ++i)
+        s.factor.name = u"factor %1%2"_s.arg(QChar(u'A' + study.factorCount())).arg(i);
+    const QString prefix = QString(QChar(u'a' + study.factorCount()));
+    s.factor.levels = {prefix + u"1"_s, prefix + u"2"_s};
+    s.columns.push_back(Column{u"%1 vs %2"_s.arg(s.factor.levels[0], s.factor.levels[1]),
+                               {Weight::exact(Rational(1, 2)), Weight::exact(Rational(-1, 2))}});
+    d.factors.push_back(std::move(s));
+    syncShared(d);
+    d.terms = Design::fullFactorial(out.factorCount());
+    if (!d.cellN.empty()) {
+        std::vector<Rational> n;
+        for (const Rational &r : study.design.cellN)
+            for (int l = 0; l < 2; ++l)
+                n.push_back(r);
+        d.cellN = std::move(n);
+    }
+    out.active = out.factorCount() - 1;
+    return R(std::move(out));
+}
+
+Result<Study> withFactorRemoved(const Study &study, int factor)
+{
+    if (!study.isDesign())
+        return R::failure(QCoreApplication::translate("cb::Study", "Not removed: the study needs at least one factor."));
+    if (factor < 0 || factor >= study.factorCount())
+        return R::failure(QCoreApplication::translate("cb::Study", "Not removed: choose a factor first."));
+    Study out = study;
+    Design &d = out.design;
+    // Cell sizes of the factors that remain: summed over the removed factor's levels.
+    if (!d.cellN.empty()) {
+        Design rest = d;
+        rest.factors.erase(rest.factors.begin() + factor);
+        std::vector<Rational> n(size_t(rest.cellCount()), Rational(0));
+        for (int c = 0; c < d.cellCount(); ++c) {
+            std::vector<int> lv = levelsOfCell(d, c);
+            lv.erase(lv.begin() + factor);
+            n[size_t(cellIndex(rest, lv))] += d.cellN[size_t(c)];
+        }
+        d.cellN = std::move(n);
+    }
+    d.factors.erase(d.factors.begin() + factor);
+    out.active = std::min(study.active > factor ? study.active - 1 : study.active, out.factorCount() - 1);
+    if (!out.isDesign()) {
+        d.factors[0].intercept = d.intercept;
+        d.factors[0].notes = d.notes;
+        if (!d.cellN.empty() && std::all_of(d.cellN.begin(), d.cellN.end(), [](const Rational &r) { return r > 0; }))
+            d.factors[0].factor.plannedN = d.cellN;
+        d.terms.clear();
+        d.cellN.clear();
+    } else {
+        d.terms = Design::fullFactorial(out.factorCount());
+    }
+    out.cellSizeNote.clear();
+    return R(std::move(out));
+}
+
+Result<Study> withActiveFactor(const Study &study, int factor)
+{
+    if (factor < 0 || factor >= study.factorCount())
+        return R::failure(QCoreApplication::translate("cb::Study", "No factor %1.").arg(factor + 1));
+    Study out = study;
+    out.active = factor;
+    return R(std::move(out));
+}
+
+bool sameTerm(const Term &a, const Term &b)
+{
+    return a.factors == b.factors && a.within == b.within;
+}
+
+std::vector<Term> candidateTerms(int factorCount)
+{
+    std::vector<Term> out = Design::fullFactorial(factorCount);
+    for (int a = 0; a < factorCount; ++a)
+        for (int b = 0; b < factorCount; ++b)
+            if (a != b)
+                out.push_back(Term{{a}, b});
+    return out;
+}
+
+Result<Study> withTerm(const Study &study, const Term &term, bool included)
+{
+    if (!study.isDesign())
+        return R::failure(QCoreApplication::translate("cb::Study", "Terms belong to designs of two or more factors."));
+    Study out = study;
+    std::vector<Term> &terms = out.design.terms;
+    auto has = [&](const Term &t) { return std::any_of(terms.begin(), terms.end(), [&](const Term &x) { return sameTerm(x, t); }); };
+    if (included == has(term))
+        return R(std::move(out));
+    if (!included && terms.size() == 1)
+        return R::failure(QCoreApplication::translate("cb::Study", "Not left out: a design needs at least one term."));
+    std::vector<Term> next;
+    for (const Term &t : candidateTerms(study.factorCount()))
+        if (sameTerm(t, term) ? included : has(t))
+            next.push_back(t);
+    terms = std::move(next);
+    return R(std::move(out));
+}
+
+Study withEqualCellSizes(const Study &study)
+{
+    Study out = study;
+    out.design.cellN.clear();
+    out.cellSizeNote.clear();
+    return out;
+}
+
+Result<Study> withCellSize(const Study &study, int cell, const QString &text)
+{
+    if (!study.isDesign() || cell < 0 || cell >= study.design.cellCount())
+        return R::failure(QCoreApplication::translate("cb::Study", "No such cell."));
+    const QString cellName = study.design.cellNames()[cell];
+    auto w = parseWeight(text.trimmed());
+    if (!w || !w->isExact() || w->rational() < 0)
+        return R::failure(QCoreApplication::translate("cb::Study", "Cell %1: '%2' is not a planned size; type 0 (an empty cell) or more, such as 12.")
+                              .arg(cellName, text));
+    Study out = study;
+    if (out.design.cellN.empty())
+        out.design.cellN.assign(size_t(out.design.cellCount()), Rational(1));
+    out.design.cellN[size_t(cell)] = w->rational();
+    out.cellSizeNote.clear();
+    return R(std::move(out));
+}
+
+QByteArray studyToJson(const Study &study)
+{
+    return study.isDesign() ? designToJson(study.design) : schemeToJson(study.activeScheme());
+}
+
+Result<Study> studyFromJson(const QByteArray &data, const QString &where)
+{
+    if (!isDesignJson(data)) {
+        auto scheme = schemeFromJson(data, where);
+        if (!scheme)
+            return R::failure(scheme.error());
+        return R(studyOf(scheme.take()));
+    }
+    auto design = designFromJson(data, where);
+    if (!design)
+        return R::failure(design.error());
+    Study s;
+    s.design = design.take();
+    syncShared(s.design);
+    return R(std::move(s));
+}
+
+Result<Study> loadStudy(const QString &path)
+{
+    QFile f(path);
+    if (!f.open(QIODevice::ReadOnly))
+        return R::failure(u"%1: cannot open the file: %2"_s.arg(path, f.errorString()));
+    constexpr qint64 kMaxFile = 64 * 1024 * 1024;
+    if (f.size() > kMaxFile)
+        return R::failure(u"%1: the file is %2 bytes; scheme files are at most 64 MiB"_s.arg(path).arg(f.size()));
+    return studyFromJson(f.readAll(), path);
+}
+
+QString saveStudy(const Study &study, const QString &path)
+{
+    if (!study.isDesign())
+        return saveScheme(study.activeScheme(), path);
+    if (const QString e = study.design.validate(); !e.isEmpty())
+        return u"%1: not saved: %2"_s.arg(path, e);
+    return writeFileAtomically(path, designToJson(study.design));
+}
+
+} // namespace cb
