@@ -1,6 +1,7 @@
 // Tests of power and sample size for planned contrasts (core/Power.h), against
 // Cohen's (1988) tables, SciPy (tests/python/power_check.py) and the defining properties.
 #include "Analysis.h"
+#include "Design.h"
 #include "Power.h"
 #include "Scheme.h"
 #include "SchemeFile.h"
@@ -180,6 +181,7 @@ private slots:
     void commandLineJson();
     void commandLineReport();
     void commandLineReadsSchemeFile();
+    void commandLineReadsDesignFile();
     void commandLineRejectsInput_data();
     void commandLineRejectsInput();
 };
@@ -1027,6 +1029,57 @@ void TestPower::commandLineReadsSchemeFile()
     const CliRun clash = runCli(args + QStringList{u"--total"_s, u"90"_s});
     QCOMPARE(clash.exitCode, 2);
     QVERIFY2(clash.err.contains(u"--total: the planned sizes are already given (--n or the scheme file)"_s), qPrintable(clash.err));
+}
+
+// A balanced 2 x 2 design with centred +-1/2 coding on both factors: power per design column over
+// the four cells. Reference values from SciPy (scipy.stats.nct, df = 40 - 4 = 36, two-sided alpha .05):
+// main effect of A, psi = 1, SE = sqrt(1/10): 0.8679842825949;
+// interaction (difference of differences), psi = 1, SE = sqrt(4/10): 0.3371329261052971.
+void TestPower::commandLineReadsDesignFile()
+{
+    const auto factor = [](const QString &name, const QStringList &levels, const QString &column) {
+        Scheme s;
+        s.kind = SchemeKind::Custom;
+        s.factor.name = name;
+        s.factor.levels = levels;
+        s.columns.push_back(Column{column, {Weight::exact(Rational(-1, 2)), Weight::exact(Rational(1, 2))}});
+        return s;
+    };
+    Design d;
+    d.factors = {factor(u"A"_s, {u"a1"_s, u"a2"_s}, u"a2 vs a1"_s), factor(u"B"_s, {u"b1"_s, u"b2"_s}, u"b2 vs b1"_s)};
+    d.terms = Design::fullFactorial(2);
+    d.cellN = {10, 10, 10, 10};
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"design.json"_s);
+    QFile f(path);
+    QVERIFY(f.open(QIODevice::WriteOnly));
+    f.write(designToJson(d));
+    f.close();
+
+    // Cells a1:b1, a1:b2, a2:b1, a2:b2.
+    const CliRun run = runCli({u"--file"_s, path, u"--means"_s, u"0,0.5,0.5,2"_s, u"--sd"_s, u"1"_s, u"--json"_s});
+    QVERIFY2(run.exitCode == 0, qPrintable(run.err));
+    const QJsonObject o = QJsonDocument::fromJson(run.out.toUtf8()).object();
+    QCOMPARE(o[u"level_names"_s].toArray().size(), 4);
+    QCOMPARE(o[u"level_names"_s].toArray()[1].toString(), u"a1:b2"_s);
+    const QJsonArray contrasts = o[u"contrasts"_s].toArray();
+    QCOMPARE(contrasts.size(), 3);
+    const QJsonObject mainA = contrasts[0].toObject(), interaction = contrasts[2].toObject();
+    QCOMPARE(mainA[u"df"_s].toDouble(), 36.0);
+    QCOMPARE(mainA[u"estimate"_s].toDouble(), 1.0);
+    QVERIFY(std::abs(mainA[u"power"_s].toDouble() - 0.8679842825949) < 1e-9);
+    QCOMPARE(interaction[u"estimate"_s].toDouble(), 1.0);
+    QVERIFY(std::abs(interaction[u"power"_s].toDouble() - 0.3371329261052971) < 1e-9);
+    QVERIFY(o[u"notes"_s].toArray().first().toString().startsWith(u"a design of 4 cells"_s));
+
+    // An empty cell is refused, naming the file and the cell.
+    d.cellN = {10, 0, 10, 10};
+    QVERIFY(f.open(QIODevice::WriteOnly | QIODevice::Truncate));
+    f.write(designToJson(d));
+    f.close();
+    const CliRun empty = runCli({u"--file"_s, path, u"--means"_s, u"0,0.5,0.5,2"_s, u"--sd"_s, u"1"_s});
+    QCOMPARE(empty.exitCode, 2);
+    QVERIFY2(empty.err.contains(path + u": cell 'a1:b2' is empty"_s), qPrintable(empty.err));
 }
 
 void TestPower::commandLineRejectsInput_data()

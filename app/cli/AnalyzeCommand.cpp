@@ -47,25 +47,16 @@ int runAnalyze(const QStringList &args, Io &io)
         io.out << p.helpText();
         return kExitOk;
     }
-    if (p.isSet(u"file"_s)) {
-        // A file of several crossed factors is analysed over its cells.
-        QFile f(p.value(u"file"_s));
-        if (f.open(QIODevice::ReadOnly)) {
-            const QByteArray data = f.read(64 * 1024 * 1024);
-            if (isDesignJson(data)) {
-                auto design = designFromJson(data, p.value(u"file"_s));
-                if (!design)
-                    return badInput(io, u"analyze"_s, design.error());
-                if (p.isSet(u"no-intercept"_s))
-                    design->intercept = false;
-                const DesignAnalysis da = analyzeDesign(*design);
-                if (p.isSet(u"json"_s))
-                    io.out << QString::fromUtf8(QJsonDocument(designAnalysisToJson(*design, da)).toJson(QJsonDocument::Indented));
-                else
-                    io.out << designReport(*design, da);
-                return kExitOk;
-            }
-        }
+    // A file of several crossed factors is analysed over its cells.
+    if (auto design = designFromOptions(p)) {
+        if (!*design)
+            return badInput(io, u"analyze"_s, design->error());
+        const DesignAnalysis da = analyzeDesign(design->value());
+        if (p.isSet(u"json"_s))
+            io.out << QString::fromUtf8(QJsonDocument(designAnalysisToJson(design->value(), da)).toJson(QJsonDocument::Indented));
+        else
+            io.out << designReport(design->value(), da);
+        return kExitOk;
     }
     auto scheme = schemeFromOptions(p);
     if (!scheme)

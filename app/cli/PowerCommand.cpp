@@ -3,6 +3,7 @@
 #include "SchemeArguments.h"
 
 #include "Analysis.h"
+#include "Design.h"
 #include "Power.h"
 
 #include <QCommandLineParser>
@@ -303,6 +304,29 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
     return out;
 }
 
+// The scheme whose contrasts are planned: for a design file, its cells act as the levels
+// and its coding columns (Kronecker products) as the contrasts.
+Result<Scheme> plannedScheme(const QCommandLineParser &p, QStringList &notes)
+{
+    auto design = designFromOptions(p);
+    if (!design)
+        return schemeFromOptions(p);
+    if (!*design)
+        return Result<Scheme>::failure(design->error());
+    const Design &d = design->value();
+    const QStringList cells = d.cellNames();
+    for (size_t c = 0; c < d.cellN.size(); ++c)
+        if (d.cellN[c] == 0)
+            return Result<Scheme>::failure(u"%1: cell '%2' is empty (cell_n 0); power needs a planned size above 0 for every cell"_s
+                                               .arg(p.value(u"file"_s), cells[qsizetype(c)]));
+    auto cellsScheme = cellScheme(d);
+    if (cellsScheme)
+        notes << u"a design of %1 cells: each cell is a group here (%2, the first factor varying slowest), and each "
+                 "coding column of the design is a contrast over the cell means"_s
+                     .arg(cells.size()).arg(cells.join(u", "_s));
+    return cellsScheme;
+}
+
 } // namespace
 
 int runPower(const QStringList &args, Io &io)
@@ -316,7 +340,8 @@ int runPower(const QStringList &args, Io &io)
         io.out << p.helpText();
         return kExitOk;
     }
-    auto loaded = schemeFromOptions(p);
+    QStringList designNotes;
+    auto loaded = plannedScheme(p, designNotes);
     if (!loaded)
         return badInput(io, loaded.error());
     Scheme &scheme = loaded.value();
@@ -336,6 +361,7 @@ int runPower(const QStringList &args, Io &io)
     auto report = computePower(rows->rows, rows->names, s);
     if (!report)
         return badInput(io, report.error());
+    report->notes = designNotes + report->notes;
     if (analysis.dependsOnSizes)
         report->notes << u"the coding has fewer than k - 1 columns: its hypotheses are least-squares combinations "
                          u"under the planned sizes and change with them"_s;

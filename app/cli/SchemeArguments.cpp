@@ -2,6 +2,8 @@
 
 #include "SchemeFile.h"
 
+#include <QFile>
+
 using namespace Qt::StringLiterals;
 
 namespace cb::cli {
@@ -69,6 +71,22 @@ QString parseArguments(QCommandLineParser &p, const QString &command, const QStr
     if (!p.positionalArguments().isEmpty())
         return u"unexpected argument '%1'"_s.arg(p.positionalArguments().first());
     return {};
+}
+
+std::optional<Result<Design>> designFromOptions(const QCommandLineParser &p)
+{
+    if (!p.isSet(u"file"_s))
+        return std::nullopt;
+    QFile f(p.value(u"file"_s));
+    if (!f.open(QIODevice::ReadOnly))
+        return std::nullopt; // the scheme loader reports it
+    const QByteArray data = f.read(64 * 1024 * 1024);
+    if (!isDesignJson(data))
+        return std::nullopt;
+    auto design = designFromJson(data, p.value(u"file"_s));
+    if (design && p.isSet(u"no-intercept"_s))
+        design->intercept = false;
+    return design;
 }
 
 Result<Scheme> schemeFromOptions(const QCommandLineParser &p)

@@ -1,9 +1,12 @@
 #pragma once
 
+#include "Design.h"
 #include "Result.h"
 #include "Scheme.h"
 
 #include <QCommandLineParser>
+
+#include <optional>
 
 namespace cb::cli {
 
@@ -14,6 +17,10 @@ enum class SchemeOptionSet { All, WithoutFactorName };
 void addSchemeOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOptionSet::All);
 // The scheme the options describe; the message names the argument and what was wrong.
 Result<Scheme> schemeFromOptions(const QCommandLineParser &parser);
+
+// When --file names a design of several crossed factors: that design (or why it cannot be
+// read), with --no-intercept applied. Empty for every other case (a scheme file, --levels).
+std::optional<Result<Design>> designFromOptions(const QCommandLineParser &parser);
 
 // The factor alone: --levels, --factor (unless left out), --n.
 void addFactorOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOptionSet::All);
