@@ -8,6 +8,8 @@
 #include <Eigen/LU>
 #include <Eigen/SVD>
 
+#include <QStringBuilder>
+
 #include <cmath>
 #include <limits>
 
@@ -26,9 +28,11 @@ constexpr double kPrecisionWarning = 1e8;
 // singular values come from an SVD of the scaled design instead.
 constexpr double kGramConditionLimit = 1e3;
 
+// Findings are rebuilt on every edit: their texts are joined with QStringBuilder (one
+// allocation), not QString::arg (which parses the pattern once per argument).
 QString columnLabel(const Analysis &a, int j)
 {
-    return u"column %1 ('%2')"_s.arg(j + 1).arg(a.columnNames[j]);
+    return u"column "_s % QString::number(j + 1) % u" ('"_s % a.columnNames[j] % u"')"_s;
 }
 
 void addFinding(Analysis &a, Finding::Severity sev, Finding::Topic topic, QString message, int c1 = -1, int c2 = -1)
@@ -188,7 +192,6 @@ Eigen::VectorXd columnScales(const Eigen::MatrixXd &x)
 // Singular values of diag(sqrt n) X with unit-length columns, descending, plus the SVD when needed.
 struct Scaled
 {
-    Eigen::MatrixXd z;       // k x p, scaled
     Eigen::VectorXd colNorm; // norms before scaling
     Eigen::VectorXd sv;      // descending
     bool anyZeroColumn = false;
@@ -196,11 +199,17 @@ struct Scaled
     Eigen::BDCSVD<Eigen::MatrixXd> svd;
 };
 
-// Singular values, descending, from the eigenvalues of the Gram matrix a'a (lower-triangle rank update).
-Eigen::VectorXd gramSingularValues(const Eigen::MatrixXd &a, bool &ok)
+// A'A for a tall A, computed as a symmetric rank update and returned in full.
+Eigen::MatrixXd symmetricProduct(const Eigen::MatrixXd &a)
 {
-    Eigen::MatrixXd g = Eigen::MatrixXd::Zero(a.cols(), a.cols());
-    g.selfadjointView<Eigen::Lower>().rankUpdate(a.transpose());
+    Eigen::MatrixXd lower = Eigen::MatrixXd::Zero(a.cols(), a.cols());
+    lower.selfadjointView<Eigen::Lower>().rankUpdate(a.transpose());
+    return lower.selfadjointView<Eigen::Lower>();
+}
+
+// Singular values of A, descending, from the eigenvalues of its Gram matrix g = A'A.
+Eigen::VectorXd singularValuesFromGram(const Eigen::MatrixXd &g, bool &ok)
+{
     Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd> es(g, Eigen::EigenvaluesOnly);
     ok = es.info() == Eigen::Success;
     const Eigen::VectorXd ev = es.eigenvalues().cwiseMax(0.0); // ascending
@@ -224,7 +233,7 @@ bool singularValuesWithInverse(Scaled &s, const Eigen::MatrixXd &zInverse)
     if (!zInverse.allFinite())
         return false;
     bool ok = false;
-    const Eigen::VectorXd inv = gramSingularValues(zInverse, ok); // 1 / sigma, descending
+    const Eigen::VectorXd inv = singularValuesFromGram(symmetricProduct(zInverse), ok); // 1 / sigma, descending
     if (!ok || !(inv(0) > 0))
         return false;
     const Eigen::Index p = s.sv.size();
@@ -242,19 +251,20 @@ bool singularValuesWithInverse(Scaled &s, const Eigen::MatrixXd &zInverse)
     return true;
 }
 
-// xsInverse: the inverse of x when it is square (nullptr otherwise or when it is singular).
-void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::VectorXd &sqrtN, const Eigen::MatrixXd *xsInverse)
+// Z = diag(sqrt n) X D^-1, D the column norms, from gram = X' diag(n) X (Z'Z = D^-1 gram D^-1,
+// so Z itself is formed only for the SVD fallback). xsInverse: the inverse of x when it is
+// square (nullptr otherwise or when it is singular).
+void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::VectorXd &sqrtN, const Eigen::MatrixXd &gram,
+                          const Eigen::MatrixXd *xsInverse)
 {
-    s.z = sqrtN.asDiagonal() * x;
-    s.colNorm = s.z.colwise().norm().transpose();
-    for (Eigen::Index c = 0; c < s.z.cols(); ++c) {
-        if (s.colNorm(c) > 0)
-            s.z.col(c) /= s.colNorm(c);
-        else
-            s.anyZeroColumn = true;
+    s.colNorm = gram.diagonal().cwiseSqrt();
+    Eigen::VectorXd unit(s.colNorm.size()); // 1 / norm; a zero column stays as it is
+    for (Eigen::Index c = 0; c < s.colNorm.size(); ++c) {
+        s.anyZeroColumn = s.anyZeroColumn || !(s.colNorm(c) > 0);
+        unit(c) = s.colNorm(c) > 0 ? 1.0 / s.colNorm(c) : 1.0;
     }
     bool ok = false;
-    s.sv = gramSingularValues(s.z, ok);
+    s.sv = singularValuesFromGram(unit.asDiagonal() * gram * unit.asDiagonal(), ok);
     const Eigen::Index p = s.sv.size();
     if (ok && s.sv(p - 1) >= s.sv(0) / kGramConditionLimit)
         return;
@@ -264,21 +274,14 @@ void scaledSingularValues(Scaled &s, const Eigen::MatrixXd &x, const Eigen::Vect
         return;
     // Singular vectors only when the pseudo-inverse will need them (fewer columns than
     // levels); a square design is inverted by LU, which stays accurate here.
-    const bool vectors = s.z.cols() < s.z.rows();
-    s.svd.compute(s.z, vectors ? Eigen::ComputeThinU | Eigen::ComputeThinV : 0);
+    const Eigen::MatrixXd z = sqrtN.asDiagonal() * x * unit.asDiagonal();
+    const bool vectors = z.cols() < z.rows();
+    s.svd.compute(z, vectors ? Eigen::ComputeThinU | Eigen::ComputeThinV : 0);
     // With more columns than rows (k columns and an intercept) the SVD gives k values;
     // the other p - k are exactly zero.
     s.sv = Eigen::VectorXd::Zero(p);
     s.sv.head(s.svd.singularValues().size()) = s.svd.singularValues();
     s.usedSvd = true;
-}
-
-// A'A for a tall A, computed as a symmetric rank update and returned in full.
-Eigen::MatrixXd symmetricProduct(const Eigen::MatrixXd &a)
-{
-    Eigen::MatrixXd lower = Eigen::MatrixXd::Zero(a.cols(), a.cols());
-    lower.selfadjointView<Eigen::Lower>().rankUpdate(a.transpose());
-    return lower.selfadjointView<Eigen::Lower>();
 }
 
 struct Zero
@@ -289,8 +292,11 @@ struct Zero
 
 // c holds the coding columns times scale (powers of two); sums and cross-products are
 // given back unscaled.
+// cwc: c' diag(n) c for the scaled columns (a block of the design's weighted Gram matrix).
+// squareInverse: for a square design with an intercept, its inverse (the hypotheses), which gives
+// the VIFs without another decomposition.
 void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::MatrixXd &c, const Eigen::VectorXd &scale,
-                       const Eigen::VectorXd &n)
+                       const Eigen::VectorXd &n, const Eigen::MatrixXd &cwc, const Eigen::MatrixXd *squareInverse)
 {
     const int m = a.columnCount;
     const int k = a.levelCount;
@@ -356,9 +362,11 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
         const Eigen::VectorXd sums = c.colwise().sum().transpose();
         const Eigen::VectorXd abssums = c.cwiseAbs().colwise().sum().transpose();
         const Eigen::VectorXd wsums = c.transpose() * n;
-        const Eigen::MatrixXd cross = symmetricProduct(c);
-        const Eigen::MatrixXd wcross = symmetricProduct(n.cwiseSqrt().asDiagonal() * c) - wsums * wsums.transpose() / total;
-        const Eigen::VectorXd wsq = (c.array().square().colwise() * n.array()).colwise().sum().transpose();
+        // With equal sizes c'c is c' diag(n) c / n: one product serves both.
+        const bool equalSizes = (n.array() == n(0)).all();
+        const Eigen::MatrixXd cross = equalSizes ? Eigen::MatrixXd(cwc / n(0)) : symmetricProduct(c);
+        const Eigen::MatrixXd wcross = cwc - wsums * wsums.transpose() / total;
+        const Eigen::VectorXd wsq = cwc.diagonal();
         const auto unscaled = [&](double v, int i, int j) { return Weight::approx(v / scale(i) / scale(j)); };
         for (int j = 0; j < m; ++j) {
             a.columnSums[size_t(j)] = Weight::approx(sums(j) / scale(j));
@@ -391,6 +399,26 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
             r(i, j) = designCov(li, lj) / std::sqrt(designCov(li, li) * designCov(lj, lj));
             a.correlation(li, lj) = r(i, j);
         }
+    if (squareInverse && nl == m && m > 0) {
+        // VIF_j = [(X' diag(n) X)^-1]_jj times the centred, n-weighted sum of squares of column j, and
+        // (X' diag(n) X)^-1 = H diag(1/n) H' for the square X with inverse H.
+        // Used when the VIFs are small enough that R is certainly well conditioned:
+        // cond_1(R) <= m cond_2(R) <= m^2 sum VIF (lambda_max <= trace R = m, 1 / lambda_min <= trace R^-1).
+        const Eigen::ArrayXd invN = n.cwiseInverse().array();
+        std::vector<double> vif(static_cast<size_t>(m));
+        double sum = 0;
+        for (int j = 0; j < m; ++j) {
+            // Row j + 1 of the scaled inverse is H's row over scale(j), as column j of c is scaled by it.
+            const Eigen::ArrayXd h = squareInverse->row(j + 1).transpose().array();
+            vif[size_t(j)] = (h.square() * invN).sum() * designCov(j, j);
+            sum += vif[size_t(j)];
+        }
+        if (std::isfinite(sum) && double(m) * double(m) * sum < 1e12) {
+            for (int j = 0; j < m; ++j)
+                a.vif[size_t(j)] = vif[size_t(j)];
+            return;
+        }
+    }
     if (nl > 0) {
         // diag(R^-1) from the Cholesky factor: R^-1 = L^-T L^-1, so entry i is |column i of L^-1|^2.
         Eigen::LLT<Eigen::MatrixXd> llt(r);
@@ -416,8 +444,8 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
     for (int j = 0; j < m; ++j)
         if (!a.sumsToZero[size_t(j)])
             addFinding(a, S::Info, T::ColumnSum,
-                       u"%1 sums to %2, not 0: it is not a centred contrast, so the intercept is not the unweighted grand mean"_s
-                           .arg(columnLabel(a, j), a.columnSums[size_t(j)].display()), j);
+                       columnLabel(a, j) % u" sums to "_s % a.columnSums[size_t(j)].display()
+                           % u", not 0: it is not a centred contrast, so the intercept is not the unweighted grand mean"_s, j);
     // Identical columns. In floating point, two cheap necessary conditions come first: equal
     // norms and equal projections on a fixed vector r (|r.ci - r.cj| <= |r| |ci - cj|).
     Eigen::VectorXd norms, projections;
@@ -467,11 +495,13 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
                 if (orth[size_t(i)][size_t(j)])
                     continue;
                 if (++count <= 6)
-                    list << u"%1 and %2 (%3)"_s.arg(i + 1).arg(j + 1).arg(shownValue(values[size_t(i)][size_t(j)]));
+                    list << QString::number(i + 1) % u" and "_s % QString::number(j + 1) % u" ("_s
+                                % shownValue(values[size_t(i)][size_t(j)]) % u')';
             }
         if (count == 0)
             return;
-        QString msg = u"%1 of %2 column pairs are not orthogonal %3: "_s.arg(count).arg(total).arg(how) + list.join(u", "_s);
+        QString msg = QString::number(count) % u" of "_s % QString::number(total) % u" column pairs are not orthogonal "_s % how
+                      % u": "_s % list.join(u", "_s);
         if (count > 6)
             msg += u", ..."_s;
         addFinding(a, S::Info, T::Orthogonality, msg);
@@ -578,9 +608,12 @@ Analysis analyze(const Scheme &s)
     if (p == k)
         xsInverse = xs.partialPivLu().inverse();
 
+    // X' diag(n) X of the scaled columns: serves the singular values and the column diagnostics.
+    const Eigen::MatrixXd gram = symmetricProduct(n.cwiseSqrt().asDiagonal() * xs);
+
     // Collinearity (always floating: singular values are irrational).
     Scaled sc;
-    scaledSingularValues(sc, xs, n.cwiseSqrt(), xsInverse ? &*xsInverse : nullptr);
+    scaledSingularValues(sc, xs, n.cwiseSqrt(), gram, xsInverse ? &*xsInverse : nullptr);
     const double smax = sc.sv(0);
     const double smin = sc.sv(p - 1);
 
@@ -672,7 +705,11 @@ Analysis analyze(const Scheme &s)
         }
     }
 
-    columnDiagnostics(a, s, a.exact, xs.rightCols(m), scale.tail(m), n);
+    // The scaled inverse gives the VIFs of a square design with an intercept (floating path only).
+    const bool inverseForVif = !a.exact && a.fullRank && s.intercept && p == k && xsInverse && a.conditionNumber
+                               && *a.conditionNumber < 1e6;
+    columnDiagnostics(a, s, a.exact, xs.rightCols(m), scale.tail(m), n, gram.bottomRightCorner(m, m),
+                      inverseForVif ? &*xsInverse : nullptr);
     diagnosticFindings(a, c);
     return a;
 }

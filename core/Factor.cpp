@@ -1,5 +1,8 @@
 #include "Factor.h"
 
+#include <algorithm>
+#include <vector>
+
 #include <QSet>
 
 using namespace Qt::StringLiterals;
@@ -38,14 +41,19 @@ QString Factor::validate() const
         return u"levels: a factor needs at least %1 levels, got %2"_s.arg(kMinLevels).arg(levels.size());
     if (levels.size() > kMaxLevels)
         return u"levels: at most %1 levels are supported, got %2"_s.arg(kMaxLevels).arg(levels.size());
-    QSet<QString> seen;
-    for (qsizetype i = 0; i < levels.size(); ++i) {
-        const QString &l = levels[i];
-        if (l.trimmed().isEmpty())
+    for (qsizetype i = 0; i < levels.size(); ++i)
+        if (levels[i].trimmed().isEmpty())
             return u"levels: level %1 has an empty name; every level needs a name"_s.arg(i + 1);
-        if (seen.contains(l))
-            return u"levels: level %1 repeats the name '%2'; level names must be unique"_s.arg(i + 1).arg(l);
-        seen.insert(l);
+    // Unique names: sorted views side by side (cheaper than hashing; validate runs on every edit).
+    std::vector<QStringView> sorted(levels.begin(), levels.end());
+    std::sort(sorted.begin(), sorted.end());
+    if (std::adjacent_find(sorted.begin(), sorted.end()) != sorted.end()) {
+        QSet<QString> seen;
+        for (qsizetype i = 0; i < levels.size(); ++i) {
+            if (seen.contains(levels[i]))
+                return u"levels: level %1 repeats the name '%2'; level names must be unique"_s.arg(i + 1).arg(levels[i]);
+            seen.insert(levels[i]);
+        }
     }
     if (!plannedN.empty()) {
         if (plannedN.size() != size_t(levels.size()))

@@ -287,20 +287,26 @@ QString Weight::display(bool unicodeMinus) const
 {
     if (m_exact)
         return rationalToString(rational(), unicodeMinus);
+    // Written into one small buffer: displays are made for every cell and message.
+    char buf[64];
+    char *end = buf + 1; // buf[0] is kept for the sign
+    bool negative = m_d < 0;
     long long p = 0, q = 1;
     if (recogniseFraction(m_d, p, q)) {
-        QString s = QString::number(p);
-        if (q != 1)
-            s += u'/' + QString::number(q);
-        if (unicodeMinus && p < 0)
-            s[0] = QChar(kUnicodeMinus);
-        return s;
+        // At most 19 digits each: the numerator ends before buf + 24, the denominator before buf + 48.
+        end = std::to_chars(end, buf + 24, p < 0 ? -p : p).ptr;
+        if (q != 1) {
+            *end++ = '/';
+            end = std::to_chars(end, buf + 48, q).ptr;
+        }
+        negative = p < 0;
+    } else {
+        end += shortDecimal(std::abs(m_d), buf + 1);
+        negative = negative && !(end - buf == 2 && buf[1] == '0');
     }
-    char buf[40];
-    const int len = shortDecimal(std::abs(m_d), buf);
-    QString s = QString::fromLatin1(buf, len);
-    if (m_d < 0 && s != u"0"_s)
-        s.prepend(unicodeMinus ? QChar(kUnicodeMinus) : QChar(u'-'));
+    QString s = QString::fromLatin1(negative ? buf : buf + 1, end - (negative ? buf : buf + 1));
+    if (negative)
+        s[0] = unicodeMinus ? QChar(kUnicodeMinus) : QChar(u'-');
     return s;
 }
 
