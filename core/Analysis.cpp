@@ -304,8 +304,10 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
     a.sumsToZero.assign(size_t(m), false);
     a.orthogonal.assign(size_t(m), std::vector<bool>(size_t(m), false));
     a.orthogonalInDesign.assign(size_t(m), std::vector<bool>(size_t(m), false));
-    a.crossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
-    a.designCrossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
+    if (exact) {
+        a.crossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
+        a.designCrossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
+    }
     Eigen::MatrixXd designCov(m, m);
     std::vector<bool> constant(size_t(m), false);
     if (exact) {
@@ -372,13 +374,21 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
             a.columnSums[size_t(j)] = Weight::approx(sums(j) / scale(j));
             a.sumsToZero[size_t(j)] = Zero::test(sums(j), abssums(j));
         }
-        for (int i = 0; i < m; ++i)
+        // Rows built in place (m x m weights: no filled table to overwrite).
+        a.crossProducts.clear();
+        a.designCrossProducts.clear();
+        for (int i = 0; i < m; ++i) {
+            std::vector<Weight> &crossRow = a.crossProducts.emplace_back();
+            std::vector<Weight> &designRow = a.designCrossProducts.emplace_back();
+            crossRow.reserve(size_t(m));
+            designRow.reserve(size_t(m));
             for (int j = 0; j < m; ++j) {
-                a.crossProducts[size_t(i)][size_t(j)] = unscaled(cross(i, j), i, j);
-                a.designCrossProducts[size_t(i)][size_t(j)] = unscaled(wcross(i, j), i, j);
+                crossRow.push_back(unscaled(cross(i, j), i, j));
+                designRow.push_back(unscaled(wcross(i, j), i, j));
                 a.orthogonal[size_t(i)][size_t(j)] = Zero::test(cross(i, j), std::sqrt(cross(i, i) * cross(j, j)));
                 a.orthogonalInDesign[size_t(i)][size_t(j)] = Zero::test(wcross(i, j), std::sqrt(wsq(i) * wsq(j)));
             }
+        }
         designCov = wcross;
         for (int j = 0; j < m; ++j)
             constant[size_t(j)] = Zero::test(wcross(j, j), wsq(j));

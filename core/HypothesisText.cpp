@@ -286,21 +286,21 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
     // Exact weights, recognising simple fractions in floating ones; the sum on the way.
     std::vector<Frac> w(k);
     std::optional<Frac> total = Frac{};
-    // Rows repeat values (a group's weights are equal): remember the last conversion.
-    double lastValue = std::numeric_limits<double>::quiet_NaN();
-    std::optional<Frac> lastFrac;
-    for (size_t i = 0; i < k && total; ++i) {
-        if (row[i].isExact() || row[i].value() != lastValue) {
-            lastFrac = toFrac(row[i]);
-            lastValue = row[i].isExact() ? std::numeric_limits<double>::quiet_NaN() : row[i].value();
-        }
-        const auto &f = lastFrac;
-        if (f) {
-            w[i] = *f;
-            total = add(*total, *f);
-        } else {
+    // Rows repeat values (a group's weights are equal): each run of equal weights is converted
+    // once and enters the sum once, as count times its value.
+    for (size_t i = 0; i < k && total;) {
+        const std::optional<Frac> f = toFrac(row[i]);
+        if (!f) {
             total.reset();
+            break;
         }
+        size_t end = i + 1;
+        while (end < k && row[end] == row[i])
+            ++end;
+        std::fill(w.begin() + std::ptrdiff_t(i), w.begin() + std::ptrdiff_t(end), *f);
+        const auto run = makeFrac(static_cast<__int128>(f->n) * static_cast<__int128>(end - i), f->d);
+        total = run ? add(*total, *run) : std::nullopt;
+        i = end;
     }
     if (total)
         out.combination = exactCombination(w, levels, room);
