@@ -33,41 +33,76 @@ RationalMatrix RationalMatrix::operator*(const RationalMatrix &o) const
     return out;
 }
 
+// Fraction-free Gauss–Jordan elimination (Bareiss 1968, Math. Comp. 22(103), extended to the
+// rows above the pivot): each row is first scaled to integers by the lcm of its denominators,
+// which leaves the reduced form unchanged; every entry then stays a minor of that integer
+// matrix, so each step's division by the previous pivot is exact and needs no gcd. The
+// fractions are formed once, at the end, by dividing each row by its pivot.
 RationalMatrix::Echelon RationalMatrix::echelon() const
 {
-    Echelon e{*this, {}};
-    RationalMatrix &a = e.reduced;
+    const int rows = m_rows, cols = m_cols;
+    std::vector<mpz_class> a(size_t(rows) * size_t(cols));
+    const auto at = [&](int r, int c) -> mpz_class & { return a[size_t(r) * size_t(cols) + size_t(c)]; };
+    mpz_class scale;
+    for (int r = 0; r < rows; ++r) {
+        scale = 1;
+        for (int c = 0; c < cols; ++c)
+            mpz_lcm(scale.get_mpz_t(), scale.get_mpz_t(), (*this)(r, c).get_den_mpz_t());
+        for (int c = 0; c < cols; ++c) {
+            const Rational &q = (*this)(r, c);
+            mpz_divexact(at(r, c).get_mpz_t(), scale.get_mpz_t(), q.get_den_mpz_t());
+            at(r, c) *= q.get_num();
+        }
+    }
+    Echelon e;
+    mpz_class previous = 1, pivotValue, factor, t;
     int row = 0;
-    Rational factor, term;
-    for (int col = 0; col < m_cols && row < m_rows; ++col) {
+    for (int col = 0; col < cols && row < rows; ++col) {
         int pivot = -1;
-        for (int r = row; r < m_rows; ++r)
-            if (a(r, col) != 0) {
+        for (int r = row; r < rows; ++r)
+            if (at(r, col) != 0) {
                 pivot = r;
                 break;
             }
         if (pivot < 0)
             continue;
         if (pivot != row)
-            for (int c = 0; c < m_cols; ++c)
-                std::swap(a(pivot, c), a(row, c));
-        const Rational inv = 1 / a(row, col);
-        for (int c = col; c < m_cols; ++c)
-            a(row, c) *= inv;
-        for (int r = 0; r < m_rows; ++r) {
-            if (r == row || a(r, col) == 0)
+            for (int c = 0; c < cols; ++c)
+                std::swap(at(pivot, c), at(row, c));
+        pivotValue = at(row, col);
+        for (int r = 0; r < rows; ++r) {
+            if (r == row)
                 continue;
-            factor = a(r, col);
-            for (int c = col; c < m_cols; ++c) {
-                if (a(row, c) == 0)
+            factor = at(r, col);
+            // a(r, c) = (pivot a(r, c) - factor a(row, c)) / previous, exactly.
+            for (int c = 0; c < cols; ++c) {
+                mpz_class &x = at(r, c);
+                const mpz_class &y = at(row, c);
+                if (x == 0 && (factor == 0 || y == 0))
                     continue;
-                term = factor * a(row, c);
-                a(r, c) -= term;
+                x *= pivotValue;
+                if (factor != 0 && y != 0) {
+                    t = factor * y;
+                    x -= t;
+                }
+                mpz_divexact(x.get_mpz_t(), x.get_mpz_t(), previous.get_mpz_t());
             }
         }
+        previous = pivotValue;
         e.pivots.push_back(col);
         ++row;
     }
+    // Every pivot now equals the last one; each row divided by it is the reduced form.
+    e.reduced = RationalMatrix(rows, cols);
+    for (int r = 0; r < int(e.pivots.size()); ++r)
+        for (int c = 0; c < cols; ++c) {
+            if (at(r, c) == 0)
+                continue;
+            Rational &q = e.reduced(r, c);
+            q.get_num() = at(r, c);
+            q.get_den() = previous;
+            q.canonicalize();
+        }
     return e;
 }
 
