@@ -10,6 +10,7 @@
 
 #include <QStringBuilder>
 
+#include <charconv>
 #include <cmath>
 #include <limits>
 
@@ -419,8 +420,7 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
         double sum = 0;
         for (int j = 0; j < m; ++j) {
             // Row j + 1 of the scaled inverse is H's row over scale(j), as column j of c is scaled by it.
-            const Eigen::ArrayXd h = squareInverse->row(j + 1).transpose().array();
-            vif[size_t(j)] = (h.square() * invN).sum() * designCov(j, j);
+            vif[size_t(j)] = (squareInverse->row(j + 1).transpose().array().square() * invN).sum() * designCov(j, j);
             sum += vif[size_t(j)];
         }
         if (std::isfinite(sum) && double(m) * double(m) * sum < 1e12) {
@@ -547,10 +547,12 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
         const auto &v = a.vif[size_t(j)];
         if (v && *v >= kVifProblem)
             addFinding(a, S::Problem, T::Collinearity,
-                       u"%1 has VIF %2 (10 or more: serious collinearity, common practice)"_s.arg(columnLabel(a, j), QString::number(*v, 'g', 4)), j);
+                       columnLabel(a, j) % u" has VIF "_s % QString::number(*v, 'g', 4)
+                           % u" (10 or more: serious collinearity, common practice)"_s, j);
         else if (v && *v >= kVifCaution)
             addFinding(a, S::Caution, T::Collinearity,
-                       u"%1 has VIF %2 (5 or more: notable collinearity, common practice)"_s.arg(columnLabel(a, j), QString::number(*v, 'g', 4)), j);
+                       columnLabel(a, j) % u" has VIF "_s % QString::number(*v, 'g', 4)
+                           % u" (5 or more: notable collinearity, common practice)"_s, j);
     }
     bool anyUndefined = false;
     for (int j = 0; j < m; ++j) {
@@ -707,7 +709,8 @@ Analysis analyze(const Scheme &s)
                            .arg(m).arg(k));
         for (int r = 0; r < p; ++r) {
             const bool isIntercept = s.intercept && r == 0;
-            const QString label = u"b%1"_s.arg(s.intercept ? r : r + 1);
+            char name[24] = {'b'};
+            const QString label = QString::fromLatin1(name, std::to_chars(name + 1, name + sizeof name, s.intercept ? r : r + 1).ptr - name);
             const HypothesisText t = describeHypothesis(a.hypotheses[size_t(r)], a.levels, nq, isIntercept, label);
             a.hypothesisSymbols << t.symbols;
             a.hypothesisWords << t.words;

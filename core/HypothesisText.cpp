@@ -1,6 +1,7 @@
 #include "HypothesisText.h"
 
 #include <charconv>
+#include <cstring>
 #include <cmath>
 #include <limits>
 #include <algorithm>
@@ -22,15 +23,26 @@ using Indices = std::vector<qsizetype>;
 class TextBuilder
 {
 public:
+    TextBuilder() = default;
+    TextBuilder(const TextBuilder &) = delete;
+    TextBuilder &operator=(const TextBuilder &) = delete;
+
     TextBuilder &operator<<(QStringView v)
     {
         put(reinterpret_cast<const char16_t *>(v.utf16()), size_t(v.size()));
         return *this;
     }
+    // A literal's length is known when compiling (QStringView would scan it for its end).
+    template <size_t N>
+    TextBuilder &operator<<(const char16_t (&literal)[N])
+    {
+        put(literal, N - 1);
+        return *this;
+    }
     TextBuilder &operator<<(char16_t c)
     {
         room(1);
-        m_buffer[m_size++] = c;
+        m_data[m_size++] = c;
         return *this;
     }
     // ASCII digits and signs from std::to_chars.
@@ -38,20 +50,25 @@ public:
     {
         room(size_t(end - begin));
         for (const char *c = begin; c != end; ++c)
-            m_buffer[m_size++] = char16_t(*c);
+            m_data[m_size++] = char16_t(*c);
     }
     void reserve(qsizetype capacity) { grow(size_t(capacity)); }
     bool isEmpty() const { return m_size == 0; }
-    QString toString() const { return QString(reinterpret_cast<const QChar *>(m_buffer.get()), qsizetype(m_size)); }
+    QStringView view() const { return QStringView(m_data, qsizetype(m_size)); }
+    QString toString() const { return view().toString(); }
 
 private:
     void put(const char16_t *text, size_t n)
     {
         room(n);
-        // Level names are short: a plain loop beats a call to memcpy.
-        char16_t *to = m_buffer.get() + m_size;
-        for (size_t i = 0; i < n; ++i)
-            to[i] = text[i];
+        // Level names are short: a plain loop beats a call to memcpy, which wins for long texts.
+        char16_t *to = m_data + m_size;
+        if (n > 32) {
+            std::memcpy(to, text, n * sizeof(char16_t));
+        } else {
+            for (size_t i = 0; i < n; ++i)
+                to[i] = text[i];
+        }
         m_size += n;
     }
     void room(size_t n)
@@ -64,14 +81,19 @@ private:
         if (capacity <= m_capacity)
             return;
         auto bigger = std::make_unique_for_overwrite<char16_t[]>(capacity);
-        std::copy(m_buffer.get(), m_buffer.get() + m_size, bigger.get());
-        m_buffer = std::move(bigger);
+        std::copy(m_data, m_data + m_size, bigger.get());
+        m_heap = std::move(bigger);
+        m_data = m_heap.get();
         m_capacity = capacity;
     }
 
-    std::unique_ptr<char16_t[]> m_buffer;
+    // Short texts (small factors) stay in the object: no allocation.
+    static constexpr size_t kInline = 384;
+    char16_t m_inline[kInline];
+    std::unique_ptr<char16_t[]> m_heap;
+    char16_t *m_data = m_inline;
     size_t m_size = 0;
-    size_t m_capacity = 0;
+    size_t m_capacity = kInline;
 };
 
 void appendNames(TextBuilder &out, const QStringList &levels, const Indices &which, QStringView separator)
@@ -87,8 +109,10 @@ void appendNames(TextBuilder &out, const QStringList &levels, const Indices &whi
 void appendWordList(TextBuilder &out, const QStringList &levels, const Indices &which)
 {
     for (size_t i = 0; i < which.size(); ++i) {
-        if (i > 0)
-            out << (i + 1 == which.size() ? QStringView(u" and ") : QStringView(u", "));
+        if (i > 0 && i + 1 == which.size())
+            out << u" and ";
+        else if (i > 0)
+            out << u", ";
         out << levels[which[i]];
     }
 }
@@ -234,7 +258,10 @@ QString exactCombination(const std::vector<Frac> &w, const QStringList &levels, 
     if (!pos.empty() && !appendGroup(s, pos, levels, false))
         return {};
     if (!neg.empty()) {
-        s << (pos.empty() ? QStringView(u"-") : QStringView(u" - "));
+        if (pos.empty())
+            s << u"-";
+        else
+            s << u" - ";
         // "x - (a + b)", not "x - a + b"
         if (!appendGroup(s, neg, levels, true))
             return {};
@@ -261,7 +288,7 @@ QString numericCombination(const std::vector<Weight> &row, const QStringList &le
             if (v < 0)
                 s << u'-';
         } else {
-            s << (v < 0 ? QStringView(u" - ") : QStringView(u" + "));
+            s << (v < 0 ? u" - " : u" + ");
         }
         if (!(len == 1 && buf[0] == '1')) {
             s.appendAscii(buf, buf + len);
@@ -323,9 +350,11 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
         sym << out.combination;
         if (!isIntercept)
             sym << u" = 0";
-        words << (isIntercept ? QStringView(u"a weighted combination of the level means: ")
-                              : QStringView(u"a weighted combination of the level means (weights not simple fractions): "))
-              << out.combination;
+        if (isIntercept)
+            words << u"a weighted combination of the level means: ";
+        else
+            words << u"a weighted combination of the level means (weights not simple fractions): ";
+        words << out.combination;
         return done();
     }
 
@@ -415,7 +444,11 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
             const QString what = unweighted ? u"the unweighted mean of all %1 level means"_s.arg(k)
                                             : u"the mean of all %1 levels weighted by the planned n"_s.arg(k);
             symbolsStart();
-            sym << u"mean(" << levels[j] << u") - " << (unweighted ? QStringView(u"grand mean") : QStringView(u"weighted grand mean")) << u" = 0";
+            sym << u"mean(" << levels[j] << u") - ";
+            if (unweighted)
+                sym << u"grand mean = 0";
+            else
+                sym << u"weighted grand mean = 0";
             words << levels[j] << u" minus " << what;
             return done();
         }
@@ -432,7 +465,9 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
             appendMeanSymbol(sym, levels, pos);
             sym << u" - ";
             appendMeanSymbol(sym, levels, neg);
-            sym << (scaled ? QStringView(u") = 0") : QStringView(u" = 0"));
+            if (scaled)
+                sym << u")";
+            sym << u" = 0";
             words.reserve(room);
             if (scaled)
                 words << fracText(*scale) << u" times the difference: ";

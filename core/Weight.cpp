@@ -217,7 +217,8 @@ bool recogniseFraction(double x, long long &numerator, long long &denominator, l
         if (q2 > maxDenominator)
             break;
         p0 = p1; q0 = q1; p1 = p2; q1 = q2;
-        if (std::abs(static_cast<double>(p1) / static_cast<double>(q1) - std::abs(x)) <= tol) {
+        // |p/q - |x|| <= tol, multiplied through by q (one division less per step).
+        if (std::abs(static_cast<double>(p1) - static_cast<double>(q1) * std::abs(x)) <= tol * static_cast<double>(q1)) {
             numerator = x < 0 ? -p1 : p1;
             denominator = q1;
             return true;
@@ -257,16 +258,9 @@ int shortDecimal(double magnitude, char *buf)
         return int(std::to_chars(buf, buf + 32, magnitude, std::chars_format::general, 6).ptr - buf);
     // Six decimals, trailing zeros trimmed, written by hand (std::to_chars with a precision is slow).
     const long long scaled = std::llround(magnitude * 1e6);
-    long long whole = scaled / 1000000, frac = scaled % 1000000;
-    char digits[24];
-    int n = 0;
-    do {
-        digits[n++] = char('0' + whole % 10);
-        whole /= 10;
-    } while (whole > 0);
-    int len = 0;
-    while (n > 0)
-        buf[len++] = digits[--n];
+    const long long whole = scaled / 1000000;
+    int frac = static_cast<int>(scaled - whole * 1000000);
+    int len = static_cast<int>(std::to_chars(buf, buf + 24, whole).ptr - buf);
     if (frac != 0) {
         buf[len++] = '.';
         int width = 6;
