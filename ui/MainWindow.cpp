@@ -141,15 +141,16 @@ void MainWindow::buildDocks()
     m_design = new DesignPanel(m_document, this);
     setCorner(Qt::BottomLeftCorner, Qt::LeftDockWidgetArea);
     setCorner(Qt::BottomRightCorner, Qt::BottomDockWidgetArea);
-    auto *levels = dock(m_levels, tr("Factor and levels"), u"levelsDock"_s, Qt::LeftDockWidgetArea);
+    dock(m_levels, tr("Factor and levels"), u"levelsDock"_s, Qt::LeftDockWidgetArea);
     auto *meaning = dock(m_meaning, tr("What each coefficient tests"), u"meaningDock"_s, Qt::RightDockWidgetArea);
     m_healthDock = dock(scrolling(m_health, this), tr("Design health"), u"healthDock"_s, Qt::BottomDockWidgetArea);
-    // The design view: a tab beside the coefficient cards, brought forward when the study becomes a design.
+    resizeDocks({m_healthDock}, {kBottomDockHeight}, Qt::Vertical);
+    // The design view: a tab beside the coefficient cards, brought forward when the study becomes a
+    // design. The side docks' widths are set when the window is first shown (showEvent): before
+    // that, a tabbed dock area does not keep them.
     m_designDock = dock(scrolling(m_design, this), tr("Design"), u"designDock"_s, Qt::RightDockWidgetArea);
     tabifyDockWidget(meaning, m_designDock);
     meaning->raise();
-    resizeDocks({levels, meaning}, {290, 380}, Qt::Horizontal);
-    resizeDocks({m_healthDock}, {kBottomDockHeight}, Qt::Vertical);
 }
 
 QDockWidget *MainWindow::addPanel(QWidget *panel, const QString &title, const QString &objectName)
@@ -409,6 +410,18 @@ bool MainWindow::offerRecovery()
     m_document->restore(recovered->study, recovered->originalPath);
     showMessage(tr("Restored unsaved work. Save it to keep it."));
     return true;
+}
+
+void MainWindow::showEvent(QShowEvent *event)
+{
+    QMainWindow::showEvent(event);
+    if (m_docksSized)
+        return;
+    m_docksSized = true;
+    auto *levels = findChild<QDockWidget *>(u"levelsDock"_s);
+    auto *meaning = findChild<QDockWidget *>(u"meaningDock"_s);
+    if (levels && meaning)
+        resizeDocks({levels, m_document->isDesign() ? m_designDock : meaning}, {290, m_document->isDesign() ? 470 : 380}, Qt::Horizontal);
 }
 
 void MainWindow::closeEvent(QCloseEvent *event)

@@ -72,6 +72,7 @@ public:
 
 protected:
     void closeEvent(QCloseEvent *event) override;
+    void showEvent(QShowEvent *event) override;
     void dragEnterEvent(QDragEnterEvent *event) override;
     void dropEvent(QDropEvent *event) override;
 
@@ -95,6 +96,7 @@ private:
     DesignPanel *m_design = nullptr;
     QDockWidget *m_designDock = nullptr;
     bool m_wasDesign = false;
+    bool m_docksSized = false; // the side docks get their widths once, when first shown
     QDockWidget *m_healthDock = nullptr;
     QMenu *m_recentMenu = nullptr;
     QMenu *m_viewMenu = nullptr;
