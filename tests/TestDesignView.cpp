@@ -35,6 +35,7 @@ private slots:
     void leavingOutATermShowsTheCellSizeDependence();
     void addingAndRemovingAFactorIsUndoable();
     void cellSizesFollowTheLevelNames();
+    void factorSizesAreTheLevelTotalsOverTheCells();
     void emptyCellIsNamed();
     void saveThenOpenRoundTripsTheDesign();
     void badDesignFileNamesTheFieldAndKeepsTheWork();
@@ -216,6 +217,48 @@ void TestDesignView::leavingOutATermShowsTheCellSizeDependence()
     termItem(p->termTree(), u"margin x mowing"_s)->setCheckState(0, Qt::Unchecked);
     QCOMPARE(d->designAnalysis().analysis.columnCount, 5);
     QVERIFY(!p->picture()->isEmpty());
+}
+
+// In a design each factor's planned n is its levels' totals over the cells: the levels table
+// shows them (read-only), and n-dependent codings such as weighted-effect use them.
+void TestDesignView::factorSizesAreTheLevelTotalsOverTheCells()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    // Cells (margin x mowing, early/late): bare 6, 6; grass 6, 5; wildflower 6, 4.
+    QCOMPARE(d->design().factors[0].factor.plannedN, (std::vector<Rational>{12, 11, 10}));
+    QCOMPARE(d->design().factors[1].factor.plannedN, (std::vector<Rational>{18, 15}));
+    LevelsModel levels(d);
+    const QModelIndex grassSize = levels.index(1, LevelsModel::SizeColumn);
+    QCOMPARE(levels.data(grassSize).toString(), u"11"_s);
+    QVERIFY(!(levels.flags(grassSize) & Qt::ItemIsEditable));
+    QVERIFY(levels.data(grassSize, Qt::ToolTipRole).toString().contains(u"per cell"_s));
+
+    // Weighted-effect coding of margin weights by those totals (33 plots in all).
+    auto weighted = edits::withStandard(d->scheme(), SchemeKind::WeightedEffect, {});
+    QVERIFY2(weighted.ok(), qPrintable(weighted.error()));
+    d->edit(weighted.take(), u"weighted"_s);
+    const Analysis &a = d->analysis();
+    QCOMPARE(texts(a.hypotheses[0]), (QStringList{u"4/11"_s, u"1/3"_s, u"10/33"_s})); // n_i / N
+    // A cell size changed in the design tab moves the totals and the weighted coding with them.
+    auto next = withCellSize(d->study(), 5, u"10"_s); // wildflower:late 4 -> 10
+    QVERIFY2(next.ok(), qPrintable(next.error()));
+    d->editStudy(next.take(), u"cell"_s);
+    QCOMPARE(d->design().factors[0].factor.plannedN, (std::vector<Rational>{12, 11, 16}));
+    QCOMPARE(texts(d->analysis().hypotheses[0]), (QStringList{u"4/13"_s, u"11/39"_s, u"16/39"_s}));
+    d->undoStack()->undo();
+    QCOMPARE(d->design().factors[0].factor.plannedN, (std::vector<Rational>{12, 11, 10}));
+
+    // Crossing a one-factor plan with a new factor keeps the sizes' proportions.
+    WindowFixture g;
+    Document *one = g.window->document();
+    auto sized = edits::withSizes(one->scheme(), {10, 20, 30, 40});
+    QVERIFY(sized.ok());
+    one->edit(sized.take(), u"sizes"_s);
+    g.window->designPanel()->addFactor();
+    QCOMPARE(one->design().cellN, (std::vector<Rational>{10, 10, 20, 20, 30, 30, 40, 40}));
+    QCOMPARE(one->design().factors[0].factor.plannedN, (std::vector<Rational>{20, 40, 60, 80}));
 }
 
 void TestDesignView::addingAndRemovingAFactorIsUndoable()

@@ -31,7 +31,7 @@ void Document::edit(Scheme next, const QString &actionName, MergeId mergeId, con
 
 void Document::editStudy(Study next, const QString &actionName, MergeId mergeId, const QString &mergeKey)
 {
-    m_undo.push(new SchemeCommand(this, m_study, std::move(next), actionName, mergeId, mergeKey));
+    m_undo.push(new SchemeCommand(this, m_study, settled(std::move(next)), actionName, mergeId, mergeKey));
 }
 
 void Document::reset(Scheme scheme, const QString &filePath)
@@ -43,7 +43,7 @@ void Document::reset(Study study, const QString &filePath)
 {
     m_undo.clear();
     setFilePath(filePath);
-    applyStudy(study);
+    applyStudy(settled(std::move(study)));
     m_undo.setClean();
 }
 

@@ -75,6 +75,9 @@ QVariant LevelsModel::data(const QModelIndex &index, int role) const
             return look::quietText();
         if (role == Qt::TextAlignmentRole)
             return QVariant::fromValue(Qt::AlignRight | Qt::AlignVCenter);
+        if (role == Qt::ToolTipRole && document()->study().isDesign())
+            return tr("In a design the planned sizes are set per cell, in the Design tab; this is the level's total over the "
+                      "cells (1 when the totals are equal), which the panels for this factor on its own use.");
         if (role == Qt::ToolTipRole)
             return f.hasPlannedN() ? tr("Planned group size of this level. Weighted-effect coding, the intercept's meaning and "
                                         "orthogonality \u2018under the planned n\u2019 use it.")
@@ -132,7 +135,9 @@ Qt::ItemFlags LevelsModel::flags(const QModelIndex &index) const
     if (!index.isValid())
         return Qt::ItemIsDropEnabled;
     Qt::ItemFlags f = Qt::ItemIsEnabled | Qt::ItemIsSelectable | Qt::ItemIsDragEnabled | Qt::ItemIsDropEnabled;
-    if (index.column() != RoleColumn)
+    // In a design the sizes are planned per cell (the Design tab); here they are the levels' totals.
+    const bool cellSizes = index.column() == SizeColumn && document()->study().isDesign();
+    if (index.column() != RoleColumn && !cellSizes)
         f |= Qt::ItemIsEditable;
     return f;
 }

@@ -202,8 +202,13 @@ Result<Scheme> withPlannedSize(const Scheme &scheme, int level, const QString &t
 
 Result<Scheme> withEqualSizes(const Scheme &scheme)
 {
+    return withSizes(scheme, {});
+}
+
+Result<Scheme> withSizes(const Scheme &scheme, std::vector<Rational> sizes)
+{
     Scheme s = scheme;
-    s.factor.plannedN.clear();
+    s.factor.plannedN = std::move(sizes);
     return settle(std::move(s));
 }
 

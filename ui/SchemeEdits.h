@@ -37,6 +37,8 @@ Result<Scheme> withLevelMoved(const Scheme &scheme, int from, int to);
 // Planned size of one level from text; the other levels keep theirs (1 when none were planned).
 Result<Scheme> withPlannedSize(const Scheme &scheme, int level, const QString &text);
 Result<Scheme> withEqualSizes(const Scheme &scheme);
+// Every level's planned size at once (empty: equal sizes).
+Result<Scheme> withSizes(const Scheme &scheme, std::vector<Rational> sizes);
 Result<Scheme> withPosition(const Scheme &scheme, int level, const QString &text);
 Result<Scheme> withDefaultPositions(const Scheme &scheme);
 Scheme withNotes(const Scheme &scheme, const QString &notes);

@@ -1,5 +1,6 @@
 #include "Study.h"
 
+#include "SchemeEdits.h"
 #include "SchemeFile.h"
 
 #include <QCoreApplication>
@@ -67,6 +68,32 @@ QString factorName(const Design &d, int f)
 }
 
 } // namespace
+
+Study settled(Study study)
+{
+    Design &d = study.design;
+    if (!study.isDesign())
+        return study;
+    syncShared(d);
+    for (size_t f = 0; f < d.factors.size(); ++f) {
+        Scheme &s = d.factors[f];
+        std::vector<Rational> totals;
+        if (!d.cellN.empty() && d.cellN.size() == size_t(d.cellCount())) {
+            totals.assign(size_t(s.levelCount()), Rational(0));
+            for (int c = 0; c < d.cellCount(); ++c)
+                totals[size_t(levelsOfCell(d, c)[f])] += d.cellN[size_t(c)];
+            const bool usable = std::all_of(totals.begin(), totals.end(), [](const Rational &n) { return n > 0; });
+            const bool equal = std::all_of(totals.begin(), totals.end(), [&](const Rational &n) { return n == totals[0]; });
+            if (!usable || equal)
+                totals.clear();
+        }
+        if (totals == s.factor.plannedN)
+            continue;
+        if (auto next = edits::withSizes(s, std::move(totals)))
+            s = next.take();
+    }
+    return study;
+}
 
 Study studyOf(Scheme scheme)
 {
@@ -137,9 +164,12 @@ Result<Study> withFactorAdded(const Study &study)
     d.factors.push_back(std::move(s));
     syncShared(d);
     d.terms = Design::fullFactorial(out.factorCount());
-    if (!d.cellN.empty()) {
+    // Each cell of the new factor gets the planned n of the cell (or, coming from one factor,
+    // the level) it splits, so the sizes keep their proportions.
+    const std::vector<Rational> before = study.isDesign() ? study.design.cellN : study.design.factors[0].factor.plannedN;
+    if (!before.empty()) {
         std::vector<Rational> n;
-        for (const Rational &r : study.design.cellN)
+        for (const Rational &r : before)
             for (int l = 0; l < 2; ++l)
                 n.push_back(r);
         d.cellN = std::move(n);

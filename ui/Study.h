@@ -24,6 +24,12 @@ struct Study
     const Scheme &activeScheme() const { return design.factors[size_t(active)]; }
 };
 
+// The parts of a study that follow from the rest, made consistent: in a design every factor
+// shares the design's intercept and notes, and a factor's planned n are its levels' totals over
+// the cells (equal when the cells are, or when a level has no planned observations), so its
+// one-factor panels and its n-dependent codings (weighted-effect) read the design's sizes.
+Study settled(Study study);
+
 // Pure edits, like SchemeEdits: each returns the next study or says why not.
 Study studyOf(Scheme scheme);
 // Replaces the active factor. Cell sizes follow the level names (a renamed level keeps its
