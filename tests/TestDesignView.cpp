@@ -3,6 +3,7 @@
 #include "CodingPanel.h"
 #include "Demos.h"
 #include "DesignPanel.h"
+#include "ExportDialog.h"
 #include "Document.h"
 #include "LevelsModel.h"
 #include "Power.h"
@@ -36,6 +37,7 @@ private slots:
     void addingAndRemovingAFactorIsUndoable();
     void cellSizesFollowTheLevelNames();
     void factorSizesAreTheLevelTotalsOverTheCells();
+    void exportIsOverTheCells();
     void emptyCellIsNamed();
     void saveThenOpenRoundTripsTheDesign();
     void badDesignFileNamesTheFieldAndKeepsTheWork();
@@ -259,6 +261,23 @@ void TestDesignView::factorSizesAreTheLevelTotalsOverTheCells()
     g.window->designPanel()->addFactor();
     QCOMPARE(one->design().cellN, (std::vector<Rational>{10, 10, 20, 20, 30, 30, 40, 40}));
     QCOMPARE(one->design().factors[0].factor.plannedN, (std::vector<Rational>{20, 40, 60, 80}));
+}
+
+// With a design open, File > Export writes the design's coding over its cells.
+void TestDesignView::exportIsOverTheCells()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    ExportDialog dialog(f.window->document());
+    dialog.setFormat(ExportFormat::Csv);
+    dialog.setMatrix(ExportDialog::Matrix::Coding);
+    dialog.setExact(true);
+    const QStringList lines = dialog.text().split(u"\r\n"_s, Qt::SkipEmptyParts);
+    QCOMPARE(lines.size(), 7); // the header and six cells
+    // Treatment coding of both factors: grass:late is grass (1, 0), late (1) and their product.
+    QCOMPARE(lines[4], u"grass:late,1,0,1,1,0"_s);
+    dialog.setMatrix(ExportDialog::Matrix::Hypotheses);
+    QVERIFY2(dialog.text().contains(u"(Intercept)"_s), qPrintable(dialog.text()));
 }
 
 void TestDesignView::addingAndRemovingAFactorIsUndoable()

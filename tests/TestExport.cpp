@@ -6,6 +6,7 @@
 // float.hex()). R, Julia and MATLAB/Octave are not installed here, so their
 // output is lexed by the rules of each language and checked for structure.
 // Golden files: tests/data/golden/ (see README.md there for regenerating).
+#include "Design.h"
 #include "Export.h"
 #include "SchemeFile.h"
 
@@ -772,6 +773,7 @@ private slots:
     void displayNamesStayUnique();
     void cliExportsSchemeFile_data();
     void cliExportsSchemeFile();
+    void cliExportsDesignOverItsCells();
     void cliRejects_data();
     void cliRejects();
 };
@@ -1388,4 +1390,41 @@ void TestExport::cliRejects()
 }
 
 QTEST_GUILESS_MAIN(TestExport)
+
+// A design file is exported over its cells: for centred +-1/2 coding of a 2 x 2 design the
+// columns are the Kronecker products (A: -1/2, -1/2, 1/2, 1/2; B: -1/2, 1/2, -1/2, 1/2;
+// A x B: 1/4, -1/4, -1/4, 1/4; cells A-major). An empty cell is refused, naming it.
+void TestExport::cliExportsDesignOverItsCells()
+{
+    QVERIFY2(QFile::exists(cliPath()), qPrintable(u"build contrast-bench-cli first: "_s + cliPath()));
+    const auto centred = [](const QString &name, const QString &a, const QString &b) {
+        Scheme s;
+        s.kind = SchemeKind::Custom;
+        s.factor.name = name;
+        s.factor.levels = {a, b};
+        s.columns.push_back(Column{name, {Weight::exact(Rational(-1, 2)), Weight::exact(Rational(1, 2))}});
+        return s;
+    };
+    Design d;
+    d.factors = {centred(u"A"_s, u"a1"_s, u"a2"_s), centred(u"B"_s, u"b1"_s, u"b2"_s)};
+    d.terms = Design::fullFactorial(2);
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"design.json"_s);
+    QVERIFY(writeFile(path, QString::fromUtf8(designToJson(d))));
+    const Run r = run(cliPath(), {u"export"_s, u"--file"_s, path, u"--format"_s, u"csv"_s, u"--exact"_s}, dir.path());
+    QVERIFY2(r.exitCode == 0, r.err.constData());
+    const QStringList lines = r.outText().split(QRegularExpression(u"\r?\n"_s), Qt::SkipEmptyParts);
+    QCOMPARE(lines.size(), 5);
+    QCOMPARE(lines[1], u"a1:b1,-1/2,-1/2,1/4"_s);
+    QCOMPARE(lines[2], u"a1:b2,-1/2,1/2,-1/4"_s);
+    QCOMPARE(lines[3], u"a2:b1,1/2,-1/2,-1/4"_s);
+    QCOMPARE(lines[4], u"a2:b2,1/2,1/2,1/4"_s);
+
+    d.cellN = {5, 5, 0, 5};
+    QVERIFY(writeFile(path, QString::fromUtf8(designToJson(d))));
+    const Run empty = run(cliPath(), {u"export"_s, u"--file"_s, path, u"--format"_s, u"csv"_s}, dir.path());
+    QCOMPARE(empty.exitCode, 2);
+    QVERIFY2(empty.errText().contains(u"cell 'a2:b1' is empty"_s), empty.err.constData());
+}
+
 #include "TestExport.moc"

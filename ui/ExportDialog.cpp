@@ -121,8 +121,11 @@ void ExportDialog::setVariableName(const QString &name)
 
 void ExportDialog::refresh()
 {
-    const Result<ExportTable> table = m_coding->isChecked() ? codingTable(m_document->scheme())
-                                                            : hypothesisTable(m_document->analysis());
+    // A design is exported over its cells: one row per cell, the first factor varying slowest.
+    const bool design = m_document->isDesign();
+    const Result<ExportTable> table = m_coding->isChecked()
+        ? codingTable(design ? m_document->designAnalysis().cellScheme : m_document->scheme())
+        : hypothesisTable(design ? m_document->designAnalysis().analysis : m_document->analysis());
     Result<QString> text = table ? exportTable(*table, format(), ExportOptions{m_exact->isChecked(), m_variable->text().trimmed()})
                                  : Result<QString>::failure(table.error());
     m_text = text ? *text : QString();
@@ -130,7 +133,12 @@ void ExportDialog::refresh()
     if (text) {
         m_preview->setPlainText(m_text);
         m_preview->setEnabled(true);
-        m_status->setText(m_text.contains(u"\r\n"_s) ? tr("Lines end in CR LF, as RFC 4180 asks.") : QString());
+        QStringList status;
+        if (design)
+            status << tr("A design: one row per cell, the first factor varying slowest.");
+        if (m_text.contains(u"\r\n"_s))
+            status << tr("Lines end in CR LF, as RFC 4180 asks.");
+        m_status->setText(status.join(u' '));
     } else {
         m_preview->setPlainText(look::mark(look::State::Problem) + u" "_s + m_problem);
         m_preview->setEnabled(false);

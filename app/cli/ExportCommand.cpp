@@ -58,7 +58,8 @@ int runExport(const QStringList &args, Io &io)
     if (p.isSet(u"output"_s) && p.value(u"output"_s).isEmpty())
         return exportError(io, kExitBadInput, u"-o: empty file name"_s);
 
-    auto scheme = schemeFromOptions(p);
+    // A design file is exported over its cells (one row per cell, the first factor varying slowest).
+    auto scheme = schemeOrCellsFromOptions(p, u"the export"_s);
     if (!scheme)
         return exportError(io, kExitBadInput, scheme.error());
     auto table = matrix == u"coding"_s ? codingTable(*scheme) : hypothesisTable(analyze(*scheme));

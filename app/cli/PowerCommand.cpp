@@ -304,29 +304,6 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
     return out;
 }
 
-// The scheme whose contrasts are planned: for a design file, its cells act as the levels
-// and its coding columns (Kronecker products) as the contrasts.
-Result<Scheme> plannedScheme(const QCommandLineParser &p, QStringList &notes)
-{
-    auto design = designFromOptions(p);
-    if (!design)
-        return schemeFromOptions(p);
-    if (!*design)
-        return Result<Scheme>::failure(design->error());
-    const Design &d = design->value();
-    const QStringList cells = d.cellNames();
-    for (size_t c = 0; c < d.cellN.size(); ++c)
-        if (d.cellN[c] == 0)
-            return Result<Scheme>::failure(u"%1: cell '%2' is empty (cell_n 0); power needs a planned size above 0 for every cell"_s
-                                               .arg(p.value(u"file"_s), cells[qsizetype(c)]));
-    auto cellsScheme = cellScheme(d);
-    if (cellsScheme)
-        notes << u"a design of %1 cells: each cell is a group here (%2, the first factor varying slowest), and each "
-                 "coding column of the design is a contrast over the cell means"_s
-                     .arg(cells.size()).arg(cells.join(u", "_s));
-    return cellsScheme;
-}
-
 } // namespace
 
 int runPower(const QStringList &args, Io &io)
@@ -340,11 +317,17 @@ int runPower(const QStringList &args, Io &io)
         io.out << p.helpText();
         return kExitOk;
     }
-    QStringList designNotes;
-    auto loaded = plannedScheme(p, designNotes);
+    // For a design file its cells act as the levels and its coding columns as the contrasts.
+    bool isDesign = false;
+    auto loaded = schemeOrCellsFromOptions(p, u"power"_s, &isDesign);
     if (!loaded)
         return badInput(io, loaded.error());
     Scheme &scheme = loaded.value();
+    QStringList designNotes;
+    if (isDesign)
+        designNotes << u"a design of %1 cells: each cell is a group here (%2, the first factor varying slowest), and each "
+                       "coding column of the design is a contrast over the cell means"_s
+                           .arg(scheme.levelCount()).arg(scheme.factor.levels.join(u", "_s));
 
     PowerSettings s;
     for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, s), readTest(p, s)})

@@ -89,6 +89,23 @@ std::optional<Result<Design>> designFromOptions(const QCommandLineParser &p)
     return design;
 }
 
+Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QString &what, bool *isDesign)
+{
+    auto design = designFromOptions(p);
+    if (isDesign)
+        *isDesign = design.has_value();
+    if (!design)
+        return schemeFromOptions(p);
+    if (!*design)
+        return Result<Scheme>::failure(design->error());
+    const Design &d = design->value();
+    for (size_t c = 0; c < d.cellN.size(); ++c)
+        if (d.cellN[c] == 0)
+            return Result<Scheme>::failure(u"%1: cell '%2' is empty (cell_n 0); %3 needs a planned size above 0 for every cell"_s
+                                               .arg(p.value(u"file"_s), d.cellNames()[qsizetype(c)], what));
+    return cellScheme(d);
+}
+
 Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
 {
     using R = Result<Scheme>;

@@ -22,6 +22,12 @@ Result<Scheme> schemeFromOptions(const QCommandLineParser &parser);
 // read), with --no-intercept applied. Empty for every other case (a scheme file, --levels).
 std::optional<Result<Design>> designFromOptions(const QCommandLineParser &parser);
 
+// The scheme the options describe or, for a design file, the equivalent one-factor scheme over
+// its cells (the cells as levels, the first factor varying slowest; the design's columns; the cell
+// n as planned sizes). An empty cell is refused: `what` ("power") names who needs the sizes.
+// isDesign, when given, tells which of the two it was.
+Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &parser, const QString &what, bool *isDesign = nullptr);
+
 // The factor alone: --levels, --factor (unless left out), --n.
 void addFactorOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOptionSet::All);
 Result<Factor> factorFromOptions(const QCommandLineParser &parser);
