@@ -31,9 +31,18 @@ constexpr double kGramConditionLimit = 1e3;
 
 // Findings are rebuilt on every edit: their texts are joined with QStringBuilder (one
 // allocation), not QString::arg (which parses the pattern once per argument).
+// A whole number as Latin-1 text in a small buffer, to join without an allocation of its own.
+struct Digits
+{
+    explicit Digits(long long v) : len(int(std::to_chars(buf, buf + sizeof buf, v).ptr - buf)) {}
+    QLatin1StringView view() const { return QLatin1StringView(buf, len); }
+    char buf[24];
+    int len;
+};
+
 QString columnLabel(const Analysis &a, int j)
 {
-    return u"column "_s % QString::number(j + 1) % u" ('"_s % a.columnNames[j] % u"')"_s;
+    return u"column "_s % Digits(j + 1).view() % u" ('"_s % a.columnNames[j] % u"')"_s;
 }
 
 void addFinding(Analysis &a, Finding::Severity sev, Finding::Topic topic, QString message, int c1 = -1, int c2 = -1)
@@ -505,12 +514,12 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
                 if (orth[size_t(i)][size_t(j)])
                     continue;
                 if (++count <= 6)
-                    list << QString::number(i + 1) % u" and "_s % QString::number(j + 1) % u" ("_s
+                    list << Digits(i + 1).view() % u" and "_s % Digits(j + 1).view() % u" ("_s
                                 % shownValue(values[size_t(i)][size_t(j)]) % u')';
             }
         if (count == 0)
             return;
-        QString msg = QString::number(count) % u" of "_s % QString::number(total) % u" column pairs are not orthogonal "_s % how
+        QString msg = Digits(count).view() % u" of "_s % Digits(total).view() % u" column pairs are not orthogonal "_s % how
                       % u": "_s % list.join(u", "_s);
         if (count > 6)
             msg += u", ..."_s;
