@@ -271,6 +271,30 @@ QString exactCombination(const std::vector<Frac> &w, const QStringList &levels, 
 
 // "0.67082 high - 0.22361 low ...": six decimals (or six significant digits when tiny or huge).
 // Written with std::to_chars into one reserved string: rows can have hundreds of terms.
+// Six significant digits of an exact magnitude beyond the range of a double ("1.5e+600"),
+// through GMP's floating type, whose exponent has no such limit. buf holds 40 characters.
+int scientificText(const Rational &magnitude, char *buf)
+{
+    const mpf_class f(magnitude, 64);
+    mp_exp_t exponent = 0;
+    const std::string digits = f.get_str(exponent, 10, 6); // "15" and 601 for 1.5e600
+    if (digits.empty()) {
+        buf[0] = '0';
+        return 1;
+    }
+    int len = 0;
+    buf[len++] = digits[0];
+    if (digits.size() > 1) {
+        buf[len++] = '.';
+        for (size_t i = 1; i < digits.size(); ++i)
+            buf[len++] = digits[i];
+    }
+    buf[len++] = 'e';
+    const long e = long(exponent) - 1;
+    buf[len++] = e < 0 ? '-' : '+';
+    return int(std::to_chars(buf + len, buf + 40, e < 0 ? -e : e).ptr - buf);
+}
+
 QString numericCombination(const std::vector<Weight> &row, const QStringList &levels)
 {
     TextBuilder s;
@@ -281,14 +305,17 @@ QString numericCombination(const std::vector<Weight> &row, const QStringList &le
     char buf[40];
     for (size_t i = 0; i < row.size(); ++i) {
         const double v = row[i].value();
-        if (v == 0.0 || (!row[i].isExact() && std::abs(v) < 1e-14))
+        if (row[i].isExact() ? row[i].isZero() : std::abs(v) < 1e-14)
             continue;
-        const int len = shortDecimal(std::abs(v), buf);
+        // An exact weight can lie beyond the range of a double (1e-400 rounds to 0, 1e400 to inf).
+        const bool beyondDouble = row[i].isExact() && (!std::isfinite(v) || std::abs(v) < std::numeric_limits<double>::min());
+        const bool negative = beyondDouble ? sgn(row[i].rational()) < 0 : v < 0;
+        const int len = beyondDouble ? scientificText(abs(row[i].rational()), buf) : shortDecimal(std::abs(v), buf);
         if (s.isEmpty()) {
-            if (v < 0)
+            if (negative)
                 s << u'-';
         } else {
-            s << (v < 0 ? u" - " : u" + ");
+            s << (negative ? u" - " : u" + ");
         }
         if (!(len == 1 && buf[0] == '1')) {
             s.appendAscii(buf, buf + len);

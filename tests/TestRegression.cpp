@@ -4,6 +4,7 @@
 #include "AnalysisJson.h"
 #include "AnalysisReport.h"
 #include "Export.h"
+#include "HypothesisText.h"
 #include "Scheme.h"
 #include "SchemeFile.h"
 
@@ -52,6 +53,7 @@ private slots:
     void hypothesisCsvOutsideTheWeightRangeIsRefusedClearly();
     void longExactWeightSurvivesSaveAndLoad();
     void wildlyUnequalSizesGiveNoInfiniteHypotheses();
+    void exactHypothesisBeyondDoubleRangeIsWrittenInFull();
 };
 
 // FuzzCliMatrix: with k coding columns and an intercept for k levels (the indicator coding
@@ -169,6 +171,25 @@ void TestRegression::wildlyUnequalSizesGiveNoInfiniteHypotheses()
     QVERIFY2(fuzz::checkNoNonFiniteNumber(report).isEmpty(), qPrintable(report));
     QVERIFY2(report.contains(u"floating-point precision"_s) || report.contains(u"cannot be computed in floating point"_s),
              qPrintable(report));
+}
+
+// FuzzCliMatrix (crash-4e677473...): columns (0, -1e300, 1) and (1e-300, 0, 1e-300). The exact
+// hypothesis row holds weights near 1e600, beyond the range of a double, and its text was written
+// from the doubles: "b2: inf a - 1e+300 b - inf c = 0". Such weights are now written from the
+// exact value, and exact weights that round to 0 as doubles are no longer left out.
+void TestRegression::exactHypothesisBeyondDoubleRangeIsWrittenInFull()
+{
+    const CliRun r = runCli({u"analyze"_s, u"--levels"_s, u"a,b,c"_s, u"--columns"_s, u"0e299,-1e300,1;1e-300,0,\r1e-300"_s});
+    QCOMPARE(r.code, 0);
+    const QString report = QString::fromUtf8(r.out);
+    QVERIFY2(fuzz::checkNoNonFiniteNumber(report).isEmpty(), qPrintable(report));
+    QVERIFY2(report.contains(u"b2: 1e+600 a - 1e+300 b - 1e+600 c = 0"_s), qPrintable(report));
+
+    // A weight of 1e-400 (0 as a double) still appears in the text.
+    const Rational tiny(mpz_class(1), mpz_class("1" + std::string(400, '0')));
+    const HypothesisText t = describeHypothesis({Weight::exact(tiny), Weight(-1), Weight(0)}, {u"a"_s, u"b"_s, u"c"_s},
+                                                {1, 1, 1}, false, u"b1"_s);
+    QCOMPARE(t.symbols, u"b1: 1e-400 a - b = 0"_s);
 }
 
 QTEST_GUILESS_MAIN(TestRegression)
