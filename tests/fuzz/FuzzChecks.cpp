@@ -280,11 +280,21 @@ QString checkCsv(const ExportTable &table, const ExportOptions &options, const Q
     auto back = readCsvTable(text);
     // Cells are read as weights (1e-300 to 1e300 in magnitude); a hypothesis matrix may hold
     // smaller or larger values: then the reader must refuse clearly, naming the cell.
+    // Exact cells are compared exactly, as the reader does: a double can round a value just
+    // below 1e-300 up into the range.
+    static const Rational largest = Rational(mpz_class("1" + std::string(300, '0')));
+    static const Rational smallest = 1 / largest;
+    const auto outside = [](const Weight &w) {
+        if (w.isZero())
+            return false;
+        if (w.isExact())
+            return abs(w.rational()) < smallest || abs(w.rational()) > largest;
+        return std::abs(w.value()) < kWeightMinMagnitude || std::abs(w.value()) > kWeightMaxMagnitude;
+    };
     bool outsideWeightRange = false;
     for (const auto &row : table.cells)
         for (const Weight &w : row)
-            outsideWeightRange = outsideWeightRange
-                                 || (!w.isZero() && (std::abs(w.value()) < kWeightMinMagnitude || std::abs(w.value()) > kWeightMaxMagnitude));
+            outsideWeightRange = outsideWeightRange || outside(w);
     if (!back && outsideWeightRange && back.error().startsWith(u"CSV line "_s)
         && (back.error().contains(u"is too small"_s) || back.error().contains(u"is too large"_s)))
         return {};
