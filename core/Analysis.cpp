@@ -718,8 +718,7 @@ Analysis analyze(const Scheme &s)
                            .arg(m).arg(k));
         for (int r = 0; r < p; ++r) {
             const bool isIntercept = s.intercept && r == 0;
-            char name[24] = {'b'};
-            const QString label = QString::fromLatin1(name, std::to_chars(name + 1, name + sizeof name, s.intercept ? r : r + 1).ptr - name);
+            const QString label = u"b"_s % Digits(s.intercept ? r : r + 1).view();
             const HypothesisText t = describeHypothesis(a.hypotheses[size_t(r)], a.levels, nq, isIntercept, label);
             a.hypothesisSymbols << t.symbols;
             a.hypothesisWords << t.words;
