@@ -2,13 +2,13 @@
 
 #include "HypothesisText.h"
 #include "RationalMatrix.h"
+#include "TextBuilder.h"
 
 #include <Eigen/Cholesky>
 #include <Eigen/Eigenvalues>
 #include <Eigen/LU>
 #include <Eigen/SVD>
 
-#include <QStringBuilder>
 
 #include <charconv>
 #include <cmath>
@@ -29,20 +29,14 @@ constexpr double kPrecisionWarning = 1e8;
 // singular values come from an SVD of the scaled design instead.
 constexpr double kGramConditionLimit = 1e3;
 
-// Findings are rebuilt on every edit: their texts are joined with QStringBuilder (one
-// allocation), not QString::arg (which parses the pattern once per argument).
-// A whole number as Latin-1 text in a small buffer, to join without an allocation of its own.
-struct Digits
-{
-    explicit Digits(long long v) : len(int(std::to_chars(buf, buf + sizeof buf, v).ptr - buf)) {}
-    QLatin1StringView view() const { return QLatin1StringView(buf, len); }
-    char buf[24];
-    int len;
-};
+// Findings are rebuilt on every edit: per-column and per-pair texts are written with a
+// TextBuilder (one allocation each), not QString::arg, which parses its pattern once per argument.
 
-QString columnLabel(const Analysis &a, int j)
+// "column 3 ('slope')"
+TextBuilder &appendColumnLabel(TextBuilder &out, const Analysis &a, int j)
 {
-    return u"column "_s % Digits(j + 1).view() % u" ('"_s % a.columnNames[j] % u"')"_s;
+    out << u"column ";
+    return out.appendInt(j + 1) << u" ('" << a.columnNames[j] << u"')";
 }
 
 void addFinding(Analysis &a, Finding::Severity sev, Finding::Topic topic, QString message, int c1 = -1, int c2 = -1)
@@ -212,9 +206,11 @@ struct Scaled
 // A'A for a tall A, computed as a symmetric rank update and returned in full.
 Eigen::MatrixXd symmetricProduct(const Eigen::MatrixXd &a)
 {
-    Eigen::MatrixXd lower = Eigen::MatrixXd::Zero(a.cols(), a.cols());
-    lower.selfadjointView<Eigen::Lower>().rankUpdate(a.transpose());
-    return lower.selfadjointView<Eigen::Lower>();
+    Eigen::MatrixXd g = Eigen::MatrixXd::Zero(a.cols(), a.cols());
+    g.selfadjointView<Eigen::Lower>().rankUpdate(a.transpose());
+    // The upper triangle mirrored in place (no second k x k matrix: analyses run on every edit).
+    g.triangularView<Eigen::StrictlyUpper>() = g.transpose();
+    return g;
 }
 
 // Singular values of A, descending, from the eigenvalues of its Gram matrix g = A'A.
@@ -312,12 +308,10 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
     const int k = a.levelCount;
     a.columnSums.assign(size_t(m), Weight());
     a.sumsToZero.assign(size_t(m), false);
-    a.orthogonal.assign(size_t(m), std::vector<bool>(size_t(m), false));
-    a.orthogonalInDesign.assign(size_t(m), std::vector<bool>(size_t(m), false));
-    if (exact) {
-        a.crossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
-        a.designCrossProducts.assign(size_t(m), std::vector<Weight>(size_t(m)));
-    }
+    a.orthogonal = SquareTable<bool>(m);
+    a.orthogonalInDesign = SquareTable<bool>(m);
+    a.crossProducts = SquareTable<Weight>(m);
+    a.designCrossProducts = SquareTable<Weight>(m);
     Eigen::MatrixXd designCov(m, m);
     std::vector<bool> constant(size_t(m), false);
     if (exact) {
@@ -349,24 +343,26 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
                     wdot += nq[size_t(l)] * t;
                 }
                 wdot -= wsums[size_t(i)] * wsums[size_t(j)] / total;
-                a.crossProducts[size_t(i)][size_t(j)] = a.crossProducts[size_t(j)][size_t(i)] = Weight::exact(dot);
-                a.designCrossProducts[size_t(i)][size_t(j)] = a.designCrossProducts[size_t(j)][size_t(i)] = Weight::exact(wdot);
-                a.orthogonal[size_t(i)][size_t(j)] = a.orthogonal[size_t(j)][size_t(i)] = dot == 0;
-                a.orthogonalInDesign[size_t(i)][size_t(j)] = a.orthogonalInDesign[size_t(j)][size_t(i)] = wdot == 0;
+                for (const auto &[row, col] : {std::pair{i, j}, std::pair{j, i}}) {
+                    a.crossProducts.set(row, col, Weight::exact(dot));
+                    a.designCrossProducts.set(row, col, Weight::exact(wdot));
+                    a.orthogonal.set(row, col, dot == 0);
+                    a.orthogonalInDesign.set(row, col, wdot == 0);
+                }
             }
         // Correlations exactly, as r^2 = d_ij^2 / (d_ii d_jj): the cross-products themselves
         // may lie beyond the range of a double.
         for (int i = 0; i < m; ++i)
-            constant[size_t(i)] = a.designCrossProducts[size_t(i)][size_t(i)].rational() == 0;
+            constant[size_t(i)] = a.designCrossProducts(i, i).rational() == 0;
         for (int i = 0; i < m; ++i)
             for (int j = 0; j < m; ++j) {
-                const Rational &dij = a.designCrossProducts[size_t(i)][size_t(j)].rational();
+                const Rational &dij = a.designCrossProducts(i, j).rational();
                 if (constant[size_t(i)] || constant[size_t(j)] || dij == 0) {
                     designCov(i, j) = 0.0;
                     continue;
                 }
-                const Rational r2 = dij * dij / (a.designCrossProducts[size_t(i)][size_t(i)].rational()
-                                                 * a.designCrossProducts[size_t(j)][size_t(j)].rational());
+                const Rational r2 = dij * dij / (a.designCrossProducts(i, i).rational()
+                                                 * a.designCrossProducts(j, j).rational());
                 designCov(i, j) = std::copysign(std::sqrt(nearestDouble(r2)), sgn(dij));
             }
     } else {
@@ -384,21 +380,13 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
             a.columnSums[size_t(j)] = Weight::approx(sums(j) / scale(j));
             a.sumsToZero[size_t(j)] = Zero::test(sums(j), abssums(j));
         }
-        // Rows built in place (m x m weights: no filled table to overwrite).
-        a.crossProducts.clear();
-        a.designCrossProducts.clear();
-        for (int i = 0; i < m; ++i) {
-            std::vector<Weight> &crossRow = a.crossProducts.emplace_back();
-            std::vector<Weight> &designRow = a.designCrossProducts.emplace_back();
-            crossRow.reserve(size_t(m));
-            designRow.reserve(size_t(m));
+        for (int i = 0; i < m; ++i)
             for (int j = 0; j < m; ++j) {
-                crossRow.push_back(unscaled(cross(i, j), i, j));
-                designRow.push_back(unscaled(wcross(i, j), i, j));
-                a.orthogonal[size_t(i)][size_t(j)] = Zero::test(cross(i, j), std::sqrt(cross(i, i) * cross(j, j)));
-                a.orthogonalInDesign[size_t(i)][size_t(j)] = Zero::test(wcross(i, j), std::sqrt(wsq(i) * wsq(j)));
+                a.crossProducts.set(i, j, unscaled(cross(i, j), i, j));
+                a.designCrossProducts.set(i, j, unscaled(wcross(i, j), i, j));
+                a.orthogonal.set(i, j, Zero::test(cross(i, j), std::sqrt(cross(i, i) * cross(j, j))));
+                a.orthogonalInDesign.set(i, j, Zero::test(wcross(i, j), std::sqrt(wsq(i) * wsq(j))));
             }
-        }
         designCov = wcross;
         for (int j = 0; j < m; ++j)
             constant[size_t(j)] = Zero::test(wcross(j, j), wsq(j));
@@ -450,9 +438,9 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
 }
 
 // A cross-product for a message: beyond the range of a double it is described, not shown as inf.
-QString shownValue(const Weight &w)
+TextBuilder &appendShownValue(TextBuilder &out, const Weight &w)
 {
-    return w.isExact() || std::isfinite(w.value()) ? w.display() : u"beyond the range of double precision"_s;
+    return w.isExact() || std::isfinite(w.value()) ? out.appendWeight(w) : out << u"beyond the range of double precision";
 }
 
 void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
@@ -461,10 +449,13 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
     using S = Finding::Severity;
     using T = Finding::Topic;
     for (int j = 0; j < m; ++j)
-        if (!a.sumsToZero[size_t(j)])
-            addFinding(a, S::Info, T::ColumnSum,
-                       columnLabel(a, j) % u" sums to "_s % a.columnSums[size_t(j)].display()
-                           % u", not 0: it is not a centred contrast, so the intercept is not the unweighted grand mean"_s, j);
+        if (!a.sumsToZero[size_t(j)]) {
+            TextBuilder t;
+            appendColumnLabel(t, a, j) << u" sums to ";
+            t.appendWeight(a.columnSums[size_t(j)])
+                << u", not 0: it is not a centred contrast, so the intercept is not the unweighted grand mean";
+            addFinding(a, S::Info, T::ColumnSum, t.toString(), j);
+        }
     // Identical columns. In floating point, two cheap necessary conditions come first: equal
     // norms and equal projections on a fixed vector r (|r.ci - r.cj| <= |r| |ci - cj|).
     Eigen::VectorXd norms, projections;
@@ -494,39 +485,46 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
             bool same = true;
             // Compare through the cross-products: |ci - cj|^2 = ci.ci + cj.cj - 2 ci.cj.
             if (a.exact) {
-                same = a.crossProducts[size_t(i)][size_t(i)].rational() + a.crossProducts[size_t(j)][size_t(j)].rational()
-                           - 2 * a.crossProducts[size_t(i)][size_t(j)].rational() == 0;
+                same = a.crossProducts(i, i).rational() + a.crossProducts(j, j).rational()
+                           - 2 * a.crossProducts(i, j).rational() == 0;
             } else {
                 // |ci - cj|^2 <= tolerance |ci|^2, with norms that neither overflow nor underflow.
                 const double d = (columns.col(i) - columns.col(j)).stableNorm(), ni = columns.col(i).stableNorm();
                 same = d == 0.0 || (ni > 0 && (d / ni) * (d / ni) <= kZeroTolerance);
             }
-            if (same)
-                addFinding(a, S::Problem, T::Rank, u"columns %1 and %2 are identical"_s.arg(i + 1).arg(j + 1), i, j);
+            if (same) {
+                TextBuilder t;
+                (t << u"columns ").appendInt(i + 1) << u" and ";
+                t.appendInt(j + 1) << u" are identical";
+                addFinding(a, S::Problem, T::Rank, t.toString(), i, j);
+            }
         }
     // Non-orthogonal pairs, summarised when there are many.
-    auto pairs = [&](const std::vector<std::vector<bool>> &orth, const QString &how, const std::vector<std::vector<Weight>> &values) {
-        QStringList list;
-        int count = 0, total = 0;
+    auto pairs = [&](const SquareTable<bool> &orth, QStringView how, const SquareTable<Weight> &values) {
+        constexpr int kListed = 6;
+        TextBuilder list;
+        int count = 0;
         for (int i = 0; i < m; ++i)
             for (int j = i + 1; j < m; ++j) {
-                ++total;
-                if (orth[size_t(i)][size_t(j)])
+                if (orth(i, j) || ++count > kListed)
                     continue;
-                if (++count <= 6)
-                    list << Digits(i + 1).view() % u" and "_s % Digits(j + 1).view() % u" ("_s
-                                % shownValue(values[size_t(i)][size_t(j)]) % u')';
+                if (count > 1)
+                    list << u", ";
+                list.appendInt(i + 1) << u" and ";
+                list.appendInt(j + 1) << u" (";
+                appendShownValue(list, values(i, j)) << u')';
             }
         if (count == 0)
             return;
-        QString msg = Digits(count).view() % u" of "_s % Digits(total).view() % u" column pairs are not orthogonal "_s % how
-                      % u": "_s % list.join(u", "_s);
-        if (count > 6)
-            msg += u", ..."_s;
-        addFinding(a, S::Info, T::Orthogonality, msg);
+        TextBuilder msg;
+        msg.appendInt(count) << u" of ";
+        msg.appendInt(static_cast<long long>(m) * (m - 1) / 2) << u" column pairs are not orthogonal " << how << u": " << list.view();
+        if (count > kListed)
+            msg << u", ...";
+        addFinding(a, S::Info, T::Orthogonality, msg.toString());
     };
-    pairs(a.orthogonal, u"as written (cross-product in brackets)"_s, a.crossProducts);
-    pairs(a.orthogonalInDesign, u"under the planned n (centred, n-weighted cross-product in brackets)"_s, a.designCrossProducts);
+    pairs(a.orthogonal, u"as written (cross-product in brackets)", a.crossProducts);
+    pairs(a.orthogonalInDesign, u"under the planned n (centred, n-weighted cross-product in brackets)", a.designCrossProducts);
 
     if (a.conditionNumber && !a.exact && *a.conditionNumber >= kPrecisionWarning) {
         addFinding(a, S::Caution, T::Collinearity,
@@ -554,19 +552,21 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
     }
     for (int j = 0; j < m; ++j) {
         const auto &v = a.vif[size_t(j)];
-        if (v && *v >= kVifProblem)
-            addFinding(a, S::Problem, T::Collinearity,
-                       columnLabel(a, j) % u" has VIF "_s % QString::number(*v, 'g', 4)
-                           % u" (10 or more: serious collinearity, common practice)"_s, j);
-        else if (v && *v >= kVifCaution)
-            addFinding(a, S::Caution, T::Collinearity,
-                       columnLabel(a, j) % u" has VIF "_s % QString::number(*v, 'g', 4)
-                           % u" (5 or more: notable collinearity, common practice)"_s, j);
+        if (!v || *v < kVifCaution)
+            continue;
+        const bool serious = *v >= kVifProblem;
+        TextBuilder t;
+        appendColumnLabel(t, a, j) << u" has VIF ";
+        t.appendGeneral(*v, 4) << (serious ? u" (10 or more: serious collinearity, common practice)"
+                                           : u" (5 or more: notable collinearity, common practice)");
+        addFinding(a, serious ? S::Problem : S::Caution, T::Collinearity, t.toString(), j);
     }
     bool anyUndefined = false;
     for (int j = 0; j < m; ++j) {
         if (std::isnan(a.correlation(j, j))) { // NaN marks a constant column
-            addFinding(a, S::Caution, T::Collinearity, u"%1 is constant across the levels: its VIF and correlations are undefined"_s.arg(columnLabel(a, j)), j);
+            TextBuilder t;
+            appendColumnLabel(t, a, j) << u" is constant across the levels: its VIF and correlations are undefined";
+            addFinding(a, S::Caution, T::Collinearity, t.toString(), j);
         } else if (!a.vif[size_t(j)]) {
             anyUndefined = true;
         }
@@ -586,8 +586,10 @@ Analysis analyze(const Scheme &s)
     a.intercept = s.intercept;
     a.coefficientCount = a.columnCount + (s.intercept ? 1 : 0);
     a.levels = s.factor.levels;
+    a.columnNames.reserve(a.columnCount);
     for (const Column &c : s.columns)
         a.columnNames << c.name;
+    a.coefficientNames.reserve(a.coefficientCount);
     if (s.intercept)
         a.coefficientNames << u"(Intercept)"_s;
     a.coefficientNames << a.columnNames;
@@ -716,10 +718,13 @@ Analysis analyze(const Scheme &s)
                        u"%1 coding columns for %2 levels: the model is not saturated, so each coefficient is a least-squares "
                        "combination that depends on the group sizes (here the planned n); with other sizes it tests something else"_s
                            .arg(m).arg(k));
+        for (QStringList *texts : {&a.hypothesisSymbols, &a.hypothesisWords, &a.hypothesisCombinations})
+            texts->reserve(p);
         for (int r = 0; r < p; ++r) {
             const bool isIntercept = s.intercept && r == 0;
-            const QString label = u"b"_s % Digits(s.intercept ? r : r + 1).view();
-            const HypothesisText t = describeHypothesis(a.hypotheses[size_t(r)], a.levels, nq, isIntercept, label);
+            TextBuilder label;
+            (label << u"b").appendInt(s.intercept ? r : r + 1);
+            const HypothesisText t = describeHypothesis(a.hypotheses[size_t(r)], a.levels, nq, isIntercept, label.view());
             a.hypothesisSymbols << t.symbols;
             a.hypothesisWords << t.words;
             a.hypothesisCombinations << t.combination;

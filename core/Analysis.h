@@ -9,9 +9,39 @@
 #include <QStringList>
 
 #include <optional>
+#include <type_traits>
 #include <vector>
 
 namespace cb {
+
+// An n x n table in one block of memory (per-pair diagnostics are rebuilt on every edit:
+// one allocation instead of one per row). t(i, j) reads row i, column j.
+template <class T>
+class SquareTable
+{
+    // Flags are held as bytes: std::vector<bool> cannot hand out references.
+    using Cell = std::conditional_t<std::is_same_v<T, bool>, unsigned char, T>;
+
+public:
+    SquareTable() = default;
+    explicit SquareTable(int n, const T &fill = T()) : m_n(n), m_cells(size_t(n) * size_t(n), Cell(fill)) {}
+    int size() const { return m_n; }
+    bool isEmpty() const { return m_n == 0; }
+    decltype(auto) operator()(int i, int j) const
+    {
+        if constexpr (std::is_same_v<T, bool>)
+            return m_cells[index(i, j)] != 0;
+        else
+            return static_cast<const T &>(m_cells[index(i, j)]);
+    }
+    void set(int i, int j, T value) { m_cells[index(i, j)] = Cell(std::move(value)); }
+    friend bool operator==(const SquareTable &, const SquareTable &) = default;
+
+private:
+    size_t index(int i, int j) const { return size_t(i) * size_t(m_n) + size_t(j); }
+    int m_n = 0;
+    std::vector<Cell> m_cells;
+};
 
 // A non-fatal finding about a scheme, for the window's list and the reports.
 struct Finding
@@ -70,10 +100,10 @@ struct Analysis
     // Diagnostics on the coding columns.
     std::vector<Weight> columnSums;                  // m
     std::vector<bool> sumsToZero;                    // m
-    std::vector<std::vector<bool>> orthogonal;       // m x m, c_i . c_j == 0 as written
-    std::vector<std::vector<bool>> orthogonalInDesign; // m x m, n-weighted centred cross-product == 0
-    std::vector<std::vector<Weight>> crossProducts;  // m x m, c_i . c_j
-    std::vector<std::vector<Weight>> designCrossProducts; // m x m, sum n c_i c_j - (sum n c_i)(sum n c_j)/N
+    SquareTable<bool> orthogonal;          // m x m, c_i . c_j == 0 as written
+    SquareTable<bool> orthogonalInDesign;  // m x m, n-weighted centred cross-product == 0
+    SquareTable<Weight> crossProducts;       // m x m, c_i . c_j
+    SquareTable<Weight> designCrossProducts; // m x m, sum n c_i c_j - (sum n c_i)(sum n c_j)/N
 
     // Collinearity of the design under the planned n: columns of diag(sqrt n) [1 | C]
     // scaled to unit length (Belsley, Kuh & Welsch 1980).

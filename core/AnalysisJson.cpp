@@ -45,11 +45,15 @@ QJsonArray rows(const std::vector<Row> &m, F f)
     return a;
 }
 
-QJsonArray bools(const std::vector<bool> &v)
+QJsonArray rows(const SquareTable<bool> &t)
 {
     QJsonArray a;
-    for (bool b : v)
-        a.append(b);
+    for (int i = 0; i < t.size(); ++i) {
+        QJsonArray row;
+        for (int j = 0; j < t.size(); ++j)
+            row.append(t(i, j));
+        a.append(row);
+    }
     return a;
 }
 
@@ -102,8 +106,8 @@ QJsonObject analysisToJson(const Scheme &scheme, const Analysis &a)
     o[u"dependencies"_s] = QJsonArray::fromStringList(a.dependencies);
     o[u"column_sums"_s] = numbers(a.columnSums);
     o[u"column_sums_exact"_s] = exactStrings(a.columnSums);
-    o[u"orthogonal"_s] = rows(a.orthogonal, bools);
-    o[u"orthogonal_in_design"_s] = rows(a.orthogonalInDesign, bools);
+    o[u"orthogonal"_s] = rows(a.orthogonal);
+    o[u"orthogonal_in_design"_s] = rows(a.orthogonalInDesign);
     o[u"condition_number"_s] = jsonNumber(a.conditionNumber);
     QJsonArray ci;
     for (double v : a.conditionIndices)

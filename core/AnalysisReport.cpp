@@ -46,7 +46,7 @@ QString number(double v)
     return QString::number(v, 'g', 6);
 }
 
-QString yesNoMatrix(const Analysis &a, const std::vector<std::vector<bool>> &m)
+QString yesNoMatrix(const Analysis &a, const SquareTable<bool> &m)
 {
     QStringList header{QString()};
     QList<QStringList> rows;
@@ -55,7 +55,7 @@ QString yesNoMatrix(const Analysis &a, const std::vector<std::vector<bool>> &m)
     for (int i = 0; i < a.columnCount; ++i) {
         QStringList r{u"%1 %2"_s.arg(i + 1).arg(a.columnNames[i])};
         for (int j = 0; j < a.columnCount; ++j)
-            r << (i == j ? u"-"_s : (m[size_t(i)][size_t(j)] ? u"yes"_s : u"NO"_s));
+            r << (i == j ? u"-"_s : (m(i, j) ? u"yes"_s : u"NO"_s));
         rows << r;
     }
     return textTable(header, rows, 4);

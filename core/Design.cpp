@@ -317,7 +317,7 @@ DesignAnalysis analyzeDesign(const Design &d)
     out.termsOrthogonalInDesign.assign(nt, std::vector<bool>(nt, true));
     for (int i = 0; i < a.columnCount; ++i)
         for (int j = 0; j < a.columnCount; ++j)
-            if (!a.orthogonalInDesign[size_t(i)][size_t(j)] && out.columnTerm[size_t(i)] != out.columnTerm[size_t(j)])
+            if (!a.orthogonalInDesign(i, j) && out.columnTerm[size_t(i)] != out.columnTerm[size_t(j)])
                 out.termsOrthogonalInDesign[size_t(out.columnTerm[size_t(i)])][size_t(out.columnTerm[size_t(j)])] = false;
     for (size_t t = 0; t < nt; ++t)
         for (size_t u = t + 1; u < nt; ++u)

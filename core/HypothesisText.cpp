@@ -1,5 +1,7 @@
 #include "HypothesisText.h"
 
+#include "TextBuilder.h"
+
 #include <charconv>
 #include <cstring>
 #include <cmath>
@@ -19,82 +21,6 @@ namespace {
 // appending into one plain buffer (a fraction of the cost of QString or std::u16string
 // appends of short names), never through intermediate lists and joins.
 using Indices = std::vector<qsizetype>;
-
-class TextBuilder
-{
-public:
-    TextBuilder() = default;
-    TextBuilder(const TextBuilder &) = delete;
-    TextBuilder &operator=(const TextBuilder &) = delete;
-
-    TextBuilder &operator<<(QStringView v)
-    {
-        put(reinterpret_cast<const char16_t *>(v.utf16()), size_t(v.size()));
-        return *this;
-    }
-    // A literal's length is known when compiling (QStringView would scan it for its end).
-    template <size_t N>
-    TextBuilder &operator<<(const char16_t (&literal)[N])
-    {
-        put(literal, N - 1);
-        return *this;
-    }
-    TextBuilder &operator<<(char16_t c)
-    {
-        room(1);
-        m_data[m_size++] = c;
-        return *this;
-    }
-    // ASCII digits and signs from std::to_chars.
-    void appendAscii(const char *begin, const char *end)
-    {
-        room(size_t(end - begin));
-        for (const char *c = begin; c != end; ++c)
-            m_data[m_size++] = char16_t(*c);
-    }
-    void reserve(qsizetype capacity) { grow(size_t(capacity)); }
-    bool isEmpty() const { return m_size == 0; }
-    QStringView view() const { return QStringView(m_data, qsizetype(m_size)); }
-    QString toString() const { return view().toString(); }
-
-private:
-    void put(const char16_t *text, size_t n)
-    {
-        room(n);
-        // Level names are short: a plain loop beats a call to memcpy, which wins for long texts.
-        char16_t *to = m_data + m_size;
-        if (n > 32) {
-            std::memcpy(to, text, n * sizeof(char16_t));
-        } else {
-            for (size_t i = 0; i < n; ++i)
-                to[i] = text[i];
-        }
-        m_size += n;
-    }
-    void room(size_t n)
-    {
-        if (m_size + n > m_capacity)
-            grow(std::max(m_capacity * 2, m_size + n));
-    }
-    void grow(size_t capacity)
-    {
-        if (capacity <= m_capacity)
-            return;
-        auto bigger = std::make_unique_for_overwrite<char16_t[]>(capacity);
-        std::copy(m_data, m_data + m_size, bigger.get());
-        m_heap = std::move(bigger);
-        m_data = m_heap.get();
-        m_capacity = capacity;
-    }
-
-    // Short texts (small factors) stay in the object: no allocation.
-    static constexpr size_t kInline = 384;
-    char16_t m_inline[kInline];
-    std::unique_ptr<char16_t[]> m_heap;
-    char16_t *m_data = m_inline;
-    size_t m_size = 0;
-    size_t m_capacity = kInline;
-};
 
 void appendNames(TextBuilder &out, const QStringList &levels, const Indices &which, QStringView separator)
 {
@@ -329,7 +255,7 @@ QString numericCombination(const std::vector<Weight> &row, const QStringList &le
 } // namespace
 
 HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringList &levels,
-                                  const std::vector<Rational> &sizes, bool isIntercept, const QString &label)
+                                  const std::vector<Rational> &sizes, bool isIntercept, QStringView label)
 {
     HypothesisText out;
     const size_t k = row.size();
@@ -453,7 +379,7 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
     }
 
     if (pos.empty() && neg.empty()) {
-        out.symbols = label + u": 0 = 0"_s;
+        out.symbols = label.toString() + u": 0 = 0"_s;
         out.words = u"nothing: every weight is 0"_s;
         return out;
     }

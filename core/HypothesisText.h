@@ -20,6 +20,6 @@ struct HypothesisText
 // Describes a row of weights on the level means. label is "b0", "b1", ...
 // sizes are the planned group sizes (to recognise the n-weighted mean).
 HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringList &levels,
-                                  const std::vector<Rational> &sizes, bool isIntercept, const QString &label);
+                                  const std::vector<Rational> &sizes, bool isIntercept, QStringView label);
 
 } // namespace cb

@@ -162,14 +162,6 @@ Weight Weight::exact(const Rational &q)
     return w;
 }
 
-Weight Weight::approx(double d)
-{
-    Weight w;
-    w.m_exact = false;
-    w.m_d = d;
-    return w;
-}
-
 bool operator==(const Weight &a, const Weight &b)
 {
     if (a.m_exact != b.m_exact)
@@ -196,9 +188,11 @@ QString doubleToString(double x)
 
 bool recogniseFraction(double x, long long &numerator, long long &denominator, long maxDenominator)
 {
-    if (!std::isfinite(x) || std::abs(x) > 1e12)
+    if (!(std::abs(x) <= 1e12)) // also NaN and infinities
         return false;
-    if (x == std::floor(x)) {
+    // Whole parts by conversion to an integer (truncation is floor for the non-negative values
+    // below; std::floor is a library call without SSE4.1): this runs for every shown weight.
+    if (static_cast<double>(static_cast<long long>(x)) == x) {
         numerator = static_cast<long long>(x);
         denominator = 1;
         return true;
@@ -208,10 +202,10 @@ bool recogniseFraction(double x, long long &numerator, long long &denominator, l
     long long p0 = 0, q0 = 1, p1 = 1, q1 = 0;
     double frac = std::abs(x);
     for (int iter = 0; iter < 40; ++iter) {
-        const double a = std::floor(frac);
-        if (a > 1e13)
+        if (!(frac < 1e13))
             break;
-        const long long ai = static_cast<long long>(a);
+        const long long ai = static_cast<long long>(frac);
+        const double a = static_cast<double>(ai);
         const long long p2 = ai * p1 + p0;
         const long long q2 = ai * q1 + q0;
         if (q2 > maxDenominator)
@@ -257,36 +251,37 @@ int shortDecimal(double magnitude, char *buf)
     if (magnitude < 1e-4 || magnitude >= 1e6 || !std::isfinite(magnitude))
         return int(std::to_chars(buf, buf + 32, magnitude, std::chars_format::general, 6).ptr - buf);
     // Six decimals, trailing zeros trimmed, written by hand (std::to_chars with a precision is slow).
-    const long long scaled = std::llround(magnitude * 1e6);
+    // Rounding half away from zero as std::llround does, without the library call: the product
+    // is below 1e12, so adding 1/2 is exact or lands on the next whole number anyway.
+    const long long scaled = static_cast<long long>(magnitude * 1e6 + 0.5);
     const long long whole = scaled / 1000000;
-    int frac = static_cast<int>(scaled - whole * 1000000);
-    int len = static_cast<int>(std::to_chars(buf, buf + 24, whole).ptr - buf);
+    const int frac = static_cast<int>(scaled - whole * 1000000);
+    int len = whole < 10 ? (buf[0] = char('0' + whole), 1) : static_cast<int>(std::to_chars(buf, buf + 24, whole).ptr - buf);
     if (frac != 0) {
+        // Six digits, two at a time from a table, then trailing zeros trimmed.
+        static constexpr char kPairs[] = "00010203040506070809101112131415161718192021222324252627282930313233343536373839"
+                                         "40414243444546474849505152535455565758596061626364656667686970717273747576777879"
+                                         "8081828384858687888990919293949596979899";
         buf[len++] = '.';
+        char *d = buf + len;
+        std::memcpy(d, kPairs + 2 * (frac / 10000), 2);
+        std::memcpy(d + 2, kPairs + 2 * (frac / 100 % 100), 2);
+        std::memcpy(d + 4, kPairs + 2 * (frac % 100), 2);
         int width = 6;
-        while (frac % 10 == 0) {
-            frac /= 10;
+        while (d[width - 1] == '0')
             --width;
-        }
-        for (int i = width - 1; i >= 0; --i) {
-            buf[len + i] = char('0' + frac % 10);
-            frac /= 10;
-        }
         len += width;
     }
     return len;
 }
 
-QString Weight::display(bool unicodeMinus) const
+int approxDisplayText(double v, char *buf)
 {
-    if (m_exact)
-        return rationalToString(rational(), unicodeMinus);
-    // Written into one small buffer: displays are made for every cell and message.
-    char buf[64];
-    char *end = buf + 1; // buf[0] is kept for the sign
-    bool negative = m_d < 0;
+    // buf[0] is kept for the sign; the text is moved down when there is none.
+    char *end = buf + 1;
+    bool negative = v < 0;
     long long p = 0, q = 1;
-    if (recogniseFraction(m_d, p, q)) {
+    if (recogniseFraction(v, p, q)) {
         // At most 19 digits each: the numerator ends before buf + 24, the denominator before buf + 48.
         end = std::to_chars(end, buf + 24, p < 0 ? -p : p).ptr;
         if (q != 1) {
@@ -295,12 +290,27 @@ QString Weight::display(bool unicodeMinus) const
         }
         negative = p < 0;
     } else {
-        end += shortDecimal(std::abs(m_d), buf + 1);
+        end += shortDecimal(std::abs(v), buf + 1);
         negative = negative && !(end - buf == 2 && buf[1] == '0');
     }
-    QString s = QString::fromLatin1(negative ? buf : buf + 1, end - (negative ? buf : buf + 1));
-    if (negative)
-        s[0] = unicodeMinus ? QChar(kUnicodeMinus) : QChar(u'-');
+    if (negative) {
+        buf[0] = '-';
+        return int(end - buf);
+    }
+    std::memmove(buf, buf + 1, size_t(end - buf - 1));
+    return int(end - buf - 1);
+}
+
+QString Weight::display(bool unicodeMinus) const
+{
+    if (m_exact)
+        return rationalToString(rational(), unicodeMinus);
+    // Written into one small buffer: displays are made for every cell and message.
+    char buf[kApproxDisplayBuffer];
+    const int len = approxDisplayText(m_d, buf);
+    QString s = QString::fromLatin1(buf, len);
+    if (unicodeMinus && len > 0 && buf[0] == '-')
+        s[0] = QChar(kUnicodeMinus);
     return s;
 }
 

@@ -55,7 +55,13 @@ public:
             m_q = Rational(v);
     }
     static Weight exact(const Rational &q);
-    static Weight approx(double d);
+    static Weight approx(double d)
+    {
+        Weight w;
+        w.m_exact = false;
+        w.m_d = d;
+        return w;
+    }
 
     bool isExact() const { return m_exact; }
     // Only meaningful when isExact().
@@ -109,6 +115,12 @@ bool recogniseFraction(double x, long long &numerator, long long &denominator, l
 // A magnitude for people: six decimals with trailing zeros trimmed, or six significant digits
 // below 1e-4 and from 1e6 on. Writes at most 32 characters into buf; returns the length.
 int shortDecimal(double magnitude, char *buf);
+
+// An inexact weight's text for people, as Weight::display() writes it with an ASCII minus:
+// a recognised simple fraction or a short decimal. buf holds kApproxDisplayBuffer characters;
+// returns the length. For texts that are assembled in one buffer (findings, reports).
+inline constexpr int kApproxDisplayBuffer = 64;
+int approxDisplayText(double v, char *buf);
 
 // Shortest decimal text that reads back to the same double.
 QString doubleToString(double x);

@@ -161,9 +161,9 @@ void TestAnalysis::treatmentVifIsFourThirds()
     QVERIFY(std::abs(*a.vif[1] - 4.0 / 3.0) < 1e-14);
     QVERIFY(std::abs(a.correlation(0, 1) + 0.5) < 1e-15);
     // Orthogonal as written (e_b . e_c = 0) but not in the design (centred cross-product -1/3 per unit n).
-    QVERIFY(a.orthogonal[0][1]);
-    QVERIFY(!a.orthogonalInDesign[0][1]);
-    QCOMPARE(a.designCrossProducts[0][1].display(), u"-1/3"_s);
+    QVERIFY(a.orthogonal(0, 1));
+    QVERIFY(!a.orthogonalInDesign(0, 1));
+    QCOMPARE(a.designCrossProducts(0, 1).display(), u"-1/3"_s);
 }
 
 void TestAnalysis::orthogonalAsWrittenButNotUnderN()
@@ -175,13 +175,13 @@ void TestAnalysis::orthogonalAsWrittenButNotUnderN()
     // sum n c2 = 40/3 - 10 - 40/3 = -10; so 5/2 - 150/100 = 1 (worked by hand).
     const Factor f = irrigation({Rational(10), Rational(20), Rational(30), Rational(40)});
     const Analysis a = analyze(makeScheme(f, SchemeKind::Helmert).take());
-    QVERIFY(a.orthogonal[0][1]);
-    QVERIFY(!a.orthogonalInDesign[0][1]);
-    QCOMPARE(a.designCrossProducts[0][1].display(), u"1"_s);
+    QVERIFY(a.orthogonal(0, 1));
+    QVERIFY(!a.orthogonalInDesign(0, 1));
+    QCOMPARE(a.designCrossProducts(0, 1).display(), u"1"_s);
     QVERIFY(hasFinding(a, u"not orthogonal under the planned n"_s));
     // Equal n: orthogonal both ways, condition number 1 in the centred columns but not with the intercept scaled...
     const Analysis eq = analyze(makeScheme(irrigation(), SchemeKind::Helmert).take());
-    QVERIFY(eq.orthogonalInDesign[0][1]);
+    QVERIFY(eq.orthogonalInDesign(0, 1));
     QVERIFY(std::abs(*eq.conditionNumber - 1.0) < 1e-14); // sum-zero orthogonal columns are orthogonal to the intercept too
 }
 

@@ -116,10 +116,10 @@ void TestPolynomialTrends::weightedTrendsAreOrthogonalUnderN()
     for (int i = 0; i < 3; ++i)
         for (int j = 0; j < 3; ++j)
             if (i != j)
-                QVERIFY(a.orthogonalInDesign[size_t(i)][size_t(j)]);
+                QVERIFY(a.orthogonalInDesign(i, j));
     // Unweighted trends are not orthogonal under these n.
     const Analysis plain = analyze(makeScheme(f, SchemeKind::Polynomial, {}).take());
-    QVERIFY(!plain.orthogonalInDesign[0][1]);
+    QVERIFY(!plain.orthogonalInDesign(0, 1));
 }
 
 QTEST_GUILESS_MAIN(TestPolynomialTrends)

@@ -296,7 +296,7 @@ void TestSchemes::polynomialOrthonormal()
     for (int i = 0; i < 5; ++i) {
         QVERIFY(a.sumsToZero[size_t(i)]);
         for (int j = 0; j < 5; ++j)
-            QVERIFY(a.orthogonal[size_t(i)][size_t(j)] || i == j);
+            QVERIFY(a.orthogonal(i, j) || i == j);
     }
     QVERIFY(a.conditionNumber);
     QVERIFY(std::abs(*a.conditionNumber - 1.0) < 1e-12);
@@ -331,7 +331,7 @@ void TestSchemes::contrastRules()
         allZero = allZero && a.sumsToZero[size_t(i)];
         for (int j = 0; j < a.columnCount; ++j)
             if (i != j)
-                allOrth = allOrth && a.orthogonal[size_t(i)][size_t(j)];
+                allOrth = allOrth && a.orthogonal(i, j);
     }
     QCOMPARE(allZero, sumsToZero);
     QCOMPARE(allOrth, orthogonal);

@@ -1,7 +1,13 @@
 // Tests of the weight parser and of how weights are shown.
+#include "TextBuilder.h"
 #include "Weight.h"
 
 #include <QTest>
+
+#include <cmath>
+#include <cstdio>
+#include <random>
+#include <string>
 
 using namespace Qt::StringLiterals;
 using namespace cb;
@@ -18,6 +24,8 @@ private slots:
     void recognisesFractions_data();
     void recognisesFractions();
     void displaysApproximate();
+    void shortDecimalMatchesPrintf();
+    void generalNumberMatchesQt();
 };
 
 void TestWeight::parsesExactly_data()
@@ -121,6 +129,54 @@ void TestWeight::displaysApproximate()
 {
     QCOMPARE(Weight::exact(Rational(-2, 3)).display(true), u"\u22122/3"_s);
     QCOMPARE(Weight::approx(-0.5).display(true), u"\u22121/2"_s);
+}
+
+// shortDecimal writes six decimals by hand (it runs for every weight in every hypothesis text);
+// the reference is the C library's "%.6f" with trailing zeros trimmed. The hand-written rounding
+// forms x * 1e6 in floating point, so only values within rounding of a tie (x * 1e6 within 1e-3
+// of a half) may come out one unit different; every other value must match to the character.
+void TestWeight::shortDecimalMatchesPrintf()
+{
+    std::mt19937_64 rng(20261202);
+    std::uniform_real_distribution<double> exponent(-4.0, 6.0);
+    std::vector<double> values{1e-4, 0.5, 1.0, 0.999999, 0.9999995, 999999.999999, 123456.000001, 0.000123, 2.5e-6 + 1e-4};
+    for (int i = 0; i < 20000; ++i)
+        values.push_back(std::pow(10.0, exponent(rng)));
+    int nearTies = 0;
+    for (double v : values) {
+        char ours[40];
+        const std::string mine(ours, size_t(shortDecimal(v, ours)));
+        char ref[64];
+        std::snprintf(ref, sizeof ref, "%.6f", v);
+        std::string expected(ref);
+        expected.erase(expected.find_last_not_of('0') + 1);
+        if (expected.back() == '.')
+            expected.pop_back();
+        if (mine == expected)
+            continue;
+        const long double scaled = static_cast<long double>(v) * 1e6L;
+        const long double fromHalf = std::abs(scaled - std::floor(scaled) - 0.5L);
+        QVERIFY2(fromHalf < 1e-3L, qPrintable(u"%1: %2, expected %3"_s.arg(v, 0, 'g', 17).arg(QString::fromStdString(mine), QString::fromStdString(expected))));
+        ++nearTies;
+    }
+    QVERIFY(nearTies < 20);
+}
+
+// Findings write VIFs and condition numbers through TextBuilder::appendGeneral (std::to_chars);
+// they must read exactly as QString::number(v, 'g', precision) wrote them before.
+void TestWeight::generalNumberMatchesQt()
+{
+    std::mt19937_64 rng(7);
+    std::uniform_real_distribution<double> exponent(-12.0, 15.0);
+    std::vector<double> values{5.0, 10.0, 10.04999, 12345.5, 1e6, 0.0001, 99995.0, 1.0 / 3.0};
+    for (int i = 0; i < 5000; ++i)
+        values.push_back(std::pow(10.0, exponent(rng)));
+    for (double v : values)
+        for (int precision : {2, 4, 6}) {
+            TextBuilder t;
+            t.appendGeneral(v, precision);
+            QCOMPARE(t.toString(), QString::number(v, 'g', precision));
+        }
 }
 
 QTEST_GUILESS_MAIN(TestWeight)

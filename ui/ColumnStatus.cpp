@@ -127,9 +127,9 @@ std::vector<ColumnStatus> columnStatuses(const Analysis &a, bool plannedSizes)
         for (int i = 0; i < m; ++i) {
             if (i == j)
                 continue;
-            if (!a.orthogonal[uj][size_t(i)])
+            if (!a.orthogonal(j, i))
                 s.notOrthogonalWritten << i;
-            if (!a.orthogonalInDesign[uj][size_t(i)])
+            if (!a.orthogonalInDesign(j, i))
                 s.notOrthogonalInDesign << i;
         }
         s.sum = a.sumsToZero[uj] ? State::Good : State::Caution;

@@ -21,7 +21,7 @@ PairsModel::PairsModel(Document *document, QObject *parent)
 DocumentTableModel::Shape PairsModel::currentShape() const
 {
     const Analysis &a = document()->analysis();
-    const int m = int(a.orthogonal.size()) == a.columnCount ? a.columnCount : 0;
+    const int m = a.orthogonal.size() == a.columnCount ? a.columnCount : 0;
     return {m, m};
 }
 
@@ -43,8 +43,7 @@ QVariant PairsModel::data(const QModelIndex &index, int role) const
         return {};
     }
     const bool written = i < j;
-    const size_t ui = size_t(i), uj = size_t(j);
-    const bool orthogonal = written ? a.orthogonal[ui][uj] : a.orthogonalInDesign[ui][uj];
+    const bool orthogonal = written ? a.orthogonal(i, j) : a.orthogonalInDesign(i, j);
     const look::State state = orthogonal ? look::State::Good : (written ? look::State::Neutral : look::State::Caution);
     switch (role) {
     case Qt::DisplayRole:
@@ -67,13 +66,13 @@ QVariant PairsModel::data(const QModelIndex &index, int role) const
             return pair + u"\n"_s
                 + (orthogonal ? tr("\u2713 orthogonal as written: the sum of products of their weights is 0.")
                               : tr("\u2717 not orthogonal as written: the sum of products of their weights is %1.")
-                                    .arg(formatWeight(a.crossProducts[ui][uj])))
+                                    .arg(formatWeight(a.crossProducts(i, j))))
                 + u"\n"_s + tr("(Above the diagonal: as written. Below: %1.)").arg(sizesPhrase(document()->scheme().factor.hasPlannedN()));
         const bool planned = document()->scheme().factor.hasPlannedN();
         return pair + u"\n"_s
             + (orthogonal ? tr("\u2713 orthogonal %1: their estimates are uncorrelated.").arg(sizesPhrase(planned))
                           : tr("\u2717 not orthogonal %1: the centred, n-weighted sum of products is %2, so their estimates are correlated (r = %3).")
-                                .arg(sizesPhrase(planned), formatWeight(a.designCrossProducts[ui][uj]),
+                                .arg(sizesPhrase(planned), formatWeight(a.designCrossProducts(i, j)),
                                      std::isnan(a.correlation(i, j)) ? tr("undefined")
                                                                      : QString::number(a.correlation(i, j), 'f', 3)))
             + u"\n"_s + tr("(Below the diagonal: %1. Above: as written.)").arg(sizesPhrase(planned));
