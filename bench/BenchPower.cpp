@@ -1,5 +1,6 @@
 // Power and the full sample-size search (each contrast and the omnibus F-test)
 // for 10 planned contrasts at k = 10. Target: well within one frame (16 ms).
+#include "BenchMain.h"
 #include "Power.h"
 
 #include <benchmark/benchmark.h>
@@ -79,4 +80,7 @@ BENCHMARK(BM_PowerCurve60Points)->Unit(benchmark::kMillisecond);
 
 } // namespace
 
-BENCHMARK_MAIN();
+int main(int argc, char **argv)
+{
+    return runBenchmarks(argc, argv);
+}

@@ -7,6 +7,7 @@
 //     every part of the window that the change made dirty (into the offscreen backing store).
 //   FullRepaint: for scale, a forced repaint of the whole window with no edit.
 // Runs offscreen (QT_QPA_PLATFORM=offscreen unless set).
+#include "BenchMain.h"
 #include "CodingModel.h"
 #include "CodingPanel.h"
 #include "Document.h"
@@ -103,10 +104,5 @@ int main(int argc, char **argv)
     if (qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM"))
         qputenv("QT_QPA_PLATFORM", "offscreen");
     QApplication app(argc, argv);
-    benchmark::Initialize(&argc, argv);
-    if (benchmark::ReportUnrecognizedArguments(argc, argv))
-        return 1;
-    benchmark::RunSpecifiedBenchmarks();
-    benchmark::Shutdown();
-    return 0;
+    return runBenchmarks(argc, argv);
 }

@@ -3,6 +3,7 @@
 //   contrast-bench --demo irrigation
 //   contrast-bench --screenshot out.png [--demo NAME] [--size WxH] [file]
 
+#include "AllocatorTuning.h"
 #include "Demos.h"
 #include "MainWindow.h"
 
@@ -52,6 +53,8 @@ int main(int argc, char *argv[])
 {
     QElapsedTimer clock;
     clock.start();
+    cb::tuneAllocatorForRepeatedAnalyses(); // every edit reruns the analysis
+
     // A screenshot is rendered offscreen unless a platform was chosen explicitly; help and
     // version need no display either.
     for (int i = 1; i < argc; ++i) {
