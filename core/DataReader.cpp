@@ -962,8 +962,16 @@ private:
             QString role;
             int *index;
         };
+        if (m_options.moreFactorColumns.size() > 2)
+            return u"%1 factor columns; a design has at most 3 factors"_s.arg(m_options.moreFactorColumns.size() + 1);
+        m_out.moreFactorIndices.assign(size_t(m_options.moreFactorColumns.size()), -1);
         std::vector<Spec> specs = {{m_options.factorColumn, u"factor"_s, &m_out.factorIndex},
                                    {m_options.responseColumn, u"response"_s, &m_out.responseIndex}};
+        for (qsizetype i = 0; i < m_options.moreFactorColumns.size(); ++i) {
+            if (m_options.moreFactorColumns[i].trimmed().isEmpty())
+                return u"factor column %1 is not named; name the column that holds that factor's levels"_s.arg(i + 2);
+            specs.push_back({m_options.moreFactorColumns[i], u"factor"_s, &m_out.moreFactorIndices[size_t(i)]});
+        }
         if (!m_options.weightColumn.trimmed().isEmpty())
             specs.push_back({m_options.weightColumn, u"weight"_s, &m_out.weightIndex});
 
@@ -1009,10 +1017,19 @@ private:
             }
             *s.index = index;
         }
-        if (m_out.factorIndex == m_out.responseIndex)
-            return u"%1: the factor and the response are the same column ('%2'); choose two different columns"_s.arg(
-                label, m_out.columns[m_out.factorIndex]);
-        if (m_out.weightIndex >= 0 && (m_out.weightIndex == m_out.factorIndex || m_out.weightIndex == m_out.responseIndex))
+        std::vector<int> factors{m_out.factorIndex};
+        factors.insert(factors.end(), m_out.moreFactorIndices.begin(), m_out.moreFactorIndices.end());
+        for (size_t i = 0; i < factors.size(); ++i) {
+            if (factors[i] == m_out.responseIndex)
+                return u"%1: the factor and the response are the same column ('%2'); choose two different columns"_s.arg(
+                    label, m_out.columns[factors[i]]);
+            for (size_t j = 0; j < i; ++j)
+                if (factors[j] == factors[i])
+                    return u"%1: column '%2' is named for two factors; give each factor its own column"_s.arg(
+                        label, m_out.columns[factors[i]]);
+        }
+        if (m_out.weightIndex >= 0
+            && (std::find(factors.begin(), factors.end(), m_out.weightIndex) != factors.end() || m_out.weightIndex == m_out.responseIndex))
             return u"%1: the weight column ('%2') is also the factor or the response; choose another column"_s.arg(
                 label, m_out.columns[m_out.weightIndex]);
         m_out.delimiter = m_start.m_delimiter;
@@ -1069,6 +1086,9 @@ private:
         const int fi = m_out.factorIndex;
         const int ri = m_out.responseIndex;
         const int wi = m_out.weightIndex;
+        // Further factor columns of a design; -1 (never a field number) when not given.
+        const int fi2 = m_out.moreFactorIndices.size() > 0 ? m_out.moreFactorIndices[0] : -1;
+        const int fi3 = m_out.moreFactorIndices.size() > 1 ? m_out.moreFactorIndices[1] : -1;
         qint64 &line = m_start.m_line;
         while (p < end) {
             if (*p == '\n' || (*p == '\r' && p[1] == '\n')) {
@@ -1079,6 +1099,7 @@ private:
             }
             const char *rec = p;
             std::string_view level, response, weight;
+            std::string_view more[2];
             double y = 0.0;
             bool yParsed = false;
             bool slow = false;
@@ -1112,6 +1133,10 @@ private:
                     response = std::string_view(s, size_t(p - s));
                 else if (f == wi)
                     weight = std::string_view(s, size_t(p - s));
+                else if (f == fi2)
+                    more[0] = std::string_view(s, size_t(p - s));
+                else if (f == fi3)
+                    more[1] = std::string_view(s, size_t(p - s));
                 ++f;
                 if (c == delim) {
                     ++p;
@@ -1148,6 +1173,9 @@ private:
                     response = m_slow.field(ri);
                     if (wi >= 0)
                         weight = m_slow.field(wi);
+                    for (int i : {0, 1})
+                        if (const int mi = i == 0 ? fi2 : fi3; mi >= 0)
+                            more[i] = m_slow.field(mi);
                 }
             }
             if (f != m_fieldCount) {
@@ -1165,10 +1193,38 @@ private:
             ++m_out.records;
             if (yParsed && !std::isfinite(y))
                 yParsed = false;
+            if (fi2 >= 0) [[unlikely]] {
+                if (!joinCell(line, level, more)) { // an empty factor value: the row was left out and reported
+                    line += newlines;
+                    continue;
+                }
+                level = m_cell;
+                slow = true; // the joined name lives outside the block buffer
+            }
             addRow(line, level, !slow, yParsed, y, response, weight, error);
             if (!error.isEmpty())
                 return true;
             line += newlines;
+        }
+        return true;
+    }
+
+    // A design's cell name, "grass:early", from the row's factor values (trimmed) into m_cell.
+    // False when one is empty: the row is left out and reported, naming the column.
+    bool joinCell(qint64 line, std::string_view first, const std::string_view (&more)[2])
+    {
+        m_cell.clear();
+        const size_t count = 1 + m_out.moreFactorIndices.size();
+        for (size_t i = 0; i < count; ++i) {
+            const std::string_view part = trimmed(i == 0 ? first : more[i - 1]);
+            if (part.empty()) {
+                skip(line, u"factor (column '%1') is empty"_s.arg(
+                               m_out.columns[i == 0 ? m_out.factorIndex : m_out.moreFactorIndices[i - 1]]));
+                return false;
+            }
+            if (i > 0)
+                m_cell += ':';
+            m_cell.append(part);
         }
         return true;
     }
@@ -1246,6 +1302,7 @@ private:
     const DataReadOptions &m_options;
     LevelTable m_levels;
     SlowRecord m_slow;
+    std::string m_cell; // a design row's joined cell name
     int m_fieldCount = 0;
     unsigned char m_class[256] = {};
 };

@@ -82,6 +82,9 @@ struct DataReadOptions
 {
     // Columns by header name, or by 1-based number ("2") when no header cell has that name.
     QString factorColumn;
+    // Further factor columns of a crossed design (at most two): a row's level is then its factor
+    // values joined with ':' in this order, as Design::cellNames() names the cells ("grass:early").
+    QStringList moreFactorColumns;
     QString responseColumn;
     QString weightColumn; // empty: every row has weight 1
     // 0: detect among tab, comma, semicolon and vertical bar.
@@ -101,6 +104,7 @@ struct DataSummary
     bool hasHeader = false;
     QStringList columns; // header cells, or "1", "2", ... without a header
     int factorIndex = -1; // 0-based column positions
+    std::vector<int> moreFactorIndices; // the further factor columns, when given
     int responseIndex = -1;
     int weightIndex = -1;
     bool weighted = false;

@@ -130,6 +130,7 @@ private slots:
     void rejectsSummaryTable();
     void previewsFile();
     void namesDelimiters();
+    void joinsFactorColumnsIntoCells();
 };
 
 // Dobson (1983), An Introduction to Statistical Modelling, plant-growth data (values
@@ -610,6 +611,50 @@ void TestDataReader::namesDelimiters()
     QCOMPARE(delimiterFromName(u"ab"_s), std::nullopt);
     QCOMPARE(delimiterName('\t'), u"tab"_s);
     QCOMPARE(delimiterName(':'), u"':'"_s);
+}
+
+// A crossed design read with one column per factor: each row's cell is its values joined with
+// ':' (Design::cellNames). Statistics per cell are checked against a plain two-pass computation
+// over the rows written, for every block size down to a few bytes (records then straddle
+// blocks) and with quoted and padded values; an empty value in any factor column leaves the
+// row out with a message naming that column.
+void TestDataReader::joinsFactorColumnsIntoCells()
+{
+    std::mt19937 rng(11);
+    std::uniform_real_distribution<double> u(-50.0, 50.0);
+    const QByteArray a[] = {"north", "south"}, b[] = {"dry", "wet"}, c[] = {"x", "y"};
+    QByteArray bytes = "id,soil,site,y,season\n"; // factors: site, soil, season (not in file order)
+    std::vector<Row> rows;
+    for (int i = 0; i < 400; ++i) {
+        const int ia = int(rng() % 2), ib = int(rng() % 2), ic = int(rng() % 2);
+        const Row row{a[ia] + ':' + b[ib] + ':' + c[ic], std::round(u(rng) * 100) / 100};
+        rows.push_back(row);
+        const QByteArray site = i % 7 == 0 ? '"' + a[ia] + '"' : (i % 11 == 0 ? "  " + a[ia] + " " : a[ia]);
+        bytes += QByteArray::number(i) + ',' + b[ib] + ',' + site + ',' + QByteArray::number(row.y, 'g', 17) + ',' + c[ic] + '\n';
+    }
+    bytes += "400,dry,north,1.5,\n";
+    for (qsizetype block : {qsizetype(5), qsizetype(64), kDefaultBlockBytes}) {
+        DataReadOptions o = columns(u"site"_s, u"y"_s);
+        o.moreFactorColumns = {u"soil"_s, u"season"_s};
+        o.blockBytes = block;
+        auto r = readLevelDataFromBytes(bytes, u"cells.csv"_s, o);
+        QVERIFY2(r.ok(), qPrintable(r.error()));
+        QCOMPARE(r->moreFactorIndices, (std::vector<int>{1, 4}));
+        QCOMPARE(int(r->levels.size()), 8);
+        for (const LevelStats &l : r->levels)
+            compareStats(l.stats, twoPass(rows, l.name.toUtf8()), 1e-12);
+        QCOMPARE(r->usedRows, qint64(400));
+        QCOMPARE(r->skippedRows, qint64(1));
+        QCOMPARE(r->skipped[0].line, qint64(402));
+        QCOMPARE(r->skipped[0].message, u"factor (column 'season') is empty"_s);
+    }
+    DataReadOptions four = columns(u"site"_s, u"y"_s);
+    four.moreFactorColumns = {u"soil"_s, u"season"_s, u"id"_s};
+    QCOMPARE(readLevelDataFromBytes(bytes, u"cells.csv"_s, four).error(), u"4 factor columns; a design has at most 3 factors"_s);
+    DataReadOptions twice = columns(u"site"_s, u"y"_s);
+    twice.moreFactorColumns = {u"site"_s};
+    QCOMPARE(readLevelDataFromBytes(bytes, u"cells.csv"_s, twice).error(),
+             u"cells.csv: column 'site' is named for two factors; give each factor its own column"_s);
 }
 
 QTEST_GUILESS_MAIN(TestDataReader)

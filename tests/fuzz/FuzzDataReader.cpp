@@ -65,6 +65,9 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t *data, std::size_t size
     o.responseColumn = names[(columns >> 3) & 7];
     if (columns & 0x40)
         o.weightColumn = names[(columns >> 3 & 7) ^ 1];
+    // A design's second factor column: cells are the joined values.
+    if (columns & 0x80)
+        o.moreFactorColumns << names[((columns & 7) + 2) & 7];
     if (auto d = readLevelDataFromBytes(bytes, u"fuzz.csv"_s, o))
         checkSummary(*d, "readLevelData");
 
