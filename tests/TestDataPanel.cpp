@@ -5,12 +5,15 @@
 // the same values TestDataFit checks against NumPy's lstsq).
 
 #include "DataPanel.h"
+#include "FitTestSupport.h"
 #include "Demos.h"
 #include "PanelShot.h"
 #include "Document.h"
 #include "SmallChart.h"
 
 #include <QFile>
+
+#include <cmath>
 #include <QSignalSpy>
 #include <QTableWidget>
 #include <QTemporaryDir>
@@ -29,6 +32,7 @@ private slots:
     void skippedRowsAreListedWithLines();
     void unreadableFileShowsMessage();
     void rendersTheIrrigationDemo();
+    void fitsADesignFromOneColumnPerFactor();
 
 private:
     static void useLevels(Document &doc, const QStringList &levels);
@@ -162,6 +166,52 @@ void TestDataPanel::rendersTheIrrigationDemo()
     QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
     QVERIFY(panel.problemsText().contains(u"line 42"_s));
     QVERIFY(renderPanel(panel, QSize(1500, 470), u"data"_s));
+}
+
+// With the hedgerow design open (3 margins x 2 mowing dates, treatment coding with the
+// interaction), the panel offers one column per factor, takes the columns named like the
+// factors, and fits the design over the cells. With treatment coding every coefficient is a
+// difference of cell means, computed here by hand from the rows written.
+void TestDataPanel::fitsADesignFromOneColumnPerFactor()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"margins.csv"_s);
+    QByteArray csv = "plot,visits,mowing,margin\n"; // not in the design's order, on purpose
+    const char *margins[] = {"bare", "grass", "wildflower"};
+    const char *dates[] = {"early", "late"};
+    double sum[6] = {}, count[6] = {};
+    int plot = 0;
+    for (int c = 0; c < 6; ++c)
+        for (int i = 0; i < 3 + c % 2; ++i) {
+            const double v = 10.0 + 2.0 * c + 0.3 * c * c + (i * 37 % 7) * 0.5;
+            sum[c] += v;
+            ++count[c];
+            csv += QByteArray::number(++plot) + ',' + QByteArray::number(v) + ',' + dates[c % 2] + ',' + margins[c / 2] + '\n';
+        }
+    QVERIFY(test::writeFile(path, csv));
+    double mean[6];
+    for (int c = 0; c < 6; ++c)
+        mean[c] = sum[c] / count[c];
+
+    Document doc;
+    doc.reset(loadDemoStudy(u"hedgerow"_s).take(), {});
+    QVERIFY(doc.isDesign());
+    DataPanel panel(&doc);
+    QVERIFY(panel.openFile(path));
+    panel.setColumns(u"margin"_s, u"visits"_s);
+    QVERIFY(readAndWait(panel));
+    QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+    const FitResult &fit = *panel.fit();
+    QCOMPARE(fit.levels, doc.designAnalysis().cells);
+    QCOMPARE(fit.coefficients.size(), size_t(6));
+    // Cells A-major: bare:early, bare:late, grass:early, grass:late, wildflower:early, wildflower:late.
+    const double expected[] = {mean[0], mean[2] - mean[0], mean[4] - mean[0], mean[1] - mean[0],
+                               mean[3] - mean[2] - mean[1] + mean[0], mean[5] - mean[4] - mean[1] + mean[0]};
+    for (size_t i = 0; i < 6; ++i)
+        QVERIFY2(std::abs(fit.coefficients[i].estimate - expected[i]) <= 1e-9 * std::max(1.0, std::abs(expected[i])),
+                 qPrintable(u"coefficient %1: %2, expected %3"_s.arg(i).arg(fit.coefficients[i].estimate).arg(expected[i])));
+    QVERIFY(panel.unmatchedText().isEmpty());
+    QVERIFY(renderPanel(panel, QSize(1500, 470), u"data-design"_s));
 }
 
 QTEST_MAIN(TestDataPanel)

@@ -2,11 +2,13 @@
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QJsonObject>
+#include "FitTestSupport.h"
 #include "ProcessRunner.h"
 #include <QTemporaryDir>
 #include <QTest>
 
 #include <cmath>
+#include <cstring>
 
 using namespace Qt::StringLiterals;
 
@@ -43,6 +45,8 @@ private slots:
     void reportsLeftOutRows();
     void fitsSummaryTable();
     void printsReport();
+    void fitsDesignCells();
+    void refusesDesignColumns();
     void refusesBadInput_data();
     void refusesBadInput();
 };
@@ -132,6 +136,114 @@ void TestFitCommand::printsReport()
     QVERIFY(text.contains(u"F(2, 27) = 4.846, p = 0.01591; tests that all level means are equal"_s));
     QVERIFY(text.contains(u"p (holm)"_s));
     QVERIFY(r.err.isEmpty());
+}
+
+// The hedgerow demo design (3 margins x 2 mowing dates, treatment coding with the interaction)
+// fitted to rows with one column per factor. Reference: tests/python/fit_lstsq.py, which reads
+// the file with pandas, joins the factor values itself and solves the explicit N-row design with
+// NumPy's lstsq; its design rows are written out here by the definition of treatment coding
+// (intercept, grass, wildflower, late, grass x late, wildflower x late), not taken from the
+// tool. One row has a quoted value, one has spaces around it, one has no mowing date.
+void TestFitCommand::fitsDesignCells()
+{
+    QByteArray csv = "plot,margin,mowing,visits\n";
+    const char *margins[] = {"bare", "grass", "wildflower"};
+    const char *dates[] = {"early", "late"};
+    const int cellN[] = {6, 6, 6, 5, 6, 4};
+    int plot = 0;
+    for (int c = 0; c < 6; ++c)
+        for (int i = 0; i < cellN[c]; ++i) {
+            ++plot;
+            // Deterministic, uneven values: a cell effect plus a spread that differs by cell.
+            const double visits = 20.0 + 3.5 * c - 1.25 * (c % 2) + std::fmod(plot * 7.31, 5.0) * (1 + c % 3);
+            QByteArray margin = margins[c / 2], date = dates[c % 2];
+            if (plot == 3)
+                margin = "\"" + margin + "\"";
+            if (plot == 8)
+                date = "  " + date + " ";
+            csv += QByteArray::number(plot) + ',' + margin + ',' + date + ',' + QByteArray::number(visits, 'g', 17) + '\n';
+        }
+    csv += "99,grass,,31.5\n";
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"plots.csv"_s);
+    QVERIFY(cb::test::writeFile(path, csv));
+    const QString design = QStringLiteral(CB_SOURCE_DIR "/resources/demos/hedgerow.json");
+
+    const Run r = runCli({u"--file"_s, design, u"--data"_s, path, u"--response"_s, u"visits"_s, u"--json"_s});
+    QVERIFY2(r.exitCode == 0, r.err.constData());
+    const QJsonObject o = parse(r);
+    const QJsonObject skipped = o.value(u"skipped_rows"_s).toObject();
+    QCOMPARE(skipped.value(u"count"_s).toInt(), 1);
+    QVERIFY(skipped.value(u"first"_s).toArray()[0].toObject().value(u"reason"_s).toString().contains(u"column 'mowing'"_s));
+
+    const QStringList cells = {u"bare:early"_s, u"bare:late"_s, u"grass:early"_s, u"grass:late"_s, u"wildflower:early"_s, u"wildflower:late"_s};
+    const QJsonArray X = {QJsonArray{1, 0, 0, 0, 0, 0}, QJsonArray{1, 0, 0, 1, 0, 0}, QJsonArray{1, 1, 0, 0, 0, 0},
+                          QJsonArray{1, 1, 0, 1, 1, 0}, QJsonArray{1, 0, 1, 0, 0, 0}, QJsonArray{1, 0, 1, 1, 0, 1}};
+    const QJsonObject spec{{u"csv"_s, path},
+                           {u"factors"_s, QJsonArray{u"margin"_s, u"mowing"_s}},
+                           {u"response"_s, u"visits"_s},
+                           {u"weight"_s, QJsonValue()},
+                           {u"levels"_s, QJsonArray::fromStringList(cells)},
+                           {u"X"_s, X},
+                           {u"alpha"_s, 0.05}};
+    const QJsonObject ref = cb::test::runPython(u"fit_lstsq.py"_s, {}, QJsonDocument(spec).toJson());
+    QVERIFY2(!ref.contains(u"error"_s), qPrintable(ref.value(u"error"_s).toString()));
+
+    const auto near = [](double got, double want) { return std::fabs(got - want) <= 1e-9 * std::max(1.0, std::fabs(want)); };
+    const QJsonArray levels = o.value(u"levels"_s).toArray();
+    QCOMPARE(levels.size(), 6);
+    for (qsizetype j = 0; j < 6; ++j) {
+        QCOMPARE(levels[j].toObject().value(u"name"_s).toString(), cells[j]);
+        QCOMPARE(levels[j].toObject().value(u"n"_s).toInt(), cellN[j]);
+        QVERIFY(near(levels[j].toObject().value(u"mean"_s).toDouble(), ref.value(u"means"_s).toArray()[j].toDouble()));
+    }
+    const QJsonArray c = o.value(u"coefficients"_s).toArray();
+    QCOMPARE(c.size(), 6);
+    for (qsizetype i = 0; i < 6; ++i)
+        for (const char *key : {"estimate", "se", "t", "p", "ci_low", "ci_high"}) {
+            const char *refKey = std::strcmp(key, "estimate") == 0 ? "coefficients" : key;
+            const double got = c[i].toObject().value(QLatin1StringView(key)).toDouble();
+            const double want = ref.value(QLatin1StringView(refKey)).toArray()[i].toDouble();
+            QVERIFY2(near(got, want), qPrintable(u"coefficient %1 %2: %3, NumPy %4"_s.arg(i).arg(QLatin1StringView(key)).arg(got, 0, 'g', 17).arg(want, 0, 'g', 17)));
+        }
+    QVERIFY(near(o.value(u"sigma"_s).toDouble(), ref.value(u"sigma"_s).toDouble()));
+    QCOMPARE(o.value(u"df"_s).toDouble(), ref.value(u"df"_s).toDouble());
+    QCOMPARE(o.value(u"df"_s).toInt(), 33 - 6);
+    QVERIFY(near(o.value(u"f"_s).toDouble(), ref.value(u"f"_s).toDouble()));
+    QVERIFY(near(o.value(u"f_p"_s).toDouble(), ref.value(u"f_p"_s).toDouble()));
+
+    const Run report = runCli({u"--file"_s, design, u"--data"_s, path, u"--response"_s, u"visits"_s});
+    QVERIFY2(report.exitCode == 0, report.err.constData());
+    QVERIFY2(QString::fromUtf8(report.out).contains(u"cells from columns 'margin', 'mowing'"_s), report.out.constData());
+}
+
+void TestFitCommand::refusesDesignColumns()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"plots.csv"_s);
+    QVERIFY(cb::test::writeFile(path, "margin,mowing,visits\nbare,early,1\n"));
+    const QString design = QStringLiteral(CB_SOURCE_DIR "/resources/demos/hedgerow.json");
+    const QStringList base = {u"--file"_s, design, u"--data"_s, path, u"--response"_s, u"visits"_s};
+    struct Case
+    {
+        QStringList extra;
+        QString message;
+    };
+    const Case cases[] = {
+        {{u"--factor"_s, u"margin"_s}, u"--factor: given 1 times for a design of 2 factors (margin, mowing)"_s},
+        {{u"--factor"_s, u"margin"_s, u"--factor"_s, u"margin"_s}, u"column 'margin' is named for two factors"_s},
+        {{u"--factor"_s, u"margin"_s, u"--factor"_s, u"date"_s}, u"no column 'date' for the factor; the columns are: margin, mowing, visits"_s},
+        {{u"--factor"_s, u"margin"_s, u"--factor"_s, u"visits"_s}, u"the factor and the response are the same column ('visits')"_s},
+    };
+    for (const Case &k : cases) {
+        const Run r = runCli(base + k.extra);
+        QCOMPARE(r.exitCode, 2);
+        QVERIFY2(r.errText().contains(k.message), r.err.constData());
+    }
+    // A one-factor scheme reads one column.
+    const Run one = runCli(plantArgs() + QStringList{u"--factor"_s, u"weight"_s});
+    QCOMPARE(one.exitCode, 2);
+    QVERIFY2(one.errText().contains(u"--factor: given 2 times; a one-factor scheme reads one column"_s), one.err.constData());
 }
 
 void TestFitCommand::refusesBadInput_data()

@@ -91,6 +91,7 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
                                 "the level and a numeric response."), this))
     , m_preview(table(0, {}, this))
     , m_factor(new QComboBox(this))
+    , m_moreFactors{new QComboBox(this), new QComboBox(this)}
     , m_response(new QComboBox(this))
     , m_weight(new QComboBox(this))
     , m_readButton(new QPushButton(tr("Read and fit"), this))
@@ -153,7 +154,10 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     connect(m_readButton, &QPushButton::clicked, this, &DataPanel::readAndFit);
     connect(m_adjust, &QComboBox::currentIndexChanged, this, &DataPanel::refit);
     connect(m_alpha, &QLineEdit::textChanged, this, &DataPanel::refit);
-    connect(document, &Document::changed, this, &DataPanel::rebuildMapping);
+    connect(document, &Document::changed, this, [this] {
+        updateFactorRows();
+        rebuildMapping();
+    });
 
     // Left: the file and its columns. Middle: levels and results. Right: the means.
     auto *fileRow = new QHBoxLayout;
@@ -161,7 +165,10 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     fileRow->addWidget(m_readButton);
     fileRow->addStretch(1);
     auto *columns = new QFormLayout;
+    m_columnsForm = columns;
     columns->addRow(tr("Level column:"), m_factor);
+    for (QComboBox *more : m_moreFactors)
+        columns->addRow(new QLabel(this), more); // named and shown for a design (updateFactorRows)
     columns->addRow(tr("Response:"), m_response);
     columns->addRow(tr("Case weight:"), m_weight);
     columns->addRow(tr("Adjust p for:"), m_adjust);
@@ -190,6 +197,45 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     layout->addLayout(left, 4);
     layout->addLayout(middle, 8);
     layout->addWidget(m_chart, 3);
+    updateFactorRows();
+}
+
+const Scheme &DataPanel::fitTarget() const
+{
+    return m_document->isDesign() ? m_document->designAnalysis().cellScheme : m_document->scheme();
+}
+
+void DataPanel::updateFactorRows()
+{
+    QStringList names;
+    if (m_document->isDesign())
+        for (const Scheme &f : m_document->design().factors)
+            names << f.factor.name;
+    const bool changed = names != m_factorNames;
+    m_factorNames = names;
+    auto *firstLabel = qobject_cast<QLabel *>(m_columnsForm->labelForField(m_factor));
+    if (firstLabel)
+        firstLabel->setText(names.isEmpty() ? tr("Level column:") : tr("Column of %1:").arg(names[0]));
+    for (int i = 0; i < 2; ++i) {
+        const bool shown = i + 1 < names.size();
+        m_columnsForm->setRowVisible(m_moreFactors[i], shown);
+        if (auto *label = qobject_cast<QLabel *>(m_columnsForm->labelForField(m_moreFactors[i])))
+            label->setText(shown ? tr("Column of %1:").arg(names[i + 1]) : QString());
+    }
+    // A new design's factors take the data columns named like them, when there are such.
+    if (changed)
+        for (qsizetype i = 0; i < names.size() && i < 3; ++i) {
+            QComboBox *box = i == 0 ? m_factor : m_moreFactors[i - 1];
+            const int match = box->findText(names[i], Qt::MatchFixedString);
+            if (match >= 0)
+                box->setCurrentIndex(match);
+        }
+}
+
+void DataPanel::setFactorColumns(const QStringList &columns)
+{
+    for (qsizetype i = 0; i < columns.size() && i < 3; ++i)
+        (i == 0 ? m_factor : m_moreFactors[i - 1])->setCurrentText(columns[i]);
 }
 
 DataPanel::~DataPanel()
@@ -237,11 +283,19 @@ bool DataPanel::openFile(const QString &path)
     m_response->clear();
     m_weight->clear();
     m_factor->addItems(preview->columns);
+    for (QComboBox *more : m_moreFactors) {
+        more->clear();
+        more->addItems(preview->columns);
+    }
     m_response->addItems(preview->columns);
     m_weight->addItem(tr("(none: every row counts once)"));
     m_weight->addItems(preview->columns);
     m_factor->setCurrentIndex(std::max(factor, 0));
+    for (int i = 0; i < 2; ++i)
+        m_moreFactors[i]->setCurrentIndex(std::min(std::max(factor, 0) + i + 1, int(preview->columns.size()) - 1));
     m_response->setCurrentIndex(response >= 0 ? response : std::min(1, int(preview->columns.size()) - 1));
+    m_factorNames.clear(); // propose the columns named like the design's factors again
+    updateFactorRows();
     m_readButton->setEnabled(true);
     showMessage({});
     return true;
@@ -263,6 +317,8 @@ void DataPanel::readAndFit()
         return;
     DataReadOptions options;
     options.factorColumn = m_factor->currentText();
+    for (int i = 0; i + 1 < int(m_factorNames.size()) && i < 2; ++i)
+        options.moreFactorColumns << m_moreFactors[i]->currentText();
     options.responseColumn = m_response->currentText();
     options.weightColumn = m_weight->currentIndex() > 0 ? m_weight->currentText() : QString();
     options.delimiter = m_delimiter;
@@ -319,7 +375,7 @@ void DataPanel::rebuildMapping()
 {
     if (!m_data)
         return;
-    const QStringList scheme = m_document->scheme().factor.levels;
+    const QStringList scheme = fitTarget().factor.levels;
     const LevelMapping previous = currentMapping();
     m_building = true;
     m_mapping->setRowCount(int(m_data->levels.size()));
@@ -370,7 +426,7 @@ void DataPanel::setAdjustment(PAdjust adjust)
 
 void DataPanel::updateUnmatched()
 {
-    const QStringList scheme = m_document->scheme().factor.levels;
+    const QStringList scheme = fitTarget().factor.levels;
     const LevelMapping mapping = currentMapping();
     QStringList dataOnly, covered;
     for (const LevelStats &l : m_data->levels) {
@@ -410,7 +466,7 @@ void DataPanel::refit()
         return;
     }
     options.alpha = alpha->value();
-    Result<FitResult> fit = fitScheme(m_document->scheme(), *m_data, options, mapping);
+    Result<FitResult> fit = fitScheme(fitTarget(), *m_data, options, mapping);
     if (!fit) {
         showMessage(fit.error());
         m_coefficients->setRowCount(0);
@@ -473,7 +529,8 @@ void DataPanel::showFit(const FitResult &fit)
         std::vector<SmallChart::Interval> intervals;
         for (const FitCoefficient &c : cells->coefficients)
             intervals.push_back({c.name, c.estimate, c.ciLow, c.ciHigh});
-        m_chart->setAxisTitles(tr("level (mean and %1% interval, pooled SD)").arg(level), m_response->currentText());
+        m_chart->setAxisTitles(tr("%1 means, %2% intervals (pooled SD)").arg(m_document->isDesign() ? tr("cell") : tr("level"), level),
+                               m_response->currentText());
         m_chart->setIntervals(std::move(intervals));
     } else {
         m_chart->clear(cells.error());

@@ -10,6 +10,7 @@
 #include <optional>
 
 class QComboBox;
+class QFormLayout;
 class QLabel;
 class QLineEdit;
 class QProgressDialog;
@@ -24,7 +25,8 @@ class SmallChart;
 
 // The data check: a long-format CSV/TSV file read in the background
 // (readLevelData), its levels matched to the scheme's, and the scheme fitted
-// (fitScheme). Shows the coefficients beside the hypotheses they test, the
+// (fitScheme). With a design open, the data name one column per factor and the
+// design's coding over the cells is fitted (a row's cell is its values joined, "grass:early"). Shows the coefficients beside the hypotheses they test, the
 // level means with intervals, the overall fit and the rows that were left out.
 class DataPanel : public QWidget
 {
@@ -44,6 +46,8 @@ public:
     bool openFile(const QString &path);
     // Chooses the columns by header name (weight empty: none).
     void setColumns(const QString &factor, const QString &response, const QString &weight = {});
+    // With a design open: the data column of each factor, in the design's order.
+    void setFactorColumns(const QStringList &columns);
     // Reads the whole file in the background, then fits; finished() follows.
     void readAndFit();
     // Maps a data level to a scheme level (empty: not matched) and fits again.
@@ -76,6 +80,10 @@ private:
     void showFit(const FitResult &fit);
     void showMessage(const QString &message);
     void updateUnmatched();
+    // The one-factor scheme, or with a design open the design's coding over its cells.
+    const Scheme &fitTarget() const;
+    // One column chooser per factor of the open design (the first alone for one factor).
+    void updateFactorRows();
     LevelMapping currentMapping() const;
 
     Document *m_document;
@@ -87,6 +95,10 @@ private:
     QLabel *m_fileLabel;
     QTableWidget *m_preview;
     QComboBox *m_factor;
+    // The second and third factors' columns (design only), with the form that shows them.
+    QComboBox *m_moreFactors[2];
+    QFormLayout *m_columnsForm = nullptr;
+    QStringList m_factorNames; // the design's factor names the choosers were last set up for
     QComboBox *m_response;
     QComboBox *m_weight;
     QPushButton *m_readButton;

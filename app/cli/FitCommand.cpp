@@ -4,6 +4,7 @@
 
 #include "DataFit.h"
 #include "DataReader.h"
+#include "Design.h"
 #include "Scheme.h"
 
 #include <QCommandLineParser>
@@ -47,7 +48,8 @@ QString pText(double p)
 void addDataOptions(QCommandLineParser &p)
 {
     p.addOption({u"data"_s, u"The data file: CSV or TSV in long format, or '-' for standard input."_s, u"file"_s});
-    p.addOption({u"factor"_s, u"The data column that holds the levels (name, or number from 1)."_s, u"COL"_s});
+    p.addOption({u"factor"_s, u"The data column that holds the levels (name, or number from 1). For a design file, "
+                             "once per factor in the design's order (default: columns named as the factors)."_s, u"COL"_s});
     p.addOption({u"response"_s, u"The data column that holds the measurements (name, or number from 1)."_s, u"COL"_s});
     p.addOption({u"weight"_s, u"A column of case weights (a row of weight w counts as w rows)."_s, u"COL"_s});
     p.addOption({u"summary"_s, u"The data file is a summary table with columns level, n, mean, sd."_s});
@@ -74,9 +76,9 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
     if (!p.isSet(u"data"_s))
         return R::failure(u"--data: no data file given; name a CSV or TSV file, or '-' for standard input"_s);
     if (!p.isSet(u"summary"_s)) {
-        for (const QString &opt : {u"factor"_s, u"response"_s})
-            if (p.value(opt).trimmed().isEmpty())
-                return R::failure(u"--%1: missing; name the data column (or give --summary for a summary table)"_s.arg(opt));
+        // --factor is checked with the scheme: a design's columns default to its factors' names.
+        if (p.value(u"response"_s).trimmed().isEmpty())
+            return R::failure(u"--response: missing; name the data column (or give --summary for a summary table)"_s);
     } else if (p.isSet(u"weight"_s) || p.isSet(u"response"_s)) {
         return R::failure(u"--%1 cannot be combined with --summary; a summary table has its own columns"_s.arg(
             p.isSet(u"weight"_s) ? u"weight"_s : u"response"_s));
@@ -118,12 +120,14 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
     return a;
 }
 
-Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a)
+// factorColumns: one per factor (a design's cells are the joined values, "grass:early").
+Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a, const QStringList &factorColumns)
 {
     if (p.isSet(u"summary"_s))
         return readSummaryTable(p.value(u"data"_s), SummaryReadOptions{a.delimiter, a.header});
     DataReadOptions o;
-    o.factorColumn = p.value(u"factor"_s);
+    o.factorColumn = factorColumns.value(0);
+    o.moreFactorColumns = factorColumns.mid(1);
     o.responseColumn = p.value(u"response"_s);
     o.weightColumn = p.value(u"weight"_s);
     o.delimiter = a.delimiter;
@@ -137,15 +141,23 @@ QString pad(const QString &s, qsizetype width)
     return s.size() < width ? s.leftJustified(width) : s + u' ';
 }
 
-void printReport(const Scheme &scheme, const DataSummary &data, const FitResult &fit, Io &io)
+void printReport(const Scheme &scheme, bool design, const DataSummary &data, const FitResult &fit, Io &io)
 {
     QTextStream &o = io.out;
-    o << "Fit of the " << schemeTitle(scheme.kind) << " coding to " << data.source;
-    if (data.fromSummaryTable)
-        o << " (summary table)\n";
+    if (design)
+        o << "Fit of the design's coding over the cells of " << scheme.factor.name << " to " << data.source;
     else
-        o << " (levels from column '" << data.columns.value(data.factorIndex) << "', response '"
-          << data.columns.value(data.responseIndex) << "'" << (data.weighted ? u", weighted"_s : QString()) << ")\n";
+        o << "Fit of the " << schemeTitle(scheme.kind) << " coding to " << data.source;
+    if (data.fromSummaryTable) {
+        o << " (summary table)\n";
+    } else {
+        QStringList columns{data.columns.value(data.factorIndex)};
+        for (int i : data.moreFactorIndices)
+            columns << data.columns.value(i);
+        o << (columns.size() > 1 ? " (cells from columns '" : " (levels from column '") << columns.join(u"', '"_s)
+          << "', response '" << data.columns.value(data.responseIndex) << "'"
+          << (data.weighted ? u", weighted"_s : QString()) << ")\n";
+    }
     if (!data.fromSummaryTable)
         o << data.records << " rows read, " << data.usedRows << " used, " << data.skippedRows << " left out.\n";
     o << '\n';
@@ -153,7 +165,7 @@ void printReport(const Scheme &scheme, const DataSummary &data, const FitResult 
     qsizetype w = 8;
     for (const QString &l : fit.levels)
         w = std::max(w, l.size() + 2);
-    o << pad(u"Level"_s, w) << pad(u"n"_s, 10) << pad(u"mean"_s, 12) << u"sd"_s << '\n';
+    o << pad(design ? u"Cell"_s : u"Level"_s, w) << pad(u"n"_s, 10) << pad(u"mean"_s, 12) << u"sd"_s << '\n';
     for (size_t j = 0; j < fit.levelStats.size(); ++j) {
         const RunningStats &s = fit.levelStats[j];
         o << pad(fit.levels.value(qsizetype(j)), w) << pad(num(s.n, 10), 10) << pad(num(s.mean, 6), 12) << num(s.sd(), 5)
@@ -213,10 +225,32 @@ int runFit(const QStringList &args, Io &io)
     auto arguments = dataArguments(p);
     if (!arguments)
         return badInput(io, arguments.error());
-    auto scheme = schemeFromOptions(p);
+    bool isDesign = false;
+    auto scheme = schemeOrCellsFromOptions(p, u"a fit"_s, &isDesign);
     if (!scheme)
         return badInput(io, scheme.error());
-    auto data = readData(p, *arguments);
+    // The data columns of the factors: a design's default to the factors' names.
+    QStringList factorColumns = p.values(u"factor"_s);
+    if (isDesign && !p.isSet(u"summary"_s)) {
+        const Design design = designFromOptions(p)->take(); // read and checked above
+        QStringList names;
+        for (const Scheme &f : design.factors)
+            names << f.factor.name;
+        if (factorColumns.isEmpty())
+            factorColumns = names;
+        else if (factorColumns.size() != names.size())
+            return badInput(io, u"--factor: given %1 times for a design of %2 factors (%3); give it once per factor, in that "
+                                "order, or leave it out to use columns named as the factors"_s
+                                    .arg(factorColumns.size())
+                                    .arg(names.size())
+                                    .arg(names.join(u", "_s)));
+    } else if (factorColumns.size() > 1) {
+        return badInput(io, u"--factor: given %1 times; a one-factor scheme reads one column (give a design file to fit "
+                            "crossed factors)"_s.arg(factorColumns.size()));
+    } else if (!p.isSet(u"summary"_s) && factorColumns.value(0).trimmed().isEmpty()) {
+        return badInput(io, u"--factor: missing; name the data column (or give --summary for a summary table)"_s);
+    }
+    auto data = readData(p, *arguments, factorColumns);
     if (!data)
         return badInput(io, data.error());
     auto fit = fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
@@ -225,7 +259,7 @@ int runFit(const QStringList &args, Io &io)
     if (p.isSet(u"json"_s))
         io.out << QString::fromUtf8(QJsonDocument(fitResultToJson(*fit, *data)).toJson(QJsonDocument::Indented));
     else
-        printReport(*scheme, *data, *fit, io);
+        printReport(*scheme, isDesign, *data, *fit, io);
     return kExitOk;
 }
 

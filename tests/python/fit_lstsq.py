@@ -4,6 +4,9 @@
 Reads one JSON object on standard input:
   {"csv": path, "factor": column, "response": column, "weight": column or null,
    "levels": [names in design order], "X": k x p design rows, "alpha": 0.05}
+or, for a crossed design, "factors": [columns] instead of "factor": a row's cell is its
+values joined with ":" ("grass:early"), with surrounding spaces removed; rows with an empty
+factor value are left out.
 reads the CSV with pandas, builds the N x p design matrix D (row i = X[level of i]),
 solves with numpy.linalg.lstsq (weights as case weights: rows scaled by sqrt(w),
 residual df = sum(w) - p) and prints the estimates and tests as JSON.
@@ -51,7 +54,16 @@ def main():
     levels = spec["levels"]
     X = np.array(spec["X"], dtype=float)
     index = {name: i for i, name in enumerate(levels)}
-    groups = frame[spec["factor"]].astype(str).map(index).to_numpy()
+    if "factors" in spec:
+        parts = [frame[c].astype(str).str.strip() for c in spec["factors"]]
+        keep = np.logical_and.reduce([(p != "") & (p != "nan") for p in parts])
+        frame = frame[keep]
+        cells = parts[0][keep]
+        for p in parts[1:]:
+            cells = cells + ":" + p[keep]
+        groups = cells.map(index).to_numpy()
+    else:
+        groups = frame[spec["factor"]].astype(str).map(index).to_numpy()
     y = frame[spec["response"]].to_numpy(dtype=float)
     w = frame[spec["weight"]].to_numpy(dtype=float) if spec.get("weight") else np.ones_like(y)
     D = X[groups]
