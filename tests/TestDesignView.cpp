@@ -35,6 +35,7 @@ private slots:
     void editingTheActiveFactorUpdatesTheDesignAndUndoRestores();
     void leavingOutATermShowsTheCellSizeDependence();
     void addingAndRemovingAFactorIsUndoable();
+    void removingAFactorKeepsTheTermsWithoutIt();
     void cellSizesFollowTheLevelNames();
     void factorSizesAreTheLevelTotalsOverTheCells();
     void exportIsOverTheCells();
@@ -310,6 +311,34 @@ void TestDesignView::addingAndRemovingAFactorIsUndoable()
     QCOMPARE(schemeToJson(d->scheme()), start);
     d->undoStack()->undo();
     QCOMPARE(d->design().factors.size(), size_t(2));
+}
+
+// Terms without the removed factor stay (renumbered); "B within C" loses C and becomes B's main
+// effect; terms with the removed factor go. Before, the design fell back to the full factorial.
+void TestDesignView::removingAFactorKeepsTheTermsWithoutIt()
+{
+    Study s = twoByTwo();
+    s.design.factors.push_back(centred(u"age"_s, u"young"_s, u"old"_s));
+    s.design.terms = {Term{{0}, -1}, Term{{0, 1}, -1}, Term{{1}, 2}, Term{{0, 2}, -1}};
+    auto withoutAge = withFactorRemoved(s, 2);
+    QVERIFY(withoutAge);
+    QStringList names;
+    for (const Term &t : withoutAge->design.terms)
+        names << termName(withoutAge->design, t);
+    QCOMPARE(names, (QStringList{u"cue"_s, u"load"_s, u"cue x load"_s}));
+
+    auto withoutCue = withFactorRemoved(s, 0);
+    QVERIFY(withoutCue);
+    names.clear();
+    for (const Term &t : withoutCue->design.terms)
+        names << termName(withoutCue->design, t);
+    QCOMPARE(names, (QStringList{u"load within age"_s}));
+
+    // Nothing left without the factor: the full factorial of the others.
+    s.design.terms = {Term{{0, 2}, -1}};
+    auto fallback = withFactorRemoved(s, 2);
+    QVERIFY(fallback);
+    QCOMPARE(fallback->design.terms.size(), size_t(3));
 }
 
 void TestDesignView::cellSizesFollowTheLevelNames()

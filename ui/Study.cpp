@@ -178,6 +178,37 @@ Result<Study> withFactorAdded(const Study &study)
     return R(std::move(out));
 }
 
+namespace {
+
+// The terms that remain when a factor leaves a design: those without it, renumbered. "A within B"
+// loses B and becomes A's main effect (within a factor that is gone, A's contrasts are simply
+// A's). When nothing remains, the full factorial of the factors left.
+std::vector<Term> termsWithoutFactor(const std::vector<Term> &terms, int factor, int factorsLeft)
+{
+    const auto renumber = [factor](int f) { return f > factor ? f - 1 : f; };
+    std::vector<Term> kept;
+    for (const Term &t : terms) {
+        if (std::find(t.factors.begin(), t.factors.end(), factor) != t.factors.end())
+            continue;
+        Term next;
+        for (int f : t.factors)
+            next.factors.push_back(renumber(f));
+        next.within = t.within == factor || t.within < 0 ? -1 : renumber(t.within);
+        if (std::none_of(kept.begin(), kept.end(), [&](const Term &k) { return sameTerm(k, next); }))
+            kept.push_back(std::move(next));
+    }
+    if (kept.empty())
+        return Design::fullFactorial(factorsLeft);
+    // In the order the term list shows them.
+    std::vector<Term> ordered;
+    for (const Term &t : candidateTerms(factorsLeft))
+        if (std::any_of(kept.begin(), kept.end(), [&](const Term &k) { return sameTerm(k, t); }))
+            ordered.push_back(t);
+    return ordered;
+}
+
+} // namespace
+
 Result<Study> withFactorRemoved(const Study &study, int factor)
 {
     if (!study.isDesign())
@@ -208,7 +239,7 @@ Result<Study> withFactorRemoved(const Study &study, int factor)
         d.terms.clear();
         d.cellN.clear();
     } else {
-        d.terms = Design::fullFactorial(out.factorCount());
+        d.terms = termsWithoutFactor(study.design.terms, factor, out.factorCount());
     }
     out.cellSizeNote.clear();
     return R(std::move(out));
