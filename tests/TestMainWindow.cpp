@@ -47,6 +47,7 @@ private slots:
     void droppingAFileOpensIt();
     void autosaveWritesTheRecoveryFileOnlyWhenThereIsNewWork();
     void recoveryIsOfferedAndRestores();
+    void twoWindowsKeepTheirOwnRecoveryFiles();
     void declinedRecoveryIsDiscarded();
     void corruptRecoveryIsReportedAndSetAside();
     void savingRemovesTheRecoveryFile();
@@ -246,8 +247,9 @@ void TestMainWindow::recoveryIsOfferedAndRestores()
     d->edit(edits::withWeights(d->scheme(), {{2, 1, Weight::exact(Rational(5, 7))}}), u"edit"_s);
     QVERIFY(f.window->writeRecovery());
     const QByteArray unsaved = schemeToJson(d->scheme());
-    // A crash: the window goes away without closing, so the recovery file stays.
-    f.window.release()->deleteLater();
+    // A crash: the window goes away without closing, so the recovery file stays (and its slot's
+    // lock is released, as when the process dies).
+    f.window.reset();
     QVERIFY(QFile::exists(QDir(f.dir.filePath(u"recovery"_s)).filePath(u"recovery.json"_s)));
 
     f.open();
@@ -259,13 +261,48 @@ void TestMainWindow::recoveryIsOfferedAndRestores()
     QCOMPARE(f.window->document()->scheme().columns[1].weights[2], Weight::exact(Rational(5, 7)));
 }
 
+// Two windows open at once on the same recovery directory: each writes its own file, saving in
+// one does not discard the other's work, and after the first "crashes" a new window offers that
+// window's work, not the other's.
+void TestMainWindow::twoWindowsKeepTheirOwnRecoveryFiles()
+{
+    WindowFixture f;
+    auto second = std::make_unique<MainWindow>(f.options(30'000));
+    Document *a = f.window->document();
+    Document *b = second->document();
+    a->edit(edits::withWeights(a->scheme(), {{0, 0, Weight::exact(Rational(2, 3))}}), u"edit"_s);
+    b->edit(edits::withWeights(b->scheme(), {{0, 0, Weight::exact(Rational(-5, 9))}}), u"edit"_s);
+    QVERIFY(f.window->writeRecovery());
+    QVERIFY(second->writeRecovery());
+    const QString pathA = f.window->recoveryStore().path(), pathB = second->recoveryStore().path();
+    QVERIFY(pathA != pathB);
+    QVERIFY(QFile::exists(pathA) && QFile::exists(pathB));
+    const QByteArray unsavedA = schemeToJson(a->scheme());
+
+    // The second window saves: its recovery file goes, the first window's stays.
+    QVERIFY(second->saveTo(f.dir.filePath(u"second.json"_s)));
+    QVERIFY(!QFile::exists(pathB));
+    QVERIFY(QFile::exists(pathA));
+
+    // The first window dies; a new one takes its slot and offers exactly its work.
+    f.window.reset();
+    f.open();
+    QCOMPARE(f.window->recoveryStore().path(), pathA);
+    QVERIFY(f.window->offerRecovery());
+    QCOMPARE(schemeToJson(f.window->document()->scheme()), unsavedA);
+    // The second window, still open, keeps its own slot.
+    b->edit(edits::withWeights(b->scheme(), {{0, 0, Weight(7)}}), u"edit"_s);
+    QVERIFY(second->writeRecovery());
+    QCOMPARE(second->recoveryStore().path(), pathB);
+}
+
 void TestMainWindow::declinedRecoveryIsDiscarded()
 {
     WindowFixture f;
     Document *d = f.window->document();
     d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(9)}}), u"edit"_s);
     QVERIFY(f.window->writeRecovery());
-    f.window.release()->deleteLater();
+    f.window.reset(); // gone without closing, as in a crash
     f.open();
     f.prompter.restore = false;
     QVERIFY(!f.window->offerRecovery());

@@ -6,6 +6,7 @@
 #include <QFile>
 #include <QJsonDocument>
 #include <QJsonObject>
+#include <QLockFile>
 #include <QStandardPaths>
 
 using namespace Qt::StringLiterals;
@@ -16,6 +17,8 @@ namespace {
 const QString kFormat = u"contrast-bench-recovery"_s;
 constexpr int kVersion = 1;
 constexpr qint64 kMaxRecoveryFile = 64 * 1024 * 1024;
+// More windows at once than anyone opens; beyond it the last slot is shared, as before slots.
+constexpr int kMaxSlots = 64;
 } // namespace
 
 RecoveryStore::RecoveryStore(QString directory)
@@ -23,9 +26,40 @@ RecoveryStore::RecoveryStore(QString directory)
 {
 }
 
+RecoveryStore::~RecoveryStore() = default;
+
+QString RecoveryStore::slotPath(int slot) const
+{
+    return QDir(m_directory).filePath(slot == 1 ? u"recovery.json"_s : u"recovery-%1.json"_s.arg(slot));
+}
+
+void RecoveryStore::claimSlot() const
+{
+    if (m_slot > 0)
+        return;
+    QDir().mkpath(m_directory);
+    // First the work of windows that are gone (file present, lock free), then an empty free slot.
+    for (const bool orphans : {true, false}) {
+        for (int slot = 1; slot <= kMaxSlots; ++slot) {
+            if (QFile::exists(slotPath(slot)) != orphans)
+                continue;
+            auto lock = std::make_unique<QLockFile>(slotPath(slot) + u".lock"_s);
+            // Only a lock whose process is gone is stale, however long a window stays open.
+            lock->setStaleLockTime(0);
+            if (lock->tryLock(0)) {
+                m_slot = slot;
+                m_lock = std::move(lock);
+                return;
+            }
+        }
+    }
+    m_slot = kMaxSlots; // no lock could be taken (an unwritable directory): save() reports it
+}
+
 QString RecoveryStore::path() const
 {
-    return QDir(m_directory).filePath(u"recovery.json"_s);
+    claimSlot();
+    return slotPath(m_slot);
 }
 
 bool RecoveryStore::exists() const
