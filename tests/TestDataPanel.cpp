@@ -211,6 +211,8 @@ void TestDataPanel::fitsADesignFromOneColumnPerFactor()
         QVERIFY2(std::abs(fit.coefficients[i].estimate - expected[i]) <= 1e-9 * std::max(1.0, std::abs(expected[i])),
                  qPrintable(u"coefficient %1: %2, expected %3"_s.arg(i).arg(fit.coefficients[i].estimate).arg(expected[i])));
     QVERIFY(panel.unmatchedText().isEmpty());
+    QVERIFY2(panel.summaryText().contains(u"21 observations in 6 cells"_s), qPrintable(panel.summaryText()));
+    QCOMPARE(panel.mappingTable()->horizontalHeaderItem(DataPanel::SchemeLevelColumn)->text(), u"Design cell"_s);
     QVERIFY(renderPanel(panel, QSize(1500, 470), u"data-design"_s));
 }
 

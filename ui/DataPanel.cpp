@@ -377,6 +377,8 @@ void DataPanel::rebuildMapping()
         return;
     const QStringList scheme = fitTarget().factor.levels;
     const LevelMapping previous = currentMapping();
+    m_mapping->setHorizontalHeaderLabels({m_document->isDesign() ? tr("Cell in the data") : tr("Level in the data"), tr("Rows"),
+                                          m_document->isDesign() ? tr("Design cell") : tr("Scheme level")});
     m_building = true;
     m_mapping->setRowCount(int(m_data->levels.size()));
     for (int r = 0; r < int(m_data->levels.size()); ++r) {
@@ -508,9 +510,10 @@ void DataPanel::showFit(const FitResult &fit)
     }
 
     QStringList lines;
-    lines << tr("Residual SD %1 on %2 df \u00b7 R\u00b2 = %3%4 \u00b7 %5 observations in %6 levels")
+    lines << tr("Residual SD %1 on %2 df \u00b7 R\u00b2 = %3%4 \u00b7 %5 observations in %6 %7")
                  .arg(number(fit.sigma), number(fit.df, 6), number(fit.rSquared, 3), fit.centred ? QString() : tr(" (about 0)"),
-                      number(fit.totalN, 10), QString::number(fit.levels.size()))
+                      number(fit.totalN, 10), QString::number(fit.levels.size()),
+                      m_document->isDesign() ? tr("cells") : tr("levels"))
                  .toHtmlEscaped();
     lines << tr("F(%1, %2) = %3, p %4 \u2014 null hypothesis: %5")
                  .arg(number(fit.fDf1, 6), number(fit.fDf2, 6), number(fit.f), pText(fit.fP).startsWith(u'<') ? pText(fit.fP) : u"= "_s + pText(fit.fP), fit.omnibusHypothesis)
