@@ -214,6 +214,13 @@ void TestDataPanel::fitsADesignFromOneColumnPerFactor()
     QVERIFY2(panel.summaryText().contains(u"21 observations in 6 cells"_s), qPrintable(panel.summaryText()));
     QCOMPARE(panel.mappingTable()->horizontalHeaderItem(DataPanel::SchemeLevelColumn)->text(), u"Design cell"_s);
     QVERIFY(renderPanel(panel, QSize(1500, 470), u"data-design"_s));
+
+    // A design that is not usable (here: no terms) is named as the reason, not fitted.
+    Study broken = doc.study();
+    broken.design.terms.clear();
+    doc.reset(broken, {});
+    QVERIFY(!panel.fit().has_value());
+    QVERIFY2(panel.message().contains(u"the design cannot be fitted: design.terms: give at least one term"_s), qPrintable(panel.message()));
 }
 
 QTEST_MAIN(TestDataPanel)

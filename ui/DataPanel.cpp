@@ -468,7 +468,12 @@ void DataPanel::refit()
         return;
     }
     options.alpha = alpha->value();
-    Result<FitResult> fit = fitScheme(fitTarget(), *m_data, options, mapping);
+    // A design that is not usable has no cells to fit; its own findings say why.
+    const auto &designFindings = m_document->designAnalysis().analysis.findings;
+    Result<FitResult> fit = m_document->isDesign() && fitTarget().levelCount() == 0
+        ? Result<FitResult>::failure(tr("the design cannot be fitted: %1")
+                                         .arg(designFindings.empty() ? tr("it has no cells") : designFindings.front().message))
+        : fitScheme(fitTarget(), *m_data, options, mapping);
     if (!fit) {
         showMessage(fit.error());
         m_coefficients->setRowCount(0);
