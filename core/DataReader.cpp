@@ -1327,7 +1327,7 @@ private:
     QString resolveColumns()
     {
         static const std::array<QStringList, 4> names = {
-            QStringList{u"level"_s, u"group"_s, u"name"_s, u"factor"_s, u"condition"_s},
+            QStringList{u"level"_s, u"group"_s, u"name"_s, u"factor"_s, u"condition"_s, u"cell"_s},
             QStringList{u"n"_s, u"count"_s, u"size"_s},
             QStringList{u"mean"_s, u"average"_s, u"avg"_s},
             QStringList{u"sd"_s, u"stdev"_s, u"std"_s, u"sdev"_s, u"std.dev"_s, u"standard deviation"_s, u"s"_s},

@@ -138,7 +138,8 @@ Result<DataSummary> readLevelDataFromBytes(const QByteArray &bytes, const QStrin
                                            const DataReadOptions &options);
 
 // A summary table: one row per level with its name, n, mean and SD. The header, when
-// there is one, names the columns (level/group, n/count, mean, sd/stdev, any order);
+// there is one, names the columns (level/group/cell, n/count, mean, sd/stdev, any order;
+// a design's cells are named as Design::cellNames() names them, "grass:early");
 // without one the columns are taken in that order. SD may be empty only when n is 1.
 struct SummaryReadOptions
 {

@@ -541,6 +541,7 @@ void TestDataReader::readsSummaryTable_data()
     QTest::newRow("header in another order, other names")
         << QByteArray("Mean;Group;SD;Count\r\n5.032;ctrl;0.5831;10\r\n4.661;trt1;0.7937;10\r\n5.526;trt2;0.4426;10\r\n");
     QTest::newRow("no header") << QByteArray("ctrl\t10\t5.032\t0.5831\ntrt1\t10\t4.661\t0.7937\ntrt2\t10\t5.526\t0.4426");
+    QTest::newRow("a design's cells") << QByteArray("cell,n,mean,sd\nctrl,10,5.032,0.5831\ntrt1,10,4.661,0.7937\ntrt2,10,5.526,0.4426\n");
 }
 
 void TestDataReader::readsSummaryTable()

@@ -212,6 +212,22 @@ void TestFitCommand::fitsDesignCells()
     QVERIFY(near(o.value(u"f"_s).toDouble(), ref.value(u"f"_s).toDouble()));
     QVERIFY(near(o.value(u"f_p"_s).toDouble(), ref.value(u"f_p"_s).toDouble()));
 
+    // The same cells as a summary table (n, mean, SD per cell) give the same estimates and SEs.
+    QByteArray table = "cell,n,mean,sd\n";
+    for (qsizetype j = 0; j < 6; ++j) {
+        const QJsonObject l = levels[j].toObject();
+        table += cells[j].toUtf8() + ',' + QByteArray::number(l.value(u"n"_s).toInt()) + ','
+            + QByteArray::number(l.value(u"mean"_s).toDouble(), 'g', 17) + ',' + QByteArray::number(l.value(u"sd"_s).toDouble(), 'g', 17) + '\n';
+    }
+    const QString tablePath = dir.filePath(u"cells.csv"_s);
+    QVERIFY(cb::test::writeFile(tablePath, table));
+    const Run summary = runCli({u"--file"_s, design, u"--data"_s, tablePath, u"--summary"_s, u"--json"_s});
+    QVERIFY2(summary.exitCode == 0, summary.err.constData());
+    const QJsonArray fromTable = parse(summary).value(u"coefficients"_s).toArray();
+    for (qsizetype i = 0; i < 6; ++i)
+        for (const char *key : {"estimate", "se"})
+            QVERIFY(near(fromTable[i].toObject().value(QLatin1StringView(key)).toDouble(), c[i].toObject().value(QLatin1StringView(key)).toDouble()));
+
     const Run report = runCli({u"--file"_s, design, u"--data"_s, path, u"--response"_s, u"visits"_s});
     QVERIFY2(report.exitCode == 0, report.err.constData());
     QVERIFY2(QString::fromUtf8(report.out).contains(u"cells from columns 'margin', 'mowing'"_s), report.out.constData());
