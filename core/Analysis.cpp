@@ -343,9 +343,10 @@ void columnDiagnostics(Analysis &a, const Scheme &s, bool exact, const Eigen::Ma
                     wdot += nq[size_t(l)] * t;
                 }
                 wdot -= wsums[size_t(i)] * wsums[size_t(j)] / total;
+                const Weight cross = Weight::exact(dot), designCross = Weight::exact(wdot);
                 for (const auto &[row, col] : {std::pair{i, j}, std::pair{j, i}}) {
-                    a.crossProducts.set(row, col, Weight::exact(dot));
-                    a.designCrossProducts.set(row, col, Weight::exact(wdot));
+                    a.crossProducts.set(row, col, cross);
+                    a.designCrossProducts.set(row, col, designCross);
                     a.orthogonal.set(row, col, dot == 0);
                     a.orthogonalInDesign.set(row, col, wdot == 0);
                 }

@@ -1086,9 +1086,10 @@ private:
         const int fi = m_out.factorIndex;
         const int ri = m_out.responseIndex;
         const int wi = m_out.weightIndex;
-        // Further factor columns of a design; -1 (never a field number) when not given.
-        const int fi2 = m_out.moreFactorIndices.size() > 0 ? m_out.moreFactorIndices[0] : -1;
-        const int fi3 = m_out.moreFactorIndices.size() > 1 ? m_out.moreFactorIndices[1] : -1;
+        // Further factor columns of a design (at most two: resolveColumns refuses more); -1, never
+        // a field number, when not given.
+        int mi[2] = {-1, -1};
+        std::copy(m_out.moreFactorIndices.begin(), m_out.moreFactorIndices.end(), mi);
         qint64 &line = m_start.m_line;
         while (p < end) {
             if (*p == '\n' || (*p == '\r' && p[1] == '\n')) {
@@ -1133,9 +1134,9 @@ private:
                     response = std::string_view(s, size_t(p - s));
                 else if (f == wi)
                     weight = std::string_view(s, size_t(p - s));
-                else if (f == fi2)
+                else if (f == mi[0])
                     more[0] = std::string_view(s, size_t(p - s));
-                else if (f == fi3)
+                else if (f == mi[1])
                     more[1] = std::string_view(s, size_t(p - s));
                 ++f;
                 if (c == delim) {
@@ -1173,9 +1174,9 @@ private:
                     response = m_slow.field(ri);
                     if (wi >= 0)
                         weight = m_slow.field(wi);
-                    for (int i : {0, 1})
-                        if (const int mi = i == 0 ? fi2 : fi3; mi >= 0)
-                            more[i] = m_slow.field(mi);
+                    for (int i = 0; i < 2; ++i)
+                        if (mi[i] >= 0)
+                            more[i] = m_slow.field(mi[i]);
                 }
             }
             if (f != m_fieldCount) {
@@ -1193,7 +1194,7 @@ private:
             ++m_out.records;
             if (yParsed && !std::isfinite(y))
                 yParsed = false;
-            if (fi2 >= 0) [[unlikely]] {
+            if (mi[0] >= 0) [[unlikely]] {
                 if (!joinCell(line, level, more)) { // an empty factor value: the row was left out and reported
                     line += newlines;
                     continue;

@@ -256,7 +256,7 @@ int shortDecimal(double magnitude, char *buf)
     const long long scaled = static_cast<long long>(magnitude * 1e6 + 0.5);
     const long long whole = scaled / 1000000;
     const int frac = static_cast<int>(scaled - whole * 1000000);
-    int len = whole < 10 ? (buf[0] = char('0' + whole), 1) : static_cast<int>(std::to_chars(buf, buf + 24, whole).ptr - buf);
+    int len = static_cast<int>(std::to_chars(buf, buf + 24, whole).ptr - buf);
     if (frac != 0) {
         // Six digits, two at a time from a table, then trailing zeros trimmed.
         static constexpr char kPairs[] = "00010203040506070809101112131415161718192021222324252627282930313233343536373839"

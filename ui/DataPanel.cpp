@@ -232,12 +232,6 @@ void DataPanel::updateFactorRows()
         }
 }
 
-void DataPanel::setFactorColumns(const QStringList &columns)
-{
-    for (qsizetype i = 0; i < columns.size() && i < 3; ++i)
-        (i == 0 ? m_factor : m_moreFactors[i - 1])->setCurrentText(columns[i]);
-}
-
 DataPanel::~DataPanel()
 {
     if (m_thread) {

@@ -46,8 +46,6 @@ public:
     bool openFile(const QString &path);
     // Chooses the columns by header name (weight empty: none).
     void setColumns(const QString &factor, const QString &response, const QString &weight = {});
-    // With a design open: the data column of each factor, in the design's order.
-    void setFactorColumns(const QStringList &columns);
     // Reads the whole file in the background, then fits; finished() follows.
     void readAndFit();
     // Maps a data level to a scheme level (empty: not matched) and fits again.

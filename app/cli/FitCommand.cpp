@@ -225,16 +225,15 @@ int runFit(const QStringList &args, Io &io)
     auto arguments = dataArguments(p);
     if (!arguments)
         return badInput(io, arguments.error());
-    bool isDesign = false;
-    auto scheme = schemeOrCellsFromOptions(p, u"a fit"_s, &isDesign);
+    std::optional<Design> design;
+    auto scheme = schemeOrCellsFromOptions(p, u"a fit"_s, &design);
     if (!scheme)
         return badInput(io, scheme.error());
     // The data columns of the factors: a design's default to the factors' names.
     QStringList factorColumns = p.values(u"factor"_s);
-    if (isDesign && !p.isSet(u"summary"_s)) {
-        const Design design = designFromOptions(p)->take(); // read and checked above
+    if (design && !p.isSet(u"summary"_s)) {
         QStringList names;
-        for (const Scheme &f : design.factors)
+        for (const Scheme &f : design->factors)
             names << f.factor.name;
         if (factorColumns.isEmpty())
             factorColumns = names;
@@ -259,7 +258,7 @@ int runFit(const QStringList &args, Io &io)
     if (p.isSet(u"json"_s))
         io.out << QString::fromUtf8(QJsonDocument(fitResultToJson(*fit, *data)).toJson(QJsonDocument::Indented));
     else
-        printReport(*scheme, isDesign, *data, *fit, io);
+        printReport(*scheme, design.has_value(), *data, *fit, io);
     return kExitOk;
 }
 

@@ -318,13 +318,13 @@ int runPower(const QStringList &args, Io &io)
         return kExitOk;
     }
     // For a design file its cells act as the levels and its coding columns as the contrasts.
-    bool isDesign = false;
-    auto loaded = schemeOrCellsFromOptions(p, u"power"_s, &isDesign);
+    std::optional<Design> design;
+    auto loaded = schemeOrCellsFromOptions(p, u"power"_s, &design);
     if (!loaded)
         return badInput(io, loaded.error());
     Scheme &scheme = loaded.value();
     QStringList designNotes;
-    if (isDesign)
+    if (design)
         designNotes << u"a design of %1 cells: each cell is a group here (%2, the first factor varying slowest), and each "
                        "coding column of the design is a contrast over the cell means"_s
                            .arg(scheme.levelCount()).arg(scheme.factor.levels.join(u", "_s));

@@ -89,11 +89,9 @@ std::optional<Result<Design>> designFromOptions(const QCommandLineParser &p)
     return design;
 }
 
-Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QString &what, bool *isDesign)
+Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QString &what, std::optional<Design> *designOut)
 {
     auto design = designFromOptions(p);
-    if (isDesign)
-        *isDesign = design.has_value();
     if (!design)
         return schemeFromOptions(p);
     if (!*design)
@@ -103,6 +101,8 @@ Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QStri
         if (d.cellN[c] == 0)
             return Result<Scheme>::failure(u"%1: cell '%2' is empty (cell_n 0); %3 needs a planned size above 0 for every cell"_s
                                                .arg(p.value(u"file"_s), d.cellNames()[qsizetype(c)], what));
+    if (designOut)
+        *designOut = d;
     return cellScheme(d);
 }
 

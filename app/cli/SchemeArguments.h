@@ -25,8 +25,9 @@ std::optional<Result<Design>> designFromOptions(const QCommandLineParser &parser
 // The scheme the options describe or, for a design file, the equivalent one-factor scheme over
 // its cells (the cells as levels, the first factor varying slowest; the design's columns; the cell
 // n as planned sizes). An empty cell is refused: `what` ("power") names who needs the sizes.
-// isDesign, when given, tells which of the two it was.
-Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &parser, const QString &what, bool *isDesign = nullptr);
+// design, when given, receives the design the file held (empty for a one-factor scheme).
+Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &parser, const QString &what,
+                                        std::optional<Design> *design = nullptr);
 
 // The factor alone: --levels, --factor (unless left out), --n.
 void addFactorOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOptionSet::All);
