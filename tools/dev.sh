@@ -5,6 +5,8 @@
 #   bash tools/dev.sh sanitize  the same with AddressSanitizer + UndefinedBehaviorSanitizer (leaks
 #                            count as failures; tests/lsan.supp lists the only leaks forgiven)
 #   bash tools/dev.sh deps   only install the packages
+#   bash tools/dev.sh packages   print the install list (the one list; tools/fuzz.sh and the
+#                            fresh-machine guard tools/check-install-list.py read it from here)
 # Fuzzing: bash tools/fuzz.sh smoke (what CI runs), bash tools/fuzz.sh long TARGET SECONDS.
 # Environment: BUILD_DIR (default build/dev; build/asan for sanitize), JOBS (default: number of cores).
 set -euo pipefail
@@ -12,7 +14,7 @@ cd "$(dirname "$0")/.."
 
 PACKAGES=(
   build-essential cmake ninja-build pkg-config git
-  qt6-base-dev qt6-charts-dev qt6-svg-dev libgl-dev
+  qt6-base-dev libqt6svg6
   libeigen3-dev libboost-dev libboost-math-dev libgmp-dev
   libbenchmark-dev
   python3-numpy python3-scipy python3-pandas
@@ -48,6 +50,9 @@ case "${1:-}" in
   deps)
     deps
     ;;
+  packages)
+    printf '%s\n' "${PACKAGES[@]}"
+    ;;
   run)
     deps
     build
@@ -75,7 +80,7 @@ case "${1:-}" in
     QT_QPA_PLATFORM=offscreen ctest --test-dir "$BUILD_DIR" --output-on-failure -j "$JOBS"
     ;;
   *)
-    sed -n '2,9p' "$0"
+    sed -n '2,11p' "$0"
     exit 2
     ;;
 esac

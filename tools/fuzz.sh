@@ -20,6 +20,7 @@ export ASAN_OPTIONS=${ASAN_OPTIONS:-detect_leaks=1:abort_on_error=1}
 export UBSAN_OPTIONS=${UBSAN_OPTIONS:-halt_on_error=1:print_stacktrace=1}
 
 build() {
+  bash tools/dev.sh deps # the one install list
   cmake -S . -B "$BUILD_DIR" -G Ninja -DCMAKE_BUILD_TYPE=RelWithDebInfo -DCMAKE_CXX_COMPILER=clang++-14 \
     -DCB_FUZZ=ON -DCB_BUILD_GUI=OFF -DCB_BUILD_BENCHMARKS=OFF -DBUILD_TESTING=OFF >/dev/null
   cmake --build "$BUILD_DIR" -j "$JOBS" --target "${TARGETS[@]}"
