@@ -1,9 +1,9 @@
 // The whole analysis (hypotheses, rank, condition number and indices, VIF,
 // orthogonality, texts) per scheme and k. Targets (issue 2): floating path
 // k = 10 < 20 us, k = 50 < 0.5 ms, k = 200 < 10 ms; exact path k <= 20 < 5 ms.
-#include "Analysis.h"
-#include "BenchMain.h"
-#include "Scheme.h"
+#include "core/analysis/Analysis.h"
+#include "bench/BenchMain.h"
+#include "core/model/Scheme.h"
 
 #include <benchmark/benchmark.h>
 

@@ -2,7 +2,7 @@
 
 // The benchmarks' main: analyses are measured as the window runs them, with its allocator
 // settings (core/AllocatorTuning.h).
-#include "AllocatorTuning.h"
+#include "core/base/AllocatorTuning.h"
 
 #include <benchmark/benchmark.h>
 

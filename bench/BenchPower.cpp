@@ -1,7 +1,7 @@
 // Power and the full sample-size search (each contrast and the omnibus F-test)
 // for 10 planned contrasts at k = 10. Target: well within one frame (16 ms).
-#include "BenchMain.h"
-#include "Power.h"
+#include "bench/BenchMain.h"
+#include "core/power/Power.h"
 
 #include <benchmark/benchmark.h>
 

@@ -7,11 +7,11 @@
 //     every part of the window that the change made dirty (into the offscreen backing store).
 //   FullRepaint: for scale, a forced repaint of the whole window with no edit.
 // Runs offscreen (QT_QPA_PLATFORM=offscreen unless set).
-#include "BenchMain.h"
-#include "CodingModel.h"
-#include "CodingPanel.h"
-#include "Document.h"
-#include "MainWindow.h"
+#include "bench/BenchMain.h"
+#include "ui/coding/CodingModel.h"
+#include "ui/coding/CodingPanel.h"
+#include "ui/document/Document.h"
+#include "ui/window/MainWindow.h"
 
 #include <benchmark/benchmark.h>
 

@@ -1,11 +1,11 @@
 // The analyze and design subcommands.
-#include "Commands.h"
-#include "SchemeArguments.h"
+#include "app/cli/Commands.h"
+#include "app/cli/SchemeArguments.h"
 
-#include "Analysis.h"
-#include "AnalysisJson.h"
-#include "AnalysisReport.h"
-#include "Design.h"
+#include "core/analysis/Analysis.h"
+#include "core/report/AnalysisJson.h"
+#include "core/report/AnalysisReport.h"
+#include "core/model/Design.h"
 
 #include <QFile>
 

@@ -1,10 +1,10 @@
 // The export subcommand: a scheme's coding or hypothesis matrix as CSV, code or a table.
-#include "Commands.h"
-#include "SchemeArguments.h"
+#include "app/cli/Commands.h"
+#include "app/cli/SchemeArguments.h"
 
-#include "Analysis.h"
-#include "Export.h"
-#include "SchemeFile.h"
+#include "core/analysis/Analysis.h"
+#include "core/export/Export.h"
+#include "core/files/SchemeFile.h"
 
 #include <QCommandLineParser>
 

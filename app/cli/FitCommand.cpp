@@ -1,11 +1,11 @@
 // The fit subcommand: a scheme fitted to a data file, estimates beside their hypotheses.
-#include "Commands.h"
-#include "SchemeArguments.h"
+#include "app/cli/Commands.h"
+#include "app/cli/SchemeArguments.h"
 
-#include "DataFit.h"
-#include "DataReader.h"
-#include "Design.h"
-#include "Scheme.h"
+#include "core/data/DataFit.h"
+#include "core/data/DataReader.h"
+#include "core/model/Design.h"
+#include "core/model/Scheme.h"
 
 #include <QCommandLineParser>
 #include <QJsonDocument>

@@ -1,10 +1,10 @@
 // The power subcommand: power and sample size for the planned contrasts of a scheme.
-#include "Commands.h"
-#include "SchemeArguments.h"
+#include "app/cli/Commands.h"
+#include "app/cli/SchemeArguments.h"
 
-#include "Analysis.h"
-#include "Design.h"
-#include "Power.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/Design.h"
+#include "core/power/Power.h"
 
 #include <QCommandLineParser>
 #include <QJsonArray>

@@ -1,6 +1,6 @@
-#include "SchemeArguments.h"
+#include "app/cli/SchemeArguments.h"
 
-#include "SchemeFile.h"
+#include "core/files/SchemeFile.h"
 
 #include <QFile>
 

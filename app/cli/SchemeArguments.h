@@ -1,8 +1,8 @@
 #pragma once
 
-#include "Design.h"
-#include "Result.h"
-#include "Scheme.h"
+#include "core/model/Design.h"
+#include "core/base/Result.h"
+#include "core/model/Scheme.h"
 
 #include <QCommandLineParser>
 

@@ -1,5 +1,6 @@
 // contrast-bench-cli: the command line of Contrast Bench.
-#include "Commands.h"
+#include "app/cli/Commands.h"
+#include "core/base/Version.h"
 
 #include <QCoreApplication>
 #include <QTextStream>
@@ -41,7 +42,7 @@ int main(int argc, char **argv)
 {
     QCoreApplication app(argc, argv);
     QCoreApplication::setApplicationName(u"contrast-bench-cli"_s);
-    QCoreApplication::setApplicationVersion(u"0.1.0"_s);
+    QCoreApplication::setApplicationVersion(QString::fromUtf16(cb::kVersion));
     QTextStream out(stdout);
     QTextStream err(stderr);
     Io io{out, err};

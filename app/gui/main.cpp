@@ -3,9 +3,10 @@
 //   contrast-bench --demo irrigation
 //   contrast-bench --screenshot out.png [--demo NAME] [--size WxH] [file]
 
-#include "AllocatorTuning.h"
-#include "Demos.h"
-#include "MainWindow.h"
+#include "core/base/AllocatorTuning.h"
+#include "core/base/Version.h"
+#include "ui/window/Demos.h"
+#include "ui/window/MainWindow.h"
 
 #include <QApplication>
 #include <QCommandLineParser>
@@ -71,7 +72,7 @@ int main(int argc, char *argv[])
     QApplication::setOrganizationName(u"contrast-bench"_s);
     QApplication::setApplicationName(u"contrast-bench"_s);
     QApplication::setApplicationDisplayName(u"Contrast Bench"_s);
-    QApplication::setApplicationVersion(QString::fromLatin1(CB_VERSION));
+    QApplication::setApplicationVersion(QString::fromUtf16(cb::kVersion));
     QApplication::setDesktopFileName(u"contrast-bench"_s);
 
     QStringList demoNames;

@@ -1,8 +1,8 @@
-#include "Analysis.h"
+#include "core/analysis/Analysis.h"
 
-#include "HypothesisText.h"
-#include "RationalMatrix.h"
-#include "TextBuilder.h"
+#include "core/analysis/HypothesisText.h"
+#include "core/base/RationalMatrix.h"
+#include "core/base/TextBuilder.h"
 
 #include <Eigen/Cholesky>
 #include <Eigen/Eigenvalues>

@@ -1,7 +1,7 @@
 #pragma once
 
-#include "Scheme.h"
-#include "Weight.h"
+#include "core/model/Scheme.h"
+#include "core/base/Weight.h"
 
 #include <Eigen/Dense>
 

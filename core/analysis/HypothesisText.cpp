@@ -1,6 +1,6 @@
-#include "HypothesisText.h"
+#include "core/analysis/HypothesisText.h"
 
-#include "TextBuilder.h"
+#include "core/base/TextBuilder.h"
 
 #include <charconv>
 #include <cstring>

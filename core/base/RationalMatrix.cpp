@@ -1,4 +1,4 @@
-#include "RationalMatrix.h"
+#include "core/base/RationalMatrix.h"
 
 #include <utility>
 

@@ -4,7 +4,7 @@
 // buffer: a fraction of the cost of QString appends, joins or QString::arg, and one allocation
 // for the finished QString. Internal to core.
 
-#include "Weight.h"
+#include "core/base/Weight.h"
 
 #include <QLatin1StringView>
 #include <QString>

@@ -1,4 +1,4 @@
-#include "Weight.h"
+#include "core/base/Weight.h"
 
 #include <charconv>
 #include <cstdint>

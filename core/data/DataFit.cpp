@@ -1,7 +1,7 @@
-#include "DataFit.h"
+#include "core/data/DataFit.h"
 
-#include "Analysis.h"
-#include "Scheme.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/Scheme.h"
 
 #include <QJsonArray>
 

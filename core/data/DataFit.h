@@ -1,7 +1,7 @@
 #pragma once
 
-#include "DataReader.h"
-#include "Result.h"
+#include "core/data/DataReader.h"
+#include "core/base/Result.h"
 
 #include <Eigen/Dense>
 

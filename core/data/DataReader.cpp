@@ -1,4 +1,4 @@
-#include "DataReader.h"
+#include "core/data/DataReader.h"
 
 #include <QFile>
 #include <QFileInfo>

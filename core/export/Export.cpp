@@ -1,4 +1,4 @@
-#include "Export.h"
+#include "core/export/Export.h"
 
 #include <QSet>
 

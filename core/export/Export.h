@@ -1,9 +1,9 @@
 #pragma once
 
-#include "Analysis.h"
-#include "Result.h"
-#include "Scheme.h"
-#include "Weight.h"
+#include "core/analysis/Analysis.h"
+#include "core/base/Result.h"
+#include "core/model/Scheme.h"
+#include "core/base/Weight.h"
 
 #include <QList>
 #include <QString>

@@ -1,4 +1,4 @@
-#include "SchemeFile.h"
+#include "core/files/SchemeFile.h"
 
 #include <QFile>
 #include <QFileInfo>

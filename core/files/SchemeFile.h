@@ -1,7 +1,7 @@
 #pragma once
 
-#include "Result.h"
-#include "Scheme.h"
+#include "core/base/Result.h"
+#include "core/model/Scheme.h"
 
 #include <QByteArray>
 #include <QIODevice>

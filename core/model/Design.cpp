@@ -1,8 +1,8 @@
-#include "Design.h"
+#include "core/model/Design.h"
 
-#include "AnalysisJson.h"
-#include "HypothesisText.h"
-#include "SchemeFile.h"
+#include "core/report/AnalysisJson.h"
+#include "core/analysis/HypothesisText.h"
+#include "core/files/SchemeFile.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>

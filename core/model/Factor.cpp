@@ -1,4 +1,4 @@
-#include "Factor.h"
+#include "core/model/Factor.h"
 
 #include <algorithm>
 #include <vector>

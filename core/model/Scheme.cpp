@@ -1,4 +1,4 @@
-#include "Scheme.h"
+#include "core/model/Scheme.h"
 
 #include <cmath>
 

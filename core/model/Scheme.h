@@ -1,7 +1,7 @@
 #pragma once
 
-#include "Factor.h"
-#include "Weight.h"
+#include "core/model/Factor.h"
+#include "core/base/Weight.h"
 
 #include <QString>
 #include <QStringList>

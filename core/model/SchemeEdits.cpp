@@ -1,6 +1,6 @@
-#include "SchemeEdits.h"
+#include "core/model/SchemeEdits.h"
 
-#include "Analysis.h"
+#include "core/analysis/Analysis.h"
 
 #include <algorithm>
 

@@ -1,7 +1,7 @@
-#include "Study.h"
+#include "core/model/Study.h"
 
-#include "SchemeEdits.h"
-#include "SchemeFile.h"
+#include "core/model/SchemeEdits.h"
+#include "core/files/SchemeFile.h"
 
 #include <QCoreApplication>
 #include <QFile>

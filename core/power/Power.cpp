@@ -1,8 +1,8 @@
-#include "Power.h"
+#include "core/power/Power.h"
 
-#include "Analysis.h"
-#include "Factor.h"
-#include "Weight.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/Factor.h"
+#include "core/base/Weight.h"
 
 // Boost 1.74's fisher_f quantile trips GCC's maybe-uninitialized check when inlined.
 #pragma GCC diagnostic push

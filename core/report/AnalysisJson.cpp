@@ -1,4 +1,4 @@
-#include "AnalysisJson.h"
+#include "core/report/AnalysisJson.h"
 
 #include <QJsonArray>
 

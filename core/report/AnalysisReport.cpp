@@ -1,6 +1,6 @@
-#include "AnalysisReport.h"
+#include "core/report/AnalysisReport.h"
 
-#include "Design.h"
+#include "core/model/Design.h"
 
 #include <cmath>
 

@@ -1,7 +1,7 @@
 #pragma once
 
-#include "Analysis.h"
-#include "Scheme.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/Scheme.h"
 
 #include <QList>
 #include <QString>

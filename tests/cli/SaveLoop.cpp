@@ -5,7 +5,7 @@
 // Each version is "CBSAVE <generation> <length>\n", <length> bytes of a pattern that
 // depends on the generation's parity, then "END <checksum>\n".
 // It prints "saving <generation>" before each save and "saved <generation>" after it.
-#include "SchemeFile.h"
+#include "core/files/SchemeFile.h"
 
 #include <QByteArray>
 #include <QFile>

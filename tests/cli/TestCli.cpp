@@ -4,7 +4,7 @@
 #include <QJsonObject>
 #include <QTemporaryDir>
 
-#include "ProcessRunner.h"
+#include "tests/support/ProcessRunner.h"
 #include <QTest>
 
 using namespace Qt::StringLiterals;
@@ -38,6 +38,7 @@ private slots:
     void badInput_data();
     void badInput();
     void textReport();
+    void versionIsTheProjectVersion();
 };
 
 void TestCli::analyzeJsonHasEveryKey()
@@ -167,6 +168,14 @@ void TestCli::textReport()
     const QString text = QString::fromUtf8(r.out);
     QVERIFY(text.contains(u"b1: mean(weekly) - mean(none) = 0"_s));
     QVERIFY(text.contains(u"rank 3 of 3 (full rank); exact arithmetic"_s));
+}
+
+void TestCli::versionIsTheProjectVersion()
+{
+    // CB_PROJECT_VERSION is project(... VERSION ...) in the top-level CMakeLists.txt.
+    const Run r = cli({u"--version"_s});
+    QCOMPARE(r.exitCode, 0);
+    QCOMPARE(QString::fromUtf8(r.out).trimmed(), u"contrast-bench-cli "_s + QStringLiteral(CB_PROJECT_VERSION));
 }
 
 QTEST_GUILESS_MAIN(TestCli)

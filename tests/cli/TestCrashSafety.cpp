@@ -1,7 +1,7 @@
 // Crash safety of saving: a process killed while it saves leaves the previous file
 // intact, and saving where it cannot be done gives a clear message and leaves the
 // old file as it was.
-#include "SchemeFile.h"
+#include "core/files/SchemeFile.h"
 
 #include <QDir>
 #include <QFile>

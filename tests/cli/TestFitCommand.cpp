@@ -2,8 +2,8 @@
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QJsonObject>
-#include "FitTestSupport.h"
-#include "ProcessRunner.h"
+#include "tests/support/FitTestSupport.h"
+#include "tests/support/ProcessRunner.h"
 #include <QTemporaryDir>
 #include <QTest>
 

@@ -1,14 +1,14 @@
 // Regression tests for what fuzzing (tests/fuzz/, tools/fuzz.sh) found. Each test names the
 // target that found the input and what went wrong before the fix.
-#include "Analysis.h"
-#include "AnalysisJson.h"
-#include "AnalysisReport.h"
-#include "Export.h"
-#include "HypothesisText.h"
-#include "Scheme.h"
-#include "SchemeFile.h"
+#include "core/analysis/Analysis.h"
+#include "core/report/AnalysisJson.h"
+#include "core/report/AnalysisReport.h"
+#include "core/export/Export.h"
+#include "core/analysis/HypothesisText.h"
+#include "core/model/Scheme.h"
+#include "core/files/SchemeFile.h"
 
-#include "fuzz/FuzzChecks.h"
+#include "tests/fuzz/FuzzChecks.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>

@@ -1,9 +1,9 @@
 // What a coding implies: texts, diagnostics with closed-form values, findings, the reverse direction.
-#include "Analysis.h"
-#include "HypothesisText.h"
-#include "Scheme.h"
+#include "core/analysis/Analysis.h"
+#include "core/analysis/HypothesisText.h"
+#include "core/model/Scheme.h"
 
-#include "FindingSupport.h"
+#include "tests/support/FindingSupport.h"
 
 #include <QTest>
 

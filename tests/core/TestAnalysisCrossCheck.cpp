@@ -4,9 +4,9 @@
 // A second set: square codings made ill-conditioned on purpose (condition numbers about 1e3 to
 // 1e7, k up to 200), where the singular values come from the Gram matrices of the design and
 // of its inverse, or from the SVD fallback.
-#include "Analysis.h"
+#include "core/analysis/Analysis.h"
 
-#include "NumpyReference.h"
+#include "tests/support/NumpyReference.h"
 
 #include <random>
 

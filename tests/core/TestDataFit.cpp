@@ -1,7 +1,7 @@
 // Tests of the fit from per-level statistics, p-value adjustment and level matching.
-#include "DataFit.h"
-#include "FitTestSupport.h"
-#include "Scheme.h"
+#include "core/data/DataFit.h"
+#include "tests/support/FitTestSupport.h"
+#include "core/model/Scheme.h"
 
 #include <QJsonArray>
 #include <QTest>

@@ -1,6 +1,6 @@
 // Tests of the streaming long-format reader and the summary-table reader.
-#include "DataReader.h"
-#include "FitTestSupport.h"
+#include "core/data/DataReader.h"
+#include "tests/support/FitTestSupport.h"
 
 #include <QJsonArray>
 #include <QTest>

@@ -1,13 +1,13 @@
 // Crossed and nested factors: Kronecker columns, hypotheses over the cell means,
 // simple-effect warnings, term orthogonality, files and errors.
-#include "Design.h"
-#include "SchemeFile.h"
+#include "core/model/Design.h"
+#include "core/files/SchemeFile.h"
 
-#include "NumpyReference.h"
+#include "tests/support/NumpyReference.h"
 
 #include <random>
 
-#include "FindingSupport.h"
+#include "tests/support/FindingSupport.h"
 
 #include <QTest>
 

@@ -2,15 +2,15 @@
 // to 1e300, many levels, the exact path's size limit, and data fits on degenerate
 // data. The tool must warn and explain instead of printing numbers that look
 // confident, and no NaN or infinity may reach the report, the JSON or an export.
-#include "Analysis.h"
-#include "AnalysisJson.h"
-#include "AnalysisReport.h"
-#include "DataFit.h"
-#include "DataReader.h"
-#include "Export.h"
-#include "Scheme.h"
+#include "core/analysis/Analysis.h"
+#include "core/report/AnalysisJson.h"
+#include "core/report/AnalysisReport.h"
+#include "core/data/DataFit.h"
+#include "core/data/DataReader.h"
+#include "core/export/Export.h"
+#include "core/model/Scheme.h"
 
-#include "fuzz/FuzzChecks.h"
+#include "tests/fuzz/FuzzChecks.h"
 
 #include <QFile>
 #include <QJsonDocument>

@@ -6,15 +6,15 @@
 // float.hex()). R, Julia and MATLAB/Octave are not installed here, so their
 // output is lexed by the rules of each language and checked for structure.
 // Golden files: tests/data/golden/ (see README.md there for regenerating).
-#include "Design.h"
-#include "Export.h"
-#include "SchemeFile.h"
+#include "core/model/Design.h"
+#include "core/export/Export.h"
+#include "core/files/SchemeFile.h"
 
 #include <QDir>
 #include <QFile>
 #include <QProcess>
 
-#include "ProcessRunner.h"
+#include "tests/support/ProcessRunner.h"
 #include <QRegularExpression>
 #include <QSet>
 #include <QTemporaryDir>

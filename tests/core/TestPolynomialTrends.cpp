@@ -1,9 +1,9 @@
 // Orthogonal polynomial trends over unequal spacing and under planned n, against NumPy
 // (QR of the weighted Vandermonde matrix, tests/python/poly_check.py).
-#include "Analysis.h"
-#include "Scheme.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/Scheme.h"
 
-#include "ProcessRunner.h"
+#include "tests/support/ProcessRunner.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>

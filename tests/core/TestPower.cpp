@@ -1,16 +1,16 @@
 // Tests of power and sample size for planned contrasts (core/Power.h), against
 // Cohen's (1988) tables, SciPy (tests/python/power_check.py) and the defining properties.
-#include "Analysis.h"
-#include "Design.h"
-#include "Power.h"
-#include "Scheme.h"
-#include "SchemeFile.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/Design.h"
+#include "core/power/Power.h"
+#include "core/model/Scheme.h"
+#include "core/files/SchemeFile.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QProcess>
 
-#include "ProcessRunner.h"
+#include "tests/support/ProcessRunner.h"
 #include <QTemporaryDir>
 #include <QTest>
 

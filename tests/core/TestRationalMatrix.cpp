@@ -1,7 +1,7 @@
 // The exact elimination (fraction-free Gauss–Jordan) against the textbook Gauss–Jordan
 // elimination on rationals, written out here as the reference, on random matrices: square
 // and wide, full rank and rank deficient (repeated, combined and zero rows and columns).
-#include "RationalMatrix.h"
+#include "core/base/RationalMatrix.h"
 
 #include <QTest>
 

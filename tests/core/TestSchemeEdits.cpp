@@ -1,5 +1,5 @@
-#include "Analysis.h"
-#include "SchemeEdits.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/SchemeEdits.h"
 
 #include <QTest>
 

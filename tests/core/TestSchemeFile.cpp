@@ -1,5 +1,5 @@
 // The scheme file: round trips, every loading error with its message, atomic saving.
-#include "SchemeFile.h"
+#include "core/files/SchemeFile.h"
 
 #include <QBuffer>
 #include <QFile>

@@ -1,7 +1,7 @@
 // Each standard scheme is checked by what its coefficients mean: the exact
 // hypothesis rows (intercept first) implied by its coding.
-#include "Analysis.h"
-#include "Scheme.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/Scheme.h"
 
 #include <QTest>
 

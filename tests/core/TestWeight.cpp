@@ -1,6 +1,6 @@
 // Tests of the weight parser and of how weights are shown.
-#include "TextBuilder.h"
-#include "Weight.h"
+#include "core/base/TextBuilder.h"
+#include "core/base/Weight.h"
 
 #include <QTest>
 

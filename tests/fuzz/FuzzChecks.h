@@ -3,9 +3,9 @@
 // Checks shared by the fuzz targets and tests/TestEdgeCases.cpp: each returns an
 // empty string when the output is well formed, otherwise says what is wrong.
 
-#include "Analysis.h"
-#include "Export.h"
-#include "Scheme.h"
+#include "core/analysis/Analysis.h"
+#include "core/export/Export.h"
+#include "core/model/Scheme.h"
 
 #include <QByteArray>
 #include <QString>

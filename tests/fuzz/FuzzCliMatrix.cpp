@@ -5,11 +5,11 @@
 // i: --no-intercept, g: --integer, w: --poly-weighted), the next ones the values of
 // --levels, --columns/--hypotheses, --n, --spacing, --scheme, --reference, --intercept-row
 // (an empty line leaves the option out).
-#include "FuzzChecks.h"
+#include "tests/fuzz/FuzzChecks.h"
 
-#include "Commands.h"
+#include "app/cli/Commands.h"
 
-#include "Factor.h"
+#include "core/model/Factor.h"
 
 #include <QTextStream>
 

@@ -1,10 +1,10 @@
 // Fuzz target: the data-file readers (long-format CSV/TSV, summary tables,
 // preview) and a fit of a treatment coding to whatever they read.
-#include "FuzzChecks.h"
+#include "tests/fuzz/FuzzChecks.h"
 
-#include "DataFit.h"
-#include "DataReader.h"
-#include "Scheme.h"
+#include "core/data/DataFit.h"
+#include "core/data/DataReader.h"
+#include "core/model/Scheme.h"
 
 #include <QJsonDocument>
 

@@ -1,14 +1,14 @@
 // Fuzz target: a scheme (or design) loaded from the input, analysed, and written
 // in every export format, as JSON and as the text report. Every output must stay
 // well formed for its language and show no non-finite number.
-#include "FuzzChecks.h"
+#include "tests/fuzz/FuzzChecks.h"
 
-#include "Analysis.h"
-#include "AnalysisJson.h"
-#include "AnalysisReport.h"
-#include "Design.h"
-#include "Export.h"
-#include "SchemeFile.h"
+#include "core/analysis/Analysis.h"
+#include "core/report/AnalysisJson.h"
+#include "core/report/AnalysisReport.h"
+#include "core/model/Design.h"
+#include "core/export/Export.h"
+#include "core/files/SchemeFile.h"
 
 #include <QJsonDocument>
 

@@ -1,9 +1,9 @@
 // Fuzz target: the scheme-file loader, for one-factor schemes and designs of
 // crossed factors. Whatever loads must be valid and survive a save and reload.
-#include "FuzzChecks.h"
+#include "tests/fuzz/FuzzChecks.h"
 
-#include "Design.h"
-#include "SchemeFile.h"
+#include "core/model/Design.h"
+#include "core/files/SchemeFile.h"
 
 using namespace Qt::StringLiterals;
 using namespace cb;

@@ -1,10 +1,10 @@
 // Fuzz target: the weight parser and the number texts around it (parseWeight,
 // storageString/display, doubleToString, recogniseFraction, list parsers).
-#include "FuzzChecks.h"
+#include "tests/fuzz/FuzzChecks.h"
 
-#include "Factor.h"
-#include "Power.h"
-#include "Weight.h"
+#include "core/model/Factor.h"
+#include "core/power/Power.h"
+#include "core/base/Weight.h"
 
 #include <charconv>
 #include <cmath>

@@ -1,6 +1,6 @@
 #pragma once
 // Shared by the analysis tests: whether any finding's message contains a piece of text.
-#include "Analysis.h"
+#include "core/analysis/Analysis.h"
 
 namespace cb::test {
 

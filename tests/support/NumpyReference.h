@@ -1,7 +1,7 @@
 #pragma once
 // Shared by the NumPy cross-check tests: writes schemes' design matrices, runs
 // tests/python/crosscheck_analysis.py with Debian's NumPy, and compares.
-#include "Analysis.h"
+#include "core/analysis/Analysis.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>

@@ -1,7 +1,7 @@
 #pragma once
 
-#include "MainWindow.h"
-#include "ScriptedPrompter.h"
+#include "ui/window/MainWindow.h"
+#include "tests/support/ScriptedPrompter.h"
 
 #include <QTemporaryDir>
 #include <QTest>

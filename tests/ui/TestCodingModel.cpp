@@ -1,10 +1,10 @@
-#include "CodingModel.h"
-#include "CodingPanel.h"
-#include "Document.h"
-#include "MeaningModel.h"
-#include "MeaningPanel.h"
-#include "WeightGridView.h"
-#include "WindowFixture.h"
+#include "ui/coding/CodingModel.h"
+#include "ui/coding/CodingPanel.h"
+#include "ui/document/Document.h"
+#include "ui/meaning/MeaningModel.h"
+#include "ui/meaning/MeaningPanel.h"
+#include "ui/coding/WeightGridView.h"
+#include "tests/support/WindowFixture.h"
 
 #include <QAbstractItemModelTester>
 #include <QLineEdit>

@@ -4,12 +4,12 @@
 // the intercept is 5.032 and the effects -0.371 and 0.494 (written from memory,
 // the same values TestDataFit checks against NumPy's lstsq).
 
-#include "DataPanel.h"
-#include "FitTestSupport.h"
-#include "Demos.h"
-#include "PanelShot.h"
-#include "Document.h"
-#include "SmallChart.h"
+#include "ui/data/DataPanel.h"
+#include "tests/support/FitTestSupport.h"
+#include "ui/window/Demos.h"
+#include "tests/support/PanelShot.h"
+#include "ui/document/Document.h"
+#include "ui/common/SmallChart.h"
 
 #include <QFile>
 

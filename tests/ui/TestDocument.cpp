@@ -1,5 +1,5 @@
-#include "Document.h"
-#include "SchemeEdits.h"
+#include "ui/document/Document.h"
+#include "core/model/SchemeEdits.h"
 
 #include <QSignalSpy>
 #include <QTest>

@@ -1,10 +1,10 @@
 // The export dialog's preview is exactly core's exportTable text; copy and save
 // use that text. The exporters themselves are checked in TestExport.
 
-#include "Document.h"
-#include "Demos.h"
-#include "ExportDialog.h"
-#include "PanelShot.h"
+#include "ui/document/Document.h"
+#include "ui/window/Demos.h"
+#include "ui/export/ExportDialog.h"
+#include "tests/support/PanelShot.h"
 
 #include <QClipboard>
 #include <QFile>

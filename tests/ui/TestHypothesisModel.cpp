@@ -1,9 +1,9 @@
-#include "CodingPanel.h"
-#include "Document.h"
-#include "HypothesisModel.h"
-#include "SchemeEdits.h"
-#include "WeightGridView.h"
-#include "WindowFixture.h"
+#include "ui/coding/CodingPanel.h"
+#include "ui/document/Document.h"
+#include "ui/coding/HypothesisModel.h"
+#include "core/model/SchemeEdits.h"
+#include "ui/coding/WeightGridView.h"
+#include "tests/support/WindowFixture.h"
 
 #include <QAbstractItemModelTester>
 #include <QJsonArray>

@@ -1,12 +1,12 @@
-#include "CodingPanel.h"
-#include "Document.h"
-#include "LevelsModel.h"
-#include "LevelsPanel.h"
-#include "LevelsView.h"
-#include "MeaningModel.h"
-#include "MeaningPanel.h"
-#include "SchemePicker.h"
-#include "WindowFixture.h"
+#include "ui/coding/CodingPanel.h"
+#include "ui/document/Document.h"
+#include "ui/levels/LevelsModel.h"
+#include "ui/levels/LevelsPanel.h"
+#include "ui/levels/LevelsView.h"
+#include "ui/meaning/MeaningModel.h"
+#include "ui/meaning/MeaningPanel.h"
+#include "ui/coding/SchemePicker.h"
+#include "tests/support/WindowFixture.h"
 
 #include <QAbstractItemModelTester>
 #include <QMimeData>

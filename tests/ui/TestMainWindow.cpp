@@ -1,16 +1,16 @@
-#include "CodingModel.h"
-#include "CodingPanel.h"
-#include "LevelsModel.h"
-#include "LevelsPanel.h"
-#include "Demos.h"
-#include "Document.h"
-#include "HealthPanel.h"
-#include "MeaningModel.h"
-#include "MeaningPanel.h"
-#include "SchemeEdits.h"
-#include "SchemeFile.h"
-#include "SchemePicker.h"
-#include "WindowFixture.h"
+#include "ui/coding/CodingModel.h"
+#include "ui/coding/CodingPanel.h"
+#include "ui/levels/LevelsModel.h"
+#include "ui/levels/LevelsPanel.h"
+#include "ui/window/Demos.h"
+#include "ui/document/Document.h"
+#include "ui/health/HealthPanel.h"
+#include "ui/meaning/MeaningModel.h"
+#include "ui/meaning/MeaningPanel.h"
+#include "core/model/SchemeEdits.h"
+#include "core/files/SchemeFile.h"
+#include "ui/coding/SchemePicker.h"
+#include "tests/support/WindowFixture.h"
 
 #include <QCloseEvent>
 #include <QComboBox>
@@ -35,6 +35,7 @@ class TestMainWindow : public QObject
     Q_OBJECT
 
 private slots:
+    void aboutShowsTheProjectVersion();
     void eachDemoLoads_data();
     void eachDemoLoads();
     void onboardingDemoShowsTwoDifferentIntercepts();
@@ -421,6 +422,12 @@ void TestMainWindow::firstTaskFromTheReadme()
     QVERIFY(saved.ok());
     QCOMPARE(saved->columns[1].weights[1], Weight(-2));
     QCOMPARE(saved->factor.plannedN, (std::vector<Rational>{20, 10, 10, 10}));
+}
+
+void TestMainWindow::aboutShowsTheProjectVersion()
+{
+    // CB_PROJECT_VERSION is project(... VERSION ...) in the top-level CMakeLists.txt.
+    QVERIFY(cb::MainWindow::aboutText().contains(u"Contrast Bench "_s + QStringLiteral(CB_PROJECT_VERSION)));
 }
 
 QTEST_MAIN(TestMainWindow)

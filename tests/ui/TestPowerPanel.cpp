@@ -2,11 +2,11 @@
 // core's message beside a field that is wrong. The numbers themselves are
 // checked against SciPy's noncentral t and F in TestPower.
 
-#include "Demos.h"
-#include "Document.h"
-#include "PanelShot.h"
-#include "PowerPanel.h"
-#include "SmallChart.h"
+#include "ui/window/Demos.h"
+#include "ui/document/Document.h"
+#include "tests/support/PanelShot.h"
+#include "ui/power/PowerPanel.h"
+#include "ui/common/SmallChart.h"
 
 #include <QLineEdit>
 #include <QComboBox>

@@ -1,8 +1,8 @@
-#include "CodingModel.h"
-#include "CodingPanel.h"
-#include "Document.h"
-#include "WeightGridView.h"
-#include "WindowFixture.h"
+#include "ui/coding/CodingModel.h"
+#include "ui/coding/CodingPanel.h"
+#include "ui/document/Document.h"
+#include "ui/coding/WeightGridView.h"
+#include "tests/support/WindowFixture.h"
 
 #include <QApplication>
 #include <QClipboard>

@@ -2,10 +2,10 @@
 // memory and in the recovery file; a window killed with unsaved work has it offered at the
 // next start; a damaged recovery file is reported and set aside without stopping the start.
 // (The same for the core's atomic save is in TestCrashSafety.)
-#include "Document.h"
-#include "SchemeEdits.h"
-#include "SchemeFile.h"
-#include "WindowFixture.h"
+#include "ui/document/Document.h"
+#include "core/model/SchemeEdits.h"
+#include "core/files/SchemeFile.h"
+#include "tests/support/WindowFixture.h"
 
 #include <QDir>
 #include <QFile>

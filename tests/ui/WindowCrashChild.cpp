@@ -9,10 +9,10 @@
 //     1 MiB note, so that a write takes long enough to be hit by a kill. It prints
 //     "writing <g>" before each write and "wrote <g>" after it.
 // Both stop by themselves after two minutes, in case the test that started them died.
-#include "Document.h"
-#include "MainWindow.h"
-#include "SchemeEdits.h"
-#include "SchemeFile.h"
+#include "ui/document/Document.h"
+#include "ui/window/MainWindow.h"
+#include "core/model/SchemeEdits.h"
+#include "core/files/SchemeFile.h"
 
 #include <QApplication>
 #include <QDeadlineTimer>

@@ -1,6 +1,6 @@
-#include "CodingModel.h"
+#include "ui/coding/CodingModel.h"
 
-#include "Document.h"
+#include "ui/document/Document.h"
 
 #include <QFont>
 

@@ -1,7 +1,7 @@
 #pragma once
 
-#include "ColumnStatus.h"
-#include "WeightTableModel.h"
+#include "ui/common/ColumnStatus.h"
+#include "ui/coding/WeightTableModel.h"
 
 #include <vector>
 

@@ -1,14 +1,14 @@
-#include "CodingPanel.h"
+#include "ui/coding/CodingPanel.h"
 
-#include "CodingModel.h"
-#include "ColumnStatus.h"
-#include "Document.h"
-#include "HypothesisModel.h"
-#include "Look.h"
-#include "PairsModel.h"
-#include "SchemeEdits.h"
-#include "SchemePicker.h"
-#include "WeightGridView.h"
+#include "ui/coding/CodingModel.h"
+#include "ui/common/ColumnStatus.h"
+#include "ui/document/Document.h"
+#include "ui/coding/HypothesisModel.h"
+#include "ui/common/Look.h"
+#include "ui/health/PairsModel.h"
+#include "core/model/SchemeEdits.h"
+#include "ui/coding/SchemePicker.h"
+#include "ui/coding/WeightGridView.h"
 
 #include <QHBoxLayout>
 #include <QHeaderView>

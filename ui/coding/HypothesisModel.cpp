@@ -1,8 +1,8 @@
-#include "HypothesisModel.h"
+#include "ui/coding/HypothesisModel.h"
 
-#include "ColumnStatus.h"
-#include "Document.h"
-#include "Look.h"
+#include "ui/common/ColumnStatus.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
 
 using namespace Qt::StringLiterals;
 

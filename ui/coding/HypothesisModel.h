@@ -1,6 +1,6 @@
 #pragma once
 
-#include "WeightTableModel.h"
+#include "ui/coding/WeightTableModel.h"
 
 #include <QSet>
 

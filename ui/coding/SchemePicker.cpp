@@ -1,8 +1,8 @@
-#include "SchemePicker.h"
+#include "ui/coding/SchemePicker.h"
 
-#include "Document.h"
-#include "Look.h"
-#include "SchemeEdits.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
+#include "core/model/SchemeEdits.h"
 
 #include <QCheckBox>
 #include <QComboBox>

@@ -1,6 +1,6 @@
 #pragma once
 
-#include "Scheme.h"
+#include "core/model/Scheme.h"
 
 #include <QWidget>
 

@@ -1,6 +1,6 @@
-#include "WeightGridView.h"
+#include "ui/coding/WeightGridView.h"
 
-#include "WeightTableModel.h"
+#include "ui/coding/WeightTableModel.h"
 
 #include <QApplication>
 #include <QClipboard>

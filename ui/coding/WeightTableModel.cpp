@@ -1,6 +1,6 @@
-#include "WeightTableModel.h"
+#include "ui/coding/WeightTableModel.h"
 
-#include "ColumnStatus.h"
+#include "ui/common/ColumnStatus.h"
 
 using namespace Qt::StringLiterals;
 

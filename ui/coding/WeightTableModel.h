@@ -1,7 +1,7 @@
 #pragma once
 
-#include "DocumentTableModel.h"
-#include "SchemeEdits.h"
+#include "ui/document/DocumentTableModel.h"
+#include "core/model/SchemeEdits.h"
 
 #include <QString>
 

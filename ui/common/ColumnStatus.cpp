@@ -1,4 +1,4 @@
-#include "ColumnStatus.h"
+#include "ui/common/ColumnStatus.h"
 
 #include <cmath>
 

@@ -1,7 +1,7 @@
 #pragma once
 
-#include "Analysis.h"
-#include "Look.h"
+#include "core/analysis/Analysis.h"
+#include "ui/common/Look.h"
 
 #include <QList>
 #include <QString>

@@ -1,4 +1,4 @@
-#include "Look.h"
+#include "ui/common/Look.h"
 
 #include <QLabel>
 

@@ -1,6 +1,6 @@
 #pragma once
 
-#include "Analysis.h"
+#include "core/analysis/Analysis.h"
 
 #include <QColor>
 #include <QString>

@@ -1,4 +1,4 @@
-#include "Prompter.h"
+#include "ui/common/Prompter.h"
 
 #include <QCoreApplication>
 #include <QAbstractButton>

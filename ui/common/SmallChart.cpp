@@ -1,6 +1,6 @@
-#include "SmallChart.h"
+#include "ui/common/SmallChart.h"
 
-#include "Look.h"
+#include "ui/common/Look.h"
 
 #include <QPainter>
 #include <QPainterPath>

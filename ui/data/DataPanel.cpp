@@ -1,8 +1,8 @@
-#include "DataPanel.h"
+#include "ui/data/DataPanel.h"
 
-#include "Document.h"
-#include "Look.h"
-#include "SmallChart.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
+#include "ui/common/SmallChart.h"
 
 #include <QComboBox>
 #include <QDir>

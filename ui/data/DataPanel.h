@@ -1,6 +1,6 @@
 #pragma once
 
-#include "DataFit.h"
+#include "core/data/DataFit.h"
 
 #include <QWidget>
 

@@ -1,6 +1,6 @@
-#include "CellPicture.h"
+#include "ui/design/CellPicture.h"
 
-#include "Look.h"
+#include "ui/common/Look.h"
 
 #include <QPainter>
 

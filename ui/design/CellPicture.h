@@ -1,6 +1,6 @@
 #pragma once
 
-#include "Weight.h"
+#include "core/base/Weight.h"
 
 #include <QStringList>
 #include <QWidget>

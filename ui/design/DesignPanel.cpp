@@ -1,8 +1,8 @@
-#include "DesignPanel.h"
+#include "ui/design/DesignPanel.h"
 
-#include "CellPicture.h"
-#include "Document.h"
-#include "Look.h"
+#include "ui/design/CellPicture.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
 
 #include <QHBoxLayout>
 #include <QHeaderView>

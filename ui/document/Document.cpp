@@ -1,4 +1,4 @@
-#include "Document.h"
+#include "ui/document/Document.h"
 
 #include <QFileInfo>
 

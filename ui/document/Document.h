@@ -1,10 +1,10 @@
 #pragma once
 
-#include "Analysis.h"
-#include "Design.h"
-#include "Scheme.h"
-#include "SchemeCommand.h"
-#include "Study.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/Design.h"
+#include "core/model/Scheme.h"
+#include "ui/document/SchemeCommand.h"
+#include "core/model/Study.h"
 
 #include <QObject>
 #include <QString>

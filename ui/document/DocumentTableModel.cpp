@@ -1,6 +1,6 @@
-#include "DocumentTableModel.h"
+#include "ui/document/DocumentTableModel.h"
 
-#include "Document.h"
+#include "ui/document/Document.h"
 
 namespace cb {
 

@@ -1,4 +1,4 @@
-#include "RecentFiles.h"
+#include "ui/document/RecentFiles.h"
 
 #include <QFileInfo>
 #include <QSettings>

@@ -1,6 +1,6 @@
-#include "RecoveryStore.h"
+#include "ui/document/RecoveryStore.h"
 
-#include "SchemeFile.h"
+#include "core/files/SchemeFile.h"
 
 #include <QDir>
 #include <QFile>

@@ -1,7 +1,7 @@
 #pragma once
 
-#include "Result.h"
-#include "Study.h"
+#include "core/base/Result.h"
+#include "core/model/Study.h"
 
 #include <QDateTime>
 #include <QString>

@@ -1,6 +1,6 @@
-#include "SchemeCommand.h"
+#include "ui/document/SchemeCommand.h"
 
-#include "Document.h"
+#include "ui/document/Document.h"
 
 namespace cb {
 

@@ -1,6 +1,6 @@
 #pragma once
 
-#include "Study.h"
+#include "core/model/Study.h"
 
 #include <QString>
 #include <QUndoCommand>

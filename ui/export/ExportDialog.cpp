@@ -1,8 +1,8 @@
-#include "ExportDialog.h"
+#include "ui/export/ExportDialog.h"
 
-#include "Document.h"
-#include "Look.h"
-#include "SchemeFile.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
+#include "core/files/SchemeFile.h"
 
 #include <QApplication>
 #include <QButtonGroup>

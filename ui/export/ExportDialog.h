@@ -1,6 +1,6 @@
 #pragma once
 
-#include "Export.h"
+#include "core/export/Export.h"
 
 #include <QDialog>
 

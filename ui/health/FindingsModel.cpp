@@ -1,7 +1,7 @@
-#include "FindingsModel.h"
+#include "ui/health/FindingsModel.h"
 
-#include "Document.h"
-#include "Look.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
 
 #include <algorithm>
 

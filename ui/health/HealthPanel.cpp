@@ -1,10 +1,10 @@
-#include "HealthPanel.h"
+#include "ui/health/HealthPanel.h"
 
-#include "ColumnStatus.h"
-#include "Document.h"
-#include "FindingsModel.h"
-#include "Look.h"
-#include "VifModel.h"
+#include "ui/common/ColumnStatus.h"
+#include "ui/document/Document.h"
+#include "ui/health/FindingsModel.h"
+#include "ui/common/Look.h"
+#include "ui/health/VifModel.h"
 
 #include <QHBoxLayout>
 #include <QHeaderView>

@@ -1,6 +1,6 @@
 #pragma once
 
-#include "Look.h"
+#include "ui/common/Look.h"
 
 #include <QWidget>
 

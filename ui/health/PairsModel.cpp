@@ -1,8 +1,8 @@
-#include "PairsModel.h"
+#include "ui/health/PairsModel.h"
 
-#include "ColumnStatus.h"
-#include "Document.h"
-#include "Look.h"
+#include "ui/common/ColumnStatus.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
 
 #include <QFont>
 

@@ -1,8 +1,8 @@
-#include "VifModel.h"
+#include "ui/health/VifModel.h"
 
-#include "ColumnStatus.h"
-#include "Document.h"
-#include "Look.h"
+#include "ui/common/ColumnStatus.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
 
 using namespace Qt::StringLiterals;
 

@@ -1,6 +1,6 @@
 #pragma once
 
-#include "DocumentTableModel.h"
+#include "ui/document/DocumentTableModel.h"
 
 namespace cb {
 

@@ -1,8 +1,8 @@
-#include "LevelsModel.h"
+#include "ui/levels/LevelsModel.h"
 
-#include "Document.h"
-#include "Look.h"
-#include "SchemeEdits.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
+#include "core/model/SchemeEdits.h"
 
 #include <QMimeData>
 

@@ -1,9 +1,9 @@
 #pragma once
 
-#include "DocumentTableModel.h"
-#include "Result.h"
-#include "Scheme.h"
-#include "SchemeCommand.h"
+#include "ui/document/DocumentTableModel.h"
+#include "core/base/Result.h"
+#include "core/model/Scheme.h"
+#include "ui/document/SchemeCommand.h"
 
 namespace cb {
 

@@ -1,10 +1,10 @@
-#include "LevelsPanel.h"
+#include "ui/levels/LevelsPanel.h"
 
-#include "Document.h"
-#include "LevelsModel.h"
-#include "LevelsView.h"
-#include "Look.h"
-#include "SchemeEdits.h"
+#include "ui/document/Document.h"
+#include "ui/levels/LevelsModel.h"
+#include "ui/levels/LevelsView.h"
+#include "ui/common/Look.h"
+#include "core/model/SchemeEdits.h"
 
 #include <QFormLayout>
 #include <QHBoxLayout>

@@ -1,6 +1,6 @@
-#include "LevelsView.h"
+#include "ui/levels/LevelsView.h"
 
-#include "LevelsModel.h"
+#include "ui/levels/LevelsModel.h"
 
 #include <QHeaderView>
 #include <QKeyEvent>

@@ -1,7 +1,7 @@
-#include "MeaningDelegate.h"
+#include "ui/meaning/MeaningDelegate.h"
 
-#include "Look.h"
-#include "MeaningModel.h"
+#include "ui/common/Look.h"
+#include "ui/meaning/MeaningModel.h"
 
 #include <QAbstractItemView>
 #include <QPainter>

@@ -1,7 +1,7 @@
-#include "MeaningModel.h"
+#include "ui/meaning/MeaningModel.h"
 
-#include "ColumnStatus.h"
-#include "Document.h"
+#include "ui/common/ColumnStatus.h"
+#include "ui/document/Document.h"
 
 using namespace Qt::StringLiterals;
 

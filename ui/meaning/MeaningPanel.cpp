@@ -1,9 +1,9 @@
-#include "MeaningPanel.h"
+#include "ui/meaning/MeaningPanel.h"
 
-#include "Document.h"
-#include "Look.h"
-#include "MeaningDelegate.h"
-#include "MeaningModel.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
+#include "ui/meaning/MeaningDelegate.h"
+#include "ui/meaning/MeaningModel.h"
 
 #include <QLabel>
 #include <QVBoxLayout>

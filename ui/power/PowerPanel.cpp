@@ -1,8 +1,8 @@
-#include "PowerPanel.h"
+#include "ui/power/PowerPanel.h"
 
-#include "Document.h"
-#include "Look.h"
-#include "SmallChart.h"
+#include "ui/document/Document.h"
+#include "ui/common/Look.h"
+#include "ui/common/SmallChart.h"
 
 #include <QCheckBox>
 #include <QComboBox>

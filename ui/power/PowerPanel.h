@@ -1,8 +1,8 @@
 #pragma once
 
-#include "Analysis.h"
-#include "Factor.h"
-#include "Power.h"
+#include "core/analysis/Analysis.h"
+#include "core/model/Factor.h"
+#include "core/power/Power.h"
 
 #include <QHash>
 #include <QWidget>

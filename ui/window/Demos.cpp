@@ -1,6 +1,6 @@
-#include "Demos.h"
+#include "ui/window/Demos.h"
 
-#include "SchemeFile.h"
+#include "core/files/SchemeFile.h"
 
 #include <QCoreApplication>
 

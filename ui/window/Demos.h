@@ -1,8 +1,8 @@
 #pragma once
 
-#include "Result.h"
-#include "Scheme.h"
-#include "Study.h"
+#include "core/base/Result.h"
+#include "core/model/Scheme.h"
+#include "core/model/Study.h"
 
 #include <QList>
 #include <QString>

@@ -1,18 +1,19 @@
-#include "MainWindow.h"
+#include "ui/window/MainWindow.h"
 
-#include "CodingPanel.h"
-#include "DataPanel.h"
-#include "DesignPanel.h"
-#include "Demos.h"
-#include "ExportDialog.h"
-#include "Document.h"
-#include "HealthPanel.h"
-#include "LevelsPanel.h"
-#include "MeaningPanel.h"
-#include "PowerPanel.h"
-#include "Prompter.h"
-#include "SchemeFile.h"
-#include "WeightGridView.h"
+#include "ui/coding/CodingPanel.h"
+#include "ui/data/DataPanel.h"
+#include "ui/design/DesignPanel.h"
+#include "ui/window/Demos.h"
+#include "ui/export/ExportDialog.h"
+#include "ui/document/Document.h"
+#include "ui/health/HealthPanel.h"
+#include "ui/levels/LevelsPanel.h"
+#include "ui/meaning/MeaningPanel.h"
+#include "ui/power/PowerPanel.h"
+#include "ui/common/Prompter.h"
+#include "core/base/Version.h"
+#include "core/files/SchemeFile.h"
+#include "ui/coding/WeightGridView.h"
 
 #include <QApplication>
 #include <QCloseEvent>
@@ -115,6 +116,13 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     m_arithmetic->setText(m_document->analysis().exact ? tr("exact fractions") : tr("floating point"));
     updateTitle();
     resize(1400, 900);
+}
+
+QString MainWindow::aboutText()
+{
+    return tr("<b>Contrast Bench %1</b><p>A workbench for designing contrast codings of categorical predictors: "
+              "type a coding and read, in exact fractions, what each coefficient tests.</p>")
+        .arg(QString::fromUtf16(cb::kVersion));
 }
 
 MainWindow::~MainWindow()
@@ -239,10 +247,7 @@ void MainWindow::buildMenus()
 
     QMenu *help = menuBar()->addMenu(tr("&Help"));
     help->addAction(tr("&About Contrast Bench"), this, [this] {
-        QMessageBox::about(this, tr("About Contrast Bench"),
-                           tr("<b>Contrast Bench %1</b><p>A workbench for designing contrast codings of categorical predictors: "
-                              "type a coding and read, in exact fractions, what each coefficient tests.</p>")
-                               .arg(QCoreApplication::applicationVersion()));
+        QMessageBox::about(this, tr("About Contrast Bench"), aboutText());
     });
 
     QToolBar *bar = addToolBar(tr("Main"));

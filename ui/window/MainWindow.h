@@ -1,7 +1,7 @@
 #pragma once
 
-#include "RecentFiles.h"
-#include "RecoveryStore.h"
+#include "ui/document/RecentFiles.h"
+#include "ui/document/RecoveryStore.h"
 
 #include <QMainWindow>
 
@@ -53,6 +53,9 @@ public:
     const RecoveryStore &recoveryStore() const { return m_recovery; }
     RecentFiles &recentFiles() { return m_recent; }
     QTimer *autosaveTimer() const { return m_autosave; }
+
+    // The text of Help > About, with the version from the project's CMake version.
+    static QString aboutText();
 
     // Adds a panel as a tab beside "Design health" (inside a scroll area) and returns its dock.
     QDockWidget *addPanel(QWidget *panel, const QString &title, const QString &objectName);
