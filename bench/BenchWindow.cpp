@@ -6,6 +6,8 @@
 //   EditToPaint: the same, then the event loop runs once: pending layouts and the paint of
 //     every part of the window that the change made dirty (into the offscreen backing store).
 //   FullRepaint: for scale, a forced repaint of the whole window with no edit.
+//   UndoHistoryMemory: heap bytes that 500 undo steps hold at k = 50 (each step types a
+//     different cell, so none merge), per step (counter bytes_per_step).
 // Runs offscreen (QT_QPA_PLATFORM=offscreen unless set).
 #include "bench/BenchMain.h"
 #include "ui/coding/CodingModel.h"
@@ -16,6 +18,8 @@
 #include <benchmark/benchmark.h>
 
 #include <QApplication>
+
+#include <malloc.h>
 
 using namespace Qt::StringLiterals;
 using namespace cb;
@@ -85,6 +89,28 @@ void BM_FullRepaint(benchmark::State &state)
         w.window.repaint();
 }
 
+void BM_UndoHistoryMemory(benchmark::State &state)
+{
+    const int k = int(state.range(0));
+    constexpr int kSteps = 500;
+    double perStep = 0;
+    for (auto _ : state) {
+        Document document;
+        Scheme scheme = schemeOf(k, SchemeKind::Helmert);
+        document.reset(scheme, {});
+        const size_t before = mallinfo2().uordblks;
+        for (int step = 0; step < kSteps; ++step) {
+            const size_t column = size_t(step % scheme.columnCount());
+            const size_t level = size_t(step / scheme.columnCount()) % size_t(k);
+            scheme.columns[column].weights[level] = Weight::exact(Rational(step + 2, 3));
+            document.edit(scheme, u"type"_s);
+        }
+        perStep = double(mallinfo2().uordblks - before) / kSteps;
+        benchmark::DoNotOptimize(document.undoStack()->count());
+    }
+    state.counters["bytes_per_step"] = perStep;
+}
+
 void BM_EditToModels_Helmert(benchmark::State &s) { editToModels(s, SchemeKind::Helmert); }
 void BM_EditToPaint_Helmert(benchmark::State &s) { editToPaint(s, SchemeKind::Helmert); }
 void BM_EditToModels_Polynomial(benchmark::State &s) { editToModels(s, SchemeKind::Polynomial); }
@@ -95,6 +121,7 @@ void BM_EditToPaint_Polynomial(benchmark::State &s) { editToPaint(s, SchemeKind:
 // k = 4 and 10 are exact (fractions); 40 is the largest exact k; 50 runs in floating point.
 BENCHMARK(BM_EditToModels_Helmert)->Arg(4)->Arg(10)->Arg(40)->Arg(50)->Unit(benchmark::kMicrosecond);
 BENCHMARK(BM_EditToPaint_Helmert)->Arg(4)->Arg(10)->Arg(40)->Arg(50)->Unit(benchmark::kMicrosecond);
+BENCHMARK(BM_UndoHistoryMemory)->Arg(50)->Iterations(1)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_FullRepaint)->Arg(10)->Arg(50)->Unit(benchmark::kMicrosecond);
 BENCHMARK(BM_EditToModels_Polynomial)->Arg(10)->Arg(50)->Unit(benchmark::kMicrosecond);
 BENCHMARK(BM_EditToPaint_Polynomial)->Arg(10)->Arg(50)->Unit(benchmark::kMicrosecond);
