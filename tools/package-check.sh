@@ -34,7 +34,7 @@ version=$("$build/app/contrast-bench-cli" --version | cut -d' ' -f2)
 # Depends come from dpkg-shlibdeps: versioned library packages, Qt's among them.
 depends=$(field Depends)
 grep -Eq 'libqt6core6 \(>= ' <<<"$depends" || fail "Depends lacks a versioned libqt6core6 (dpkg-shlibdeps not run?): $depends"
-grep -Eq 'libgmpxx4ldbl' <<<"$depends" || fail "Depends lacks libgmpxx4ldbl: $depends"
+grep -Eq 'libgmp10 \(>= ' <<<"$depends" || fail "Depends lacks a versioned libgmp10: $depends"
 
 dpkg-deb -c "$deb" >"$out/contents"
 for path in ./usr/bin/contrast-bench-cli ./usr/bin/contrast-bench ./usr/share/applications/contrast-bench.desktop \
