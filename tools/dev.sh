@@ -8,18 +8,20 @@
 #   bash tools/dev.sh packages   print the install list (the one list; tools/fuzz.sh and the
 #                            fresh-machine guard tools/check-install-list.py read it from here)
 # Fuzzing: bash tools/fuzz.sh smoke (what CI runs), bash tools/fuzz.sh long TARGET SECONDS.
+# The Debian package: bash tools/package-check.sh (builds, installs, checks and removes it).
 # Environment: BUILD_DIR (default build/dev; build/asan for sanitize), JOBS (default: number of cores).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 
 PACKAGES=(
   build-essential cmake ninja-build pkg-config git
-  qt6-base-dev libqt6svg6
+  qt6-base-dev libqt6svg6 qt6-svg-dev
   libeigen3-dev libboost-dev libboost-math-dev libgmp-dev
   libbenchmark-dev
   python3-numpy python3-scipy python3-pandas
   clang libclang-rt-14-dev
   xvfb xauth fonts-dejavu-core
+  dpkg-dev desktop-file-utils appstream bash-completion shared-mime-info
 )
 
 as_root() {
@@ -80,7 +82,7 @@ case "${1:-}" in
     QT_QPA_PLATFORM=offscreen ctest --test-dir "$BUILD_DIR" --output-on-failure -j "$JOBS"
     ;;
   *)
-    sed -n '2,11p' "$0"
+    sed -n '2,12p' "$0"
     exit 2
     ;;
 esac

@@ -33,7 +33,8 @@ void usage(QTextStream &s)
     s << "Usage: contrast-bench-cli COMMAND [options]\n\nCommands:\n";
     for (const Subcommand &c : kSubcommands)
         s << "  " << QString::fromUtf16(c.name).leftJustified(10) << QString::fromUtf16(c.summary) << '\n';
-    s << "\nRun 'contrast-bench-cli COMMAND --help' for the options of a command.\n";
+    s << "\nOptions:\n  -h, --help  show this help\n  --version   show the program's version\n"
+      << "\nRun 'contrast-bench-cli COMMAND --help' for the options of a command.\n";
 }
 
 } // namespace

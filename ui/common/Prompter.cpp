@@ -16,7 +16,9 @@ QString tr(const char *text)
 }
 QString schemeFilter()
 {
-    return tr("Contrast Bench schemes (*.json);;All files (*)");
+    // New studies are saved as .cbstudy (a MIME type of our own, so that they open with a double-click);
+    // the same JSON saved as .json opens too.
+    return tr("Contrast Bench studies (*.cbstudy *.json);;All files (*)");
 }
 } // namespace
 
@@ -43,7 +45,7 @@ QString DialogPrompter::askSavePath(QWidget *parent, const QString &suggestedPat
 {
     QString path = QFileDialog::getSaveFileName(parent, tr("Save the scheme"), suggestedPath, schemeFilter());
     if (!path.isEmpty() && !path.contains(u'.'))
-        path += u".json"_s;
+        path += u".cbstudy"_s;
     return path;
 }
 

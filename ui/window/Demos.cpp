@@ -3,6 +3,9 @@
 #include "core/files/SchemeFile.h"
 
 #include <QCoreApplication>
+#include <QDir>
+
+#include <algorithm>
 
 using namespace Qt::StringLiterals;
 
@@ -11,12 +14,32 @@ namespace cb {
 QList<DemoStudy> demoStudies()
 {
     auto tr = [](const char *text) { return QCoreApplication::translate("cb::Demos", text); };
-    return {
+    QList<DemoStudy> demos = {
         {u"irrigation"_s, tr("Irrigation trial: four schedules against no irrigation"), u":/demos/irrigation.json"_s},
         {u"roast"_s, tr("Roast tasting panel: trends over unevenly spaced temperatures"), u":/demos/roast.json"_s},
         {u"onboarding"_s, tr("Onboarding flows: one control, three variants, very unequal groups"), u":/demos/onboarding.json"_s},
         {u"hedgerow"_s, tr("Field margins \u00d7 mowing: a 3 \u00d7 2 crossed design with uneven plots"), u":/demos/hedgerow.json"_s},
     };
+    const QString folder = installedDemoFolder();
+    if (folder.isEmpty())
+        return demos;
+    for (const QFileInfo &file : QDir(folder).entryInfoList({u"*.json"_s}, QDir::Files | QDir::Readable, QDir::Name)) {
+        const QString name = file.completeBaseName();
+        const auto known = std::find_if(demos.begin(), demos.end(), [&](const DemoStudy &d) { return d.name == name; });
+        if (known != demos.end())
+            known->path = file.absoluteFilePath();
+        else
+            demos.append({name, name, file.absoluteFilePath()});
+    }
+    return demos;
+}
+
+QString installedDemoFolder()
+{
+    if (!QCoreApplication::instance())
+        return {};
+    // CB_DEMO_FOLDER is the demo folder relative to the folder of the installed programs.
+    return QDir::cleanPath(QDir(QCoreApplication::applicationDirPath()).filePath(QString::fromUtf8(CB_DEMO_FOLDER)));
 }
 
 namespace {
@@ -27,7 +50,7 @@ Result<T> findDemo(const QString &name, Load load)
     QStringList known;
     for (const DemoStudy &d : demoStudies()) {
         if (d.name == name)
-            return load(d.resourcePath);
+            return load(d.path);
         known << d.name;
     }
     return Result<T>::failure(u"demo '%1' does not exist; the demos are: %2"_s.arg(name, known.join(u", "_s)));

@@ -9,15 +9,20 @@
 
 namespace cb {
 
-// The demo studies shipped inside the program (resources/demos/*.json).
+// The demo studies: those compiled into the program (resources/demos/*.json) and those installed
+// beside it (<prefix>/share/contrast-bench/demos/*.json, found from the executable's folder). An
+// installed file replaces the compiled-in demo of the same name; other installed files are added,
+// titled by their name.
 struct DemoStudy
 {
     QString name;  // for --demo: "irrigation"
     QString title; // for the menu
-    QString resourcePath;
+    QString path;  // a Qt resource or an installed file
 };
 
 QList<DemoStudy> demoStudies();
+// Where an installed program keeps its demos; empty before the application object exists.
+QString installedDemoFolder();
 // The demo's scheme, or a message naming the known demos (one-factor demos only).
 Result<Scheme> loadDemo(const QString &name);
 // Any demo: one factor or a design.

@@ -354,7 +354,7 @@ bool MainWindow::saveAs()
     QString name = m_document->isDesign() ? u"design"_s : m_document->scheme().factor.name;
     if (name.isEmpty())
         name = u"scheme"_s;
-    const QString suggestion = m_document->filePath().isEmpty() ? name + u".json"_s : m_document->filePath();
+    const QString suggestion = m_document->filePath().isEmpty() ? name + u".cbstudy"_s : m_document->filePath();
     const QString path = m_prompter->askSavePath(this, suggestion);
     return !path.isEmpty() && saveTo(path);
 }
