@@ -190,11 +190,11 @@ void TestFrontEndsAgree::contradictingColumnsAreCodedAsTheSchemeSays_data()
     QTest::addColumn<int>("columnCount");
     // Over the cells (bare:early, bare:late, grass:early, ...): the margin totals are 12, 11, 10,
     // so bare's column puts -12/10 and grass's -11/10 on the wildflower cells.
-    QTest::newRow("design: weighted effect from the cell totals") << u"weighted-design.json"_s << 4 << 0 << u"-6/5"_s << 3;
-    QTest::newRow("design: second weighted-effect column") << u"weighted-design.json"_s << 5 << 1 << u"-11/10"_s << 3;
-    QTest::newRow("design: treatment column as written") << u"weighted-design.json"_s << 1 << 2 << u"1"_s << 3;
-    QTest::newRow("design: factor n follow the cells") << u"stale-sizes-design.json"_s << 4 << 0 << u"-6/5"_s << 3;
-    QTest::newRow("design: sum column of the second factor") << u"stale-sizes-design.json"_s << 1 << 2 << u"-1"_s << 3;
+    QTest::newRow("design: weighted effect from the cell totals") << u"weighted-design.json"_s << 4 << 0 << u"-6/5"_s << 5;
+    QTest::newRow("design: second weighted-effect column") << u"weighted-design.json"_s << 5 << 1 << u"-11/10"_s << 5;
+    QTest::newRow("design: treatment column as written") << u"weighted-design.json"_s << 1 << 2 << u"1"_s << 5;
+    QTest::newRow("design: factor n follow the cells") << u"stale-sizes-design.json"_s << 4 << 0 << u"-6/5"_s << 5;
+    QTest::newRow("design: sum column of the second factor") << u"stale-sizes-design.json"_s << 1 << 2 << u"-1"_s << 5;
     QTest::newRow("scheme: sum base coded -1") << u"sum-scheme.json"_s << 2 << 0 << u"-1"_s << 2;
     QTest::newRow("scheme: sum, first level not in b's column") << u"sum-scheme.json"_s << 0 << 1 << u"0"_s << 2;
     QTest::newRow("scheme: weighted effect, -20/10") << u"weighted-scheme.json"_s << 0 << 0 << u"-2"_s << 2;
