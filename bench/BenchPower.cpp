@@ -24,7 +24,7 @@ Eigen::MatrixXd tenContrasts()
     return rows;
 }
 
-PowerSettings settings(bool welch, PowerAdjustment adjustment)
+PowerSettings settings(bool welch, Adjustment adjustment)
 {
     PowerSettings s;
     s.means = {0.0, 0.1, 0.25, 0.3, 0.45, 0.5, 0.6, 0.8, 0.85, 1.0};
@@ -49,19 +49,19 @@ void runSearch(benchmark::State &state, const PowerSettings &s)
 
 void BM_SampleSizeSearch10Contrasts(benchmark::State &state)
 {
-    runSearch(state, settings(false, PowerAdjustment::None));
+    runSearch(state, settings(false, Adjustment::None));
 }
 BENCHMARK(BM_SampleSizeSearch10Contrasts)->Unit(benchmark::kMillisecond);
 
 void BM_SampleSizeSearch10ContrastsBonferroni(benchmark::State &state)
 {
-    runSearch(state, settings(false, PowerAdjustment::Bonferroni));
+    runSearch(state, settings(false, Adjustment::Bonferroni));
 }
 BENCHMARK(BM_SampleSizeSearch10ContrastsBonferroni)->Unit(benchmark::kMillisecond);
 
 void BM_SampleSizeSearch10ContrastsWelch(benchmark::State &state)
 {
-    runSearch(state, settings(true, PowerAdjustment::Sidak));
+    runSearch(state, settings(true, Adjustment::Sidak));
 }
 BENCHMARK(BM_SampleSizeSearch10ContrastsWelch)->Unit(benchmark::kMillisecond);
 
@@ -69,7 +69,7 @@ BENCHMARK(BM_SampleSizeSearch10ContrastsWelch)->Unit(benchmark::kMillisecond);
 void BM_PowerCurve60Points(benchmark::State &state)
 {
     const Eigen::MatrixXd rows = tenContrasts();
-    const PowerSettings s = settings(false, PowerAdjustment::None);
+    const PowerSettings s = settings(false, Adjustment::None);
     const std::vector<long long> sizes = powerCurveSizes(800, 60);
     for (auto _ : state) {
         auto curve = powerCurve(rows, 0, s, sizes);

@@ -47,21 +47,19 @@ int runAnalyze(const QStringList &args, Io &io)
         io.out << p.helpText();
         return kExitOk;
     }
-    // A file of several crossed factors is analysed over its cells.
-    if (auto design = designFromOptions(p)) {
-        if (!*design)
-            return badInput(io, u"analyze"_s, design->error());
-        const DesignAnalysis da = analyzeDesign(design->value());
-        if (p.isSet(u"json"_s))
-            io.out << QString::fromUtf8(QJsonDocument(designAnalysisToJson(design->value(), da)).toJson(QJsonDocument::Indented));
-        else
-            io.out << designReport(design->value(), da);
-        return kExitOk;
-    }
-    auto scheme = schemeFromOptions(p);
-    if (!scheme)
-        return badInput(io, u"analyze"_s, scheme.error());
-    return report(*scheme, p.isSet(u"json"_s), io);
+    auto study = studyFromOptions(p);
+    if (!study)
+        return badInput(io, u"analyze"_s, study.error());
+    if (!study->isDesign())
+        return report(study->activeScheme(), p.isSet(u"json"_s), io);
+    // A design of several crossed factors is analysed over its cells.
+    const Design &design = study->design;
+    const DesignAnalysis da = analyzeDesign(design);
+    if (p.isSet(u"json"_s))
+        io.out << QString::fromUtf8(QJsonDocument(designAnalysisToJson(design, da)).toJson(QJsonDocument::Indented));
+    else
+        io.out << designReport(design, da);
+    return kExitOk;
 }
 
 int runDesign(const QStringList &args, Io &io)

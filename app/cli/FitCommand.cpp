@@ -57,7 +57,7 @@ void addDataOptions(QCommandLineParser &p)
     p.addOption({u"header"_s, u"Whether the first row is a header: auto, yes or no (default auto)."_s, u"auto|yes|no"_s});
     p.addOption({u"map"_s, u"Rename data levels to scheme levels: \"data=scheme,other=scheme2\"."_s, u"pairs"_s});
     p.addOption({u"alpha"_s, u"Confidence intervals at 1 - alpha (default 0.05)."_s, u"a"_s});
-    p.addOption({u"adjust"_s, u"Adjust the contrasts' p-values: none, bonferroni, holm or sidak (default none)."_s, u"METHOD"_s});
+    p.addOption({u"adjust"_s, u"Adjust the contrasts' p-values: %1 (default none)."_s.arg(adjustmentIdList(false)), u"METHOD"_s});
     p.addOption({u"json"_s, u"Print one JSON object instead of the report."_s});
 }
 
@@ -106,9 +106,9 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
             return R::failure(u"--alpha: '%1'; expected a number between 0 and 1, such as 0.05"_s.arg(p.value(u"alpha"_s)));
     }
     if (p.isSet(u"adjust"_s)) {
-        const auto m = pAdjustFromId(p.value(u"adjust"_s));
+        const auto m = adjustmentFromId(p.value(u"adjust"_s));
         if (!m)
-            return R::failure(u"--adjust: '%1'; expected none, bonferroni, holm or sidak"_s.arg(p.value(u"adjust"_s)));
+            return R::failure(u"--adjust: '%1'; expected %2"_s.arg(p.value(u"adjust"_s), adjustmentIdList(false)));
         a.fit.adjust = *m;
     }
     if (p.isSet(u"map"_s)) {
@@ -179,13 +179,13 @@ void printReport(const Scheme &scheme, bool design, const DataSummary &data, con
     const QString ci = u"%1% CI"_s.arg(100.0 * (1.0 - fit.alpha), 0, 'g', 4);
     o << pad(u"Coefficient"_s, cw) << pad(u"estimate"_s, 11) << pad(u"H x means"_s, 11) << pad(u"SE"_s, 10)
       << pad(u"t"_s, 9) << pad(u"p"_s, 10);
-    if (fit.adjust != PAdjust::None)
-        o << pad(u"p (%1)"_s.arg(pAdjustId(fit.adjust)), 17);
+    if (fit.adjust != Adjustment::None)
+        o << pad(u"p (%1)"_s.arg(adjustmentId(fit.adjust)), 17);
     o << ci << '\n';
     for (const FitCoefficient &c : fit.coefficients) {
         o << pad(c.name, cw) << pad(num(c.estimate, 6), 11) << pad(num(c.hypothesisEstimate, 6), 11) << pad(num(c.se), 10)
           << pad(num(c.t), 9) << pad(pText(c.p), 10);
-        if (fit.adjust != PAdjust::None)
+        if (fit.adjust != Adjustment::None)
             o << pad(c.inFamily ? pText(c.pAdjusted) : u"-"_s, 17);
         o << '[' << num(c.ciLow, 5) << ", " << num(c.ciHigh, 5) << ']' << (c.agrees ? u""_s : u"  (differs)"_s) << '\n';
         if (!c.hypothesis.isEmpty())

@@ -39,7 +39,7 @@ void addPowerOptions(QCommandLineParser &p)
     p.addOption({u"alpha"_s, u"Family-wise alpha (default 0.05)."_s, u"A"_s, u"0.05"_s});
     p.addOption({u"one-sided"_s, u"One-sided tests of psi > 0, in the direction each contrast is written."_s});
     p.addOption({u"target"_s, u"Target power for the sample-size search (default 0.8)."_s, u"P"_s, u"0.8"_s});
-    p.addOption({u"adjust"_s, u"Adjustment across the contrasts: none, bonferroni or sidak (default none)."_s, u"METHOD"_s, u"none"_s});
+    p.addOption({u"adjust"_s, u"Adjustment across the contrasts: %1 (default none)."_s.arg(adjustmentIdList(true)), u"METHOD"_s, u"none"_s});
     p.addOption({u"json"_s, u"Print one JSON object instead of the report."_s});
 }
 
@@ -148,10 +148,10 @@ QString readTest(const QCommandLineParser &p, PowerSettings &s)
     auto target = singleNumber(p, u"target"_s);
     if (!target)
         return target.error();
-    const auto adjustment = powerAdjustmentFromId(p.value(u"adjust"_s));
-    if (!adjustment)
-        return u"--adjust: unknown adjustment '%1'; expected none, bonferroni or sidak (Holm's step-down needs the "
-               u"observed p-values and is applied in the data check)"_s.arg(p.value(u"adjust"_s));
+    const auto adjustment = adjustmentFromId(p.value(u"adjust"_s));
+    if (!adjustment || !adjustsPower(*adjustment))
+        return u"--adjust: unknown adjustment '%1'; expected %2 (Holm's step-down needs the observed p-values and is "
+               u"applied in the data check)"_s.arg(p.value(u"adjust"_s), adjustmentIdList(true));
     s.alpha = *alpha;
     s.target = *target;
     s.adjustment = *adjustment;
@@ -276,7 +276,7 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
     out += u"Planned n: %1\n"_s.arg(sizesLine(r.plannedN));
     out += u"Alpha %1 %2-sided, adjustment %3: %4 per contrast; target power %5\n"_s.arg(number(r.alpha))
                .arg(r.oneSided ? u"one"_s : u"two"_s)
-               .arg(powerAdjustmentTitle(r.adjustment))
+               .arg(adjustmentTitle(r.adjustment))
                .arg(number(r.perTestAlpha))
                .arg(number(r.target));
 
@@ -333,8 +333,8 @@ int runPower(const QStringList &args, Io &io)
     for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, s), readTest(p, s)})
         if (!e.isEmpty())
             return badInput(io, e);
-    if (QString e = validatePowerSettings(s, scheme.levelCount(), u"--"_s); !e.isEmpty())
-        return badInput(io, e);
+    if (Problem e = validatePowerSettings(s, scheme.levelCount(), u"--"_s); !e.isEmpty())
+        return badInput(io, e.message);
 
     useRatiosAsSizes(p, scheme);
     const Analysis analysis = analyze(scheme);

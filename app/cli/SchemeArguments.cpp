@@ -1,8 +1,7 @@
 #include "app/cli/SchemeArguments.h"
 
 #include "core/files/SchemeFile.h"
-
-#include <QFile>
+#include "core/model/SchemeEdits.h"
 
 using namespace Qt::StringLiterals;
 
@@ -53,7 +52,7 @@ void addSchemeOptions(QCommandLineParser &p, SchemeOptionSet set)
 {
     p.addOption({u"file"_s, u"Read the scheme from a scheme file (JSON)."_s, u"scheme.json"_s});
     addFactorOptions(p, set);
-    p.addOption({u"scheme"_s, u"A standard scheme: indicator, treatment, sum, weighted-effect, simple, helmert, reverse-helmert, successive, polynomial."_s, u"NAME"_s});
+    p.addOption({u"scheme"_s, u"A standard scheme: %1."_s.arg(schemeIdList()), u"NAME"_s});
     p.addOption({u"reference"_s, u"Reference level (treatment, simple) or base level coded -1 (sum, weighted-effect)."_s, u"LEVEL"_s});
     p.addOption({u"spacing"_s, u"Numeric position of each level, for polynomial trends."_s, u"x,y,z"_s});
     p.addOption({u"columns"_s, u"Custom weights: one group of k weights per column, groups separated by ';'."_s, u"w,w,w;w,w,w"_s});
@@ -73,30 +72,36 @@ QString parseArguments(QCommandLineParser &p, const QString &command, const QStr
     return {};
 }
 
-std::optional<Result<Design>> designFromOptions(const QCommandLineParser &p)
+Result<Study> studyFromOptions(const QCommandLineParser &p)
 {
-    if (!p.isSet(u"file"_s))
-        return std::nullopt;
-    QFile f(p.value(u"file"_s));
-    if (!f.open(QIODevice::ReadOnly))
-        return std::nullopt; // the scheme loader reports it
-    const QByteArray data = f.read(64 * 1024 * 1024);
-    if (!isDesignJson(data))
-        return std::nullopt;
-    auto design = designFromJson(data, p.value(u"file"_s));
-    if (design && p.isSet(u"no-intercept"_s))
-        design->intercept = false;
-    return design;
+    using R = Result<Study>;
+    if (p.isSet(u"file"_s) == p.isSet(u"levels"_s))
+        return R::failure(u"give either --file or --levels (with --scheme or --columns)"_s);
+    if (!p.isSet(u"file"_s)) {
+        auto scheme = schemeFromOptions(p);
+        if (!scheme)
+            return R::failure(scheme.error());
+        return R(studyOf(scheme.take()));
+    }
+    for (const char16_t *opt : {u"scheme", u"columns", u"reference", u"spacing", u"n"})
+        if (p.isSet(QString::fromUtf16(opt)))
+            return R::failure(u"--%1 cannot be combined with --file; edit the scheme file instead"_s.arg(QString::fromUtf16(opt)));
+    // The window's own reader: the same study, coded and settled the same way.
+    auto loaded = loadStudy(p.value(u"file"_s));
+    if (!loaded || !p.isSet(u"no-intercept"_s))
+        return loaded;
+    const Study &study = loaded.value();
+    return R(settled(withActiveScheme(study, edits::withIntercept(study.activeScheme(), false))));
 }
 
 Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QString &what, std::optional<Design> *designOut)
 {
-    auto design = designFromOptions(p);
-    if (!design)
-        return schemeFromOptions(p);
-    if (!*design)
-        return Result<Scheme>::failure(design->error());
-    const Design &d = design->value();
+    auto study = studyFromOptions(p);
+    if (!study)
+        return Result<Scheme>::failure(study.error());
+    if (!study->isDesign())
+        return Result<Scheme>(study->activeScheme());
+    const Design &d = study->design;
     for (size_t c = 0; c < d.cellN.size(); ++c)
         if (d.cellN[c] == 0)
             return Result<Scheme>::failure(u"%1: cell '%2' is empty (cell_n 0); %3 needs a planned size above 0 for every cell"_s
@@ -109,23 +114,9 @@ Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QStri
 Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
 {
     using R = Result<Scheme>;
-    const bool haveFile = p.isSet(u"file"_s);
-    const bool haveLevels = p.isSet(u"levels"_s);
-    if (haveFile == haveLevels)
-        return R::failure(u"give either --file or --levels (with --scheme or --columns)"_s);
+    if (p.isSet(u"file"_s) || !p.isSet(u"levels"_s))
+        return R::failure(u"give --levels (with --scheme or --columns)"_s);
     Scheme s;
-    if (haveFile) {
-        for (const char16_t *opt : {u"scheme", u"columns", u"reference", u"spacing", u"n"})
-            if (p.isSet(QString::fromUtf16(opt)))
-                return R::failure(u"--%1 cannot be combined with --file; edit the scheme file instead"_s.arg(QString::fromUtf16(opt)));
-        auto loaded = loadScheme(p.value(u"file"_s));
-        if (!loaded)
-            return loaded;
-        s = loaded.take();
-        if (p.isSet(u"no-intercept"_s))
-            s.intercept = false;
-        return R(std::move(s));
-    }
     auto factor = factorFromOptions(p);
     if (!factor)
         return R::failure(factor.error());
@@ -146,8 +137,7 @@ Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
     if (haveScheme) {
         const auto kind = schemeFromId(p.value(u"scheme"_s));
         if (!kind || *kind == SchemeKind::Custom)
-            return R::failure(u"--scheme: unknown scheme '%1'; expected one of indicator, treatment, sum, weighted-effect, simple, helmert, reverse-helmert, successive, polynomial"_s
-                                  .arg(p.value(u"scheme"_s)));
+            return R::failure(u"--scheme: unknown scheme '%1'; expected one of %2"_s.arg(p.value(u"scheme"_s), schemeIdList()));
         SchemeOptions opt;
         if (p.isSet(u"reference"_s)) {
             if (!schemeUsesReference(*kind))

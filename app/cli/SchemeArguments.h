@@ -3,6 +3,7 @@
 #include "core/model/Design.h"
 #include "core/base/Result.h"
 #include "core/model/Scheme.h"
+#include "core/model/Study.h"
 
 #include <QCommandLineParser>
 
@@ -15,17 +16,17 @@ namespace cb::cli {
 // --poly-form, --poly-weighted.
 enum class SchemeOptionSet { All, WithoutFactorName };
 void addSchemeOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOptionSet::All);
-// The scheme the options describe; the message names the argument and what was wrong.
+// The study the options describe: the file's (--file, read by loadStudy exactly as the window
+// reads it) or one factor from --levels; --no-intercept applied. The message names the argument
+// (or the file's field) and what was wrong.
+Result<Study> studyFromOptions(const QCommandLineParser &parser);
+// One factor from --levels with --scheme or --columns.
 Result<Scheme> schemeFromOptions(const QCommandLineParser &parser);
 
-// When --file names a design of several crossed factors: that design (or why it cannot be
-// read), with --no-intercept applied. Empty for every other case (a scheme file, --levels).
-std::optional<Result<Design>> designFromOptions(const QCommandLineParser &parser);
-
-// The scheme the options describe or, for a design file, the equivalent one-factor scheme over
-// its cells (the cells as levels, the first factor varying slowest; the design's columns; the cell
-// n as planned sizes). An empty cell is refused: `what` ("power") names who needs the sizes.
-// design, when given, receives the design the file held (empty for a one-factor scheme).
+// The study's scheme or, for a design, the equivalent one-factor scheme over its cells (the cells
+// as levels, the first factor varying slowest; the design's columns; the cell n as planned sizes).
+// An empty cell is refused: `what` ("power") names who needs the sizes. design, when given,
+// receives the design (empty for a one-factor scheme).
 Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &parser, const QString &what,
                                         std::optional<Design> *design = nullptr);
 

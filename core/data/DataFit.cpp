@@ -70,26 +70,7 @@ QString quotedList(const QStringList &names)
 // ---------------------------------------------------------------------------
 // Multiplicity
 
-QString pAdjustId(PAdjust method)
-{
-    switch (method) {
-    case PAdjust::None: return u"none"_s;
-    case PAdjust::Bonferroni: return u"bonferroni"_s;
-    case PAdjust::Holm: return u"holm"_s;
-    case PAdjust::Sidak: return u"sidak"_s;
-    }
-    return {};
-}
-
-std::optional<PAdjust> pAdjustFromId(const QString &id)
-{
-    for (PAdjust m : {PAdjust::None, PAdjust::Bonferroni, PAdjust::Holm, PAdjust::Sidak})
-        if (id.trimmed().compare(pAdjustId(m), Qt::CaseInsensitive) == 0)
-            return m;
-    return std::nullopt;
-}
-
-std::vector<double> adjustPValues(const std::vector<double> &p, PAdjust method)
+std::vector<double> adjustPValues(const std::vector<double> &p, Adjustment method)
 {
     std::vector<double> out(p.size(), kNaN);
     std::vector<size_t> family;
@@ -98,20 +79,20 @@ std::vector<double> adjustPValues(const std::vector<double> &p, PAdjust method)
             family.push_back(i);
     const double m = double(family.size());
     switch (method) {
-    case PAdjust::None:
+    case Adjustment::None:
         for (size_t i : family)
             out[i] = p[i];
         break;
-    case PAdjust::Bonferroni:
+    case Adjustment::Bonferroni:
         for (size_t i : family)
             out[i] = std::min(1.0, m * p[i]);
         break;
-    case PAdjust::Sidak:
+    case Adjustment::Sidak:
         // 1 - (1 - p)^m, written to keep precision for small p.
         for (size_t i : family)
             out[i] = p[i] >= 1.0 ? 1.0 : std::min(1.0, -std::expm1(m * std::log1p(-p[i])));
         break;
-    case PAdjust::Holm: {
+    case Adjustment::Holm: {
         std::vector<size_t> order = family;
         std::stable_sort(order.begin(), order.end(), [&p](size_t a, size_t b) { return p[a] < p[b]; });
         double running = 0.0;
@@ -441,7 +422,7 @@ QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data)
         {u"f_p"_s, number(fit.fP)},
         {u"omnibus"_s, fit.omnibusHypothesis},
         {u"alpha"_s, fit.alpha},
-        {u"adjust"_s, pAdjustId(fit.adjust)},
+        {u"adjust"_s, adjustmentId(fit.adjust)},
         {u"n"_s, number(fit.totalN)},
         {u"notes"_s, QJsonArray::fromStringList(fit.notes)},
         {u"skipped_rows"_s, QJsonObject{{u"count"_s, double(data.skippedRows)}, {u"first"_s, first}}},

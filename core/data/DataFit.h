@@ -1,5 +1,6 @@
 #pragma once
 
+#include "core/analysis/Adjustment.h"
 #include "core/data/DataReader.h"
 #include "core/base/Result.h"
 
@@ -17,17 +18,8 @@ namespace cb {
 
 struct Scheme;
 
-// How p-values of the family of contrasts are adjusted for multiplicity.
-enum class PAdjust {
-    None,
-    Bonferroni, // min(1, m p)
-    Holm,       // step-down Bonferroni (Holm 1979, Scand. J. Statist. 6:65-70)
-    Sidak,      // 1 - (1 - p)^m (Sidak 1967, JASA 62:626-633)
-};
-QString pAdjustId(PAdjust method); // "none", "bonferroni", "holm", "sidak"
-std::optional<PAdjust> pAdjustFromId(const QString &id);
 // Adjusted p-values in the order given. NaN entries are left NaN and not counted in m.
-std::vector<double> adjustPValues(const std::vector<double> &p, PAdjust method);
+std::vector<double> adjustPValues(const std::vector<double> &p, Adjustment method);
 
 // Per-level statistics in the scheme's level order.
 struct MatchedLevels
@@ -53,7 +45,7 @@ Result<MatchedLevels> matchLevels(const QStringList &schemeLevels, const std::ve
 struct FitOptions
 {
     double alpha = 0.05; // confidence intervals at 1 - alpha
-    PAdjust adjust = PAdjust::None;
+    Adjustment adjust = Adjustment::None;
 };
 
 struct FitCoefficient
@@ -101,7 +93,7 @@ struct FitResult
     double fP = 0.0;
 
     double alpha = 0.05;
-    PAdjust adjust = PAdjust::None;
+    Adjustment adjust = Adjustment::None;
 
     Eigen::VectorXd fittedMeans;         // k
     Eigen::MatrixXd covariance;          // p x p, sigma^2 (X' N X)^-1

@@ -1,5 +1,7 @@
 #include "core/export/Export.h"
 
+#include "core/base/NameTable.h"
+
 #include <QSet>
 
 #include <cmath>
@@ -657,7 +659,7 @@ QString writeMarkdown(const Prepared &p)
 
 struct FormatInfo
 {
-    ExportFormat format;
+    ExportFormat value;
     const char16_t *id;
     const char16_t *title;
     const char16_t *suffix;
@@ -676,11 +678,7 @@ constexpr FormatInfo kFormats[] = {
 
 const FormatInfo &info(ExportFormat format)
 {
-    for (const FormatInfo &f : kFormats) {
-        if (f.format == format)
-            return f;
-    }
-    return kFormats[0];
+    return rowOf(kFormats, format);
 }
 
 // --- CSV reader -----------------------------------------------------------------
@@ -787,7 +785,7 @@ QList<ExportFormat> exportFormats()
 {
     QList<ExportFormat> list;
     for (const FormatInfo &f : kFormats)
-        list.append(f.format);
+        list.append(f.value);
     return list;
 }
 
@@ -808,11 +806,7 @@ QString exportFormatSuffix(ExportFormat format)
 
 std::optional<ExportFormat> exportFormatFromId(const QString &id)
 {
-    for (const FormatInfo &f : kFormats) {
-        if (QString::fromUtf16(f.id) == id)
-            return f.format;
-    }
-    return std::nullopt;
+    return valueFromId(kFormats, id);
 }
 
 QString exportIdentifier(const QString &requested)

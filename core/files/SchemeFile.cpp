@@ -200,17 +200,14 @@ Result<Scheme> schemeFromObject(const QJsonObject &root, const QString &where, c
     if (factor.contains(u"spacing"_s) && !factor.value(u"spacing"_s).isNull())
         if (!rd.weights(factor.value(u"spacing"_s), u"factor.spacing"_s, s.factor.spacing, err))
             return R::failure(err);
-    if (QString e = s.factor.validate(); !e.isEmpty())
-    {
-        const qsizetype colon = e.indexOf(u": "_s);
-        return R::failure(rd.fail(u"factor."_s + e.left(colon), e.mid(colon + 2)));
-    }
+    if (const Problem p = s.factor.problem(); !p.isEmpty())
+        return R::failure(rd.fail(u"factor."_s + p.field, p.message));
 
     const QJsonObject origin = root.value(u"scheme"_s).toObject();
     const QString kindId = origin.value(u"kind"_s).toString(u"custom"_s);
     const auto kind = schemeFromId(kindId);
     if (!kind)
-        return R::failure(rd.fail(u"scheme.kind"_s, u"unknown scheme '%1'; expected one of indicator, treatment, sum, weighted-effect, simple, helmert, reverse-helmert, successive, polynomial, custom"_s.arg(kindId)));
+        return R::failure(rd.fail(u"scheme.kind"_s, u"unknown scheme '%1'; expected one of %2"_s.arg(kindId, schemeIdList(true))));
     s.kind = *kind;
     if (origin.contains(u"reference"_s)) {
         const QString ref = origin.value(u"reference"_s).toString();
@@ -256,17 +253,6 @@ Result<Scheme> schemeFromObject(const QJsonObject &root, const QString &where, c
         return R::failure(rd.fail(u"notes"_s, u"expected a string"_s));
     s.notes = nv.toString();
     return R(std::move(s));
-}
-
-Result<Scheme> loadScheme(const QString &path)
-{
-    QFile f(path);
-    if (!f.open(QIODevice::ReadOnly))
-        return Result<Scheme>::failure(u"%1: cannot open the file: %2"_s.arg(path, f.errorString()));
-    constexpr qint64 kMaxSchemeFile = 64 * 1024 * 1024;
-    if (f.size() > kMaxSchemeFile)
-        return Result<Scheme>::failure(u"%1: the file is %2 bytes; scheme files are at most 64 MiB"_s.arg(path).arg(f.size()));
-    return schemeFromJson(f.readAll(), path);
 }
 
 QString writeAll(QIODevice &device, const QByteArray &data, const QString &where)

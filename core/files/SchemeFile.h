@@ -26,7 +26,6 @@ Result<QJsonObject> schemeDocumentRoot(const QByteArray &data, const QString &wh
 // `where` names the source in messages (a path, "recovery file", ...).
 Result<Scheme> schemeFromJson(const QByteArray &data, const QString &where);
 
-Result<Scheme> loadScheme(const QString &path);
 // Atomic: writes through QSaveFile, so a crash never leaves half a file. Returns an error message or empty.
 QString saveScheme(const Scheme &scheme, const QString &path);
 

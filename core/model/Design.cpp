@@ -15,18 +15,6 @@ namespace cb {
 
 namespace {
 
-// Level index of factor f in cell c (A-major: the first factor varies slowest).
-std::vector<int> cellLevels(const Design &d, int cell)
-{
-    std::vector<int> out(d.factors.size());
-    for (int f = int(d.factors.size()) - 1; f >= 0; --f) {
-        const int k = d.factors[size_t(f)].levelCount();
-        out[size_t(f)] = cell % k;
-        cell /= k;
-    }
-    return out;
-}
-
 QString factorLabel(const Design &d, int f)
 {
     const QString n = d.factors[size_t(f)].factor.name;
@@ -124,10 +112,7 @@ QString differenceOfDifferences(const Design &d, const std::vector<Weight> &h, s
     auto partner = [&](size_t c, int b) {
         std::vector<int> lv = cellLevels(d, int(c));
         lv[size_t(g)] = b;
-        int idx = 0;
-        for (size_t f = 0; f < d.factors.size(); ++f)
-            idx = idx * d.factors[f].levelCount() + lv[f];
-        return size_t(idx);
+        return size_t(cellIndex(d, lv));
     };
     std::vector<Weight> at[2];
     for (int side = 0; side < 2; ++side)
@@ -162,6 +147,25 @@ QString differenceOfDifferences(const Design &d, const std::vector<Weight> &h, s
 }
 
 } // namespace
+
+std::vector<int> cellLevels(const Design &d, int cell)
+{
+    std::vector<int> out(d.factors.size());
+    for (int f = int(d.factors.size()) - 1; f >= 0; --f) {
+        const int k = d.factors[size_t(f)].levelCount();
+        out[size_t(f)] = cell % k;
+        cell /= k;
+    }
+    return out;
+}
+
+int cellIndex(const Design &d, const std::vector<int> &levels)
+{
+    int idx = 0;
+    for (size_t f = 0; f < d.factors.size(); ++f)
+        idx = idx * d.factors[f].levelCount() + levels[f];
+    return idx;
+}
 
 int Design::cellCount() const
 {

@@ -39,6 +39,10 @@ struct Design
 
 inline constexpr int kMaxDesignFactors = 3;
 
+// A cell's level index for each factor, and back (A-major: the first factor varies slowest).
+std::vector<int> cellLevels(const Design &design, int cell);
+int cellIndex(const Design &design, const std::vector<int> &levels);
+
 QString termName(const Design &design, const Term &term); // "A", "A x B", "A within B"
 
 // What a design implies over the cell means.

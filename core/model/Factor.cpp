@@ -35,15 +35,15 @@ std::vector<Weight> Factor::positions() const
     return out;
 }
 
-QString Factor::validate() const
+Problem Factor::problem() const
 {
     if (levels.size() < kMinLevels)
-        return u"levels: a factor needs at least %1 levels, got %2"_s.arg(kMinLevels).arg(levels.size());
+        return Problem{u"a factor needs at least %1 levels, got %2"_s.arg(kMinLevels).arg(levels.size()), u"levels"_s};
     if (levels.size() > kMaxLevels)
-        return u"levels: at most %1 levels are supported, got %2"_s.arg(kMaxLevels).arg(levels.size());
+        return Problem{u"at most %1 levels are supported, got %2"_s.arg(kMaxLevels).arg(levels.size()), u"levels"_s};
     for (qsizetype i = 0; i < levels.size(); ++i)
         if (levels[i].trimmed().isEmpty())
-            return u"levels: level %1 has an empty name; every level needs a name"_s.arg(i + 1);
+            return Problem{u"level %1 has an empty name; every level needs a name"_s.arg(i + 1), u"levels"_s};
     // Unique names: sorted views side by side (cheaper than hashing; validate runs on every edit).
     std::vector<QStringView> sorted(levels.begin(), levels.end());
     std::sort(sorted.begin(), sorted.end());
@@ -51,28 +51,35 @@ QString Factor::validate() const
         QSet<QString> seen;
         for (qsizetype i = 0; i < levels.size(); ++i) {
             if (seen.contains(levels[i]))
-                return u"levels: level %1 repeats the name '%2'; level names must be unique"_s.arg(i + 1).arg(levels[i]);
+                return Problem{u"level %1 repeats the name '%2'; level names must be unique"_s.arg(i + 1).arg(levels[i]), u"levels"_s};
             seen.insert(levels[i]);
         }
     }
     if (!plannedN.empty()) {
         if (plannedN.size() != size_t(levels.size()))
-            return u"n: %1 planned group sizes for %2 levels; give one per level"_s.arg(plannedN.size()).arg(levels.size());
+            return Problem{u"%1 planned group sizes for %2 levels; give one per level"_s.arg(plannedN.size()).arg(levels.size()), u"n"_s};
         for (size_t i = 0; i < plannedN.size(); ++i)
             if (plannedN[i] <= 0)
-                return u"n: the planned size of level '%1' is %2; sizes must be positive"_s
-                    .arg(levels[qsizetype(i)], rationalToString(plannedN[i]));
+                return Problem{u"the planned size of level '%1' is %2; sizes must be positive"_s.arg(levels[qsizetype(i)], rationalToString(plannedN[i])),
+                               u"n"_s};
     }
     if (!spacing.empty()) {
         if (spacing.size() != size_t(levels.size()))
-            return u"spacing: %1 values for %2 levels; give one per level"_s.arg(spacing.size()).arg(levels.size());
+            return Problem{u"%1 values for %2 levels; give one per level"_s.arg(spacing.size()).arg(levels.size()), u"spacing"_s};
         for (size_t i = 0; i < spacing.size(); ++i)
             for (size_t j = 0; j < i; ++j)
                 if (spacing[i].value() == spacing[j].value())
-                    return u"spacing: levels '%1' and '%2' have the same position %3; positions must differ"_s
-                        .arg(levels[qsizetype(j)], levels[qsizetype(i)], spacing[i].display());
+                    return Problem{u"levels '%1' and '%2' have the same position %3; positions must differ"_s
+                                       .arg(levels[qsizetype(j)], levels[qsizetype(i)], spacing[i].display()),
+                                   u"spacing"_s};
     }
     return {};
+}
+
+QString Factor::validate() const
+{
+    const Problem p = problem();
+    return p.isEmpty() ? QString() : p.field + u": "_s + p.message;
 }
 
 QStringList splitList(const QString &text, QChar separator)

@@ -1,5 +1,6 @@
 #pragma once
 
+#include "core/base/Result.h"
 #include "core/base/Weight.h"
 
 #include <QString>
@@ -28,7 +29,10 @@ struct Factor
     // Spacing, 1..k when none was given.
     std::vector<Weight> positions() const;
 
-    // Empty when valid; otherwise says which field is wrong and what was expected.
+    // Empty when valid; otherwise what was expected, in the field it belongs to ("levels", "n",
+    // "spacing").
+    Problem problem() const;
+    // The same as one text: "levels: level 2 has an empty name; ...".
     QString validate() const;
 };
 

@@ -1,5 +1,7 @@
 #include "core/model/Scheme.h"
 
+#include "core/base/NameTable.h"
+
 #include <cmath>
 
 using namespace Qt::StringLiterals;
@@ -10,7 +12,7 @@ namespace {
 
 struct SchemeInfo
 {
-    SchemeKind kind;
+    SchemeKind value;
     const char16_t *id;
     const char16_t *title;
     const char16_t *summary;
@@ -42,10 +44,7 @@ constexpr SchemeInfo kSchemes[] = {
 
 const SchemeInfo &info(SchemeKind kind)
 {
-    for (const SchemeInfo &i : kSchemes)
-        if (i.kind == kind)
-            return i;
-    return kSchemes[std::size(kSchemes) - 1];
+    return rowOf(kSchemes, kind);
 }
 
 QString degreeName(int degree)
@@ -146,18 +145,20 @@ bool schemeUsesReference(SchemeKind kind) { return info(kind).usesReference; }
 
 std::optional<SchemeKind> schemeFromId(const QString &id)
 {
-    for (const SchemeInfo &i : kSchemes)
-        if (id == QString::fromUtf16(i.id))
-            return i.kind;
-    return std::nullopt;
+    return valueFromId(kSchemes, id);
+}
+
+QString schemeIdList(bool withCustom)
+{
+    return idList(kSchemes, [withCustom](SchemeKind k) { return withCustom || k != SchemeKind::Custom; });
 }
 
 QList<SchemeKind> standardSchemes()
 {
     QList<SchemeKind> out;
     for (const SchemeInfo &i : kSchemes)
-        if (i.kind != SchemeKind::Custom)
-            out << i.kind;
+        if (i.value != SchemeKind::Custom)
+            out << i.value;
     return out;
 }
 
@@ -387,6 +388,15 @@ Result<std::vector<Column>> standardColumns(const Factor &factor, SchemeKind kin
         cols.push_back(std::move(c));
     }
     return R(std::move(cols));
+}
+
+SchemeOptions schemeOptions(const Scheme &s)
+{
+    SchemeOptions o;
+    o.reference = schemeUsesReference(s.kind) && s.reference >= 0 && s.reference < s.levelCount() ? s.reference : -1;
+    o.polynomialForm = s.polynomialForm;
+    o.polynomialWeighted = s.polynomialWeighted;
+    return o;
 }
 
 Result<Scheme> makeScheme(const Factor &factor, SchemeKind kind, const SchemeOptions &options)

@@ -32,7 +32,10 @@ QString schemeId(SchemeKind kind);
 QString schemeTitle(SchemeKind kind);
 // One sentence saying what the coefficients mean.
 QString schemeSummary(SchemeKind kind);
+// Reads an id as every id is read (core/base/NameTable.h: spaces and letter case do not count).
 std::optional<SchemeKind> schemeFromId(const QString &id);
+// "indicator, treatment, ..., polynomial" (and ", custom" when asked), for help texts and messages.
+QString schemeIdList(bool withCustom = false);
 QList<SchemeKind> standardSchemes(); // all but Custom
 bool schemeUsesReference(SchemeKind kind);
 
@@ -79,6 +82,8 @@ struct SchemeOptions
 };
 
 int defaultReference(SchemeKind kind, int levelCount);
+// The options a standard scheme was made with (its reference only where its kind has one).
+SchemeOptions schemeOptions(const Scheme &scheme);
 
 // The columns of a standard scheme for a factor. Fails for Custom, for an
 // invalid factor, or for an integer polynomial whose trends are not rational.

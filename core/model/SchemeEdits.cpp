@@ -17,15 +17,6 @@ Scheme asCustom(Scheme s)
     return s;
 }
 
-SchemeOptions optionsOf(const Scheme &s)
-{
-    SchemeOptions o;
-    o.reference = schemeUsesReference(s.kind) && s.reference >= 0 && s.reference < s.levelCount() ? s.reference : -1;
-    o.polynomialForm = s.polynomialForm;
-    o.polynomialWeighted = s.polynomialWeighted;
-    return o;
-}
-
 // A standard scheme is rebuilt from its definition; a custom one is kept as it is.
 Result<Scheme> settle(Scheme s)
 {
@@ -33,7 +24,7 @@ Result<Scheme> settle(Scheme s)
         return Result<Scheme>::failure(e);
     if (s.kind == SchemeKind::Custom)
         return Result<Scheme>(std::move(s));
-    return withStandard(s, s.kind, optionsOf(s));
+    return withStandard(s, s.kind, schemeOptions(s));
 }
 
 } // namespace

@@ -32,26 +32,6 @@ std::vector<int> levelMap(const Factor &before, const Factor &next)
     return out;
 }
 
-// Cell index (A-major) from level indices.
-int cellIndex(const Design &d, const std::vector<int> &levels)
-{
-    int idx = 0;
-    for (size_t f = 0; f < d.factors.size(); ++f)
-        idx = idx * d.factors[f].levelCount() + levels[f];
-    return idx;
-}
-
-std::vector<int> levelsOfCell(const Design &d, int cell)
-{
-    std::vector<int> out(d.factors.size());
-    for (size_t f = d.factors.size(); f-- > 0;) {
-        const int k = d.factors[f].levelCount();
-        out[f] = cell % k;
-        cell /= k;
-    }
-    return out;
-}
-
 // The intercept and the notes belong to the design; every factor shows them, so the
 // one-factor panels (intercept box, notes) read and edit them.
 void syncShared(Design &d)
@@ -81,7 +61,7 @@ Study settled(Study study)
         if (!d.cellN.empty() && d.cellN.size() == size_t(d.cellCount())) {
             totals.assign(size_t(s.levelCount()), Rational(0));
             for (int c = 0; c < d.cellCount(); ++c)
-                totals[size_t(levelsOfCell(d, c)[f])] += d.cellN[size_t(c)];
+                totals[size_t(cellLevels(d, c)[f])] += d.cellN[size_t(c)];
             const bool usable = std::all_of(totals.begin(), totals.end(), [](const Rational &n) { return n > 0; });
             const bool equal = std::all_of(totals.begin(), totals.end(), [&](const Rational &n) { return n == totals[0]; });
             if (!usable || equal)
@@ -133,7 +113,7 @@ Study withActiveScheme(const Study &study, Scheme next)
     }
     std::vector<Rational> n(size_t(d.cellCount()));
     for (int c = 0; c < d.cellCount(); ++c) {
-        std::vector<int> lv = levelsOfCell(d, c);
+        std::vector<int> lv = cellLevels(d, c);
         lv[size_t(study.active)] = map[size_t(lv[size_t(study.active)])];
         n[size_t(c)] = study.design.cellN[size_t(cellIndex(study.design, lv))];
     }
@@ -223,7 +203,7 @@ Result<Study> withFactorRemoved(const Study &study, int factor)
         rest.factors.erase(rest.factors.begin() + factor);
         std::vector<Rational> n(size_t(rest.cellCount()), Rational(0));
         for (int c = 0; c < d.cellCount(); ++c) {
-            std::vector<int> lv = levelsOfCell(d, c);
+            std::vector<int> lv = cellLevels(d, c);
             lv.erase(lv.begin() + factor);
             n[size_t(cellIndex(rest, lv))] += d.cellN[size_t(c)];
         }
@@ -318,21 +298,50 @@ QByteArray studyToJson(const Study &study)
     return study.isDesign() ? designToJson(study.design) : schemeToJson(study.activeScheme());
 }
 
+namespace {
+
+// The rule for files (DEVELOPERS.md, "Columns that contradict their scheme"): a factor whose
+// scheme names a standard kind is coded as that kind says. Its columns are made again from the
+// definition (levels, reference, polynomial options, planned n); the columns written in the
+// file are not read for it. Its intercept and notes stay as written.
+Result<Scheme> codedAsDefined(const Scheme &s, const QString &where, const QString &field)
+{
+    if (s.kind == SchemeKind::Custom)
+        return Result<Scheme>(s);
+    auto made = makeScheme(s.factor, s.kind, schemeOptions(s));
+    if (!made)
+        return Result<Scheme>::failure(u"%1: field '%2': factor '%3' cannot be coded as %4: %5"_s
+                                           .arg(where, field, s.factor.name, schemeId(s.kind), made.error()));
+    Scheme out = made.take();
+    out.intercept = s.intercept;
+    out.notes = s.notes;
+    return Result<Scheme>(std::move(out));
+}
+
+} // namespace
+
 Result<Study> studyFromJson(const QByteArray &data, const QString &where)
 {
+    Study s;
     if (!isDesignJson(data)) {
         auto scheme = schemeFromJson(data, where);
         if (!scheme)
             return R::failure(scheme.error());
-        return R(studyOf(scheme.take()));
+        s = studyOf(scheme.take());
+    } else {
+        auto design = designFromJson(data, where);
+        if (!design)
+            return R::failure(design.error());
+        s.design = design.take();
     }
-    auto design = designFromJson(data, where);
-    if (!design)
-        return R::failure(design.error());
-    Study s;
-    s.design = design.take();
-    syncShared(s.design);
-    return R(std::move(s));
+    for (size_t f = 0; f < s.design.factors.size(); ++f) {
+        const QString field = s.isDesign() ? u"design.factors[%1].scheme.kind"_s.arg(f) : u"scheme.kind"_s;
+        auto coded = codedAsDefined(s.design.factors[f], where, field);
+        if (!coded)
+            return R::failure(coded.error());
+        s.design.factors[f] = coded.take();
+    }
+    return R(settled(std::move(s)));
 }
 
 Result<Study> loadStudy(const QString &path)

@@ -52,6 +52,10 @@ bool sameTerm(const Term &a, const Term &b);
 
 // Files: a design file (format version 2) for two or more factors, a scheme file otherwise.
 QByteArray studyToJson(const Study &study);
+// The one reader of study files, for the window, its recovery file and the command line alike:
+// a scheme file or a design file, every factor with a standard scheme coded as its definition
+// says (the columns written for it are not read; DEVELOPERS.md, "Columns that contradict their
+// scheme"), and settled(). `where` names the source in messages.
 Result<Study> studyFromJson(const QByteArray &data, const QString &where);
 Result<Study> loadStudy(const QString &path);
 QString saveStudy(const Study &study, const QString &path); // error message or empty

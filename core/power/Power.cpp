@@ -255,100 +255,54 @@ QJsonArray jsonArray(const std::vector<double> &values)
 
 } // namespace
 
-namespace {
-
-struct AdjustmentName
-{
-    PowerAdjustment adjustment;
-    const char16_t *id;
-    const char16_t *title;
-};
-
-constexpr AdjustmentName kAdjustmentNames[] = {
-    {PowerAdjustment::None, u"none", u"None"},
-    {PowerAdjustment::Bonferroni, u"bonferroni", u"Bonferroni"},
-    {PowerAdjustment::Sidak, u"sidak", u"\u0160id\u00e1k"},
-};
-
-const AdjustmentName &adjustmentName(PowerAdjustment adjustment)
-{
-    for (const AdjustmentName &a : kAdjustmentNames)
-        if (a.adjustment == adjustment)
-            return a;
-    return kAdjustmentNames[0];
-}
-
-} // namespace
-
-QString powerAdjustmentId(PowerAdjustment adjustment)
-{
-    return QString::fromUtf16(adjustmentName(adjustment).id);
-}
-
-QString powerAdjustmentTitle(PowerAdjustment adjustment)
-{
-    return QString::fromUtf16(adjustmentName(adjustment).title);
-}
-
-std::optional<PowerAdjustment> powerAdjustmentFromId(const QString &id)
-{
-    for (const AdjustmentName &a : kAdjustmentNames)
-        if (id.compare(QString::fromUtf16(a.id), Qt::CaseInsensitive) == 0)
-            return a.adjustment;
-    return std::nullopt;
-}
-
-QString validatePowerSettings(const PowerSettings &s, int levelCount, const QString &fieldPrefix)
+Problem validatePowerSettings(const PowerSettings &s, int levelCount, const QString &fieldPrefix)
 {
     const auto field = [&](const char16_t *name) { return fieldPrefix + QString::fromUtf16(name); };
-    if (levelCount < kMinLevels)
-        return u"levels: power needs at least %1 levels, got %2"_s.arg(kMinLevels).arg(levelCount);
-    QString e = checkCount(s.means, levelCount, field(u"means"));
-    if (e.isEmpty())
-        e = checkValues(s.means, field(u"means"), false, {});
-    if (!e.isEmpty())
-        return e;
-    if (s.perLevelSds()) {
-        e = checkCount(s.sds, levelCount, field(u"sds"));
+    // A list of one value per level, each finite (and above 0 when positive is set).
+    const auto levelList = [&](const std::vector<double> &values, const char16_t *key, bool positive, const QString &what) {
+        QString e = checkCount(values, levelCount, field(key));
         if (e.isEmpty())
-            e = checkValues(s.sds, field(u"sds"), true, u"standard deviation"_s);
-        if (!e.isEmpty())
-            return e;
+            e = checkValues(values, field(key), positive, what);
+        return e.isEmpty() ? Problem{} : Problem{e, QString::fromUtf16(key)};
+    };
+    const auto problem = [](const char16_t *key, QString message) { return Problem{std::move(message), QString::fromUtf16(key)}; };
+    if (levelCount < kMinLevels)
+        return problem(u"levels", u"levels: power needs at least %1 levels, got %2"_s.arg(kMinLevels).arg(levelCount));
+    if (!adjustsPower(s.adjustment))
+        return problem(u"adjust", u"%1: %2 needs the observed p-values; plan with %3"_s.arg(field(u"adjust"), adjustmentTitle(s.adjustment), adjustmentIdList(true)));
+    if (Problem p = levelList(s.means, u"means", false, {}); !p.isEmpty())
+        return p;
+    if (s.perLevelSds()) {
+        if (Problem p = levelList(s.sds, u"sds", true, u"standard deviation"_s); !p.isEmpty())
+            return p;
     } else if (!positiveFinite(s.sd)) {
-        return u"%1: %2 is not a positive standard deviation; the SD must be above 0"_s.arg(field(u"sd"), num(s.sd));
+        return problem(u"sd", u"%1: %2 is not a positive standard deviation; the SD must be above 0"_s.arg(field(u"sd"), num(s.sd)));
     }
     if (!s.n.empty()) {
         if (!s.ratios.empty())
-            return u"%1 and %2: give planned sizes per level, or ratios with a total, not both"_s.arg(field(u"n"), field(u"ratios"));
-        e = checkCount(s.n, levelCount, field(u"n"));
-        if (e.isEmpty())
-            e = checkValues(s.n, field(u"n"), true, u"group size"_s);
-        if (!e.isEmpty())
-            return e;
+            return problem(u"n", u"%1 and %2: give planned sizes per level, or ratios with a total, not both"_s.arg(field(u"n"), field(u"ratios")));
+        if (Problem p = levelList(s.n, u"n", true, u"group size"_s); !p.isEmpty())
+            return p;
         for (size_t i = 0; i < s.n.size(); ++i)
             if (s.n[i] < 2.0)
-                return u"%1, item %2: %3 per level is too few; every level needs at least 2"_s.arg(field(u"n")).arg(i + 1).arg(num(s.n[i]));
+                return problem(u"n", u"%1, item %2: %3 per level is too few; every level needs at least 2"_s.arg(field(u"n")).arg(i + 1).arg(num(s.n[i])));
     } else {
-        if (!s.ratios.empty()) {
-            e = checkCount(s.ratios, levelCount, field(u"ratios"));
-            if (e.isEmpty())
-                e = checkValues(s.ratios, field(u"ratios"), true, u"ratio"_s);
-            if (!e.isEmpty())
-                return e;
-        }
+        if (!s.ratios.empty())
+            if (Problem p = levelList(s.ratios, u"ratios", true, u"ratio"_s); !p.isEmpty())
+                return p;
         if (!positiveFinite(s.total))
-            return u"%1: give the total N (above 0) with the ratios, or planned sizes per level"_s.arg(field(u"total"));
+            return problem(u"total", u"%1: give the total N (above 0) with the ratios, or planned sizes per level"_s.arg(field(u"total")));
         const std::vector<double> n = plannedSizes(s, levelCount);
         for (size_t i = 0; i < n.size(); ++i)
             if (n[i] < 2.0)
-                return u"%1: %2 leaves level %3 with %4; every level needs at least 2"_s.arg(field(u"total"), num(s.total)).arg(i + 1).arg(shortNum(n[i]));
+                return problem(u"total", u"%1: %2 leaves level %3 with %4; every level needs at least 2"_s.arg(field(u"total"), num(s.total)).arg(i + 1).arg(shortNum(n[i])));
     }
     if (!(s.alpha > 0.0 && s.alpha < 1.0))
-        return u"%1: %2 is not between 0 and 1 (both excluded)"_s.arg(field(u"alpha"), num(s.alpha));
+        return problem(u"alpha", u"%1: %2 is not between 0 and 1 (both excluded)"_s.arg(field(u"alpha"), num(s.alpha)));
     if (!(s.target > 0.0 && s.target < 1.0))
-        return u"%1: %2 is not between 0 and 1 (both excluded)"_s.arg(field(u"target"), num(s.target));
+        return problem(u"target", u"%1: %2 is not between 0 and 1 (both excluded)"_s.arg(field(u"target"), num(s.target)));
     if (s.target <= s.alpha)
-        return u"%1: %2 is not above alpha (%3); a target power must exceed alpha"_s.arg(field(u"target"), num(s.target), num(s.alpha));
+        return problem(u"target", u"%1: %2 is not above alpha (%3); a target power must exceed alpha"_s.arg(field(u"target"), num(s.target), num(s.alpha)));
     return {};
 }
 
@@ -385,17 +339,19 @@ std::vector<long long> groupSizesFor(long long smallest, const std::vector<doubl
     return out;
 }
 
-double perTestAlpha(double alpha, PowerAdjustment adjustment, int tests)
+double perTestAlpha(double alpha, Adjustment adjustment, int tests)
 {
     if (tests <= 1)
         return alpha;
     switch (adjustment) {
-    case PowerAdjustment::None:
+    case Adjustment::None:
         return alpha;
-    case PowerAdjustment::Bonferroni:
+    case Adjustment::Bonferroni:
         return alpha / tests;
-    case PowerAdjustment::Sidak:
+    case Adjustment::Sidak:
         return -std::expm1(std::log1p(-alpha) / tests);
+    case Adjustment::Holm: // refused by validatePowerSettings; its first step is Bonferroni's
+        return alpha / tests;
     }
     return alpha;
 }
@@ -433,16 +389,15 @@ double fTestPower(double lambda, double df1, double df2, double alpha)
 namespace {
 
 // Validation shared by computePower and powerCurve.
-QString checkRows(const Eigen::MatrixXd &rows, const PowerSettings &s)
+Problem checkRows(const Eigen::MatrixXd &rows, const PowerSettings &s)
 {
-    const QString e = validatePowerSettings(s, int(rows.cols()));
-    if (!e.isEmpty())
-        return e;
+    if (Problem p = validatePowerSettings(s, int(rows.cols())); !p.isEmpty())
+        return p;
     for (Eigen::Index r = 0; r < rows.rows(); ++r) {
         if (!rows.row(r).allFinite())
-            return u"contrast %1: a weight is not a finite number"_s.arg(r + 1);
+            return Problem{u"contrast %1: a weight is not a finite number"_s.arg(r + 1), u"contrasts"_s};
         if ((rows.row(r).array() == 0.0).all())
-            return u"contrast %1: every weight is 0, so it tests nothing"_s.arg(r + 1);
+            return Problem{u"contrast %1: every weight is 0, so it tests nothing"_s.arg(r + 1), u"contrasts"_s};
     }
     return {};
 }
@@ -476,9 +431,8 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
                                  const PowerSettings &settings)
 {
     using R = Result<PowerReport>;
-    const QString problem = checkRows(contrastRows, settings);
-    if (!problem.isEmpty())
-        return R::failure(problem);
+    if (Problem problem = checkRows(contrastRows, settings); !problem.isEmpty())
+        return R::failure(std::move(problem));
 
     const int k = int(contrastRows.cols());
     const int m = int(contrastRows.rows());
@@ -575,12 +529,12 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
         report.notes << u"the planned sizes from the ratios and total are not whole numbers; power uses them as "
                         u"they are, round them to plan real groups"_s;
     if (m > 1) {
-        if (settings.adjustment == PowerAdjustment::None)
+        if (settings.adjustment == Adjustment::None)
             report.notes << u"%1 contrasts are tested without adjustment: the chance of at least one false positive "
                             u"can reach %2"_s.arg(m).arg(shortNum(1.0 - std::pow(1.0 - settings.alpha, m)));
         else
             report.notes << u"%1 adjustment across %2 contrasts: each is tested at alpha = %3"_s
-                                .arg(powerAdjustmentTitle(settings.adjustment))
+                                .arg(adjustmentTitle(settings.adjustment))
                                 .arg(m)
                                 .arg(shortNum(report.perTestAlpha));
         report.notes << u"Holm's step-down procedure (Holm 1979) needs the observed p-values and is applied in the "
@@ -595,9 +549,8 @@ Result<std::vector<double>> powerCurve(const Eigen::MatrixXd &contrastRows, int 
                                        const std::vector<long long> &smallestGroupSizes)
 {
     using R = Result<std::vector<double>>;
-    const QString problem = checkRows(contrastRows, settings);
-    if (!problem.isEmpty())
-        return R::failure(problem);
+    if (Problem problem = checkRows(contrastRows, settings); !problem.isEmpty())
+        return R::failure(std::move(problem));
     if (contrast < -1 || contrast >= contrastRows.rows())
         return R::failure(u"contrast: %1 is not a contrast index; expected -1 (omnibus) to %2"_s.arg(contrast).arg(contrastRows.rows() - 1));
     const int k = int(contrastRows.cols());
@@ -689,7 +642,7 @@ QJsonObject powerReportToJson(const PowerReport &report)
     root[u"planned_total"_s] = jsonNumber(report.plannedTotal);
     root[u"alpha"_s] = report.alpha;
     root[u"alpha_per_test"_s] = report.perTestAlpha;
-    root[u"adjustment"_s] = powerAdjustmentId(report.adjustment);
+    root[u"adjustment"_s] = adjustmentId(report.adjustment);
     root[u"sided"_s] = report.oneSided ? u"one"_s : u"two"_s;
     root[u"target"_s] = report.target;
     root[u"welch"_s] = report.welch;

@@ -1,5 +1,6 @@
 #pragma once
 
+#include "core/analysis/Adjustment.h"
 #include "core/base/Result.h"
 
 #include <Eigen/Dense>
@@ -19,15 +20,9 @@ struct Analysis;
 // Power and sample size for planned contrasts of a one-factor design, from the
 // exact noncentral t (contrasts) and noncentral F (omnibus) distributions.
 
-// Family-wise adjustment of alpha across the contrasts that will be tested.
-// Holm's step-down procedure needs the observed p-values, so it belongs to the data check.
-enum class PowerAdjustment { None, Bonferroni, Sidak };
-
-// "none", "bonferroni", "sidak".
-QString powerAdjustmentId(PowerAdjustment adjustment);
-// "None", "Bonferroni", "Šidák".
-QString powerAdjustmentTitle(PowerAdjustment adjustment);
-std::optional<PowerAdjustment> powerAdjustmentFromId(const QString &id);
+// Family-wise adjustment of alpha across the contrasts that will be tested: Adjustment
+// (core/analysis/Adjustment.h) except Holm's step-down procedure, which needs the observed
+// p-values and so belongs to the data check.
 
 // What the analyst expects and plans. k = number of levels.
 struct PowerSettings
@@ -41,7 +36,7 @@ struct PowerSettings
     double alpha = 0.05;       // family-wise alpha before adjustment
     bool oneSided = false;     // one-sided contrasts test psi > 0, in the direction each row is written
     double target = 0.8;       // target power for the sample-size search
-    PowerAdjustment adjustment = PowerAdjustment::None;
+    Adjustment adjustment = Adjustment::None;
 
     bool perLevelSds() const { return !sds.empty(); }
 };
@@ -104,7 +99,7 @@ struct PowerReport
     double plannedTotal = 0.0;
     double alpha = 0.05;
     double perTestAlpha = 0.05;
-    PowerAdjustment adjustment = PowerAdjustment::None;
+    Adjustment adjustment = Adjustment::None;
     bool oneSided = false;
     double target = 0.8;
     bool welch = false;
@@ -114,10 +109,11 @@ struct PowerReport
     QStringList cautions; // powerCautions()
 };
 
-// Empty when the settings fit a factor with levelCount levels; otherwise a message
-// naming the field ("means: 3 values for 4 levels; give one per level").
-// fieldPrefix goes before each field name ("--" gives "--means: ...").
-QString validatePowerSettings(const PowerSettings &settings, int levelCount, const QString &fieldPrefix = {});
+// Empty when the settings fit a factor with levelCount levels; otherwise a message naming the
+// field ("means: 3 values for 4 levels; give one per level") and that field's key ("means", "sds",
+// "sd", "n", "ratios", "total", "alpha", "target", "adjust", "levels").
+// fieldPrefix goes before each field name in the message ("--" gives "--means: ...").
+Problem validatePowerSettings(const PowerSettings &settings, int levelCount, const QString &fieldPrefix = {});
 
 // The planned sizes: settings.n, or total split by the ratios (not rounded).
 std::vector<double> plannedSizes(const PowerSettings &settings, int levelCount);
@@ -127,7 +123,7 @@ std::vector<double> allocationRatios(const PowerSettings &settings, int levelCou
 std::vector<long long> groupSizesFor(long long smallest, const std::vector<double> &ratios);
 
 // Alpha per contrast: alpha, alpha / m (Bonferroni) or 1 - (1 - alpha)^(1/m) (Šidák).
-double perTestAlpha(double alpha, PowerAdjustment adjustment, int tests);
+double perTestAlpha(double alpha, Adjustment adjustment, int tests);
 
 // Power of a t-test whose statistic follows the noncentral t(df, noncentrality):
 // two-sided P(T > t) + P(T < -t) with t the 1 - alpha/2 quantile of t(df);

@@ -301,7 +301,7 @@ void TestDataFit::matchesNumpyLstsq()
     const QJsonObject ref = test::runPython(u"fit_lstsq.py"_s, {}, QJsonDocument(spec).toJson());
     QVERIFY2(!ref.contains(u"error"_s), qPrintable(ref.value(u"error"_s).toString()));
 
-    for (PAdjust method : {PAdjust::Bonferroni, PAdjust::Holm, PAdjust::Sidak}) {
+    for (Adjustment method : {Adjustment::Bonferroni, Adjustment::Holm, Adjustment::Sidak}) {
         auto fit = fitLevels(*matched, X, Eigen::MatrixXd(), coefficientNames(X.cols(), intercept), intercept,
                              FitOptions{0.05, method});
         QVERIFY2(fit.ok(), qPrintable(fit.error()));
@@ -328,7 +328,7 @@ void TestDataFit::matchesNumpyLstsq()
         const QJsonArray means = ref.value(u"means"_s).toArray();
         for (qsizetype j = 0; j < means.size(); ++j)
             CHECK_NEAR(fit->levelStats[size_t(j)].mean, means[j].toDouble());
-        const QJsonArray adjusted = ref.value(u"p_adjusted"_s).toObject().value(pAdjustId(method)).toArray();
+        const QJsonArray adjusted = ref.value(u"p_adjusted"_s).toObject().value(adjustmentId(method)).toArray();
         const size_t first = intercept ? 1 : 0;
         QCOMPARE(size_t(adjusted.size()), c.size() - first);
         for (size_t i = first; i < c.size(); ++i)
@@ -374,15 +374,15 @@ void TestDataFit::adjustsPValues_data()
     QTest::addColumn<std::vector<double>>("p");
     QTest::addColumn<std::vector<double>>("expected");
     const std::vector<double> p = {0.01, 0.04, 0.03};
-    QTest::newRow("none") << int(PAdjust::None) << p << p;
-    QTest::newRow("bonferroni") << int(PAdjust::Bonferroni) << p << std::vector<double>{0.03, 0.12, 0.09};
+    QTest::newRow("none") << int(Adjustment::None) << p << p;
+    QTest::newRow("bonferroni") << int(Adjustment::Bonferroni) << p << std::vector<double>{0.03, 0.12, 0.09};
     // Holm: sorted 0.01, 0.03, 0.04 times 3, 2, 1 = 0.03, 0.06, 0.04 -> running max 0.03, 0.06, 0.06.
-    QTest::newRow("holm") << int(PAdjust::Holm) << p << std::vector<double>{0.03, 0.06, 0.06};
+    QTest::newRow("holm") << int(Adjustment::Holm) << p << std::vector<double>{0.03, 0.06, 0.06};
     // Sidak: 1 - 0.99^3 = 0.029701, 1 - 0.96^3 = 0.115264, 1 - 0.97^3 = 0.087327.
-    QTest::newRow("sidak") << int(PAdjust::Sidak) << p << std::vector<double>{0.029701, 0.115264, 0.087327};
-    QTest::newRow("bonferroni caps at 1") << int(PAdjust::Bonferroni) << std::vector<double>{0.5, 0.2}
+    QTest::newRow("sidak") << int(Adjustment::Sidak) << p << std::vector<double>{0.029701, 0.115264, 0.087327};
+    QTest::newRow("bonferroni caps at 1") << int(Adjustment::Bonferroni) << std::vector<double>{0.5, 0.2}
                                           << std::vector<double>{1.0, 0.4};
-    QTest::newRow("holm ties and NaN") << int(PAdjust::Holm) << std::vector<double>{NAN, 0.02, 0.02, 0.5}
+    QTest::newRow("holm ties and NaN") << int(Adjustment::Holm) << std::vector<double>{NAN, 0.02, 0.02, 0.5}
                                        << std::vector<double>{NAN, 0.06, 0.06, 0.5};
 }
 
@@ -391,7 +391,7 @@ void TestDataFit::adjustsPValues()
     QFETCH(int, method);
     QFETCH(std::vector<double>, p);
     QFETCH(std::vector<double>, expected);
-    const std::vector<double> got = adjustPValues(p, PAdjust(method));
+    const std::vector<double> got = adjustPValues(p, Adjustment(method));
     QCOMPARE(got.size(), expected.size());
     for (size_t i = 0; i < got.size(); ++i) {
         if (std::isnan(expected[i]))
@@ -399,7 +399,7 @@ void TestDataFit::adjustsPValues()
         else
             QVERIFY2(std::fabs(got[i] - expected[i]) < 1e-12, qPrintable(u"%1 vs %2"_s.arg(got[i]).arg(expected[i])));
     }
-    QCOMPARE(pAdjustFromId(pAdjustId(PAdjust(method))), std::optional<PAdjust>(PAdjust(method)));
+    QCOMPARE(adjustmentFromId(adjustmentId(Adjustment(method))), std::optional<Adjustment>(Adjustment(method)));
 }
 
 void TestDataFit::matchesLevels()
@@ -486,7 +486,7 @@ void TestDataFit::refusesBadDesigns()
     auto fit = fitLevels(plantLevels(), X, H, coefficientNames(names, true), true);
     QVERIFY(!fit.ok());
     QCOMPARE(fit.error(), message);
-    auto alpha = fitLevels(plantLevels(), sumCoding(3), {}, coefficientNames(3, true), true, FitOptions{1.5, PAdjust::None});
+    auto alpha = fitLevels(plantLevels(), sumCoding(3), {}, coefficientNames(3, true), true, FitOptions{1.5, Adjustment::None});
     QCOMPARE(alpha.error(), u"alpha: 1.5; expected a number between 0 and 1"_s);
 }
 
@@ -521,7 +521,7 @@ void TestDataFit::writesJson()
     auto m = matchLevels(kPlantLevels, data->levels);
     QVERIFY(m.ok());
     const Eigen::MatrixXd X = rows({{1, 0, 0}, {1, 1, 0}, {1, 0, 1}});
-    auto fit = fitLevels(*m, X, X.inverse(), {u"(Intercept)"_s, u"trt1"_s, u"trt2"_s}, true, FitOptions{0.1, PAdjust::Holm});
+    auto fit = fitLevels(*m, X, X.inverse(), {u"(Intercept)"_s, u"trt1"_s, u"trt2"_s}, true, FitOptions{0.1, Adjustment::Holm});
     QVERIFY(fit.ok());
     const QJsonObject json = fitResultToJson(*fit, *data);
     for (const QString &key : {u"levels"_s, u"coefficients"_s, u"sigma"_s, u"df"_s, u"r_squared"_s, u"f"_s, u"f_p"_s,
@@ -560,7 +560,7 @@ void TestDataFit::fitsSchemes()
     for (SchemeKind kind : standardSchemes()) {
         auto scheme = makeScheme(factor, kind);
         QVERIFY2(scheme.ok(), qPrintable(scheme.error()));
-        auto fit = fitScheme(*scheme, *data, FitOptions{0.05, PAdjust::Sidak});
+        auto fit = fitScheme(*scheme, *data, FitOptions{0.05, Adjustment::Sidak});
         QVERIFY2(fit.ok(), qPrintable(schemeId(kind) + u": "_s + fit.error()));
         QVERIFY2(fit->hypothesesAgree, qPrintable(schemeId(kind)));
         QCOMPARE(qRound(fit->sigma * 10000), 6234);

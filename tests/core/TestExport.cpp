@@ -9,6 +9,7 @@
 #include "core/model/Design.h"
 #include "core/export/Export.h"
 #include "core/files/SchemeFile.h"
+#include "core/model/Study.h"
 
 #include <QDir>
 #include <QFile>
@@ -1337,9 +1338,9 @@ void TestExport::cliExportsSchemeFile()
     const QString schemePath = dir.filePath(u"scheme.json"_s);
     const QString saveError = saveScheme(s, schemePath);
     QVERIFY2(saveError.isEmpty(), qPrintable(saveError));
-    auto loaded = loadScheme(schemePath);
+    auto loaded = loadStudy(schemePath);
     QVERIFY2(loaded.ok(), qPrintable(loaded.error()));
-    auto table = codingTable(*loaded);
+    auto table = codingTable(loaded->activeScheme());
     QVERIFY2(table.ok(), qPrintable(table.error()));
     const ExportFormat f = *exportFormatFromId(format);
     const QString expected = exported(*table, f, true);

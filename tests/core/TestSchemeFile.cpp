@@ -1,5 +1,8 @@
 // The scheme file: round trips, every loading error with its message, atomic saving.
 #include "core/files/SchemeFile.h"
+#include "core/model/Study.h"
+#include "core/analysis/Adjustment.h"
+#include "core/export/Export.h"
 
 #include <QBuffer>
 #include <QFile>
@@ -63,6 +66,8 @@ private slots:
     void saveIsAtomic();
     void writeErrorIsReported();
     void saveToUnwritablePlace();
+    void idsAreReadByOneRule();
+    void factorProblemsNameTheirField();
 };
 
 void TestSchemeFile::roundTripStandardSchemes()
@@ -169,7 +174,7 @@ void TestSchemeFile::newerVersionRefused()
 
 void TestSchemeFile::missingFile()
 {
-    auto s = loadScheme(u"/nonexistent/dir/scheme.json"_s);
+    auto s = loadStudy(u"/nonexistent/dir/scheme.json"_s);
     QVERIFY(!s.ok());
     QVERIFY(s.error().startsWith(u"/nonexistent/dir/scheme.json: cannot open the file"_s));
 }
@@ -180,9 +185,9 @@ void TestSchemeFile::saveIsAtomic()
     const QString path = dir.filePath(u"s.json"_s);
     Scheme s = schemeFromJson(validFile(), u"x"_s).take();
     QCOMPARE(saveScheme(s, path), QString());
-    auto back = loadScheme(path);
+    auto back = loadStudy(path);
     QVERIFY(back.ok());
-    QCOMPARE(back->columns[0].name, u"dark vs light"_s);
+    QCOMPARE(back->activeScheme().columns[0].name, u"dark vs light"_s);
     // No temporary files are left beside it.
     QCOMPARE(QDir(dir.path()).entryList(QDir::Files), QStringList{u"s.json"_s});
 }
@@ -205,6 +210,40 @@ void TestSchemeFile::saveToUnwritablePlace()
         const QString fe = writeAll(full, QByteArray(1 << 16, 'x'), u"/dev/full"_s);
         QVERIFY2(fe.startsWith(u"/dev/full: could not write the file"_s), qPrintable(fe));
     }
+}
+
+void TestSchemeFile::idsAreReadByOneRule()
+{
+    // Every enum read from a file or the command line goes through core/base/NameTable.h:
+    // spaces around the id and letter case do not count; anything else is refused.
+    QVERIFY(schemeFromId(u" Weighted-Effect "_s) == SchemeKind::WeightedEffect);
+    QVERIFY(exportFormatFromId(u"CSV"_s) == ExportFormat::Csv);
+    QVERIFY(adjustmentFromId(u" Holm"_s) == Adjustment::Holm);
+    QVERIFY(!schemeFromId(u"weighted effect"_s));
+    QVERIFY(!exportFormatFromId(u"xls"_s));
+    QVERIFY(!adjustmentFromId(u"tukey"_s));
+    // The lists in help texts and messages come from the same tables.
+    QCOMPARE(schemeIdList(), u"indicator, treatment, sum, weighted-effect, simple, helmert, reverse-helmert, successive, polynomial"_s);
+    QVERIFY(schemeIdList(true).endsWith(u", polynomial, custom"_s));
+    QCOMPARE(adjustmentIdList(false), u"none, bonferroni, holm or sidak"_s);
+    QCOMPARE(adjustmentIdList(true), u"none, bonferroni or sidak"_s);
+}
+
+void TestSchemeFile::factorProblemsNameTheirField()
+{
+    Factor f;
+    f.levels = {u"a"_s, u"b"_s, u"a"_s};
+    QCOMPARE(f.problem().field, u"levels"_s);
+    QCOMPARE(f.validate(), u"levels: "_s + f.problem().message);
+    f.levels = {u"a"_s, u"b"_s};
+    f.plannedN = {Rational(1)};
+    QCOMPARE(f.problem().field, u"n"_s);
+    QCOMPARE(f.problem().message, u"1 planned group sizes for 2 levels; give one per level"_s);
+    f.plannedN.clear();
+    f.spacing = {Weight(1), Weight(1)};
+    QCOMPARE(f.problem().field, u"spacing"_s);
+    f.spacing.clear();
+    QVERIFY(f.problem().isEmpty());
 }
 
 QTEST_GUILESS_MAIN(TestSchemeFile)

@@ -158,7 +158,7 @@ void TestDataPanel::rendersTheIrrigationDemo()
     out.close();
 
     Document doc;
-    doc.reset(loadDemo(u"irrigation"_s).take(), {});
+    doc.reset(loadDemoStudy(u"irrigation"_s).take(), {});
     DataPanel panel(&doc);
     QVERIFY(panel.openFile(path));
     panel.setColumns(u"schedule"_s, u"yield_kg"_s);

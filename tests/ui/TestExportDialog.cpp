@@ -141,7 +141,7 @@ void TestExportDialog::rankDeficientShowsCoreMessage()
 void TestExportDialog::rendersTheIrrigationDemo()
 {
     Document doc;
-    doc.reset(loadDemo(u"irrigation"_s).take(), {});
+    doc.reset(loadDemoStudy(u"irrigation"_s).take(), {});
     ExportDialog dialog(&doc);
     dialog.setFormat(ExportFormat::R);
     dialog.setMatrix(ExportDialog::Matrix::Hypotheses);

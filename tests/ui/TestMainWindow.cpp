@@ -9,6 +9,7 @@
 #include "ui/meaning/MeaningPanel.h"
 #include "core/model/SchemeEdits.h"
 #include "core/files/SchemeFile.h"
+#include "core/model/Study.h"
 #include "ui/coding/SchemePicker.h"
 #include "tests/support/WindowFixture.h"
 
@@ -94,9 +95,9 @@ void TestMainWindow::eachDemoLoads()
     QVERIFY(!f.window->document()->isModified());
     QCOMPARE(f.window->meaningPanel()->model()->rowCount(), levels);
     // The installed copy in resources/demos is the same file.
-    auto installed = loadScheme(QString::fromUtf8(CB_SOURCE_DIR) + u"/resources/demos/"_s + name + u".json"_s);
+    auto installed = loadStudy(QString::fromUtf8(CB_SOURCE_DIR) + u"/resources/demos/"_s + name + u".json"_s);
     QVERIFY(installed.ok());
-    QCOMPARE(schemeToJson(*installed), schemeToJson(s));
+    QCOMPARE(schemeToJson(installed->activeScheme()), schemeToJson(s));
     QVERIFY(f.prompter.told.isEmpty());
 }
 
@@ -207,7 +208,7 @@ void TestMainWindow::droppingAFileOpensIt()
     WindowFixture f;
     QVERIFY(f.show());
     const QString path = f.dir.filePath(u"dropped.json"_s);
-    QVERIFY(saveScheme(*loadDemo(u"roast"_s), path).isEmpty());
+    QVERIFY(saveStudy(*loadDemoStudy(u"roast"_s), path).isEmpty());
     QMimeData data;
     data.setUrls({QUrl::fromLocalFile(path)});
     const QPoint at = f.window->rect().center();
@@ -418,10 +419,10 @@ void TestMainWindow::firstTaskFromTheReadme()
     f.prompter.savePath = f.dir.filePath(u"dose.json"_s);
     QVERIFY(w.save());
     QVERIFY(!w.document()->isModified());
-    auto saved = loadScheme(f.prompter.savePath);
+    auto saved = loadStudy(f.prompter.savePath);
     QVERIFY(saved.ok());
-    QCOMPARE(saved->columns[1].weights[1], Weight(-2));
-    QCOMPARE(saved->factor.plannedN, (std::vector<Rational>{20, 10, 10, 10}));
+    QCOMPARE(saved->activeScheme().columns[1].weights[1], Weight(-2));
+    QCOMPARE(saved->activeScheme().factor.plannedN, (std::vector<Rational>{20, 10, 10, 10}));
 }
 
 void TestMainWindow::aboutShowsTheProjectVersion()

@@ -69,7 +69,7 @@ void TestPowerPanel::tableShowsCorePower()
     s.sd = sd.toDouble();
     s.ratios = {1, 1, 1, 1};
     s.total = total.toDouble();
-    s.adjustment = std::array{PowerAdjustment::None, PowerAdjustment::Bonferroni, PowerAdjustment::Sidak}[size_t(adjustment)];
+    s.adjustment = std::array{Adjustment::None, Adjustment::Bonferroni, Adjustment::Sidak}[size_t(adjustment)];
     s.oneSided = oneSided;
     const auto rows = contrastRowsOf(doc.analysis());
     QVERIFY(rows.ok());
@@ -182,7 +182,7 @@ void TestPowerPanel::plannedSizesComeFromTheLevels()
 void TestPowerPanel::rendersTheIrrigationDemo()
 {
     Document doc;
-    doc.reset(loadDemo(u"irrigation"_s).take(), {});
+    doc.reset(loadDemoStudy(u"irrigation"_s).take(), {});
     PowerPanel panel(&doc);
     panel.setExpectedTexts({u"4.0"_s, u"5.4"_s, u"5.1"_s, u"4.9"_s, u"4.3"_s});
     panel.sdEdit()->setText(u"0.9"_s);

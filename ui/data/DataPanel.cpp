@@ -135,11 +135,8 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     m_summary->setTextFormat(Qt::RichText);
     m_problems->setObjectName(u"dataProblems"_s);
     m_readButton->setEnabled(false);
-    for (PAdjust a : {PAdjust::Holm, PAdjust::Bonferroni, PAdjust::Sidak, PAdjust::None}) {
-        static const QHash<PAdjust, QString> titles = {{PAdjust::Holm, tr("Holm (step-down)")}, {PAdjust::Bonferroni, tr("Bonferroni")},
-                                                       {PAdjust::Sidak, tr("\u0160id\u00e1k")}, {PAdjust::None, tr("None")}};
-        m_adjust->addItem(titles.value(a), QVariant::fromValue(int(a)));
-    }
+    for (Adjustment a : {Adjustment::Holm, Adjustment::Bonferroni, Adjustment::Sidak, Adjustment::None})
+        m_adjust->addItem(adjustmentTitle(a), QVariant::fromValue(int(a)));
 
     auto *open = new QPushButton(tr("Open data\u2026"), this);
     connect(open, &QPushButton::clicked, this, [this] {
@@ -415,7 +412,7 @@ void DataPanel::mapLevel(const QString &dataLevel, const QString &schemeLevel)
                 box->setCurrentIndex(std::max(0, box->findData(schemeLevel)));
 }
 
-void DataPanel::setAdjustment(PAdjust adjust)
+void DataPanel::setAdjustment(Adjustment adjust)
 {
     m_adjust->setCurrentIndex(m_adjust->findData(QVariant::fromValue(int(adjust))));
 }
@@ -455,7 +452,7 @@ void DataPanel::refit()
     for (auto it = mapping.begin(); it != mapping.end();)
         it = it.value().isEmpty() ? mapping.erase(it) : std::next(it);
     FitOptions options;
-    options.adjust = PAdjust(m_adjust->currentData().toInt());
+    options.adjust = Adjustment(m_adjust->currentData().toInt());
     const Result<Weight> alpha = parseWeight(m_alpha->text().trimmed());
     if (!alpha || !(alpha->value() > 0.0 && alpha->value() < 1.0)) {
         showMessage(tr("alpha: '%1' is not a number between 0 and 1 (both excluded)").arg(m_alpha->text()));
@@ -526,7 +523,7 @@ void DataPanel::showFit(const FitResult &fit)
     const int k = int(fit.levels.size());
     const Eigen::MatrixXd identity = Eigen::MatrixXd::Identity(k, k);
     const Result<FitResult> cells = fitLevels(MatchedLevels{fit.levels, fit.levelStats, {}}, identity, identity, fit.levels,
-                                              false, FitOptions{fit.alpha, PAdjust::None});
+                                              false, FitOptions{fit.alpha, Adjustment::None});
     if (cells) {
         std::vector<SmallChart::Interval> intervals;
         for (const FitCoefficient &c : cells->coefficients)

@@ -50,7 +50,7 @@ public:
     void readAndFit();
     // Maps a data level to a scheme level (empty: not matched) and fits again.
     void mapLevel(const QString &dataLevel, const QString &schemeLevel);
-    void setAdjustment(PAdjust adjust);
+    void setAdjustment(Adjustment adjust);
 
     const std::optional<DataSummary> &data() const { return m_data; }
     const std::optional<FitResult> &fit() const { return m_fit; }

@@ -12,7 +12,6 @@
 #include <QHeaderView>
 #include <QLabel>
 #include <QLineEdit>
-#include <QRegularExpression>
 #include <QSignalBlocker>
 #include <QTableWidget>
 #include <QTimer>
@@ -50,14 +49,12 @@ QString sizesText(const SampleSize &size)
     return parts.join(u", "_s);
 }
 
-// The field a core message is about: its first word ("sd: ...", "means, item 2: ...").
-QString fieldOf(const QString &message)
+// The note under which a problem of a field shows: the per-level fields share the table's.
+QString noteOf(const QString &field)
 {
-    const qsizetype end = message.indexOf(QRegularExpression(u"[:,]"_s));
-    const QString head = end < 0 ? QString() : message.left(end).trimmed();
-    if (head == u"sd"_s || head == u"total"_s || head == u"alpha"_s || head == u"target"_s)
-        return head;
-    if (head == u"means"_s || head == u"sds"_s || head == u"n"_s || head == u"ratios"_s || head == u"levels"_s)
+    if (field == u"sd"_s || field == u"total"_s || field == u"alpha"_s || field == u"target"_s)
+        return field;
+    if (field == u"means"_s || field == u"sds"_s || field == u"n"_s || field == u"ratios"_s || field == u"levels"_s)
         return u"levels"_s;
     return {};
 }
@@ -66,10 +63,10 @@ Result<double> parseScalar(const QLineEdit *edit, const QString &field)
 {
     const QString text = edit->text().trimmed();
     if (text.isEmpty())
-        return Result<double>::failure(u"%1: no value; type a number"_s.arg(field));
+        return Result<double>::failure(u"%1: no value; type a number"_s.arg(field), field);
     const Result<Weight> w = parseWeight(text);
     if (!w)
-        return Result<double>::failure(u"%1: %2"_s.arg(field, w.error()));
+        return Result<double>::failure(u"%1: %2"_s.arg(field, w.error()), field);
     return w->value();
 }
 
@@ -121,8 +118,8 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     m_expectedKind->addItems({tr("Means per level"), tr("Differences from a baseline")});
     m_sizeSource->addItems({tr("Planned n of the levels"), tr("Ratios with a total N")});
     m_sided->addItems({tr("Two-sided"), tr("One-sided (\u03c8 > 0 as written)")});
-    for (PowerAdjustment a : {PowerAdjustment::None, PowerAdjustment::Bonferroni, PowerAdjustment::Sidak})
-        m_adjustment->addItem(powerAdjustmentTitle(a), QVariant::fromValue(int(a)));
+    for (Adjustment a : {Adjustment::None, Adjustment::Bonferroni, Adjustment::Sidak})
+        m_adjustment->addItem(adjustmentTitle(a), QVariant::fromValue(int(a)));
     m_total->setPlaceholderText(tr("e.g. 120"));
     m_results->setObjectName(u"powerResults"_s);
     m_results->setHorizontalHeaderLabels({tr("Test"), tr("Estimate \u03c8"), tr("SE"), tr("Std. eff."), tr("df"),
@@ -371,76 +368,76 @@ Result<PowerSettings> PowerPanel::settings() const
     const bool differences = m_expectedKind->currentIndex() == 1;
     const int baseline = m_baseline->currentIndex();
     // One number per level from a column of the table; the message names the level.
-    auto column = [&](int c, const QString &field, int skip) -> Result<std::vector<double>> {
+    auto column = [&](int c, const QString &key, const QString &field, int skip) -> Result<std::vector<double>> {
         std::vector<double> out;
         const QStringList texts = columnTexts(c);
         for (int r = 0; r < k; ++r) {
             if (r == skip)
                 continue;
             if (texts[r].isEmpty())
-                return Result<std::vector<double>>::failure(u"%1, level \u2018%2\u2019: no value; type a number"_s.arg(field, m_levels[r]));
+                return Result<std::vector<double>>::failure(u"%1, level \u2018%2\u2019: no value; type a number"_s.arg(field, m_levels[r]), key);
             const Result<Weight> w = parseWeight(texts[r]);
             if (!w)
-                return Result<std::vector<double>>::failure(u"%1, level \u2018%2\u2019: %3"_s.arg(field, m_levels[r], w.error()));
+                return Result<std::vector<double>>::failure(u"%1, level \u2018%2\u2019: %3"_s.arg(field, m_levels[r], w.error()), key);
             out.push_back(w->value());
         }
         return out;
     };
-    auto expected = column(ExpectedColumn, differences ? u"means (differences)"_s : u"means"_s, differences ? baseline : -1);
+    auto expected = column(ExpectedColumn, u"means"_s, differences ? u"means (differences)"_s : u"means"_s, differences ? baseline : -1);
     if (!expected)
-        return R::failure(expected.error());
+        return R::failure(expected.problem());
     s.means = differences ? meansFromDifferences(*expected, baseline) : *expected;
     if (m_perLevelSd->isChecked()) {
-        auto sds = column(SdColumn, u"sds"_s, -1);
+        auto sds = column(SdColumn, u"sds"_s, u"sds"_s, -1);
         if (!sds)
-            return R::failure(sds.error());
+            return R::failure(sds.problem());
         s.sds = *sds;
     } else {
         auto sd = parseScalar(m_sd, u"sd"_s);
         if (!sd)
-            return R::failure(sd.error());
+            return R::failure(sd.problem());
         s.sd = *sd;
     }
     if (m_sizeSource->currentIndex() == 0) {
         const Factor &f = factor();
         if (!f.hasPlannedN())
             return R::failure(u"n: the levels have no planned group sizes yet; enter them in the levels panel, "
-                              u"or choose ratios with a total N"_s);
+                              u"or choose ratios with a total N"_s, u"n"_s);
         s.n = f.sizesAsDouble();
     } else {
-        auto ratios = column(RatioColumn, u"ratios"_s, -1);
+        auto ratios = column(RatioColumn, u"ratios"_s, u"ratios"_s, -1);
         if (!ratios)
-            return R::failure(ratios.error());
+            return R::failure(ratios.problem());
         s.ratios = *ratios;
         auto total = parseScalar(m_total, u"total"_s);
         if (!total)
-            return R::failure(total.error());
+            return R::failure(total.problem());
         s.total = *total;
     }
     auto alpha = parseScalar(m_alpha, u"alpha"_s);
     if (!alpha)
-        return R::failure(alpha.error());
+        return R::failure(alpha.problem());
     s.alpha = *alpha;
     auto target = parseScalar(m_target, u"target"_s);
     if (!target)
-        return R::failure(target.error());
+        return R::failure(target.problem());
     s.target = *target;
     s.oneSided = m_sided->currentIndex() == 1;
-    s.adjustment = PowerAdjustment(m_adjustment->currentData().toInt());
-    if (const QString problem = validatePowerSettings(s, k); !problem.isEmpty())
-        return R::failure(problem);
+    s.adjustment = Adjustment(m_adjustment->currentData().toInt());
+    if (Problem problem = validatePowerSettings(s, k); !problem.isEmpty())
+        return R::failure(std::move(problem));
     return s;
 }
 
-void PowerPanel::showMessages(const QString &message)
+void PowerPanel::showMessages(const Problem &problem)
 {
     for (QLabel *l : std::as_const(m_fieldNotes))
         l->hide();
     m_general->hide();
-    if (message.isEmpty())
+    if (problem.isEmpty())
         return;
-    QLabel *target = m_fieldNotes.value(fieldOf(message), m_general);
-    target->setText(look::mark(look::State::Problem) + u" "_s + message);
+    QLabel *target = m_fieldNotes.value(noteOf(problem.field), m_general);
+    target->setText(look::mark(look::State::Problem) + u" "_s + problem.message);
     target->show();
 }
 
@@ -448,21 +445,21 @@ void PowerPanel::recompute()
 {
     m_scheduled = false;
     m_report.reset();
-    auto fail = [this](const QString &message) {
-        showMessages(message);
+    auto fail = [this](const Problem &problem) {
+        showMessages(problem);
         m_results->setRowCount(0);
         m_notes->clear();
         m_chart->clear(tr("The power curves appear once every input is valid."));
     };
     const Result<ContrastRows> rows = contrastRowsOf(analysis());
     if (!rows)
-        return fail(rows.error());
+        return fail(rows.problem());
     const Result<PowerSettings> s = settings();
     if (!s)
-        return fail(s.error());
+        return fail(s.problem());
     const Result<PowerReport> report = computePower(rows->rows, rows->names, *s);
     if (!report)
-        return fail(report.error());
+        return fail(report.problem());
     showMessages({});
     showReport(*report, *rows, *s);
     m_report = *report;
@@ -520,7 +517,7 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
         curveUpTo = std::max(curveUpTo, *std::min_element(o.required.perLevel.begin(), o.required.perLevel.end()));
 
     QStringList notes = report.notes;
-    notes << tr("Per-test alpha %1 (%2).").arg(number(report.perTestAlpha, 4), powerAdjustmentTitle(report.adjustment));
+    notes << tr("Per-test alpha %1 (%2).").arg(number(report.perTestAlpha, 4), adjustmentTitle(report.adjustment));
     for (const ContrastPower &c : report.contrasts)
         for (const QString &n : c.notes)
             notes << c.name + u": "_s + n;

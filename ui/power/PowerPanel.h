@@ -75,7 +75,7 @@ private:
     void rebuildInputRows();
     void updateColumnVisibility();
     void schedule();
-    void showMessages(const QString &message);
+    void showMessages(const Problem &problem);
     void showReport(const PowerReport &report, const ContrastRows &rows, const PowerSettings &settings);
     QStringList columnTexts(int column) const;
 

@@ -1,6 +1,6 @@
 #include "ui/window/Demos.h"
 
-#include "core/files/SchemeFile.h"
+#include "core/model/Study.h"
 
 #include <QCoreApplication>
 #include <QDir>
@@ -42,30 +42,15 @@ QString installedDemoFolder()
     return QDir::cleanPath(QDir(QCoreApplication::applicationDirPath()).filePath(QString::fromUtf8(CB_DEMO_FOLDER)));
 }
 
-namespace {
-
-template<typename T, typename Load>
-Result<T> findDemo(const QString &name, Load load)
+Result<Study> loadDemoStudy(const QString &name)
 {
     QStringList known;
     for (const DemoStudy &d : demoStudies()) {
         if (d.name == name)
-            return load(d.path);
+            return loadStudy(d.path);
         known << d.name;
     }
-    return Result<T>::failure(u"demo '%1' does not exist; the demos are: %2"_s.arg(name, known.join(u", "_s)));
-}
-
-} // namespace
-
-Result<Scheme> loadDemo(const QString &name)
-{
-    return findDemo<Scheme>(name, [](const QString &path) { return loadScheme(path); });
-}
-
-Result<Study> loadDemoStudy(const QString &name)
-{
-    return findDemo<Study>(name, [](const QString &path) { return loadStudy(path); });
+    return Result<Study>::failure(u"demo '%1' does not exist; the demos are: %2"_s.arg(name, known.join(u", "_s)));
 }
 
 } // namespace cb

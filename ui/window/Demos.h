@@ -1,7 +1,6 @@
 #pragma once
 
 #include "core/base/Result.h"
-#include "core/model/Scheme.h"
 #include "core/model/Study.h"
 
 #include <QList>
@@ -23,9 +22,7 @@ struct DemoStudy
 QList<DemoStudy> demoStudies();
 // Where an installed program keeps its demos; empty before the application object exists.
 QString installedDemoFolder();
-// The demo's scheme, or a message naming the known demos (one-factor demos only).
-Result<Scheme> loadDemo(const QString &name);
-// Any demo: one factor or a design.
+// Any demo, one factor or a design, read by loadStudy; or a message naming the known demos.
 Result<Study> loadDemoStudy(const QString &name);
 
 } // namespace cb
