@@ -17,6 +17,7 @@ struct Term
 {
     std::vector<int> factors; // indices into Design::factors, ascending
     int within = -1;          // for nested terms: the factor whose levels split A's contrasts
+    friend bool operator==(const Term &, const Term &) = default;
 };
 
 // Two or three crossed factors, each with its own coding; cells are all level
@@ -35,6 +36,7 @@ struct Design
     QString validate() const;
     // The full factorial model: every main effect and every interaction.
     static std::vector<Term> fullFactorial(int factorCount);
+    friend bool operator==(const Design &, const Design &) = default;
 };
 
 inline constexpr int kMaxDesignFactors = 3;

@@ -28,6 +28,7 @@ struct Factor
     std::vector<double> sizesAsDouble() const;
     // Spacing, 1..k when none was given.
     std::vector<Weight> positions() const;
+    friend bool operator==(const Factor &, const Factor &) = default;
 
     // Empty when valid; otherwise what was expected, in the field it belongs to ("levels", "n",
     // "spacing").

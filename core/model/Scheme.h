@@ -50,6 +50,7 @@ struct Column
 {
     QString name;
     std::vector<Weight> weights;
+    friend bool operator==(const Column &, const Column &) = default;
 };
 
 // The document: a factor, how it is coded, and notes.
@@ -70,6 +71,7 @@ struct Scheme
     bool allExact() const;
     // Empty when valid: levels valid, every column has one weight per level, 1 <= m <= k (k+1 for indicator).
     QString validate() const;
+    friend bool operator==(const Scheme &, const Scheme &) = default;
 };
 
 // Options for a standard scheme. reference < 0 means the default:

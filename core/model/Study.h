@@ -22,6 +22,7 @@ struct Study
     bool isDesign() const { return design.factors.size() >= 2; }
     int factorCount() const { return int(design.factors.size()); }
     const Scheme &activeScheme() const { return design.factors[size_t(active)]; }
+    friend bool operator==(const Study &, const Study &) = default;
 };
 
 // The parts of a study that follow from the rest, made consistent: in a design every factor

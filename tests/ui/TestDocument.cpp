@@ -17,6 +17,9 @@ private slots:
     void undoRestoresAndCleanStateFollowsTheStack();
     void editsOfTheSameCellMergeIntoOneStep();
     void editsOfDifferentCellsStaySeparate();
+    void typingBackTheOldValueLeavesNoStep();
+    void anEditThatChangesNothingIsNoStep();
+    void undoAndRedoExchangeTheStudyManyTimes();
     void resetClearsHistory();
     void restoreCountsAsUnsaved();
 };
@@ -85,6 +88,52 @@ void TestDocument::editsOfDifferentCellsStaySeparate()
     d.edit(edits::withWeights(d.scheme(), {{2, 0, w(3)}}), u"second"_s, MergeId::Weight, u"2,0"_s);
     d.edit(edits::withWeights(d.scheme(), {{2, 0, w(4)}}), u"third"_s);
     QCOMPARE(d.undoStack()->count(), 3);
+}
+
+void TestDocument::typingBackTheOldValueLeavesNoStep()
+{
+    Document d;
+    // The first typed weight turns the treatment coding custom (and renames the column): a step.
+    d.edit(edits::withWeights(d.scheme(), {{3, 2, w(2)}}), u"custom"_s, MergeId::Weight, u"3,2"_s);
+    QCOMPARE(d.undoStack()->count(), 1);
+    d.undoStack()->setClean();
+    // Then typing 2 into another cell and back to its 1 leaves nothing to undo.
+    d.edit(edits::withWeights(d.scheme(), {{1, 0, w(2)}}), u"first"_s, MergeId::Weight, u"1,0"_s);
+    QCOMPARE(d.undoStack()->count(), 2);
+    QVERIFY(d.isModified());
+    d.edit(edits::withWeights(d.scheme(), {{1, 0, w(1)}}), u"back"_s, MergeId::Weight, u"1,0"_s);
+    QCOMPARE(d.undoStack()->count(), 1);
+    QVERIFY(!d.isModified());
+    QCOMPARE(d.scheme().columns[0].weights[1], Weight(1));
+}
+
+void TestDocument::anEditThatChangesNothingIsNoStep()
+{
+    Document d;
+    d.edit(d.scheme(), u"nothing"_s);
+    QCOMPARE(d.undoStack()->count(), 0);
+    QVERIFY(!d.isModified());
+}
+
+void TestDocument::undoAndRedoExchangeTheStudyManyTimes()
+{
+    Document d;
+    const Scheme start = d.scheme();
+    d.edit(edits::withWeights(d.scheme(), {{1, 0, w(2)}}), u"first"_s);
+    d.edit(edits::withWeights(d.scheme(), {{2, 1, w(5)}}), u"second"_s);
+    const Scheme end = d.scheme();
+    for (int round = 0; round < 3; ++round) {
+        d.undoStack()->undo();
+        d.undoStack()->undo();
+        QVERIFY(d.scheme() == start);
+        QVERIFY(!d.isModified());
+        d.undoStack()->redo();
+        QCOMPARE(d.scheme().columns[0].weights[1], w(2));
+        QCOMPARE(d.scheme().columns[1].weights[2], Weight(1));
+        d.undoStack()->redo();
+        QVERIFY(d.scheme() == end);
+        QCOMPARE(d.analysis().rank, analyze(end).rank);
+    }
 }
 
 void TestDocument::resetClearsHistory()

@@ -7,7 +7,7 @@ using namespace Qt::StringLiterals;
 namespace cb {
 
 namespace {
-// Each step keeps two copies of the study; for k = 50 one copy is about 200 KB.
+// Each step keeps one copy of the study (SchemeCommand); for k = 50 one copy is about 200 KB.
 constexpr int kUndoLimit = 500;
 } // namespace
 
@@ -31,7 +31,10 @@ void Document::edit(Scheme next, const QString &actionName, MergeId mergeId, con
 
 void Document::editStudy(Study next, const QString &actionName, MergeId mergeId, const QString &mergeKey)
 {
-    m_undo.push(new SchemeCommand(this, m_study, settled(std::move(next)), actionName, mergeId, mergeKey));
+    Study after = settled(std::move(next));
+    if (after == m_study)
+        return; // an edit that changes nothing is no undo step
+    m_undo.push(new SchemeCommand(this, std::move(after), actionName, mergeId, mergeKey));
 }
 
 void Document::reset(Scheme scheme, const QString &filePath)
@@ -65,9 +68,16 @@ void Document::markSaved(const QString &filePath)
     m_undo.setClean();
 }
 
-void Document::applyStudy(const Study &study)
+Study Document::exchangeStudy(Study study)
 {
-    m_study = study;
+    Study held = std::move(m_study);
+    applyStudy(std::move(study));
+    return held;
+}
+
+void Document::applyStudy(Study study)
+{
+    m_study = std::move(study);
     m_analysis = analyze(m_study.activeScheme());
     m_designAnalysis = m_study.isDesign() ? analyzeDesign(m_study.design) : DesignAnalysis{};
     ++m_revision;

@@ -57,8 +57,8 @@ public:
     void restore(Study study, const QString &filePath);
     void markSaved(const QString &filePath);
 
-    // For SchemeCommand only.
-    void applyStudy(const Study &study);
+    // For SchemeCommand only: makes `study` the document's and hands back the one it held.
+    Study exchangeStudy(Study study);
 
     // A small factor to start from: four levels, treatment coding.
     static Scheme starterScheme();
@@ -70,6 +70,7 @@ signals:
     void filePathChanged(const QString &filePath);
 
 private:
+    void applyStudy(Study study);
     void setFilePath(const QString &filePath);
 
     Study m_study;

@@ -4,12 +4,10 @@
 
 namespace cb {
 
-SchemeCommand::SchemeCommand(Document *document, Study before, Study after, const QString &text, MergeId mergeId,
-                             QString mergeKey)
+SchemeCommand::SchemeCommand(Document *document, Study after, const QString &text, MergeId mergeId, QString mergeKey)
     : QUndoCommand(text)
     , m_document(document)
-    , m_before(std::move(before))
-    , m_after(std::move(after))
+    , m_other(std::move(after))
     , m_mergeId(mergeId)
     , m_mergeKey(std::move(mergeKey))
 {
@@ -17,12 +15,17 @@ SchemeCommand::SchemeCommand(Document *document, Study before, Study after, cons
 
 void SchemeCommand::undo()
 {
-    m_document->applyStudy(m_before);
+    exchange();
 }
 
 void SchemeCommand::redo()
 {
-    m_document->applyStudy(m_after);
+    exchange();
+}
+
+void SchemeCommand::exchange()
+{
+    m_other = m_document->exchangeStudy(std::move(m_other));
 }
 
 int SchemeCommand::id() const
@@ -32,11 +35,13 @@ int SchemeCommand::id() const
 
 bool SchemeCommand::mergeWith(const QUndoCommand *other)
 {
-    const auto *o = static_cast<const SchemeCommand *>(other); // QUndoStack only merges commands with equal id()
+    // QUndoStack merges only commands with equal id(), after it has run other's redo(): the
+    // document now holds the merged step's result, and m_other still holds the study before it.
+    const auto *o = static_cast<const SchemeCommand *>(other);
     if (m_mergeId == MergeId::None || o->m_mergeKey != m_mergeKey)
         return false;
-    m_after = o->m_after;
     setText(o->text());
+    setObsolete(m_document->study() == m_other);
     return true;
 }
 

@@ -23,14 +23,16 @@ enum class MergeId : int {
     CellSize,      // one cell of the design's planned n
 };
 
-// The one edit command: the study (one factor's scheme, or a design of several)
-// before and after. Every change to a document goes through it, so every change
-// can be undone.
+// The one edit command. Every change to a document goes through it, so every change can be
+// undone. It keeps one study, the one the document does not hold: the study after the edit
+// until the first redo(), the study before it afterwards; undo() and redo() exchange it with
+// the document's. An edit that merges into this one and brings the study back to where it
+// was before makes the step obsolete, and QUndoStack drops it.
 class SchemeCommand : public QUndoCommand
 {
 public:
-    SchemeCommand(Document *document, Study before, Study after, const QString &text,
-                  MergeId mergeId = MergeId::None, QString mergeKey = {});
+    SchemeCommand(Document *document, Study after, const QString &text, MergeId mergeId = MergeId::None,
+                  QString mergeKey = {});
 
     void undo() override;
     void redo() override;
@@ -38,9 +40,10 @@ public:
     bool mergeWith(const QUndoCommand *other) override;
 
 private:
+    void exchange();
+
     Document *m_document;
-    Study m_before;
-    Study m_after;
+    Study m_other;
     MergeId m_mergeId;
     QString m_mergeKey;
 };
