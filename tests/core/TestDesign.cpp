@@ -149,7 +149,7 @@ void TestDesign::centredTwoByTwo()
     QVERIFY(row(a, 2) == (std::vector<Rational>{-h, h, -h, h}));           // B: mean(b2) - mean(b1)
     QVERIFY(row(a, 3) == (std::vector<Rational>{Rational(1), Rational(-1), Rational(-1), Rational(1)})); // (a2b2 - a2b1) - (a1b2 - a1b1)
     QCOMPARE(a.hypothesisSymbols[1], u"b1: mean(a2:b1, a2:b2) - mean(a1:b1, a1:b2) = 0"_s);
-    QCOMPARE(da.termNames, (QStringList{u"A"_s, u"B"_s, u"A x B"_s}));
+    QCOMPARE(da.termNames, (QStringList{u"A"_s, u"B"_s, u"A \u00d7 B"_s}));
     QVERIFY(!hasFinding(a, u"simple effect"_s));
     for (int t = 0; t < 3; ++t)
         for (int u = 0; u < 3; ++u)
@@ -176,15 +176,15 @@ void TestDesign::cellsAndColumnNames()
     d.terms = Design::fullFactorial(2);
     const DesignAnalysis da = analyzeDesign(d);
     QCOMPARE(da.cells.size(), 6);
-    QCOMPARE(da.cells[1], u"none:clay"_s);
+    QCOMPARE(da.cells[1], u"none\u00b7clay"_s);
     QCOMPARE(da.cellScheme.columns.size(), size_t(5));
-    QCOMPARE(da.cellScheme.columns[3].name, u"water1 : soil1"_s);
+    QCOMPARE(da.cellScheme.columns[3].name, u"water1 \u00d7 soil1"_s);
     QCOMPARE(da.columnTerm, (std::vector<int>{0, 0, 1, 2, 2}));
     // Kronecker product: (-1, 1/2, 1/2) (x) (1/2, -1/2).
     QCOMPARE(da.cellScheme.columns[3].weights[0].rational(), Rational(-1, 2));
     QCOMPARE(da.cellScheme.columns[3].weights[1].rational(), Rational(1, 2));
     QCOMPARE(da.cellScheme.columns[3].weights[5].rational(), Rational(-1, 4));
-    // The interaction "daily vs weekly" by soil: (daily:sandy - weekly:sandy) - (daily:clay - weekly:clay).
+    // The interaction "daily vs weekly" by soil: (daily·sandy - weekly·sandy) - (daily·clay - weekly·clay).
     const std::vector<Rational> r = row(da.analysis, 5);
     QVERIFY(r == (std::vector<Rational>{Rational(0), Rational(0), Rational(-1), Rational(1), Rational(1), Rational(-1)}));
 }
@@ -270,7 +270,7 @@ void TestDesign::fileRoundTripAndErrors()
         QCOMPARE(back->factors.size(), size_t(2));
         QVERIFY(back->cellN == d.cellN);
         QCOMPARE(back->terms.size(), size_t(3));
-        QCOMPARE(termName(*back, back->terms[2]), u"A x B"_s);
+        QCOMPARE(termName(*back, back->terms[2]), u"A \u00d7 B"_s);
         QVERIFY(back->factors[1].columns[0].weights[1] == d.factors[1].columns[0].weights[1]);
         // A design is not a single-factor scheme.
         auto single = schemeFromJson(data, u"d.json"_s);

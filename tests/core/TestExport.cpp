@@ -65,7 +65,7 @@ Analysis irrigationAnalysis()
     a.coefficientCount = 4;
     a.levels = irrigationScheme().factor.levels;
     a.columnNames = {u"watered_vs_none"_s, u"frequent_vs_weekly"_s, u"daily_vs_twice"_s};
-    a.coefficientNames = QStringList{u"(Intercept)"_s} + a.columnNames;
+    a.coefficientNames = QStringList{u"intercept"_s} + a.columnNames;
     a.rank = 4;
     a.fullRank = true;
     a.exact = true;
@@ -906,7 +906,7 @@ void TestExport::hypothesisTableFromAnalysis()
 {
     auto r = hypothesisTable(irrigationAnalysis());
     QVERIFY2(r.ok(), qPrintable(r.error()));
-    QCOMPARE(r->rowNames.front(), u"(Intercept)"_s);
+    QCOMPARE(r->rowNames.front(), u"intercept"_s);
     QCOMPARE(r->columnNames, irrigationScheme().factor.levels);
     QCOMPARE(r->cells[1][0].rational(), Rational(-1));
 }

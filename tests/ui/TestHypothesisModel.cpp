@@ -57,8 +57,8 @@ void TestHypothesisModel::showsWhatEachCoefficientTests()
     QCOMPARE(m->index(1, 0).data().toString(), u"0"_s);
     QCOMPARE(m->index(0, 1).data().toString(), u"\u22121"_s);
     QCOMPARE(m->index(1, 1).data().toString(), u"1"_s);
-    QCOMPARE(m->headerData(0, Qt::Horizontal).toString(), u"b0  intercept"_s);
-    QCOMPARE(m->headerData(1, Qt::Horizontal).toString(), u"b1  B vs A"_s);
+    QCOMPARE(m->headerData(0, Qt::Horizontal).toString(), u"b0 intercept"_s);
+    QCOMPARE(m->headerData(1, Qt::Horizontal).toString(), u"b1 B vs A"_s);
 }
 
 void TestHypothesisModel::editingHypothesesRebuildsTheCodingAndRoundTrips()
