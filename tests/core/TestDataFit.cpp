@@ -1,4 +1,5 @@
 // Tests of the fit from per-level statistics, p-value adjustment and level matching.
+#include "core/analysis/Analysis.h"
 #include "core/data/DataFit.h"
 #include "tests/support/FitTestSupport.h"
 #include "core/model/Scheme.h"
@@ -538,7 +539,7 @@ void TestDataFit::writesJson()
     QCOMPARE(skipped.value(u"count"_s).toInt(), 2);
     QCOMPARE(skipped.value(u"first"_s).toArray()[1].toObject().value(u"line"_s).toInt(), 33);
     QCOMPARE(skipped.value(u"first"_s).toArray()[0].toObject().value(u"reason"_s).toString(),
-             u"response (column 'weight') is missing"_s);
+             u"response (column 'y') is missing"_s);
 }
 
 // The scheme path: columns and hypotheses come from the scheme and its analysis.

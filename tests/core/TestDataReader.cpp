@@ -1,5 +1,6 @@
 // Tests of the streaming long-format reader and the summary-table reader.
 #include "core/data/DataReader.h"
+#include "core/model/Design.h"
 #include "tests/support/FitTestSupport.h"
 
 #include <QJsonArray>
@@ -617,7 +618,7 @@ void TestDataReader::namesDelimiters()
 }
 
 // A crossed design read with one column per factor: each row's cell is its values joined with
-// ':' (Design::cellNames). Statistics per cell are checked against a plain two-pass computation
+// kCellJoiner, a middle dot (Design::cellNames). Statistics per cell are checked against a plain two-pass computation
 // over the rows written, for every block size down to a few bytes (records then straddle
 // blocks) and with quoted and padded values; an empty value in any factor column leaves the
 // row out with a message naming that column.
@@ -630,7 +631,8 @@ void TestDataReader::joinsFactorColumnsIntoCells()
     std::vector<Row> rows;
     for (int i = 0; i < 400; ++i) {
         const int ia = int(rng() % 2), ib = int(rng() % 2), ic = int(rng() % 2);
-        const Row row{a[ia] + ':' + b[ib] + ':' + c[ic], std::round(u(rng) * 100) / 100};
+        const QByteArray dot(kCellJoiner.data(), qsizetype(kCellJoiner.size()));
+        const Row row{a[ia] + dot + b[ib] + dot + c[ic], std::round(u(rng) * 100) / 100};
         rows.push_back(row);
         const QByteArray site = i % 7 == 0 ? '"' + a[ia] + '"' : (i % 11 == 0 ? "  " + a[ia] + " " : a[ia]);
         bytes += QByteArray::number(i) + ',' + b[ib] + ',' + site + ',' + QByteArray::number(row.y, 'g', 17) + ',' + c[ic] + '\n';

@@ -1415,16 +1415,16 @@ void TestExport::cliExportsDesignOverItsCells()
     QVERIFY2(r.exitCode == 0, r.err.constData());
     const QStringList lines = r.outText().split(QRegularExpression(u"\r?\n"_s), Qt::SkipEmptyParts);
     QCOMPARE(lines.size(), 5);
-    QCOMPARE(lines[1], u"a1:b1,-1/2,-1/2,1/4"_s);
-    QCOMPARE(lines[2], u"a1:b2,-1/2,1/2,-1/4"_s);
-    QCOMPARE(lines[3], u"a2:b1,1/2,-1/2,-1/4"_s);
-    QCOMPARE(lines[4], u"a2:b2,1/2,1/2,1/4"_s);
+    QCOMPARE(lines[1], u"a1\u00b7b1,-1/2,-1/2,1/4"_s);
+    QCOMPARE(lines[2], u"a1\u00b7b2,-1/2,1/2,-1/4"_s);
+    QCOMPARE(lines[3], u"a2\u00b7b1,1/2,-1/2,-1/4"_s);
+    QCOMPARE(lines[4], u"a2\u00b7b2,1/2,1/2,1/4"_s);
 
     d.cellN = {5, 5, 0, 5};
     QVERIFY(writeFile(path, QString::fromUtf8(designToJson(d))));
     const Run empty = run(cliPath(), {u"export"_s, u"--file"_s, path, u"--format"_s, u"csv"_s}, dir.path());
     QCOMPARE(empty.exitCode, 2);
-    QVERIFY2(empty.errText().contains(u"cell 'a2:b1' is empty"_s), empty.err.constData());
+    QVERIFY2(empty.errText().contains(u"cell 'a2\u00b7b1' is empty"_s), empty.err.constData());
 }
 
 #include "TestExport.moc"
