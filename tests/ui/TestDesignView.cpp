@@ -134,7 +134,7 @@ void TestDesignView::pictureShowsCoresWeightsForTheInteraction()
     QCOMPARE(p->picture()->cellTexts(), (QStringList{u"1/2"_s, u"1/2"_s, u"\u22121/2"_s, u"\u22121/2"_s}));
     QVERIFY(!hasFinding(p->findingsText(), u"simple effect"_s));
     // Choosing a column in the term tree shows it too.
-    QTreeWidgetItem *interaction = termItem(p->termTree(), u"cue x load"_s);
+    QTreeWidgetItem *interaction = termItem(p->termTree(), u"cue \u00d7 load"_s);
     QVERIFY(interaction);
     QCOMPARE(interaction->childCount(), 1);
     p->termTree()->setCurrentItem(interaction->child(0));
@@ -201,13 +201,13 @@ void TestDesignView::leavingOutATermShowsTheCellSizeDependence()
     Document *d = f.window->document();
     DesignPanel *p = f.window->designPanel();
     QVERIFY(!hasFinding(p->findingsText(), u"depend on the cell sizes"_s));
-    QTreeWidgetItem *interaction = termItem(p->termTree(), u"margin x mowing"_s);
+    QTreeWidgetItem *interaction = termItem(p->termTree(), u"margin \u00d7 mowing"_s);
     QVERIFY(interaction);
     interaction->setCheckState(0, Qt::Unchecked);
     QCOMPARE(d->design().terms.size(), size_t(2));
     QVERIFY2(hasFinding(p->findingsText(), u"depend on the cell sizes"_s), qPrintable(p->findingsText()));
     QVERIFY(hasFinding(p->findingsText(), u"main effects only"_s));
-    QVERIFY(!termItem(p->termTree(), u"margin x mowing"_s)->childCount());
+    QVERIFY(!termItem(p->termTree(), u"margin \u00d7 mowing"_s)->childCount());
     d->undoStack()->undo();
     QCOMPARE(d->design().terms.size(), size_t(3));
     QVERIFY(!hasFinding(p->findingsText(), u"depend on the cell sizes"_s));
@@ -217,7 +217,7 @@ void TestDesignView::leavingOutATermShowsTheCellSizeDependence()
     QVERIFY(hasFinding(p->findingsText(), u"columns for"_s)); // too many columns: core's message
     QVERIFY(p->picture()->isEmpty());
     termItem(p->termTree(), u"margin"_s)->setCheckState(0, Qt::Unchecked);
-    termItem(p->termTree(), u"margin x mowing"_s)->setCheckState(0, Qt::Unchecked);
+    termItem(p->termTree(), u"margin \u00d7 mowing"_s)->setCheckState(0, Qt::Unchecked);
     QCOMPARE(d->designAnalysis().analysis.columnCount, 5);
     QVERIFY(!p->picture()->isEmpty());
 }
@@ -325,7 +325,7 @@ void TestDesignView::removingAFactorKeepsTheTermsWithoutIt()
     QStringList names;
     for (const Term &t : withoutAge->design.terms)
         names << termName(withoutAge->design, t);
-    QCOMPARE(names, (QStringList{u"cue"_s, u"load"_s, u"cue x load"_s}));
+    QCOMPARE(names, (QStringList{u"cue"_s, u"load"_s, u"cue \u00d7 load"_s}));
 
     auto withoutCue = withFactorRemoved(s, 0);
     QVERIFY(withoutCue);
@@ -390,7 +390,7 @@ void TestDesignView::saveThenOpenRoundTripsTheDesign()
     QVERIFY(f.window->openDemo(u"hedgerow"_s));
     Document *d = f.window->document();
     f.window->designPanel()->makeActive(1);
-    termItem(f.window->designPanel()->termTree(), u"margin x mowing"_s)->setCheckState(0, Qt::Unchecked);
+    termItem(f.window->designPanel()->termTree(), u"margin \u00d7 mowing"_s)->setCheckState(0, Qt::Unchecked);
     const QByteArray saved = designToJson(d->design());
     const QString path = f.dir.filePath(u"field.json"_s);
     QVERIFY(f.window->saveTo(path));

@@ -197,7 +197,7 @@ void TestHypothesisModel::aNewComparisonIsADraftUntilItsWeightsAreTyped()
     QVERIFY(m->addComparison());
     QCOMPARE(m->columnCount(), 4);
     QVERIFY(m->hasDraft());
-    QCOMPARE(m->headerData(3, Qt::Horizontal).toString().replace(u'\n', u' '), u"\u2717 b3  new comparison"_s);
+    QCOMPARE(m->headerData(3, Qt::Horizontal).toString().replace(u'\n', u' '), u"\u2717 b3 new comparison"_s);
     QCOMPARE(d->undoStack()->count(), 1); // nothing applied yet
     // D against the average of B and C.
     QVERIFY(m->setCellTexts({{1, 3, u"-1/2"_s}, {2, 3, u"-1/2"_s}, {3, 3, u"1"_s}}, u"new comparison"_s));
