@@ -6,11 +6,10 @@
 #include "core/data/DataReader.h"
 #include "core/model/Design.h"
 #include "core/model/Scheme.h"
+#include "core/report/FitReport.h"
 
 #include <QCommandLineParser>
 #include <QJsonDocument>
-
-#include <cmath>
 
 using namespace Qt::StringLiterals;
 
@@ -22,25 +21,6 @@ int badInput(Io &io, const QString &message)
 {
     io.err << "contrast-bench-cli fit: " << message << '\n';
     return kExitBadInput;
-}
-
-// Short text for a number: 4 significant digits for statistics, "n/a" when undefined.
-QString num(double x, int digits = 4)
-{
-    if (std::isnan(x))
-        return u"n/a"_s;
-    if (std::isinf(x))
-        return x > 0 ? u"inf"_s : u"-inf"_s;
-    return QString::number(x, 'g', digits);
-}
-
-QString pText(double p)
-{
-    if (std::isnan(p))
-        return u"n/a"_s;
-    if (p < 1e-16)
-        return u"<1e-16"_s;
-    return QString::number(p, 'g', p < 1e-4 ? 2 : 4);
 }
 
 // The data options, read before the scheme's so that --factor names the data column
@@ -120,7 +100,7 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
     return a;
 }
 
-// factorColumns: one per factor (a design's cells are the joined values, "grass:early").
+// factorColumns: one per factor (a design's cells are the joined values, "grass·early").
 Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a, const QStringList &factorColumns)
 {
     if (p.isSet(u"summary"_s))
@@ -133,78 +113,6 @@ Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a
     o.delimiter = a.delimiter;
     o.header = a.header;
     return readLevelData(p.value(u"data"_s), o);
-}
-
-// Left-justified in width, with at least one space after.
-QString pad(const QString &s, qsizetype width)
-{
-    return s.size() < width ? s.leftJustified(width) : s + u' ';
-}
-
-void printReport(const Scheme &scheme, bool design, const DataSummary &data, const FitResult &fit, Io &io)
-{
-    QTextStream &o = io.out;
-    if (design)
-        o << "Fit of the design's coding over the cells of " << scheme.factor.name << " to " << data.source;
-    else
-        o << "Fit of the " << schemeTitle(scheme.kind) << " coding to " << data.source;
-    if (data.fromSummaryTable) {
-        o << " (summary table)\n";
-    } else {
-        QStringList columns{data.columns.value(data.factorIndex)};
-        for (int i : data.moreFactorIndices)
-            columns << data.columns.value(i);
-        o << (columns.size() > 1 ? " (cells from columns '" : " (levels from column '") << columns.join(u"', '"_s)
-          << "', response '" << data.columns.value(data.responseIndex) << "'"
-          << (data.weighted ? u", weighted"_s : QString()) << ")\n";
-    }
-    if (!data.fromSummaryTable)
-        o << data.records << " rows read, " << data.usedRows << " used, " << data.skippedRows << " left out.\n";
-    o << '\n';
-
-    qsizetype w = 8;
-    for (const QString &l : fit.levels)
-        w = std::max(w, l.size() + 2);
-    o << pad(design ? u"Cell"_s : u"Level"_s, w) << pad(u"n"_s, 10) << pad(u"mean"_s, 12) << u"sd"_s << '\n';
-    for (size_t j = 0; j < fit.levelStats.size(); ++j) {
-        const RunningStats &s = fit.levelStats[j];
-        o << pad(fit.levels.value(qsizetype(j)), w) << pad(num(s.n, 10), 10) << pad(num(s.mean, 6), 12) << num(s.sd(), 5)
-          << '\n';
-    }
-    o << '\n';
-
-    qsizetype cw = 13;
-    for (const FitCoefficient &c : fit.coefficients)
-        cw = std::max(cw, c.name.size() + 2);
-    const QString ci = u"%1% CI"_s.arg(100.0 * (1.0 - fit.alpha), 0, 'g', 4);
-    o << pad(u"Coefficient"_s, cw) << pad(u"estimate"_s, 11) << pad(u"H x means"_s, 11) << pad(u"SE"_s, 10)
-      << pad(u"t"_s, 9) << pad(u"p"_s, 10);
-    if (fit.adjust != Adjustment::None)
-        o << pad(u"p (%1)"_s.arg(adjustmentId(fit.adjust)), 17);
-    o << ci << '\n';
-    for (const FitCoefficient &c : fit.coefficients) {
-        o << pad(c.name, cw) << pad(num(c.estimate, 6), 11) << pad(num(c.hypothesisEstimate, 6), 11) << pad(num(c.se), 10)
-          << pad(num(c.t), 9) << pad(pText(c.p), 10);
-        if (fit.adjust != Adjustment::None)
-            o << pad(c.inFamily ? pText(c.pAdjusted) : u"-"_s, 17);
-        o << '[' << num(c.ciLow, 5) << ", " << num(c.ciHigh, 5) << ']' << (c.agrees ? u""_s : u"  (differs)"_s) << '\n';
-        if (!c.hypothesis.isEmpty())
-            o << pad(QString(), cw) << "estimates " << c.hypothesis << '\n';
-    }
-    o << '\n';
-    o << "Residual SD " << num(fit.sigma) << " on " << num(fit.df, 10) << " df; R squared " << num(fit.rSquared)
-      << (fit.centred ? u""_s : u" (about 0)"_s) << '\n';
-    o << "F(" << num(fit.fDf1, 10) << ", " << num(fit.fDf2, 10) << ") = " << num(fit.f) << ", p = " << pText(fit.fP)
-      << "; tests that " << fit.omnibusHypothesis << '\n';
-    for (const QString &n : fit.notes)
-        o << "Note: " << n << '\n';
-    if (data.skippedRows > 0) {
-        o << "\nRows left out (" << data.skippedRows << "):\n";
-        for (const RowProblem &r : data.skipped)
-            o << "  line " << r.line << ": " << r.message << '\n';
-        if (data.skippedRows > qint64(data.skipped.size()))
-            o << "  and " << (data.skippedRows - qint64(data.skipped.size())) << " more\n";
-    }
 }
 
 } // namespace
@@ -258,7 +166,7 @@ int runFit(const QStringList &args, Io &io)
     if (p.isSet(u"json"_s))
         io.out << QString::fromUtf8(QJsonDocument(fitResultToJson(*fit, *data)).toJson(QJsonDocument::Indented));
     else
-        printReport(*scheme, design.has_value(), *data, *fit, io);
+        io.out << fitReport(*scheme, design.has_value(), *data, *fit);
     return kExitOk;
 }
 

@@ -3,8 +3,10 @@
 #include "app/cli/SchemeArguments.h"
 
 #include "core/analysis/Analysis.h"
+#include "core/base/NumberText.h"
 #include "core/model/Design.h"
 #include "core/power/Power.h"
+#include "core/report/TextTable.h"
 
 #include <QCommandLineParser>
 #include <QJsonArray>
@@ -183,9 +185,7 @@ void useRatiosAsSizes(const QCommandLineParser &p, Scheme &scheme)
 
 QString number(double x)
 {
-    if (!std::isfinite(x))
-        return u"-"_s;
-    return QString::number(x, 'g', 4);
+    return numberText(x);
 }
 
 QString degrees(double df)
@@ -225,26 +225,6 @@ QString sizesLine(const std::vector<double> &n)
     return u"%1 (N = %2)"_s.arg(items.join(u", "_s), number(total));
 }
 
-// Columns padded to their widest cell.
-QString table(const QList<QStringList> &rows)
-{
-    QList<qsizetype> width;
-    for (const QStringList &r : rows)
-        for (qsizetype c = 0; c < r.size(); ++c) {
-            if (width.size() <= c)
-                width << 0;
-            width[c] = std::max(width[c], r[c].size());
-        }
-    QString out;
-    for (const QStringList &r : rows) {
-        QString line;
-        for (qsizetype c = 0; c < r.size(); ++c)
-            line += (c + 1 < r.size() ? r[c].leftJustified(width[c] + 2) : r[c]);
-        out += u"  "_s + line + u'\n';
-    }
-    return out;
-}
-
 void bullets(QString &out, const QString &title, const QStringList &items)
 {
     if (items.isEmpty())
@@ -280,12 +260,13 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
                .arg(number(r.perTestAlpha))
                .arg(number(r.target));
 
-    QList<QStringList> rows{{u"contrast"_s, u"estimate"_s, u"SE"_s, u"effect"_s, u"noncentrality"_s, u"df"_s,
-                             u"power"_s, u"n for target"_s}};
+    TextTable table({u"contrast"_s, u"estimate"_s, u"SE"_s, u"effect"_s, u"noncentrality"_s, u"df"_s, u"power"_s,
+                     u"n for target"_s});
+    table.setAlign(7, TextTable::Align::Left);
     for (const ContrastPower &c : r.contrasts)
-        rows << QStringList{c.name, number(c.estimate), number(c.se), number(c.effectSize), number(c.noncentrality),
-                            degrees(c.df), number(c.power), neededText(c, r.oneSided)};
-    out += u'\n' + table(rows);
+        table.addRow({c.name, number(c.estimate), number(c.se), number(c.effectSize), number(c.noncentrality),
+                      degrees(c.df), number(c.power), neededText(c, r.oneSided)});
+    out += u'\n' + table.text();
 
     const OmnibusPower &o = r.omnibus;
     out += u"\nOmnibus F-test (df %1 and %2, alpha %3): f = %4, lambda = %5, power %6, n for target %7\n"_s

@@ -579,6 +579,11 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
 
 } // namespace
 
+QString coefficientLabel(bool intercept, int index, const QString &name)
+{
+    return u"b%1 %2"_s.arg(intercept ? index : index + 1).arg(name);
+}
+
 Analysis analyze(const Scheme &s)
 {
     Analysis a;
@@ -592,7 +597,7 @@ Analysis analyze(const Scheme &s)
         a.columnNames << c.name;
     a.coefficientNames.reserve(a.coefficientCount);
     if (s.intercept)
-        a.coefficientNames << u"(Intercept)"_s;
+        a.coefficientNames << kInterceptName.toString();
     a.coefficientNames << a.columnNames;
 
     if (QString e = s.validate(); !e.isEmpty()) {

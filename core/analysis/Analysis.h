@@ -63,6 +63,13 @@ struct Finding
     int column2 = -1; // second column for pairwise findings, or -1
 };
 
+// The constant's name among the coefficient names (JSON, exports, dependencies).
+inline constexpr QStringView kInterceptName = u"intercept";
+
+// A coefficient as the reports and the window label it: "b0 intercept", "b2 low vs control".
+// b0 is the intercept; without one the coefficients count from b1. index counts from 0.
+QString coefficientLabel(bool intercept, int index, const QString &name);
+
 // What a coding implies: hypotheses and diagnostics. Recomputed on every change.
 struct Analysis
 {
@@ -72,7 +79,7 @@ struct Analysis
     bool intercept = true;
     QStringList levels;
     QStringList columnNames;      // m names
-    QStringList coefficientNames; // p names, "(Intercept)" first when there is one
+    QStringList coefficientNames; // p names, kInterceptName first when there is one
 
     // Exact arithmetic was used for hypotheses, sums and orthogonality.
     bool exact = false;
@@ -81,7 +88,7 @@ struct Analysis
     int rank = 0;
     bool fullRank = false;
     // For a rank-deficient design: each dependent column written in terms of
-    // earlier ones, e.g. "(Intercept) = a + b + c". Empty otherwise.
+    // earlier ones, e.g. "intercept = a + b + c". Empty otherwise.
     QStringList dependencies;
 
     // Hypothesis matrix, p rows (intercept first) of k weights on the level means.

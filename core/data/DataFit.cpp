@@ -1,6 +1,7 @@
 #include "core/data/DataFit.h"
 
 #include "core/analysis/Analysis.h"
+#include "core/base/NumberText.h"
 #include "core/model/Scheme.h"
 
 #include <QJsonArray>
@@ -332,8 +333,8 @@ Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &
                      "has fewer columns than levels minus one, so what it estimates depends on the group sizes, and "
                      "the observed sizes differ from the planned ones"_s;
     if (!fit.centred)
-        fit.notes << u"the coding does not span a common mean, so F tests that every coefficient is zero and "
-                     "R squared is measured about 0"_s;
+        fit.notes << u"the coding does not span a common mean, so F tests that every coefficient is zero and the "
+                     "share of variance explained is measured about 0"_s;
     return fit;
 }
 
@@ -375,33 +376,28 @@ Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const
 // ---------------------------------------------------------------------------
 // JSON
 
-static QJsonValue number(double x)
-{
-    return std::isfinite(x) ? QJsonValue(x) : QJsonValue(QJsonValue::Null);
-}
-
 QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data)
 {
     QJsonArray levels;
     for (size_t j = 0; j < fit.levelStats.size(); ++j) {
         const RunningStats &s = fit.levelStats[j];
         levels.append(QJsonObject{{u"name"_s, fit.levels.value(qsizetype(j))},
-                                  {u"n"_s, number(s.n)},
+                                  {u"n"_s, jsonNumber(s.n)},
                                   {u"rows"_s, double(s.rows)},
-                                  {u"mean"_s, number(s.mean)},
-                                  {u"sd"_s, number(s.sd())}});
+                                  {u"mean"_s, jsonNumber(s.mean)},
+                                  {u"sd"_s, jsonNumber(s.sd())}});
     }
     QJsonArray coefficients;
     for (const FitCoefficient &c : fit.coefficients) {
         QJsonObject o{{u"name"_s, c.name},
-                      {u"estimate"_s, number(c.estimate)},
-                      {u"se"_s, number(c.se)},
-                      {u"t"_s, number(c.t)},
-                      {u"p"_s, number(c.p)},
-                      {u"p_adjusted"_s, number(c.pAdjusted)},
-                      {u"ci_low"_s, number(c.ciLow)},
-                      {u"ci_high"_s, number(c.ciHigh)},
-                      {u"hypothesis_estimate"_s, number(c.hypothesisEstimate)},
+                      {u"estimate"_s, jsonNumber(c.estimate)},
+                      {u"se"_s, jsonNumber(c.se)},
+                      {u"t"_s, jsonNumber(c.t)},
+                      {u"p"_s, jsonNumber(c.p)},
+                      {u"p_adjusted"_s, jsonNumber(c.pAdjusted)},
+                      {u"ci_low"_s, jsonNumber(c.ciLow)},
+                      {u"ci_high"_s, jsonNumber(c.ciHigh)},
+                      {u"hypothesis_estimate"_s, jsonNumber(c.hypothesisEstimate)},
                       {u"agrees"_s, c.agrees}};
         if (!c.hypothesis.isEmpty())
             o.insert(u"hypothesis"_s, c.hypothesis);
@@ -413,17 +409,17 @@ QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data)
     return QJsonObject{
         {u"levels"_s, levels},
         {u"coefficients"_s, coefficients},
-        {u"sigma"_s, number(fit.sigma)},
-        {u"df"_s, number(fit.df)},
-        {u"r_squared"_s, number(fit.rSquared)},
-        {u"f"_s, number(fit.f)},
-        {u"f_df1"_s, number(fit.fDf1)},
-        {u"f_df2"_s, number(fit.fDf2)},
-        {u"f_p"_s, number(fit.fP)},
+        {u"sigma"_s, jsonNumber(fit.sigma)},
+        {u"df"_s, jsonNumber(fit.df)},
+        {u"r_squared"_s, jsonNumber(fit.rSquared)},
+        {u"f"_s, jsonNumber(fit.f)},
+        {u"f_df1"_s, jsonNumber(fit.fDf1)},
+        {u"f_df2"_s, jsonNumber(fit.fDf2)},
+        {u"f_p"_s, jsonNumber(fit.fP)},
         {u"omnibus"_s, fit.omnibusHypothesis},
         {u"alpha"_s, fit.alpha},
         {u"adjust"_s, adjustmentId(fit.adjust)},
-        {u"n"_s, number(fit.totalN)},
+        {u"n"_s, jsonNumber(fit.totalN)},
         {u"notes"_s, QJsonArray::fromStringList(fit.notes)},
         {u"skipped_rows"_s, QJsonObject{{u"count"_s, double(data.skippedRows)}, {u"first"_s, first}}},
         {u"data"_s, QJsonObject{{u"source"_s, data.source},

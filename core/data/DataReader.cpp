@@ -1,4 +1,5 @@
 #include "core/data/DataReader.h"
+#include "core/model/Design.h"
 
 #include <QFile>
 #include <QFileInfo>
@@ -1210,7 +1211,7 @@ private:
         return true;
     }
 
-    // A design's cell name, "grass:early", from the row's factor values (trimmed) into m_cell.
+    // A design's cell name, "grass·early" (kCellJoiner), from the row's factor values (trimmed) into m_cell.
     // False when one is empty: the row is left out and reported, naming the column.
     bool joinCell(qint64 line, std::string_view first, const std::string_view (&more)[2])
     {
@@ -1224,7 +1225,7 @@ private:
                 return false;
             }
             if (i > 0)
-                m_cell += ':';
+                m_cell += kCellJoiner;
             m_cell.append(part);
         }
         return true;

@@ -83,7 +83,7 @@ struct DataReadOptions
     // Columns by header name, or by 1-based number ("2") when no header cell has that name.
     QString factorColumn;
     // Further factor columns of a crossed design (at most two): a row's level is then its factor
-    // values joined with ':' in this order, as Design::cellNames() names the cells ("grass:early").
+    // values joined with kCellJoiner in this order, as Design::cellNames() names the cells ("grass·early").
     QStringList moreFactorColumns;
     QString responseColumn;
     QString weightColumn; // empty: every row has weight 1
@@ -139,7 +139,7 @@ Result<DataSummary> readLevelDataFromBytes(const QByteArray &bytes, const QStrin
 
 // A summary table: one row per level with its name, n, mean and SD. The header, when
 // there is one, names the columns (level/group/cell, n/count, mean, sd/stdev, any order;
-// a design's cells are named as Design::cellNames() names them, "grass:early");
+// a design's cells are named as Design::cellNames() names them, "grass·early");
 // without one the columns are taken in that order. SD may be empty only when n is 1.
 struct SummaryReadOptions
 {

@@ -71,7 +71,7 @@ std::vector<Column> termColumns(const Design &d, const Term &t)
             else if (!perFactor[f][idx[f]].name.isEmpty())
                 nameParts << perFactor[f][idx[f]].name;
         }
-        c.name = nameParts.join(u" : "_s);
+        c.name = nameParts.join(kCrossJoiner);
         if (!withinPart.isEmpty())
             c.name += u" (within %1)"_s.arg(withinPart);
         result.push_back(std::move(c));
@@ -88,7 +88,7 @@ std::vector<Column> termColumns(const Design &d, const Term &t)
 }
 
 // An interaction row as a difference of differences, e.g.
-// "(weekly:clay - none:clay) - (weekly:sandy - none:sandy)", splitting on the term's last
+// "(weekly·clay - none·clay) - (weekly·sandy - none·sandy)", splitting on the term's last
 // factor and recursing; empty when the row does not factor that way.
 QString differenceOfDifferences(const Design &d, const std::vector<Weight> &h, std::vector<int> factors, const QStringList &cells)
 {
@@ -177,13 +177,14 @@ int Design::cellCount() const
 
 QStringList Design::cellNames() const
 {
+    const QString joiner = cellJoiner();
     QStringList out;
     for (int c = 0; c < cellCount(); ++c) {
         const std::vector<int> lv = cellLevels(*this, c);
         QStringList parts;
         for (size_t f = 0; f < factors.size(); ++f)
             parts << factors[f].factor.levels[lv[f]];
-        out << parts.join(u":"_s);
+        out << parts.join(joiner);
     }
     return out;
 }
@@ -246,7 +247,7 @@ QString termName(const Design &d, const Term &t)
     QStringList parts;
     for (int f : t.factors)
         parts << factorLabel(d, f);
-    QString n = parts.join(u" x "_s);
+    QString n = parts.join(kCrossJoiner);
     if (t.within >= 0)
         n += u" within "_s + factorLabel(d, t.within);
     return n;
@@ -264,7 +265,7 @@ Result<Scheme> cellScheme(const Design &d)
     QStringList names;
     for (const Scheme &f : d.factors)
         names << f.factor.name;
-    s.factor.name = names.join(u" x "_s);
+    s.factor.name = names.join(kCrossJoiner);
     if (!d.cellN.empty()) {
         bool anyEmpty = false;
         for (const Rational &n : d.cellN)

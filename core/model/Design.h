@@ -7,9 +7,23 @@
 #include <QString>
 #include <QStringList>
 
+#include <string_view>
 #include <vector>
 
 namespace cb {
+
+// Joins the parts of a crossed name: terms ("margin × mowing"), interaction columns
+// ("wide vs narrow × late vs early") and the name of a design's cell factor.
+inline constexpr QStringView kCrossJoiner = u" \u00d7 ";
+// Joins a cell's levels, the first factor first: "grass·early" (a middle dot, UTF-8 here: a
+// slash or a colon would read as division or a formula operator in hypothesis texts such as
+// "(grass·late - bare·late)/2"). The data reader joins a row's factor values the same
+// way, so a data file's cells match the design's.
+inline constexpr std::string_view kCellJoiner = "\u00b7";
+inline QString cellJoiner()
+{
+    return QString::fromUtf8(kCellJoiner.data(), qsizetype(kCellJoiner.size()));
+}
 
 // A term of a crossed design: a main effect ({A}), an interaction ({A, B}, {A, B, C}),
 // or a factor's contrasts nested within each level of another (factors = {A}, within = B).
@@ -31,7 +45,7 @@ struct Design
     QString notes;
 
     int cellCount() const;
-    QStringList cellNames() const; // "weekly:sandy"
+    QStringList cellNames() const; // "weekly·sandy" (levels joined by kCellJoiner)
     // Empty when valid; otherwise names the field and what was expected.
     QString validate() const;
     // The full factorial model: every main effect and every interaction.

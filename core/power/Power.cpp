@@ -2,6 +2,7 @@
 
 #include "core/analysis/Analysis.h"
 #include "core/model/Factor.h"
+#include "core/base/NumberText.h"
 #include "core/base/Weight.h"
 
 // Boost 1.74's fisher_f quantile trips GCC's maybe-uninitialized check when inlined.
@@ -44,7 +45,7 @@ QString num(double x)
 // Short text for people: 4 significant digits.
 QString shortNum(double x)
 {
-    return QString::number(x, 'g', 4);
+    return numberText(x);
 }
 
 bool positiveFinite(double x)
@@ -215,11 +216,6 @@ QString unreachableNote(const SampleSize &s, double target)
         return u"the power could not be evaluated at some sizes; no sample size is given"_s;
     return u"power %1 is not reached with up to %2 in the smallest group (power there: %3)"_s
         .arg(shortNum(target), QString::number(kPowerSearchCap), shortNum(s.power));
-}
-
-QJsonValue jsonNumber(double x)
-{
-    return std::isfinite(x) ? QJsonValue(x) : QJsonValue(QJsonValue::Null);
 }
 
 void putSampleSize(QJsonObject &o, const SampleSize &s)

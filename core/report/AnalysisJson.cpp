@@ -2,21 +2,9 @@
 
 #include <QJsonArray>
 
-#include <cmath>
-
 using namespace Qt::StringLiterals;
 
 namespace cb {
-
-QJsonValue jsonNumber(double v)
-{
-    return std::isfinite(v) ? QJsonValue(v) : QJsonValue(QJsonValue::Null);
-}
-
-QJsonValue jsonNumber(const std::optional<double> &v)
-{
-    return v ? jsonNumber(*v) : QJsonValue(QJsonValue::Null);
-}
 
 namespace {
 

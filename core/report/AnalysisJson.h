@@ -1,6 +1,7 @@
 #pragma once
 
 #include "core/analysis/Analysis.h"
+#include "core/base/NumberText.h"
 #include "core/model/Scheme.h"
 
 #include <QJsonObject>
@@ -9,9 +10,5 @@ namespace cb {
 
 // The analysis as one JSON object (the command line's --json output; keys in DEVELOPERS.md).
 QJsonObject analysisToJson(const Scheme &scheme, const Analysis &analysis);
-
-// Helpers shared by every JSON writer: non-finite numbers become null.
-QJsonValue jsonNumber(double v);
-QJsonValue jsonNumber(const std::optional<double> &v);
 
 } // namespace cb

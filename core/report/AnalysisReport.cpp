@@ -1,6 +1,8 @@
 #include "core/report/AnalysisReport.h"
 
+#include "core/base/NumberText.h"
 #include "core/model/Design.h"
+#include "core/report/TextTable.h"
 
 #include <cmath>
 
@@ -8,57 +10,35 @@ using namespace Qt::StringLiterals;
 
 namespace cb {
 
-QString textTable(const QStringList &header, const QList<QStringList> &rows, int indent)
-{
-    QList<qsizetype> width(header.size(), 0);
-    auto measure = [&](const QStringList &r) {
-        for (qsizetype c = 0; c < r.size() && c < width.size(); ++c)
-            width[c] = std::max(width[c], r[c].size());
-    };
-    measure(header);
-    for (const QStringList &r : rows)
-        measure(r);
-    QString out;
-    auto line = [&](const QStringList &r) {
-        QString l = QString(indent, u' ');
-        for (qsizetype c = 0; c < width.size(); ++c) {
-            const QString cell = c < r.size() ? r[c] : QString();
-            l += c == 0 ? cell.leftJustified(width[c]) : u"  "_s + cell.rightJustified(width[c]);
-        }
-        while (l.endsWith(u' '))
-            l.chop(1);
-        out += l + u'\n';
-    };
-    line(header);
-    for (const QStringList &r : rows)
-        line(r);
-    return out;
-}
-
 namespace {
 
 QString number(double v)
 {
     if (std::isinf(v))
         return u"singular"_s; // a zero singular value: no number to show
-    if (std::isnan(v))
-        return u"undefined"_s;
-    return QString::number(v, 'g', 6);
+    return numberText(v, 6);
 }
 
 QString yesNoMatrix(const Analysis &a, const SquareTable<bool> &m)
 {
     QStringList header{QString()};
-    QList<QStringList> rows;
     for (int j = 0; j < a.columnCount; ++j)
         header << QString::number(j + 1);
+    TextTable table(header, 4);
     for (int i = 0; i < a.columnCount; ++i) {
         QStringList r{u"%1 %2"_s.arg(i + 1).arg(a.columnNames[i])};
         for (int j = 0; j < a.columnCount; ++j)
-            r << (i == j ? u"-"_s : (m(i, j) ? u"yes"_s : u"NO"_s));
-        rows << r;
+            r << (i == j ? kMissingMark.toString() : (m(i, j) ? u"yes"_s : u"NO"_s));
+        table.addRow(r);
     }
-    return textTable(header, rows, 4);
+    return table.text();
+}
+
+// "b1 low vs control: mean(low) - mean(control) = 0" from core's "b1: mean(low) - ...".
+QString labelledSymbols(const Analysis &a, int r)
+{
+    const QString &symbols = a.hypothesisSymbols[r];
+    return coefficientLabel(a.intercept, r, a.coefficientNames[r]) + symbols.mid(symbols.indexOf(u':'));
 }
 
 } // namespace
@@ -85,18 +65,18 @@ QString analysisReport(const Scheme &s, const Analysis &a)
     {
         QStringList header{u"level"_s};
         header << a.columnNames;
-        QList<QStringList> rows;
+        TextTable table(header);
         for (int i = 0; i < a.levelCount; ++i) {
             QStringList r{a.levels[i]};
             for (const Column &c : s.columns)
                 r << c.weights[size_t(i)].display();
-            rows << r;
+            table.addRow(r);
         }
-        QStringList sums{u"(sum)"_s};
+        QStringList sums{u"column sum"_s};
         for (const Weight &w : a.columnSums)
             sums << w.display();
-        rows << sums;
-        out += textTable(header, rows);
+        table.addRow(sums);
+        out += table.text();
     }
     out += u"\n"_s;
 
@@ -108,18 +88,18 @@ QString analysisReport(const Scheme &s, const Analysis &a)
     } else {
         out += u"What each coefficient estimates%1\n"_s.arg(a.dependsOnSizes ? u" (depends on the planned n: the model is not saturated)"_s : QString());
         for (int r = 0; r < a.coefficientCount; ++r)
-            out += u"  %1\n      %2 [%3]\n"_s.arg(a.hypothesisSymbols[r], a.hypothesisWords[r], a.coefficientNames[r]);
+            out += u"  %1\n      %2\n"_s.arg(labelledSymbols(a, r), a.hypothesisWords[r]);
         out += u"\nHypothesis matrix (rows: coefficients; columns: weights on the level means)\n"_s;
         QStringList header{u"coefficient"_s};
         header << a.levels;
-        QList<QStringList> rows;
+        TextTable table(header);
         for (int r = 0; r < a.coefficientCount; ++r) {
-            QStringList row{a.coefficientNames[r]};
+            QStringList row{coefficientLabel(a.intercept, r, a.coefficientNames[r])};
             for (const Weight &w : a.hypotheses[size_t(r)])
                 row << w.display();
-            rows << row;
+            table.addRow(row);
         }
-        out += textTable(header, rows);
+        out += table.text();
         out += u"\n"_s;
     }
 
@@ -127,14 +107,14 @@ QString analysisReport(const Scheme &s, const Analysis &a)
     out += u"  rank %1 of %2%3; %4 arithmetic\n"_s.arg(a.rank).arg(a.coefficientCount)
                .arg(a.fullRank ? u" (full rank)"_s : u" (RANK DEFICIENT)"_s, a.exact ? u"exact"_s : u"floating-point"_s);
     out += u"  condition number (unit-length columns, weighted by planned n): %1\n"_s
-               .arg(a.conditionNumber ? number(*a.conditionNumber) : u"undefined (singular)"_s);
+               .arg(a.conditionNumber ? number(*a.conditionNumber) : kMissingMark.toString() + u" (singular)"_s);
     QStringList ci;
     for (double v : a.conditionIndices)
         ci << number(v);
     out += u"  condition indices: %1 (30 or more flags collinearity; common practice)\n"_s.arg(ci.join(u", "_s));
     QStringList vif;
     for (int j = 0; j < a.columnCount; ++j)
-        vif << u"%1 %2"_s.arg(a.columnNames[j], a.vif[size_t(j)] ? number(*a.vif[size_t(j)]) : u"undefined"_s);
+        vif << u"%1 %2"_s.arg(a.columnNames[j], numberText(a.vif[size_t(j)], 6));
     out += u"  VIF (5 and 10 flag collinearity; common practice): %1\n"_s.arg(vif.join(u"; "_s));
     if (a.columnCount > 1 && a.columnCount <= 12) {
         out += u"  orthogonal as written (c_i . c_j = 0):\n"_s + yesNoMatrix(a, a.orthogonal);
@@ -157,7 +137,7 @@ QString designReport(const Design &d, const DesignAnalysis &da)
     QStringList factors;
     for (const Scheme &s : d.factors)
         factors << u"%1 (%2: %3)"_s.arg(s.factor.name, schemeTitle(s.kind), s.factor.levels.join(u", "_s));
-    out += u"Design: %1\n"_s.arg(factors.join(u" x "_s));
+    out += u"Design: %1\n"_s.arg(factors.join(kCrossJoiner));
     out += u"Cells (first factor slowest): %1\n"_s.arg(da.cells.join(u", "_s));
     out += u"Terms: %1\n\n"_s.arg(da.termNames.join(u", "_s));
     if (!da.emptyCells.isEmpty() || da.cellScheme.columns.empty()) {

@@ -17,7 +17,4 @@ struct Design;
 struct DesignAnalysis;
 QString designReport(const Design &design, const DesignAnalysis &analysis);
 
-// Aligns a table for plain text: the first column left, the others right.
-QString textTable(const QStringList &header, const QList<QStringList> &rows, int indent = 2);
-
 } // namespace cb

@@ -21,11 +21,11 @@ Run runCli(const QStringList &args, const QByteArray &input = {})
     return cb::test::runCli(QStringList{u"fit"_s} + args, input);
 }
 
-const QString kPlants = QStringLiteral(CB_TEST_DATA "/fit_plant_growth.csv");
+const QString kThreeGroups = QStringLiteral(CB_TEST_DATA "/fit_three_groups.csv");
 
-QStringList plantArgs(const QString &data = kPlants)
+QStringList threeGroupArgs(const QString &data = kThreeGroups)
 {
-    return {u"--data"_s, data, u"--factor"_s, u"group"_s, u"--response"_s, u"weight"_s, u"--levels"_s, u"ctrl,trt1,trt2"_s,
+    return {u"--data"_s, data, u"--factor"_s, u"group"_s, u"--response"_s, u"y"_s, u"--levels"_s, u"g1,g2,g3"_s,
             u"--scheme"_s, u"treatment"_s};
 }
 
@@ -40,7 +40,7 @@ class TestFitCommand : public QObject
 {
     Q_OBJECT
 private slots:
-    void fitsPlantGrowthAsJson();
+    void fitsPublishedThreeGroupsAsJson();
     void readsStandardInput();
     void reportsLeftOutRows();
     void fitsSummaryTable();
@@ -53,14 +53,14 @@ private slots:
 
 // Dobson (1983), An Introduction to Statistical Modelling, plant-growth data, treatment
 // coding; published values written from memory (see TestDataFit).
-void TestFitCommand::fitsPlantGrowthAsJson()
+void TestFitCommand::fitsPublishedThreeGroupsAsJson()
 {
-    const Run r = runCli(plantArgs() + QStringList{u"--json"_s, u"--adjust"_s, u"bonferroni"_s});
+    const Run r = runCli(threeGroupArgs() + QStringList{u"--json"_s, u"--adjust"_s, u"bonferroni"_s});
     QVERIFY2(r.exitCode == 0, r.err.constData());
     const QJsonObject o = parse(r);
     const QJsonArray levels = o.value(u"levels"_s).toArray();
     QCOMPARE(levels.size(), 3);
-    QCOMPARE(levels[2].toObject().value(u"name"_s).toString(), u"trt2"_s);
+    QCOMPARE(levels[2].toObject().value(u"name"_s).toString(), u"g3"_s);
     QCOMPARE(levels[2].toObject().value(u"n"_s).toInt(), 10);
     QCOMPARE(qRound(levels[2].toObject().value(u"mean"_s).toDouble() * 1000), 5526);
     const QJsonArray c = o.value(u"coefficients"_s).toArray();
@@ -70,7 +70,7 @@ void TestFitCommand::fitsPlantGrowthAsJson()
     QCOMPARE(qRound(c[2].toObject().value(u"estimate"_s).toDouble() * 1000), 494);
     QCOMPARE(qRound(c[2].toObject().value(u"hypothesis_estimate"_s).toDouble() * 1000), 494);
     QCOMPARE(qRound(c[1].toObject().value(u"se"_s).toDouble() * 10000), 2788);
-    // Bonferroni over the two contrasts: 2 x 0.0877 (p of trt2 from the published table).
+    // Bonferroni over the two contrasts: 2 x 0.0877 (p of g3 from the published table).
     QCOMPARE(qRound(c[2].toObject().value(u"p_adjusted"_s).toDouble() * 1000), 175);
     for (const QString &key : {u"t"_s, u"p"_s, u"ci_low"_s, u"ci_high"_s, u"name"_s})
         QVERIFY2(c[1].toObject().contains(key), qPrintable(key));
@@ -84,9 +84,9 @@ void TestFitCommand::fitsPlantGrowthAsJson()
 
 void TestFitCommand::readsStandardInput()
 {
-    QFile f(kPlants);
+    QFile f(kThreeGroups);
     QVERIFY(f.open(QIODevice::ReadOnly));
-    const Run r = runCli(plantArgs(u"-"_s) + QStringList{u"--json"_s}, f.readAll());
+    const Run r = runCli(threeGroupArgs(u"-"_s) + QStringList{u"--json"_s}, f.readAll());
     QVERIFY2(r.exitCode == 0, r.err.constData());
     const QJsonObject o = parse(r);
     QCOMPARE(qRound(o.value(u"f"_s).toDouble() * 1000), 4846);
@@ -95,20 +95,20 @@ void TestFitCommand::readsStandardInput()
 
 void TestFitCommand::reportsLeftOutRows()
 {
-    QFile f(kPlants);
+    QFile f(kThreeGroups);
     QVERIFY(f.open(QIODevice::ReadOnly));
     QByteArray bytes = f.readAll();
-    bytes.replace("trt1,4.17\n", "trt1,\n");
-    bytes.replace("trt2,5.29\n", "trt2,5.29 g\n");
-    const Run r = runCli(plantArgs(u"-"_s) + QStringList{u"--json"_s}, bytes);
+    bytes.replace("g2,4.17\n", "g2,\n");
+    bytes.replace("g3,5.29\n", "g3,5.29 g\n");
+    const Run r = runCli(threeGroupArgs(u"-"_s) + QStringList{u"--json"_s}, bytes);
     QVERIFY2(r.exitCode == 0, r.err.constData());
     const QJsonObject skipped = parse(r).value(u"skipped_rows"_s).toObject();
     QCOMPARE(skipped.value(u"count"_s).toInt(), 2);
     const QJsonArray first = skipped.value(u"first"_s).toArray();
     QCOMPARE(first[0].toObject().value(u"line"_s).toInt(), 13);
-    QCOMPARE(first[0].toObject().value(u"reason"_s).toString(), u"response (column 'weight') is missing"_s);
+    QCOMPARE(first[0].toObject().value(u"reason"_s).toString(), u"response (column 'y') is missing"_s);
     QCOMPARE(first[1].toObject().value(u"line"_s).toInt(), 27);
-    QCOMPARE(first[1].toObject().value(u"reason"_s).toString(), u"response (column 'weight') '5.29 g' is not a number"_s);
+    QCOMPARE(first[1].toObject().value(u"reason"_s).toString(), u"response (column 'y') '5.29 g' is not a number"_s);
     QCOMPARE(parse(r).value(u"levels"_s).toArray()[1].toObject().value(u"n"_s).toInt(), 9);
 }
 
@@ -118,9 +118,9 @@ void TestFitCommand::fitsSummaryTable()
     const QString path = dir.filePath(u"summary.csv"_s);
     QFile f(path);
     QVERIFY(f.open(QIODevice::WriteOnly));
-    f.write("level,n,mean,sd\nctrl,10,5.032,0.5831\ntrt1,10,4.661,0.7937\ntrt2,10,5.526,0.4426\n");
+    f.write("level,n,mean,sd\ng1,10,5.032,0.5831\ng2,10,4.661,0.7937\ng3,10,5.526,0.4426\n");
     f.close();
-    const Run r = runCli({u"--data"_s, path, u"--summary"_s, u"--levels"_s, u"ctrl,trt1,trt2"_s, u"--scheme"_s,
+    const Run r = runCli({u"--data"_s, path, u"--summary"_s, u"--levels"_s, u"g1,g2,g3"_s, u"--scheme"_s,
                           u"treatment"_s, u"--json"_s});
     QVERIFY2(r.exitCode == 0, r.err.constData());
     QCOMPARE(qRound(parse(r).value(u"sigma"_s).toDouble() * 10000), 6234);
@@ -129,12 +129,22 @@ void TestFitCommand::fitsSummaryTable()
 
 void TestFitCommand::printsReport()
 {
-    const Run r = runCli(plantArgs() + QStringList{u"--adjust"_s, u"holm"_s});
+    const Run r = runCli(threeGroupArgs() + QStringList{u"--adjust"_s, u"holm"_s});
     QVERIFY2(r.exitCode == 0, r.err.constData());
     const QString text = QString::fromUtf8(r.out);
-    QVERIFY2(text.contains(u"Residual SD 0.6234 on 27 df; R squared 0.2641"_s), qPrintable(text));
-    QVERIFY(text.contains(u"F(2, 27) = 4.846, p = 0.01591; tests that all level means are equal"_s));
-    QVERIFY(text.contains(u"p (holm)"_s));
+    // The question first (Dobson: F(2, 27) = 4.846, p = 0.0159), then the spread within the
+    // levels (residual SD 0.6234, 27 df) and the share of variance they explain (R squared 0.2641).
+    const QStringList lines = text.split(u'\n');
+    const qsizetype first = lines.indexOf(u"Do the level means differ? F(2, 27) = 4.846, p = 0.0159; tests that all level means are equal"_s);
+    QVERIFY2(first > 0, qPrintable(text));
+    QCOMPARE(lines.value(first + 1), u"Spread within levels: SD 0.6234 (27 df)"_s);
+    QCOMPARE(lines.value(first + 2), u"The levels explain 26.4% of the variance (30 observations in 3 levels)"_s);
+    QVERIFY(text.contains(u"adjusted p (holm)"_s));
+    // The coefficients as the window labels them, the intercept's p under the smallest shown.
+    QVERIFY2(text.contains(u"\nb0 intercept "_s), qPrintable(text));
+    QVERIFY(text.contains(u"\nb1 g2 vs g1 "_s));
+    QVERIFY(text.contains(u"< 0.0001"_s));
+    QVERIFY(!text.contains(u"Intercept"_s));
     QVERIFY(r.err.isEmpty());
 }
 
@@ -176,7 +186,7 @@ void TestFitCommand::fitsDesignCells()
     QCOMPARE(skipped.value(u"count"_s).toInt(), 1);
     QVERIFY(skipped.value(u"first"_s).toArray()[0].toObject().value(u"reason"_s).toString().contains(u"column 'mowing'"_s));
 
-    const QStringList cells = {u"bare:early"_s, u"bare:late"_s, u"grass:early"_s, u"grass:late"_s, u"wildflower:early"_s, u"wildflower:late"_s};
+    const QStringList cells = {u"bare\u00b7early"_s, u"bare\u00b7late"_s, u"grass\u00b7early"_s, u"grass\u00b7late"_s, u"wildflower\u00b7early"_s, u"wildflower\u00b7late"_s};
     const QJsonArray X = {QJsonArray{1, 0, 0, 0, 0, 0}, QJsonArray{1, 0, 0, 1, 0, 0}, QJsonArray{1, 1, 0, 0, 0, 0},
                           QJsonArray{1, 1, 0, 1, 1, 0}, QJsonArray{1, 0, 1, 0, 0, 0}, QJsonArray{1, 0, 1, 1, 0, 1}};
     const QJsonObject spec{{u"csv"_s, path},
@@ -257,7 +267,7 @@ void TestFitCommand::refusesDesignColumns()
         QVERIFY2(r.errText().contains(k.message), r.err.constData());
     }
     // A one-factor scheme reads one column.
-    const Run one = runCli(plantArgs() + QStringList{u"--factor"_s, u"weight"_s});
+    const Run one = runCli(threeGroupArgs() + QStringList{u"--factor"_s, u"y"_s});
     QCOMPARE(one.exitCode, 2);
     QVERIFY2(one.errText().contains(u"--factor: given 2 times; a one-factor scheme reads one column"_s), one.err.constData());
 }

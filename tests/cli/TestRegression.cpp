@@ -90,7 +90,7 @@ void TestRegression::interceptBesideKColumnsReadsNoSingularValuePastTheEnd()
     QCOMPARE(int(a.conditionIndices.size()), levels + 1);
     QVERIFY(std::isinf(a.conditionIndices.back()));
     QCOMPARE(a.dependencies.size(), 1);
-    QVERIFY(a.dependencies.front().contains(u"(Intercept)"_s));
+    QVERIFY(a.dependencies.front().contains(u"intercept"_s));
     const QString report = analysisReport(s, a);
     QVERIFY2(fuzz::checkNoNonFiniteNumber(report).isEmpty(), qPrintable(report));
 }
@@ -104,7 +104,7 @@ void TestRegression::fuzzInputThroughTheCommandLine()
     const QJsonObject o = QJsonDocument::fromJson(r.out).object();
     QCOMPARE(o.value(u"rank"_s).toInt(), 2);
     QCOMPARE(o.value(u"full_rank"_s).toBool(), false);
-    QCOMPARE(o.value(u"dependencies"_s).toArray().first().toString(), u"c1 = (Intercept)"_s);
+    QCOMPARE(o.value(u"dependencies"_s).toArray().first().toString(), u"c1 = intercept"_s);
     QVERIFY(o.value(u"condition_number"_s).isNull());
 }
 
@@ -183,7 +183,7 @@ void TestRegression::exactHypothesisBeyondDoubleRangeIsWrittenInFull()
     QCOMPARE(r.code, 0);
     const QString report = QString::fromUtf8(r.out);
     QVERIFY2(fuzz::checkNoNonFiniteNumber(report).isEmpty(), qPrintable(report));
-    QVERIFY2(report.contains(u"b2: 1e+600 a - 1e+300 b - 1e+600 c = 0"_s), qPrintable(report));
+    QVERIFY2(report.contains(u"b2 c2: 1e+600 a - 1e+300 b - 1e+600 c = 0"_s), qPrintable(report));
 
     // A weight of 1e-400 (0 as a double) still appears in the text.
     const Rational tiny(mpz_class(1), mpz_class("1" + std::string(400, '0')));

@@ -1,4 +1,5 @@
 // Tests of the fit from per-level statistics, p-value adjustment and level matching.
+#include "core/analysis/Analysis.h"
 #include "core/data/DataFit.h"
 #include "tests/support/FitTestSupport.h"
 #include "core/model/Scheme.h"
@@ -14,7 +15,7 @@ using namespace cb;
 
 namespace {
 
-const QStringList kPlantLevels = {u"ctrl"_s, u"trt1"_s, u"trt2"_s};
+const QStringList kThreeGroupLevels = {u"g1"_s, u"g2"_s, u"g3"_s};
 
 Eigen::MatrixXd rows(std::initializer_list<std::initializer_list<double>> values)
 {
@@ -33,7 +34,7 @@ QStringList coefficientNames(Eigen::Index p, bool intercept)
 {
     QStringList names;
     for (Eigen::Index i = 0; i < p; ++i)
-        names << (intercept && i == 0 ? u"(Intercept)"_s : u"b%1"_s.arg(i));
+        names << (intercept && i == 0 ? kInterceptName.toString() : u"b%1"_s.arg(i));
     return names;
 }
 
@@ -94,9 +95,9 @@ struct Case
     bool weighted = false;
 };
 
-QByteArray plantCsv()
+QByteArray threeGroupCsv()
 {
-    QFile f(QStringLiteral(CB_TEST_DATA "/fit_plant_growth.csv"));
+    QFile f(QStringLiteral(CB_TEST_DATA "/fit_three_groups.csv"));
     return f.open(QIODevice::ReadOnly) ? f.readAll() : QByteArray();
 }
 
@@ -140,22 +141,16 @@ DataReadOptions options(const QString &factor, const QString &response, const QS
     return o;
 }
 
-// The plant-growth file has "group,weight"; the generated ones "group,y[,w]".
-QString responseOf(const QByteArray &csv)
-{
-    return csv.startsWith("group,weight") ? u"weight"_s : u"y"_s;
-}
-
 Result<DataSummary> readCsv(const QByteArray &csv, bool weighted)
 {
     return readLevelDataFromBytes(csv, u"data.csv"_s,
-                                  options(u"group"_s, responseOf(csv), weighted ? u"w"_s : QString()));
+                                  options(u"group"_s, u"y"_s, weighted ? u"w"_s : QString()));
 }
 
-MatchedLevels plantLevels()
+MatchedLevels threeGroupLevels()
 {
-    auto data = readCsv(plantCsv(), false);
-    auto matched = matchLevels(kPlantLevels, data.ok() ? data->levels : std::vector<LevelStats>{});
+    auto data = readCsv(threeGroupCsv(), false);
+    auto matched = matchLevels(kThreeGroupLevels, data.ok() ? data->levels : std::vector<LevelStats>{});
     return matched.ok() ? matched.value() : MatchedLevels{};
 }
 
@@ -202,7 +197,7 @@ void TestDataFit::dobsonTreatmentCoding()
 {
     const Eigen::MatrixXd X = rows({{1, 0, 0}, {1, 1, 0}, {1, 0, 1}});
     const Eigen::MatrixXd H = rows({{1, 0, 0}, {-1, 1, 0}, {-1, 0, 1}});
-    auto fit = fitLevels(plantLevels(), X, H, {u"(Intercept)"_s, u"trt1"_s, u"trt2"_s}, true);
+    auto fit = fitLevels(threeGroupLevels(), X, H, {kInterceptName.toString(), u"g2"_s, u"g3"_s}, true);
     QVERIFY2(fit.ok(), qPrintable(fit.error()));
     const auto &c = fit->coefficients;
     QCOMPARE(qRound(c[0].estimate * 1000), 5032);
@@ -241,16 +236,16 @@ void TestDataFit::matchesNumpyLstsq_data()
     QTest::addColumn<Eigen::MatrixXd>("X");
     QTest::addColumn<bool>("intercept");
     QTest::addColumn<bool>("weighted");
-    const QByteArray plants = plantCsv();
-    QTest::newRow("Dobson, treatment") << plants << kPlantLevels << rows({{1, 0, 0}, {1, 1, 0}, {1, 0, 1}}) << true << false;
-    QTest::newRow("Dobson, sum") << plants << kPlantLevels << rows({{1, 1, 0}, {1, 0, 1}, {1, -1, -1}}) << true << false;
-    QTest::newRow("Dobson, helmert") << plants << kPlantLevels << rows({{1, -1, -1}, {1, 1, -1}, {1, 0, 2}}) << true << false;
+    const QByteArray groups = threeGroupCsv();
+    QTest::newRow("Dobson, treatment") << groups << kThreeGroupLevels << rows({{1, 0, 0}, {1, 1, 0}, {1, 0, 1}}) << true << false;
+    QTest::newRow("Dobson, sum") << groups << kThreeGroupLevels << rows({{1, 1, 0}, {1, 0, 1}, {1, -1, -1}}) << true << false;
+    QTest::newRow("Dobson, helmert") << groups << kThreeGroupLevels << rows({{1, -1, -1}, {1, 1, -1}, {1, 0, 2}}) << true << false;
     QTest::newRow("Dobson, successive")
-        << plants << kPlantLevels << rows({{1, -2.0 / 3, -1.0 / 3}, {1, 1.0 / 3, -1.0 / 3}, {1, 1.0 / 3, 2.0 / 3}}) << true
+        << groups << kThreeGroupLevels << rows({{1, -2.0 / 3, -1.0 / 3}, {1, 1.0 / 3, -1.0 / 3}, {1, 1.0 / 3, 2.0 / 3}}) << true
         << false;
     QTest::newRow("Dobson, cell means without intercept")
-        << plants << kPlantLevels << rows({{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}) << false << false;
-    QTest::newRow("Dobson, linear trend only") << plants << kPlantLevels << rows({{1, -1}, {1, 0}, {1, 1}}) << true << false;
+        << groups << kThreeGroupLevels << rows({{1, 0, 0}, {0, 1, 0}, {0, 0, 1}}) << false << false;
+    QTest::newRow("Dobson, linear trend only") << groups << kThreeGroupLevels << rows({{1, -1}, {1, 0}, {1, 1}}) << true << false;
     struct Coding
     {
         const char *name;
@@ -292,7 +287,7 @@ void TestDataFit::matchesNumpyLstsq()
 
     QJsonObject spec{{u"csv"_s, path},
                      {u"factor"_s, u"group"_s},
-                     {u"response"_s, responseOf(csv)},
+                     {u"response"_s, u"y"_s},
                      {u"weight"_s, weighted ? QJsonValue(u"w"_s) : QJsonValue()},
                      {u"levels"_s, QJsonArray::fromStringList(levels)},
                      {u"X"_s, matrixToJson(X)},
@@ -483,10 +478,10 @@ void TestDataFit::refusesBadDesigns()
     QFETCH(int, names);
     QFETCH(Eigen::MatrixXd, H);
     QFETCH(QString, message);
-    auto fit = fitLevels(plantLevels(), X, H, coefficientNames(names, true), true);
+    auto fit = fitLevels(threeGroupLevels(), X, H, coefficientNames(names, true), true);
     QVERIFY(!fit.ok());
     QCOMPARE(fit.error(), message);
-    auto alpha = fitLevels(plantLevels(), sumCoding(3), {}, coefficientNames(3, true), true, FitOptions{1.5, Adjustment::None});
+    auto alpha = fitLevels(threeGroupLevels(), sumCoding(3), {}, coefficientNames(3, true), true, FitOptions{1.5, Adjustment::None});
     QCOMPARE(alpha.error(), u"alpha: 1.5; expected a number between 0 and 1"_s);
 }
 
@@ -514,21 +509,21 @@ void TestDataFit::noResidualDegreesOfFreedom()
 
 void TestDataFit::writesJson()
 {
-    QByteArray csv = plantCsv();
-    csv += "ctrl,\ntrt1,n/a?\n";
+    QByteArray csv = threeGroupCsv();
+    csv += "g1,\ng2,n/a?\n";
     auto data = readCsv(csv, false);
     QVERIFY2(data.ok(), qPrintable(data.error()));
-    auto m = matchLevels(kPlantLevels, data->levels);
+    auto m = matchLevels(kThreeGroupLevels, data->levels);
     QVERIFY(m.ok());
     const Eigen::MatrixXd X = rows({{1, 0, 0}, {1, 1, 0}, {1, 0, 1}});
-    auto fit = fitLevels(*m, X, X.inverse(), {u"(Intercept)"_s, u"trt1"_s, u"trt2"_s}, true, FitOptions{0.1, Adjustment::Holm});
+    auto fit = fitLevels(*m, X, X.inverse(), {kInterceptName.toString(), u"g2"_s, u"g3"_s}, true, FitOptions{0.1, Adjustment::Holm});
     QVERIFY(fit.ok());
     const QJsonObject json = fitResultToJson(*fit, *data);
     for (const QString &key : {u"levels"_s, u"coefficients"_s, u"sigma"_s, u"df"_s, u"r_squared"_s, u"f"_s, u"f_p"_s,
                                u"skipped_rows"_s, u"alpha"_s, u"adjust"_s})
         QVERIFY2(json.contains(key), qPrintable(key));
     const QJsonObject level = json.value(u"levels"_s).toArray()[1].toObject();
-    QCOMPARE(level.value(u"name"_s).toString(), u"trt1"_s);
+    QCOMPARE(level.value(u"name"_s).toString(), u"g2"_s);
     QCOMPARE(level.value(u"n"_s).toDouble(), 10.0);
     QCOMPARE(level.value(u"mean"_s).toDouble(), fit->levelStats[1].mean);
     QCOMPARE(level.value(u"sd"_s).toDouble(), fit->levelStats[1].sd());
@@ -544,7 +539,7 @@ void TestDataFit::writesJson()
     QCOMPARE(skipped.value(u"count"_s).toInt(), 2);
     QCOMPARE(skipped.value(u"first"_s).toArray()[1].toObject().value(u"line"_s).toInt(), 33);
     QCOMPARE(skipped.value(u"first"_s).toArray()[0].toObject().value(u"reason"_s).toString(),
-             u"response (column 'weight') is missing"_s);
+             u"response (column 'y') is missing"_s);
 }
 
 // The scheme path: columns and hypotheses come from the scheme and its analysis.
@@ -552,11 +547,11 @@ void TestDataFit::writesJson()
 // must estimate exactly the comparisons its hypotheses state.
 void TestDataFit::fitsSchemes()
 {
-    auto data = readCsv(plantCsv(), false);
+    auto data = readCsv(threeGroupCsv(), false);
     QVERIFY(data.ok());
     Factor factor;
     factor.name = u"group"_s;
-    factor.levels = kPlantLevels;
+    factor.levels = kThreeGroupLevels;
     for (SchemeKind kind : standardSchemes()) {
         auto scheme = makeScheme(factor, kind);
         QVERIFY2(scheme.ok(), qPrintable(scheme.error()));
@@ -576,10 +571,10 @@ void TestDataFit::fitsSchemes()
 // The same model from Dobson's group summaries (SDs rounded to 4 decimals).
 void TestDataFit::fitsFromSummaryTable()
 {
-    auto data = readSummaryTableFromBytes("level,n,mean,sd\nctrl,10,5.032,0.5831\ntrt1,10,4.661,0.7937\ntrt2,10,5.526,0.4426\n",
+    auto data = readSummaryTableFromBytes("level,n,mean,sd\ng1,10,5.032,0.5831\ng2,10,4.661,0.7937\ng3,10,5.526,0.4426\n",
                                           u"s.csv"_s);
     QVERIFY2(data.ok(), qPrintable(data.error()));
-    auto m = matchLevels(kPlantLevels, data->levels);
+    auto m = matchLevels(kThreeGroupLevels, data->levels);
     QVERIFY(m.ok());
     auto fit = fitLevels(*m, rows({{1, 0, 0}, {1, 1, 0}, {1, 0, 1}}), {}, coefficientNames(3, true), true);
     QVERIFY(fit.ok());

@@ -1,5 +1,6 @@
 // Tests of the streaming long-format reader and the summary-table reader.
 #include "core/data/DataReader.h"
+#include "core/model/Design.h"
 #include "tests/support/FitTestSupport.h"
 
 #include <QJsonArray>
@@ -103,7 +104,7 @@ class TestDataReader : public QObject
 {
     Q_OBJECT
 private slots:
-    void readsPlantGrowth();
+    void readsPublishedThreeGroups();
     void readsFormats_data();
     void readsFormats();
     void agreesWithPandas_data();
@@ -135,15 +136,17 @@ private slots:
 
 // Dobson (1983), An Introduction to Statistical Modelling, plant-growth data (values
 // written from memory as widely reprinted): group means 5.032, 4.661, 5.526, ten plants each.
+// Stored under neutral names as tests/data/fit_three_groups.csv: levels g1 (the control) and
+// g2, g3 (the two treatments), response y.
 // SDs against pandas (tests/python/fit_group_stats.py).
-void TestDataReader::readsPlantGrowth()
+void TestDataReader::readsPublishedThreeGroups()
 {
-    const QString path = QStringLiteral(CB_TEST_DATA "/fit_plant_growth.csv");
-    auto r = readLevelData(path, columns(u"group"_s, u"weight"_s));
+    const QString path = QStringLiteral(CB_TEST_DATA "/fit_three_groups.csv");
+    auto r = readLevelData(path, columns(u"group"_s, u"y"_s));
     QVERIFY2(r.ok(), qPrintable(r.error()));
     QVERIFY(r->hasHeader);
     QCOMPARE(r->delimiter, ',');
-    QCOMPARE(r->columns, (QStringList{u"group"_s, u"weight"_s}));
+    QCOMPARE(r->columns, (QStringList{u"group"_s, u"y"_s}));
     QCOMPARE(int(r->levels.size()), 3);
     const double means[] = {5.032, 4.661, 5.526};
     for (int i = 0; i < 3; ++i) {
@@ -152,7 +155,7 @@ void TestDataReader::readsPlantGrowth()
     }
     QCOMPARE(r->records, qint64(30));
     QCOMPARE(r->lines, qint64(31));
-    const QJsonObject ref = test::runPython(u"fit_group_stats.py"_s, {path, u"group"_s, u"weight"_s, u","_s});
+    const QJsonObject ref = test::runPython(u"fit_group_stats.py"_s, {path, u"group"_s, u"y"_s, u","_s});
     QVERIFY2(!ref.contains(u"error"_s), qPrintable(ref.value(u"error"_s).toString()));
     for (const LevelStats &l : r->levels) {
         const QJsonArray want = ref.value(l.name).toArray();
@@ -537,11 +540,11 @@ void TestDataReader::readsSummaryTable_data()
 {
     QTest::addColumn<QByteArray>("bytes");
     // Dobson's plant-growth group summaries (n, mean, SD to 4 decimals, from the data above).
-    QTest::newRow("header") << QByteArray("level,n,mean,sd\nctrl,10,5.032,0.5831\ntrt1,10,4.661,0.7937\ntrt2,10,5.526,0.4426\n");
+    QTest::newRow("header") << QByteArray("level,n,mean,sd\ng1,10,5.032,0.5831\ng2,10,4.661,0.7937\ng3,10,5.526,0.4426\n");
     QTest::newRow("header in another order, other names")
-        << QByteArray("Mean;Group;SD;Count\r\n5.032;ctrl;0.5831;10\r\n4.661;trt1;0.7937;10\r\n5.526;trt2;0.4426;10\r\n");
-    QTest::newRow("no header") << QByteArray("ctrl\t10\t5.032\t0.5831\ntrt1\t10\t4.661\t0.7937\ntrt2\t10\t5.526\t0.4426");
-    QTest::newRow("a design's cells") << QByteArray("cell,n,mean,sd\nctrl,10,5.032,0.5831\ntrt1,10,4.661,0.7937\ntrt2,10,5.526,0.4426\n");
+        << QByteArray("Mean;Group;SD;Count\r\n5.032;g1;0.5831;10\r\n4.661;g2;0.7937;10\r\n5.526;g3;0.4426;10\r\n");
+    QTest::newRow("no header") << QByteArray("g1\t10\t5.032\t0.5831\ng2\t10\t4.661\t0.7937\ng3\t10\t5.526\t0.4426");
+    QTest::newRow("a design's cells") << QByteArray("cell,n,mean,sd\ng1,10,5.032,0.5831\ng2,10,4.661,0.7937\ng3,10,5.526,0.4426\n");
 }
 
 void TestDataReader::readsSummaryTable()
@@ -551,7 +554,7 @@ void TestDataReader::readsSummaryTable()
     QVERIFY2(r.ok(), qPrintable(r.error()));
     QVERIFY(r->fromSummaryTable);
     QCOMPARE(int(r->levels.size()), 3);
-    QCOMPARE(r->levels[1].name, u"trt1"_s);
+    QCOMPARE(r->levels[1].name, u"g2"_s);
     QCOMPARE(r->levels[1].stats.n, 10.0);
     QCOMPARE(r->levels[1].stats.mean, 4.661);
     QVERIFY(std::fabs(r->levels[1].stats.sd() - 0.7937) < 1e-12);
@@ -588,13 +591,13 @@ void TestDataReader::rejectsSummaryTable()
 
 void TestDataReader::previewsFile()
 {
-    auto p = previewData(QStringLiteral(CB_TEST_DATA "/fit_plant_growth.csv"), 3);
+    auto p = previewData(QStringLiteral(CB_TEST_DATA "/fit_three_groups.csv"), 3);
     QVERIFY2(p.ok(), qPrintable(p.error()));
     QCOMPARE(p->delimiter, ',');
     QVERIFY(p->hasHeader);
-    QCOMPARE(p->columns, (QStringList{u"group"_s, u"weight"_s}));
+    QCOMPARE(p->columns, (QStringList{u"group"_s, u"y"_s}));
     QCOMPARE(int(p->rows.size()), 3);
-    QCOMPARE(p->rows[2], (QStringList{u"ctrl"_s, u"5.18"_s}));
+    QCOMPARE(p->rows[2], (QStringList{u"g1"_s, u"5.18"_s}));
     QVERIFY(p->fileSize > 0);
     auto bare = previewDataFromBytes("a\t1\nb\t2\n", u"b.tsv"_s);
     QVERIFY(bare.ok());
@@ -615,7 +618,7 @@ void TestDataReader::namesDelimiters()
 }
 
 // A crossed design read with one column per factor: each row's cell is its values joined with
-// ':' (Design::cellNames). Statistics per cell are checked against a plain two-pass computation
+// kCellJoiner, a middle dot (Design::cellNames). Statistics per cell are checked against a plain two-pass computation
 // over the rows written, for every block size down to a few bytes (records then straddle
 // blocks) and with quoted and padded values; an empty value in any factor column leaves the
 // row out with a message naming that column.
@@ -628,7 +631,8 @@ void TestDataReader::joinsFactorColumnsIntoCells()
     std::vector<Row> rows;
     for (int i = 0; i < 400; ++i) {
         const int ia = int(rng() % 2), ib = int(rng() % 2), ic = int(rng() % 2);
-        const Row row{a[ia] + ':' + b[ib] + ':' + c[ic], std::round(u(rng) * 100) / 100};
+        const QByteArray dot(kCellJoiner.data(), qsizetype(kCellJoiner.size()));
+        const Row row{a[ia] + dot + b[ib] + dot + c[ic], std::round(u(rng) * 100) / 100};
         rows.push_back(row);
         const QByteArray site = i % 7 == 0 ? '"' + a[ia] + '"' : (i % 11 == 0 ? "  " + a[ia] + " " : a[ia]);
         bytes += QByteArray::number(i) + ',' + b[ib] + ',' + site + ',' + QByteArray::number(row.y, 'g', 17) + ',' + c[ic] + '\n';

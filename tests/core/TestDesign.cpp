@@ -73,7 +73,7 @@ private slots:
 void TestDesign::interactionReadsAsDifferenceOfDifferences()
 {
     const DesignAnalysis da = analyzeDesign(twoByTwo(u"0", u"1", u"0", u"1"));
-    QCOMPARE(da.analysis.hypothesisSymbols[3], u"b3: (a2:b2 - a1:b2) - (a2:b1 - a1:b1) = 0"_s);
+    QCOMPARE(da.analysis.hypothesisSymbols[3], u"b3: (a2\u00b7b2 - a1\u00b7b2) - (a2\u00b7b1 - a1\u00b7b1) = 0"_s);
 }
 
 void TestDesign::randomDesignsAgreeWithNumpy()
@@ -137,19 +137,19 @@ void TestDesign::centredTwoByTwo()
     // Schad, Vasishth, Hohenstein & Kliegl (2020): with centred +-1/2 coding on both factors
     // of a balanced 2 x 2 design, the intercept is the mean of the four cells, each main effect
     // the difference of the marginal means, and the interaction the difference of differences.
-    // Cells (A-major): a1:b1, a1:b2, a2:b1, a2:b2.
+    // Cells (A-major): a1\u00b7b1, a1\u00b7b2, a2\u00b7b1, a2\u00b7b2.
     const DesignAnalysis da = analyzeDesign(twoByTwo(u"-1/2", u"1/2", u"-1/2", u"1/2"));
     const Analysis &a = da.analysis;
     QVERIFY(a.fullRank);
     QVERIFY(a.exact);
-    QCOMPARE(da.cells, (QStringList{u"a1:b1"_s, u"a1:b2"_s, u"a2:b1"_s, u"a2:b2"_s}));
+    QCOMPARE(da.cells, (QStringList{u"a1\u00b7b1"_s, u"a1\u00b7b2"_s, u"a2\u00b7b1"_s, u"a2\u00b7b2"_s}));
     const Rational q(1, 4), h(1, 2);
     QVERIFY(row(a, 0) == (std::vector<Rational>{q, q, q, q}));
     QVERIFY(row(a, 1) == (std::vector<Rational>{-h, -h, h, h}));           // A: mean(a2) - mean(a1)
     QVERIFY(row(a, 2) == (std::vector<Rational>{-h, h, -h, h}));           // B: mean(b2) - mean(b1)
     QVERIFY(row(a, 3) == (std::vector<Rational>{Rational(1), Rational(-1), Rational(-1), Rational(1)})); // (a2b2 - a2b1) - (a1b2 - a1b1)
-    QCOMPARE(a.hypothesisSymbols[1], u"b1: mean(a2:b1, a2:b2) - mean(a1:b1, a1:b2) = 0"_s);
-    QCOMPARE(da.termNames, (QStringList{u"A"_s, u"B"_s, u"A x B"_s}));
+    QCOMPARE(a.hypothesisSymbols[1], u"b1: mean(a2\u00b7b1, a2\u00b7b2) - mean(a1\u00b7b1, a1\u00b7b2) = 0"_s);
+    QCOMPARE(da.termNames, (QStringList{u"A"_s, u"B"_s, u"A \u00d7 B"_s}));
     QVERIFY(!hasFinding(a, u"simple effect"_s));
     for (int t = 0; t < 3; ++t)
         for (int u = 0; u < 3; ++u)
@@ -159,7 +159,7 @@ void TestDesign::centredTwoByTwo()
 void TestDesign::treatmentTwoByTwoMainEffectIsSimpleEffect()
 {
     // With treatment coding on both factors, the "main effect" of A equals the simple effect
-    // of A at B's reference level (Schad et al. 2020): weights only on a1:b1 and a2:b1.
+    // of A at B's reference level (Schad et al. 2020): weights only on a1\u00b7b1 and a2\u00b7b1.
     const DesignAnalysis da = analyzeDesign(twoByTwo(u"0", u"1", u"0", u"1"));
     const Analysis &a = da.analysis;
     QVERIFY(row(a, 1) == (std::vector<Rational>{Rational(-1), Rational(0), Rational(1), Rational(0)}));
@@ -176,15 +176,15 @@ void TestDesign::cellsAndColumnNames()
     d.terms = Design::fullFactorial(2);
     const DesignAnalysis da = analyzeDesign(d);
     QCOMPARE(da.cells.size(), 6);
-    QCOMPARE(da.cells[1], u"none:clay"_s);
+    QCOMPARE(da.cells[1], u"none\u00b7clay"_s);
     QCOMPARE(da.cellScheme.columns.size(), size_t(5));
-    QCOMPARE(da.cellScheme.columns[3].name, u"water1 : soil1"_s);
+    QCOMPARE(da.cellScheme.columns[3].name, u"water1 \u00d7 soil1"_s);
     QCOMPARE(da.columnTerm, (std::vector<int>{0, 0, 1, 2, 2}));
     // Kronecker product: (-1, 1/2, 1/2) (x) (1/2, -1/2).
     QCOMPARE(da.cellScheme.columns[3].weights[0].rational(), Rational(-1, 2));
     QCOMPARE(da.cellScheme.columns[3].weights[1].rational(), Rational(1, 2));
     QCOMPARE(da.cellScheme.columns[3].weights[5].rational(), Rational(-1, 4));
-    // The interaction "daily vs weekly" by soil: (daily:sandy - weekly:sandy) - (daily:clay - weekly:clay).
+    // The interaction "daily vs weekly" by soil: (daily·sandy - weekly·sandy) - (daily·clay - weekly·clay).
     const std::vector<Rational> r = row(da.analysis, 5);
     QVERIFY(r == (std::vector<Rational>{Rational(0), Rational(0), Rational(-1), Rational(1), Rational(1), Rational(-1)}));
 }
@@ -210,8 +210,8 @@ void TestDesign::nestedContrasts()
     QVERIFY(da.analysis.fullRank);
     QCOMPARE(da.termNames[1], u"A within B"_s);
     QCOMPARE(da.cellScheme.columns[1].name, u"A1 (within b1)"_s);
-    QVERIFY(row(da.analysis, 2) == (std::vector<Rational>{Rational(-1), Rational(0), Rational(1), Rational(0)})); // a2:b1 - a1:b1
-    QVERIFY(row(da.analysis, 3) == (std::vector<Rational>{Rational(0), Rational(-1), Rational(0), Rational(1)})); // a2:b2 - a1:b2
+    QVERIFY(row(da.analysis, 2) == (std::vector<Rational>{Rational(-1), Rational(0), Rational(1), Rational(0)})); // a2\u00b7b1 - a1\u00b7b1
+    QVERIFY(row(da.analysis, 3) == (std::vector<Rational>{Rational(0), Rational(-1), Rational(0), Rational(1)})); // a2\u00b7b2 - a1\u00b7b2
     QVERIFY(!hasFinding(da.analysis, u"simple effect"_s)); // nested on purpose: no warning
 }
 
@@ -230,9 +230,9 @@ void TestDesign::emptyCellIsReported()
     Design d = twoByTwo(u"-1/2", u"1/2", u"-1/2", u"1/2");
     d.cellN = {Rational(10), Rational(0), Rational(10), Rational(10)};
     const DesignAnalysis da = analyzeDesign(d);
-    QCOMPARE(da.emptyCells, QStringList{u"a1:b2"_s});
+    QCOMPARE(da.emptyCells, QStringList{u"a1\u00b7b2"_s});
     QVERIFY(da.analysis.hypotheses.empty());
-    QVERIFY(hasFinding(da.analysis, u"empty cells (planned n = 0): a1:b2"_s));
+    QVERIFY(hasFinding(da.analysis, u"empty cells (planned n = 0): a1\u00b7b2"_s));
 }
 
 void TestDesign::fileRoundTripAndErrors_data()
@@ -270,7 +270,7 @@ void TestDesign::fileRoundTripAndErrors()
         QCOMPARE(back->factors.size(), size_t(2));
         QVERIFY(back->cellN == d.cellN);
         QCOMPARE(back->terms.size(), size_t(3));
-        QCOMPARE(termName(*back, back->terms[2]), u"A x B"_s);
+        QCOMPARE(termName(*back, back->terms[2]), u"A \u00d7 B"_s);
         QVERIFY(back->factors[1].columns[0].weights[1] == d.factors[1].columns[0].weights[1]);
         // A design is not a single-factor scheme.
         auto single = schemeFromJson(data, u"d.json"_s);

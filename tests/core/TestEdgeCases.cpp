@@ -429,7 +429,7 @@ void TestEdgeCases::fitWithOneObservationInALevel()
 {
     auto fit = fitTreatment({{1, 2, 3}, {5}, {4, 6}});
     QVERIFY2(fit.ok(), qPrintable(fit.error()));
-    QVERIFY(std::isnan(fit->levelStats[1].sd())); // one value: no SD, shown as n/a
+    QVERIFY(std::isnan(fit->levelStats[1].sd())); // one value: no SD, shown as the missing mark (—)
     compareFit(*fit, {{2, 3, 3}, {0.6666666666666666, 1.3333333333333333, 1.0540925533894596},
                       {0.057668885622437174, 0.10993809639660251, 0.06532071006198009}, 1.1547005383792515, 3, 5.0625,
                       0.1092780442820017});

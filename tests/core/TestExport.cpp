@@ -66,7 +66,7 @@ Analysis irrigationAnalysis()
     a.coefficientCount = 4;
     a.levels = irrigationScheme().factor.levels;
     a.columnNames = {u"watered_vs_none"_s, u"frequent_vs_weekly"_s, u"daily_vs_twice"_s};
-    a.coefficientNames = QStringList{u"(Intercept)"_s} + a.columnNames;
+    a.coefficientNames = QStringList{u"intercept"_s} + a.columnNames;
     a.rank = 4;
     a.fullRank = true;
     a.exact = true;
@@ -907,7 +907,7 @@ void TestExport::hypothesisTableFromAnalysis()
 {
     auto r = hypothesisTable(irrigationAnalysis());
     QVERIFY2(r.ok(), qPrintable(r.error()));
-    QCOMPARE(r->rowNames.front(), u"(Intercept)"_s);
+    QCOMPARE(r->rowNames.front(), u"intercept"_s);
     QCOMPARE(r->columnNames, irrigationScheme().factor.levels);
     QCOMPARE(r->cells[1][0].rational(), Rational(-1));
 }
@@ -1416,16 +1416,16 @@ void TestExport::cliExportsDesignOverItsCells()
     QVERIFY2(r.exitCode == 0, r.err.constData());
     const QStringList lines = r.outText().split(QRegularExpression(u"\r?\n"_s), Qt::SkipEmptyParts);
     QCOMPARE(lines.size(), 5);
-    QCOMPARE(lines[1], u"a1:b1,-1/2,-1/2,1/4"_s);
-    QCOMPARE(lines[2], u"a1:b2,-1/2,1/2,-1/4"_s);
-    QCOMPARE(lines[3], u"a2:b1,1/2,-1/2,-1/4"_s);
-    QCOMPARE(lines[4], u"a2:b2,1/2,1/2,1/4"_s);
+    QCOMPARE(lines[1], u"a1\u00b7b1,-1/2,-1/2,1/4"_s);
+    QCOMPARE(lines[2], u"a1\u00b7b2,-1/2,1/2,-1/4"_s);
+    QCOMPARE(lines[3], u"a2\u00b7b1,1/2,-1/2,-1/4"_s);
+    QCOMPARE(lines[4], u"a2\u00b7b2,1/2,1/2,1/4"_s);
 
     d.cellN = {5, 5, 0, 5};
     QVERIFY(writeFile(path, QString::fromUtf8(designToJson(d))));
     const Run empty = run(cliPath(), {u"export"_s, u"--file"_s, path, u"--format"_s, u"csv"_s}, dir.path());
     QCOMPARE(empty.exitCode, 2);
-    QVERIFY2(empty.errText().contains(u"cell 'a2:b1' is empty"_s), empty.err.constData());
+    QVERIFY2(empty.errText().contains(u"cell 'a2\u00b7b1' is empty"_s), empty.err.constData());
 }
 
 #include "TestExport.moc"

@@ -1065,7 +1065,7 @@ void TestPower::commandLineReadsDesignFile()
     QVERIFY2(run.exitCode == 0, qPrintable(run.err));
     const QJsonObject o = QJsonDocument::fromJson(run.out.toUtf8()).object();
     QCOMPARE(o[u"level_names"_s].toArray().size(), 4);
-    QCOMPARE(o[u"level_names"_s].toArray()[1].toString(), u"a1:b2"_s);
+    QCOMPARE(o[u"level_names"_s].toArray()[1].toString(), u"a1\u00b7b2"_s);
     const QJsonArray contrasts = o[u"contrasts"_s].toArray();
     QCOMPARE(contrasts.size(), 3);
     const QJsonObject mainA = contrasts[0].toObject(), interaction = contrasts[2].toObject();
@@ -1083,7 +1083,7 @@ void TestPower::commandLineReadsDesignFile()
     f.close();
     const CliRun empty = runCli({u"--file"_s, path, u"--means"_s, u"0,0.5,0.5,2"_s, u"--sd"_s, u"1"_s});
     QCOMPARE(empty.exitCode, 2);
-    QVERIFY2(empty.err.contains(path + u": cell 'a1:b2' is empty"_s), qPrintable(empty.err));
+    QVERIFY2(empty.err.contains(path + u": cell 'a1\u00b7b2' is empty"_s), qPrintable(empty.err));
 }
 
 void TestPower::commandLineRejectsInput_data()

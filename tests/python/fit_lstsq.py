@@ -5,7 +5,7 @@ Reads one JSON object on standard input:
   {"csv": path, "factor": column, "response": column, "weight": column or null,
    "levels": [names in design order], "X": k x p design rows, "alpha": 0.05}
 or, for a crossed design, "factors": [columns] instead of "factor": a row's cell is its
-values joined with ":" ("grass:early"), with surrounding spaces removed; rows with an empty
+values joined with a middle dot, U+00B7 ("grass\u00b7early", as Design::cellNames names them), with surrounding spaces removed; rows with an empty
 factor value are left out.
 reads the CSV with pandas, builds the N x p design matrix D (row i = X[level of i]),
 solves with numpy.linalg.lstsq (weights as case weights: rows scaled by sqrt(w),
@@ -60,7 +60,7 @@ def main():
         frame = frame[keep]
         cells = parts[0][keep]
         for p in parts[1:]:
-            cells = cells + ":" + p[keep]
+            cells = cells + "\u00b7" + p[keep]
         groups = cells.map(index).to_numpy()
     else:
         groups = frame[spec["factor"]].astype(str).map(index).to_numpy()

@@ -1,10 +1,11 @@
 // The data panel reads a file in the background and shows core's fit. The
 // check values are Dobson (1983), An Introduction to Statistical Modelling,
-// plant-growth data (tests/data/fit_plant_growth.csv): with treatment coding
+// plant-growth data (tests/data/fit_three_groups.csv): with treatment coding
 // the intercept is 5.032 and the effects -0.371 and 0.494 (written from memory,
 // the same values TestDataFit checks against NumPy's lstsq).
 
 #include "ui/data/DataPanel.h"
+#include "core/report/FitReport.h"
 #include "tests/support/FitTestSupport.h"
 #include "ui/window/Demos.h"
 #include "tests/support/PanelShot.h"
@@ -27,7 +28,7 @@ class TestDataPanel : public QObject
     Q_OBJECT
 
 private slots:
-    void plantGrowthTreatmentCoding();
+    void publishedThreeGroupsTreatmentCoding();
     void mismatchedLevelIsReportedAndCanBeMapped();
     void skippedRowsAreListedWithLines();
     void unreadableFileShowsMessage();
@@ -39,7 +40,7 @@ private:
     static bool readAndWait(DataPanel &panel);
 };
 
-const QString kPlants = QStringLiteral(CB_TEST_DATA "/fit_plant_growth.csv");
+const QString kThreeGroups = QStringLiteral(CB_TEST_DATA "/fit_three_groups.csv");
 
 void TestDataPanel::useLevels(Document &doc, const QStringList &levels)
 {
@@ -56,12 +57,12 @@ bool TestDataPanel::readAndWait(DataPanel &panel)
     return done.wait(10'000);
 }
 
-void TestDataPanel::plantGrowthTreatmentCoding()
+void TestDataPanel::publishedThreeGroupsTreatmentCoding()
 {
     Document doc;
-    useLevels(doc, {u"ctrl"_s, u"trt1"_s, u"trt2"_s});
+    useLevels(doc, {u"g1"_s, u"g2"_s, u"g3"_s});
     DataPanel panel(&doc);
-    QVERIFY(panel.openFile(kPlants));
+    QVERIFY(panel.openFile(kThreeGroups));
     // The columns are proposed from the preview: text for the level, numbers for the response.
     QCOMPARE(panel.previewTable()->columnCount(), 2);
     QVERIFY(readAndWait(panel));
@@ -78,9 +79,14 @@ void TestDataPanel::plantGrowthTreatmentCoding()
     QCOMPARE(t->item(2, DataPanel::EstimateColumn)->text(), u"0.494"_s);
     // Saturated coding: the hypotheses applied to the observed means give the same numbers.
     QCOMPARE(t->item(2, DataPanel::FromMeansColumn)->text(), u"0.494"_s);
-    // Residual SD 0.6234 on 27 df, F(2, 27) = 4.846 (Dobson).
-    QVERIFY2(panel.summaryText().contains(u"0.6234 on 27 df"_s), qPrintable(panel.summaryText()));
-    QVERIFY(panel.summaryText().contains(u"F(2, 27) = 4.846"_s));
+    // F(2, 27) = 4.846, p = 0.0159, residual SD 0.6234 on 27 df (Dobson); the same lines as the
+    // command line's report.
+    QVERIFY2(panel.summaryText().contains(u"Do the level means differ? F(2, 27) = 4.846, p = 0.0159"_s), qPrintable(panel.summaryText()));
+    QVERIFY(panel.summaryText().contains(u"Spread within levels: SD 0.6234 (27 df)"_s));
+    for (const QString &line : fitSummaryLines(fit, false))
+        QVERIFY2(panel.summaryText().contains(line.toHtmlEscaped()), qPrintable(line));
+    QCOMPARE(t->item(0, DataPanel::NameColumn)->text(), u"b0 intercept"_s);
+    QCOMPARE(t->item(0, DataPanel::PColumn)->text(), u"< 0.0001"_s);
     // Three level means drawn, at the observed means 5.032, 4.661, 5.526.
     QCOMPARE(panel.meansChart()->intervals().size(), size_t(3));
     QCOMPARE(qRound(panel.meansChart()->intervals()[1].value * 1000), 4661);
@@ -91,17 +97,17 @@ void TestDataPanel::plantGrowthTreatmentCoding()
 void TestDataPanel::mismatchedLevelIsReportedAndCanBeMapped()
 {
     Document doc;
-    useLevels(doc, {u"ctrl"_s, u"trt1"_s, u"second"_s});
+    useLevels(doc, {u"g1"_s, u"g2"_s, u"second"_s});
     DataPanel panel(&doc);
-    QVERIFY(panel.openFile(kPlants));
+    QVERIFY(panel.openFile(kThreeGroups));
     QVERIFY(readAndWait(panel));
     QVERIFY(!panel.fit().has_value());
-    QVERIFY2(panel.unmatchedText().contains(u"In the data only: trt2"_s), qPrintable(panel.unmatchedText()));
+    QVERIFY2(panel.unmatchedText().contains(u"In the data only: g3"_s), qPrintable(panel.unmatchedText()));
     QVERIFY(panel.unmatchedText().contains(u"In the scheme without data: second"_s));
     QVERIFY(!panel.message().isEmpty()); // core's refusal, naming both sides
-    QVERIFY(panel.message().contains(u"trt2"_s));
+    QVERIFY(panel.message().contains(u"g3"_s));
 
-    panel.mapLevel(u"trt2"_s, u"second"_s);
+    panel.mapLevel(u"g3"_s, u"second"_s);
     QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
     QVERIFY(panel.unmatchedText().isEmpty());
     QCOMPARE(qRound(panel.fit()->coefficients[2].estimate * 1000), 494);
@@ -110,18 +116,18 @@ void TestDataPanel::mismatchedLevelIsReportedAndCanBeMapped()
 void TestDataPanel::skippedRowsAreListedWithLines()
 {
     QTemporaryDir dir;
-    QFile in(kPlants);
+    QFile in(kThreeGroups);
     QVERIFY(in.open(QIODevice::ReadOnly));
     QByteArray bytes = in.readAll();
-    bytes += "ctrl,heavy\n";
-    const QString path = dir.filePath(u"plants.csv"_s);
+    bytes += "g1,heavy\n";
+    const QString path = dir.filePath(u"groups.csv"_s);
     QFile out(path);
     QVERIFY(out.open(QIODevice::WriteOnly));
     out.write(bytes);
     out.close();
 
     Document doc;
-    useLevels(doc, {u"ctrl"_s, u"trt1"_s, u"trt2"_s});
+    useLevels(doc, {u"g1"_s, u"g2"_s, u"g3"_s});
     DataPanel panel(&doc);
     QVERIFY(panel.openFile(path));
     QVERIFY(readAndWait(panel));
@@ -204,7 +210,7 @@ void TestDataPanel::fitsADesignFromOneColumnPerFactor()
     const FitResult &fit = *panel.fit();
     QCOMPARE(fit.levels, doc.designAnalysis().cells);
     QCOMPARE(fit.coefficients.size(), size_t(6));
-    // Cells A-major: bare:early, bare:late, grass:early, grass:late, wildflower:early, wildflower:late.
+    // Cells A-major: bare·early, bare·late, grass·early, grass·late, wildflower·early, wildflower·late.
     const double expected[] = {mean[0], mean[2] - mean[0], mean[4] - mean[0], mean[1] - mean[0],
                                mean[3] - mean[2] - mean[1] + mean[0], mean[5] - mean[4] - mean[1] + mean[0]};
     for (size_t i = 0; i < 6; ++i)

@@ -57,8 +57,8 @@ void TestHypothesisModel::showsWhatEachCoefficientTests()
     QCOMPARE(m->index(1, 0).data().toString(), u"0"_s);
     QCOMPARE(m->index(0, 1).data().toString(), u"\u22121"_s);
     QCOMPARE(m->index(1, 1).data().toString(), u"1"_s);
-    QCOMPARE(m->headerData(0, Qt::Horizontal).toString(), u"b0  intercept"_s);
-    QCOMPARE(m->headerData(1, Qt::Horizontal).toString(), u"b1  B vs A"_s);
+    QCOMPARE(m->headerData(0, Qt::Horizontal).toString(), u"b0 intercept"_s);
+    QCOMPARE(m->headerData(1, Qt::Horizontal).toString(), u"b1 B vs A"_s);
 }
 
 void TestHypothesisModel::editingHypothesesRebuildsTheCodingAndRoundTrips()
@@ -197,7 +197,7 @@ void TestHypothesisModel::aNewComparisonIsADraftUntilItsWeightsAreTyped()
     QVERIFY(m->addComparison());
     QCOMPARE(m->columnCount(), 4);
     QVERIFY(m->hasDraft());
-    QCOMPARE(m->headerData(3, Qt::Horizontal).toString().replace(u'\n', u' '), u"\u2717 b3  new comparison"_s);
+    QCOMPARE(m->headerData(3, Qt::Horizontal).toString().replace(u'\n', u' '), u"\u2717 b3 new comparison"_s);
     QCOMPARE(d->undoStack()->count(), 1); // nothing applied yet
     // D against the average of B and C.
     QVERIFY(m->setCellTexts({{1, 3, u"-1/2"_s}, {2, 3, u"-1/2"_s}, {3, 3, u"1"_s}}, u"new comparison"_s));

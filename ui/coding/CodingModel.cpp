@@ -1,5 +1,6 @@
 #include "ui/coding/CodingModel.h"
 
+#include "core/base/NumberText.h"
 #include "ui/document/Document.h"
 
 #include <QFont>
@@ -102,7 +103,7 @@ QVariant CodingModel::footerData(int footer, int column, int role) const
 {
     const ColumnStatus *st = status(column);
     if (!st)
-        return role == Qt::DisplayRole ? QVariant(u"\u2014"_s) : QVariant();
+        return role == Qt::DisplayRole ? QVariant(kMissingMark.toString()) : QVariant();
     const look::State state = footer == SumRow ? st->sum : footer == OrthogonalityRow ? st->orthogonality : st->vif;
     switch (role) {
     case Qt::DisplayRole:

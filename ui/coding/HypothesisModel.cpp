@@ -1,5 +1,6 @@
 #include "ui/coding/HypothesisModel.h"
 
+#include "core/base/NumberText.h"
 #include "ui/common/ColumnStatus.h"
 #include "ui/document/Document.h"
 #include "ui/common/Look.h"
@@ -95,12 +96,10 @@ QString HypothesisModel::coefficientLabel(int column) const
 {
     const Analysis &a = document()->analysis();
     if (column >= a.coefficientNames.size() && column < columnCount())
-        return u"b%1  %2"_s.arg(a.intercept ? column : column + 1).arg(tr("new comparison"));
+        return cb::coefficientLabel(a.intercept, column, tr("new comparison"));
     if (column < 0 || column >= a.coefficientNames.size())
         return {};
-    const int number = a.intercept ? column : column + 1;
-    const QString name = a.intercept && column == 0 ? tr("intercept") : a.coefficientNames[column];
-    return u"b%1  %2"_s.arg(number).arg(name);
+    return cb::coefficientLabel(a.intercept, column, a.coefficientNames[column]);
 }
 
 QString HypothesisModel::cellName(int row, int column) const
@@ -147,7 +146,7 @@ QVariant HypothesisModel::data(const QModelIndex &index, int role) const
     const bool pending = draftIsCurrent() && m_draftColumns.contains(index.column());
     switch (role) {
     case Qt::DisplayRole:
-        return w ? formatWeight(*w) : u"\u2014"_s;
+        return w ? formatWeight(*w) : kMissingMark.toString();
     case Qt::EditRole:
         return w ? editableWeight(*w, true) : QString();
     case Qt::TextAlignmentRole:

@@ -1,5 +1,7 @@
 #include "ui/common/ColumnStatus.h"
 
+#include "core/base/NumberText.h"
+
 #include <cmath>
 
 using namespace Qt::StringLiterals;
@@ -82,16 +84,14 @@ State vifState(const std::optional<double> &vif)
 
 QString formatIndex(double value)
 {
-    if (std::isinf(value))
-        return u"\u221e"_s;
-    if (std::isnan(value))
-        return u"\u2014"_s;
+    if (!std::isfinite(value))
+        return numberText(value);
     return value < 100 ? QString::number(value, 'f', 2) : QString::number(value, 'g', 4);
 }
 
 QString formatVif(const std::optional<double> &vif)
 {
-    return vif ? formatIndex(*vif) : u"\u2014"_s;
+    return vif ? formatIndex(*vif) : kMissingMark.toString();
 }
 
 QString formatWeight(const Weight &weight)
@@ -135,11 +135,11 @@ std::vector<ColumnStatus> columnStatuses(const Analysis &a, bool plannedSizes)
         s.sum = a.sumsToZero[uj] ? State::Good : State::Caution;
         s.sumText = look::mark(s.sum) + u" "_s + formatWeight(a.columnSums[uj]);
         s.orthogonality = m == 1 ? State::Neutral : (s.notOrthogonalInDesign.isEmpty() ? State::Good : State::Caution);
-        s.orthogonalityText = m == 1 ? u"\u2014"_s
+        s.orthogonalityText = m == 1 ? kMissingMark.toString()
                               : s.notOrthogonalInDesign.isEmpty() ? look::mark(State::Good) + u" none"_s
                                                                  : look::mark(State::Caution) + u" "_s + columnList(s.notOrthogonalInDesign);
         s.vif = vifState(a.vif[uj]);
-        s.vifText = a.vif[uj] ? look::mark(s.vif) + u" "_s + formatVif(a.vif[uj]) : u"\u2014"_s;
+        s.vifText = a.vif[uj] ? look::mark(s.vif) + u" "_s + formatVif(a.vif[uj]) : kMissingMark.toString();
         s.rank = inRank[uj] ? State::Problem : State::Good;
 
         QStringList lines;

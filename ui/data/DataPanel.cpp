@@ -1,5 +1,8 @@
 #include "ui/data/DataPanel.h"
 
+#include "core/base/NumberText.h"
+#include "core/report/FitReport.h"
+
 #include "ui/document/Document.h"
 #include "ui/common/Look.h"
 #include "ui/common/SmallChart.h"
@@ -31,14 +34,7 @@ namespace {
 
 QString number(double v, int digits = 4)
 {
-    return std::isfinite(v) ? QString::number(v, 'g', digits) : u"\u2014"_s;
-}
-
-QString pText(double p)
-{
-    if (!std::isfinite(p))
-        return u"\u2014"_s;
-    return p < 1e-4 ? u"< 0.0001"_s : QString::number(p, 'f', 4);
+    return std::isfinite(v) ? numberText(v, digits) : kMissingMark.toString();
 }
 
 QTableWidgetItem *cell(const QString &text, bool numeric = true)
@@ -486,7 +482,7 @@ void DataPanel::showFit(const FitResult &fit)
     m_coefficients->setColumnWidth(HypothesisColumn, 220);
     for (int i = 0; i < p; ++i) {
         const FitCoefficient &c = fit.coefficients[size_t(i)];
-        m_coefficients->setItem(i, NameColumn, cell(c.name, false));
+        m_coefficients->setItem(i, NameColumn, cell(coefficientLabel(fit.intercept, i, c.name), false));
         m_coefficients->setItem(i, HypothesisColumn, cell(c.hypothesis, false));
         m_coefficients->item(i, HypothesisColumn)->setToolTip(c.hypothesis);
         m_coefficients->setItem(i, EstimateColumn, cell(number(c.estimate)));
@@ -500,20 +496,14 @@ void DataPanel::showFit(const FitResult &fit)
         m_coefficients->setItem(i, FromMeansColumn, means);
         m_coefficients->setItem(i, SeColumn, cell(number(c.se)));
         m_coefficients->setItem(i, TColumn, cell(number(c.t, 3)));
-        m_coefficients->setItem(i, PColumn, cell(pText(c.p)));
-        m_coefficients->setItem(i, PAdjustedColumn, cell(c.inFamily ? pText(c.pAdjusted) : tr("not in family")));
+        m_coefficients->setItem(i, PColumn, cell(pValueText(c.p)));
+        m_coefficients->setItem(i, PAdjustedColumn, cell(c.inFamily ? pValueText(c.pAdjusted) : tr("not in family")));
         m_coefficients->setItem(i, CiColumn, cell(u"%1 to %2"_s.arg(number(c.ciLow), number(c.ciHigh))));
     }
 
     QStringList lines;
-    lines << tr("Residual SD %1 on %2 df \u00b7 R\u00b2 = %3%4 \u00b7 %5 observations in %6 %7")
-                 .arg(number(fit.sigma), number(fit.df, 6), number(fit.rSquared, 3), fit.centred ? QString() : tr(" (about 0)"),
-                      number(fit.totalN, 10), QString::number(fit.levels.size()),
-                      m_document->isDesign() ? tr("cells") : tr("levels"))
-                 .toHtmlEscaped();
-    lines << tr("F(%1, %2) = %3, p %4 \u2014 null hypothesis: %5")
-                 .arg(number(fit.fDf1, 6), number(fit.fDf2, 6), number(fit.f), pText(fit.fP).startsWith(u'<') ? pText(fit.fP) : u"= "_s + pText(fit.fP), fit.omnibusHypothesis)
-                 .toHtmlEscaped();
+    for (const QString &line : fitSummaryLines(fit, m_document->isDesign()))
+        lines << line.toHtmlEscaped();
     if (!fit.hypothesesAgree)
         lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
                                                              tr("Some coefficients do not estimate the scheme\u2019s hypotheses at these group sizes (marked below)."));

@@ -26,7 +26,7 @@ class SmallChart;
 // The data check: a long-format CSV/TSV file read in the background
 // (readLevelData), its levels matched to the scheme's, and the scheme fitted
 // (fitScheme). With a design open, the data name one column per factor and the
-// design's coding over the cells is fitted (a row's cell is its values joined, "grass:early"). Shows the coefficients beside the hypotheses they test, the
+// design's coding over the cells is fitted (a row's cell is its values joined, "grass·early"). Shows the coefficients beside the hypotheses they test, the
 // level means with intervals, the overall fit and the rows that were left out.
 class DataPanel : public QWidget
 {

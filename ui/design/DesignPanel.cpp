@@ -214,7 +214,7 @@ void DesignPanel::fillTerms()
         for (int j = 0; j < int(da.columnTerm.size()); ++j) {
             if (da.columnTerm[size_t(j)] != termIndex)
                 continue;
-            auto *child = new QTreeWidgetItem(item, {u"b%1   %2"_s.arg(j + off).arg(da.cellScheme.columns[size_t(j)].name)});
+            auto *child = new QTreeWidgetItem(item, {coefficientLabel(a.intercept, j + off, da.cellScheme.columns[size_t(j)].name)});
             child->setData(0, kColumnRole, j);
             child->setToolTip(0, tr("Show this column's weights over the cells"));
             ++rows;
@@ -242,7 +242,7 @@ void DesignPanel::fillCellSizes()
     m_cellN->setVerticalHeaderLabels(first.factor.levels);
     QStringList columnTitles;
     for (int c = 0; c < cols; ++c)
-        columnTitles << cells[c].section(u':', 1);
+        columnTitles << cells[c].mid(first.factor.levels.value(0).size() + cellJoiner().size());
     m_cellN->setHorizontalHeaderLabels(columnTitles);
     const QStringList empty = m_document->designAnalysis().emptyCells;
     for (int r = 0; r < rows; ++r)

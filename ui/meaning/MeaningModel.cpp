@@ -33,7 +33,7 @@ QVariant MeaningModel::data(const QModelIndex &index, int role) const
     const bool intercept = a.intercept && r == 0;
     switch (role) {
     case TitleRole:
-        return u"b%1  %2"_s.arg(a.intercept ? r : r + 1).arg(intercept ? tr("intercept") : a.coefficientNames[r]);
+        return coefficientLabel(a.intercept, r, a.coefficientNames[r]);
     case Qt::DisplayRole:
     case SymbolsRole:
         return a.hypothesisSymbols[r];

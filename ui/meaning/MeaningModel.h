@@ -13,7 +13,7 @@ class MeaningModel : public DocumentTableModel
 
 public:
     enum Role {
-        TitleRole = Qt::UserRole + 1, // "b1  drip vs furrow"
+        TitleRole = Qt::UserRole + 1, // "b1 drip vs furrow" (cb::coefficientLabel)
         SymbolsRole,                  // "b1: mean(a, b) - mean(c) = 0"
         WordsRole,                    // "the average of a and b minus c"
         WeightsRole,                  // QList<double>: hypothesis weights per level

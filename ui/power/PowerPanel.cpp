@@ -1,5 +1,6 @@
 #include "ui/power/PowerPanel.h"
 
+#include "core/base/NumberText.h"
 #include "ui/document/Document.h"
 #include "ui/common/Look.h"
 #include "ui/common/SmallChart.h"
@@ -28,12 +29,12 @@ namespace {
 
 QString dash()
 {
-    return u"\u2014"_s;
+    return kMissingMark.toString();
 }
 
 QString number(double v, int digits = 4)
 {
-    return std::isfinite(v) ? QString::number(v, 'g', digits) : dash();
+    return std::isfinite(v) ? numberText(v, digits) : dash();
 }
 
 QString sizesText(const SampleSize &size)

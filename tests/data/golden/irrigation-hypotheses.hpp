@@ -6,7 +6,7 @@
 
 // Row and column names (UTF-8).
 inline constexpr std::array<std::string_view, 4> hypotheses_rows{
-    std::string_view{"(Intercept)", 11},
+    std::string_view{"intercept", 9},
     std::string_view{"watered_vs_none", 15},
     std::string_view{"frequent_vs_weekly", 18},
     std::string_view{"daily_vs_twice", 14},
@@ -20,7 +20,7 @@ inline constexpr std::array<std::string_view, 4> hypotheses_columns{
 
 // The matrix as nested arrays: hypotheses_array[row][column].
 inline constexpr std::array<std::array<double, 4>, 4> hypotheses_array{{
-    {{0.25, 0.25, 0.25, 0.25}}, // "(Intercept)"
+    {{0.25, 0.25, 0.25, 0.25}}, // "intercept"
     {{-1.0, 0.3333333333333333, 0.3333333333333333, 0.3333333333333333}}, // "watered_vs_none"
     {{0.0, -1.0, 0.5, 0.5}}, // "frequent_vs_weekly"
     {{0.0, 0.0, -1.0, 1.0}}, // "daily_vs_twice"
@@ -29,7 +29,7 @@ inline constexpr std::array<std::array<double, 4>, 4> hypotheses_array{{
 // The same matrix as an Eigen matrix, filled row by row.
 inline const Eigen::MatrixXd hypotheses = [] {
     Eigen::MatrixXd value(4, 4);
-    value << 0.25, 0.25, 0.25, 0.25, // "(Intercept)"
+    value << 0.25, 0.25, 0.25, 0.25, // "intercept"
              -1.0, 0.3333333333333333, 0.3333333333333333, 0.3333333333333333, // "watered_vs_none"
              0.0, -1.0, 0.5, 0.5, // "frequent_vs_weekly"
              0.0, 0.0, -1.0, 1.0; // "daily_vs_twice"

@@ -3,7 +3,7 @@
 import numpy as np
 
 hypotheses_rows = [
-    "(Intercept)",
+    "intercept",
     "watered_vs_none",
     "frequent_vs_weekly",
     "daily_vs_twice",
@@ -15,7 +15,7 @@ hypotheses_columns = [
     "daily",
 ]
 hypotheses = np.array([
-    [0.25, 0.25, 0.25, 0.25],  # "(Intercept)"
+    [0.25, 0.25, 0.25, 0.25],  # "intercept"
     [-1, 0.3333333333333333, 0.3333333333333333, 0.3333333333333333],  # "watered_vs_none"
     [0, -1, 0.5, 0.5],  # "frequent_vs_weekly"
     [0, 0, -1, 1],  # "daily_vs_twice"
