@@ -17,6 +17,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <exception>
 #include <functional>
 #include <numeric>
 
@@ -400,34 +401,56 @@ double perTestAlpha(double alpha, PowerAdjustment adjustment, int tests)
     return alpha;
 }
 
+namespace {
+
+// The boundary to Boost.Math. The policy above turns its errors into NaN, but some of its
+// internal steps use the default policy and throw (non_central_beta truncates lambda / 2 to an
+// int: a noncentrality above about 4e9 throws a rounding_error). No library error may end the
+// process: whatever escapes becomes NaN, which callers report as "could not be evaluated".
+template<typename F>
+double evaluated(F &&f) noexcept
+{
+    try {
+        return f();
+    } catch (...) {
+        return kNaN;
+    }
+}
+
+} // namespace
+
 double tTestPower(double noncentrality, double df, double alpha, bool oneSided)
 {
     if (!(df > 0.0) || !(alpha > 0.0 && alpha < 1.0) || !std::isfinite(noncentrality))
         return kNaN;
-    const bm::students_t_distribution<double, Policy> central(df);
-    const double critical = bm::quantile(bm::complement(central, oneSided ? alpha : alpha / 2.0));
-    if (noncentrality == 0.0) {
-        // The central case: the test's own size, alpha (up to rounding).
-        const double upper = bm::cdf(bm::complement(central, critical));
-        return oneSided ? upper : 2.0 * upper;
-    }
-    const bm::non_central_t_distribution<double, Policy> shifted(df, noncentrality);
-    const double upper = bm::cdf(bm::complement(shifted, critical));
-    if (oneSided)
-        return upper;
-    return upper + bm::cdf(shifted, -critical);
+    return evaluated([&] {
+        const bm::students_t_distribution<double, Policy> central(df);
+        const double critical = bm::quantile(bm::complement(central, oneSided ? alpha : alpha / 2.0));
+        if (noncentrality == 0.0) {
+            // The central case: the test's own size, alpha (up to rounding).
+            const double upper = bm::cdf(bm::complement(central, critical));
+            return oneSided ? upper : 2.0 * upper;
+        }
+        const bm::non_central_t_distribution<double, Policy> shifted(df, noncentrality);
+        const double upper = bm::cdf(bm::complement(shifted, critical));
+        if (oneSided)
+            return upper;
+        return upper + bm::cdf(shifted, -critical);
+    });
 }
 
 double fTestPower(double lambda, double df1, double df2, double alpha)
 {
     if (!(df1 > 0.0) || !(df2 > 0.0) || !(alpha > 0.0 && alpha < 1.0) || !(lambda >= 0.0) || !std::isfinite(lambda))
         return kNaN;
-    const bm::fisher_f_distribution<double, Policy> central(df1, df2);
-    const double critical = bm::quantile(bm::complement(central, alpha));
-    if (lambda == 0.0)
-        return bm::cdf(bm::complement(central, critical));
-    const bm::non_central_f_distribution<double, Policy> shifted(df1, df2, lambda);
-    return bm::cdf(bm::complement(shifted, critical));
+    return evaluated([&] {
+        const bm::fisher_f_distribution<double, Policy> central(df1, df2);
+        const double critical = bm::quantile(bm::complement(central, alpha));
+        if (lambda == 0.0)
+            return bm::cdf(bm::complement(central, critical));
+        const bm::non_central_f_distribution<double, Policy> shifted(df1, df2, lambda);
+        return bm::cdf(bm::complement(shifted, critical));
+    });
 }
 
 namespace {
@@ -447,6 +470,14 @@ QString checkRows(const Eigen::MatrixXd &rows, const PowerSettings &s)
     return {};
 }
 
+// Why a power is shown as '-': the inputs that the distribution could not be evaluated at.
+QString unevaluatedNote(const QString &distribution, double noncentrality, double df, double alpha)
+{
+    return u"the power at the planned sizes could not be evaluated (noncentral %1 with noncentrality %2, df %3, "
+           u"alpha %4 are beyond what it can be computed for); it is shown as '-' and is not reliable"_s
+        .arg(distribution, shortNum(noncentrality), shortNum(df), shortNum(alpha));
+}
+
 void describeContrast(ContrastPower &c, const PowerSettings &s, double target)
 {
     const double sum = std::accumulate(c.weights.begin(), c.weights.end(), 0.0);
@@ -456,6 +487,8 @@ void describeContrast(ContrastPower &c, const PowerSettings &s, double target)
     if (std::abs(sum) > 1e-12 * sumAbs)
         c.notes << u"its weights sum to %1, not 0: it tests a level of the means, not only their differences, "
                    u"so its power depends on where the means lie"_s.arg(shortNum(sum));
+    if (std::isnan(c.power))
+        c.notes << unevaluatedNote(u"t"_s, c.noncentrality, c.df, c.alpha);
     if (c.zeroEstimate) {
         c.notes << u"the expected estimate is 0: power equals alpha (%1) at every n, and no sample size reaches "
                    u"the target"_s.arg(shortNum(c.alpha));
@@ -516,6 +549,8 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
     if (o.pooledFromLevelSds)
         o.notes << u"with per-level SDs the F-test's power uses their pooled SD (%1, weighted by n - 1); the "
                    u"F-test assumes equal SDs, so this is an approximation"_s.arg(shortNum(o.sd));
+    if (std::isnan(o.power))
+        o.notes << unevaluatedNote(u"F"_s, o.noncentrality, o.df2, o.alpha);
     if (allEqual)
         o.notes << u"all expected means are equal: the F-test's power equals alpha at every n"_s;
     else if (!o.required.reachable)
