@@ -48,20 +48,19 @@ int runAnalyze(const QStringList &args, Io &io)
         return kExitOk;
     }
     // A file of several crossed factors is analysed over its cells.
-    if (auto design = designFromOptions(p)) {
-        if (!*design)
-            return badInput(io, u"analyze"_s, design->error());
-        const DesignAnalysis da = analyzeDesign(design->value());
+    auto study = studyFromOptions(p);
+    if (!study)
+        return badInput(io, u"analyze"_s, study.error());
+    if (study->isDesign()) {
+        const Design &design = study->design;
+        const DesignAnalysis da = analyzeDesign(design);
         if (p.isSet(u"json"_s))
-            io.out << QString::fromUtf8(QJsonDocument(designAnalysisToJson(design->value(), da)).toJson(QJsonDocument::Indented));
+            io.out << QString::fromUtf8(QJsonDocument(designAnalysisToJson(design, da)).toJson(QJsonDocument::Indented));
         else
-            io.out << designReport(design->value(), da);
+            io.out << designReport(design, da);
         return kExitOk;
     }
-    auto scheme = schemeFromOptions(p);
-    if (!scheme)
-        return badInput(io, u"analyze"_s, scheme.error());
-    return report(*scheme, p.isSet(u"json"_s), io);
+    return report(study->activeScheme(), p.isSet(u"json"_s), io);
 }
 
 int runDesign(const QStringList &args, Io &io)

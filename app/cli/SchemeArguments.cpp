@@ -1,8 +1,6 @@
 #include "app/cli/SchemeArguments.h"
 
-#include "core/files/SchemeFile.h"
-
-#include <QFile>
+#include "core/files/InputFile.h"
 
 using namespace Qt::StringLiterals;
 
@@ -73,34 +71,41 @@ QString parseArguments(QCommandLineParser &p, const QString &command, const QStr
     return {};
 }
 
-std::optional<Result<Design>> designFromOptions(const QCommandLineParser &p)
+Result<Study> studyFromOptions(const QCommandLineParser &p)
 {
-    if (!p.isSet(u"file"_s))
-        return std::nullopt;
-    QFile f(p.value(u"file"_s));
-    if (!f.open(QIODevice::ReadOnly))
-        return std::nullopt; // the scheme loader reports it
-    const QByteArray data = f.read(64 * 1024 * 1024);
-    if (!isDesignJson(data))
-        return std::nullopt;
-    auto design = designFromJson(data, p.value(u"file"_s));
-    if (design && p.isSet(u"no-intercept"_s))
-        design->intercept = false;
-    return design;
+    using R = Result<Study>;
+    const bool haveFile = p.isSet(u"file"_s);
+    if (!haveFile || p.isSet(u"levels"_s)) {
+        auto scheme = schemeFromOptions(p);
+        if (!scheme)
+            return R::failure(scheme.error());
+        return R(studyOf(scheme.take()));
+    }
+    for (const char16_t *opt : {u"scheme", u"columns", u"reference", u"spacing", u"n"})
+        if (p.isSet(QString::fromUtf16(opt)))
+            return R::failure(u"--%1 cannot be combined with --file; edit the scheme file instead"_s.arg(QString::fromUtf16(opt)));
+    // Read once: a pipe, a FIFO or standard input gives its bytes only once.
+    auto study = loadStudy(p.value(u"file"_s));
+    if (study && p.isSet(u"no-intercept"_s)) {
+        study->design.intercept = false;
+        for (Scheme &f : study->design.factors)
+            f.intercept = false;
+    }
+    return study;
 }
 
 Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QString &what, std::optional<Design> *designOut)
 {
-    auto design = designFromOptions(p);
-    if (!design)
-        return schemeFromOptions(p);
-    if (!*design)
-        return Result<Scheme>::failure(design->error());
-    const Design &d = design->value();
+    auto study = studyFromOptions(p);
+    if (!study)
+        return Result<Scheme>::failure(study.error());
+    if (!study->isDesign())
+        return study->activeScheme();
+    const Design &d = study->design;
     for (size_t c = 0; c < d.cellN.size(); ++c)
         if (d.cellN[c] == 0)
             return Result<Scheme>::failure(u"%1: cell '%2' is empty (cell_n 0); %3 needs a planned size above 0 for every cell"_s
-                                               .arg(p.value(u"file"_s), d.cellNames()[qsizetype(c)], what));
+                                               .arg(inputLabel(p.value(u"file"_s)), d.cellNames()[qsizetype(c)], what));
     if (designOut)
         *designOut = d;
     return cellScheme(d);
@@ -109,23 +114,9 @@ Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QStri
 Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
 {
     using R = Result<Scheme>;
-    const bool haveFile = p.isSet(u"file"_s);
-    const bool haveLevels = p.isSet(u"levels"_s);
-    if (haveFile == haveLevels)
+    if (p.isSet(u"file"_s) == p.isSet(u"levels"_s))
         return R::failure(u"give either --file or --levels (with --scheme or --columns)"_s);
     Scheme s;
-    if (haveFile) {
-        for (const char16_t *opt : {u"scheme", u"columns", u"reference", u"spacing", u"n"})
-            if (p.isSet(QString::fromUtf16(opt)))
-                return R::failure(u"--%1 cannot be combined with --file; edit the scheme file instead"_s.arg(QString::fromUtf16(opt)));
-        auto loaded = loadScheme(p.value(u"file"_s));
-        if (!loaded)
-            return loaded;
-        s = loaded.take();
-        if (p.isSet(u"no-intercept"_s))
-            s.intercept = false;
-        return R(std::move(s));
-    }
     auto factor = factorFromOptions(p);
     if (!factor)
         return R::failure(factor.error());

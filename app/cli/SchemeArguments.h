@@ -3,6 +3,7 @@
 #include "core/model/Design.h"
 #include "core/base/Result.h"
 #include "core/model/Scheme.h"
+#include "core/model/Study.h"
 
 #include <QCommandLineParser>
 
@@ -15,12 +16,13 @@ namespace cb::cli {
 // --poly-form, --poly-weighted.
 enum class SchemeOptionSet { All, WithoutFactorName };
 void addSchemeOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOptionSet::All);
-// The scheme the options describe; the message names the argument and what was wrong.
+// The scheme --levels and the other options describe; the message names the argument and
+// what was wrong.
 Result<Scheme> schemeFromOptions(const QCommandLineParser &parser);
 
-// When --file names a design of several crossed factors: that design (or why it cannot be
-// read), with --no-intercept applied. Empty for every other case (a scheme file, --levels).
-std::optional<Result<Design>> designFromOptions(const QCommandLineParser &parser);
+// What the options describe: --file read once (a scheme file, or a design of several crossed
+// factors; "-" is standard input), or the scheme of --levels; --no-intercept applied.
+Result<Study> studyFromOptions(const QCommandLineParser &parser);
 
 // The scheme the options describe or, for a design file, the equivalent one-factor scheme over
 // its cells (the cells as levels, the first factor varying slowest; the design's columns; the cell

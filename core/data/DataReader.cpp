@@ -1,5 +1,7 @@
 #include "core/data/DataReader.h"
 
+#include "core/files/InputFile.h"
+
 #include <QFile>
 #include <QFileInfo>
 #include <QStringDecoder>
@@ -260,13 +262,9 @@ Result<std::unique_ptr<ByteSource>> openSource(const QString &path)
         std::unique_ptr<ByteSource> s = std::make_unique<FileSource>(stdin, false);
         return s;
     }
-    if (path.isEmpty())
-        return Result<std::unique_ptr<ByteSource>>::failure(u"no data file given"_s);
+    if (const QString problem = inputPathProblem(path, u"a data file"_s); !problem.isEmpty())
+        return Result<std::unique_ptr<ByteSource>>::failure(problem);
     const QFileInfo info(path);
-    if (!info.exists())
-        return Result<std::unique_ptr<ByteSource>>::failure(u"%1: no such file"_s.arg(path));
-    if (info.isDir())
-        return Result<std::unique_ptr<ByteSource>>::failure(u"%1 is a folder; expected a data file"_s.arg(path));
     std::FILE *f = std::fopen(QFile::encodeName(path).constData(), "rb");
     if (!f)
         return Result<std::unique_ptr<ByteSource>>::failure(
@@ -276,11 +274,6 @@ Result<std::unique_ptr<ByteSource>> openSource(const QString &path)
     source->setSize(info.size());
     std::unique_ptr<ByteSource> s = std::move(source);
     return s;
-}
-
-QString sourceLabel(const QString &path)
-{
-    return path == u"-"_s ? u"standard input"_s : path;
 }
 
 // Bytes readable after the end of the data, so that short keys can be loaded as whole words.
@@ -1494,7 +1487,7 @@ static Result<Out> readPath(const QString &path, const Options &options)
     auto source = openSource(path);
     if (!source)
         return Result<Out>::failure(source.error());
-    return Reader(*source.value(), sourceLabel(path), options).run();
+    return Reader(*source.value(), inputLabel(path), options).run();
 }
 
 Result<DataSummary> readLevelData(const QString &path, const DataReadOptions &options)
@@ -1526,7 +1519,7 @@ Result<DataPreview> previewData(const QString &path, int maxRows, char delimiter
     auto source = openSource(path);
     if (!source)
         return Result<DataPreview>::failure(source.error());
-    return preview(*source.value(), sourceLabel(path), maxRows, delimiter, header);
+    return preview(*source.value(), inputLabel(path), maxRows, delimiter, header);
 }
 
 Result<DataPreview> previewDataFromBytes(const QByteArray &bytes, const QString &sourceName, int maxRows,

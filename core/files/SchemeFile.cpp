@@ -1,5 +1,7 @@
 #include "core/files/SchemeFile.h"
 
+#include "core/files/InputFile.h"
+
 #include <QFile>
 #include <QFileInfo>
 #include <QJsonArray>
@@ -132,6 +134,8 @@ QByteArray schemeToJson(const Scheme &s)
 Result<QJsonObject> schemeDocumentRoot(const QByteArray &data, const QString &where)
 {
     using R = Result<QJsonObject>;
+    if (data.trimmed().isEmpty())
+        return R::failure(u"%1: the file is empty; expected a scheme file (JSON)"_s.arg(where));
     QJsonParseError pe;
     const QJsonDocument doc = QJsonDocument::fromJson(data, &pe);
     if (pe.error != QJsonParseError::NoError) {
@@ -260,13 +264,10 @@ Result<Scheme> schemeFromObject(const QJsonObject &root, const QString &where, c
 
 Result<Scheme> loadScheme(const QString &path)
 {
-    QFile f(path);
-    if (!f.open(QIODevice::ReadOnly))
-        return Result<Scheme>::failure(u"%1: cannot open the file: %2"_s.arg(path, f.errorString()));
-    constexpr qint64 kMaxSchemeFile = 64 * 1024 * 1024;
-    if (f.size() > kMaxSchemeFile)
-        return Result<Scheme>::failure(u"%1: the file is %2 bytes; scheme files are at most 64 MiB"_s.arg(path).arg(f.size()));
-    return schemeFromJson(f.readAll(), path);
+    auto data = readInput(path);
+    if (!data)
+        return Result<Scheme>::failure(data.error());
+    return schemeFromJson(*data, inputLabel(path));
 }
 
 QString writeAll(QIODevice &device, const QByteArray &data, const QString &where)

@@ -171,7 +171,7 @@ void TestSchemeFile::missingFile()
 {
     auto s = loadScheme(u"/nonexistent/dir/scheme.json"_s);
     QVERIFY(!s.ok());
-    QVERIFY(s.error().startsWith(u"/nonexistent/dir/scheme.json: cannot open the file"_s));
+    QVERIFY(s.error().startsWith(u"/nonexistent/dir/scheme.json: no such file"_s));
 }
 
 void TestSchemeFile::saveIsAtomic()
