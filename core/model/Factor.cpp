@@ -51,7 +51,7 @@ QString Factor::validate() const
         QSet<QString> seen;
         for (qsizetype i = 0; i < levels.size(); ++i) {
             if (seen.contains(levels[i]))
-                return u"levels: level %1 repeats the name '%2'; level names must be unique"_s.arg(i + 1).arg(levels[i]);
+                return u"levels: level %1 repeats the name %2; level names must be unique"_s.arg(i + 1).arg(quoted(levels[i]));
             seen.insert(levels[i]);
         }
     }
@@ -60,8 +60,8 @@ QString Factor::validate() const
             return u"n: %1 planned group sizes for %2 levels; give one per level"_s.arg(plannedN.size()).arg(levels.size());
         for (size_t i = 0; i < plannedN.size(); ++i)
             if (plannedN[i] <= 0)
-                return u"n: the planned size of level '%1' is %2; sizes must be positive"_s
-                    .arg(levels[qsizetype(i)], rationalToString(plannedN[i]));
+                return u"n: the planned size of level %1 is %2; sizes must be positive"_s
+                    .arg(quoted(levels[qsizetype(i)]), rationalToString(plannedN[i]));
     }
     if (!spacing.empty()) {
         if (spacing.size() != size_t(levels.size()))
@@ -69,8 +69,8 @@ QString Factor::validate() const
         for (size_t i = 0; i < spacing.size(); ++i)
             for (size_t j = 0; j < i; ++j)
                 if (spacing[i].value() == spacing[j].value())
-                    return u"spacing: levels '%1' and '%2' have the same position %3; positions must differ"_s
-                        .arg(levels[qsizetype(j)], levels[qsizetype(i)], spacing[i].display());
+                    return u"spacing: levels %1 and %2 have the same position %3; positions must differ"_s
+                        .arg(quoted(levels[qsizetype(j)]), quoted(levels[qsizetype(i)]), spacing[i].display());
     }
     return {};
 }
@@ -97,7 +97,7 @@ Result<std::vector<Rational>> parseSizes(const QStringList &items, int levelCoun
         if (!w)
             return R::failure(u"%1, item %2: %3"_s.arg(where).arg(i + 1).arg(w.error()));
         if (!w->isExact() || w->rational() <= 0)
-            return R::failure(u"%1, item %2: '%3' is not a positive size; expected a number above 0"_s.arg(where).arg(i + 1).arg(items[i]));
+            return R::failure(u"%1, item %2: %3 is not a positive size; expected a number above 0"_s.arg(where).arg(i + 1).arg(quoted(items[i])));
         out.push_back(w->rational());
     }
     return R(std::move(out));
