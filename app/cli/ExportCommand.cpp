@@ -71,7 +71,7 @@ int runExport(const QStringList &args, Io &io)
     options.variableName = p.value(u"variable"_s);
     auto text = exportTable(*table, *format, options);
     if (!text)
-        return exportError(io, kExitFailure, text.error());
+        return exportError(io, kExitBadInput, text.error()); // what the input made cannot be written
 
     if (!p.isSet(u"output"_s)) {
         io.out << *text;

@@ -253,8 +253,8 @@ int runFit(const QStringList &args, Io &io)
     if (!data)
         return badInput(io, data.error());
     auto fit = fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
-    if (!fit)
-        return badInput(io, fit.error());
+    if (!fit) // named by the data it could not fit
+        return badInput(io, data->source + u": "_s + fit.error());
     if (p.isSet(u"json"_s))
         io.out << QString::fromUtf8(QJsonDocument(fitResultToJson(*fit, *data)).toJson(QJsonDocument::Indented));
     else

@@ -236,10 +236,17 @@ Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &
         const RunningStats &s = levels.stats[size_t(j)];
         if (!(s.n > 0.0))
             return Fail::failure(u"level %1 has no observations; every level needs data"_s.arg(quoted(levels.levels.value(j))));
+        // Beyond this the squares and differences of the means overflow a double.
+        constexpr double kMaxResponse = 1e150;
+        if (!(std::abs(s.mean) <= kMaxResponse))
+            return Fail::failure(u"level %1: the mean response is %2, too large to fit (its square overflows); rescale the response"_s
+                                     .arg(quoted(levels.levels.value(j)), QString::number(s.mean, 'g', 4)));
         n[j] = s.n;
         ybar[j] = s.mean;
         within += s.m2;
     }
+    if (!std::isfinite(within))
+        return Fail::failure(u"the response varies too much to fit: its sum of squares within levels overflows; rescale the response"_s);
     const double totalN = n.sum();
     if (totalN < double(p))
         return Fail::failure(u"%1 observations for %2 coefficients; need at least as many observations as coefficients"_s

@@ -32,6 +32,8 @@ QString inputPathProblem(const QString &path, const QString &expected)
         return {};
     if (path.isEmpty())
         return u"no file given; expected a path, or - for standard input"_s;
+    if (path.startsWith(u':'))
+        return QFile::exists(path) ? QString() : u"%1: no such file"_s.arg(path); // a Qt resource (the demos)
     namespace fs = std::filesystem;
     std::error_code ec;
     switch (fs::status(fs::path(path.toStdU16String()), ec).type()) {

@@ -42,11 +42,15 @@ QString num(double x)
     return doubleToString(x);
 }
 
-// Short text for people: 4 significant digits.
+// Short text for people: 4 significant digits; '-' for what is not a finite number.
 QString shortNum(double x)
 {
-    return QString::number(x, 'g', 4);
+    return std::isfinite(x) ? QString::number(x, 'g', 4) : u"-"_s;
 }
+
+// Means and SDs whose squares and ratios a double holds: beyond these the noncentrality
+// overflows to infinity, or a variance to 0, and no power can be computed.
+constexpr double kMaxMagnitude = 1e100;
 
 bool positiveFinite(double x)
 {
@@ -68,7 +72,21 @@ QString checkValues(const std::vector<double> &values, const QString &field, boo
             return u"%1, item %2: not a finite number"_s.arg(field).arg(i + 1);
         if (positive && values[i] <= 0.0)
             return u"%1, item %2: %3 is not a positive %4; it must be above 0"_s.arg(field).arg(i + 1).arg(num(values[i]), what);
+        if (std::abs(values[i]) > kMaxMagnitude || (positive && values[i] < 1.0 / kMaxMagnitude))
+            return u"%1, item %2: %3 is beyond what power can be computed for; give magnitudes from 1e-100 to 1e100"_s.arg(field)
+                .arg(i + 1)
+                .arg(num(values[i]));
     }
+    return {};
+}
+
+// The largest difference between means in SDs must keep the noncentrality finite.
+QString checkSpread(const PowerSettings &s, const QString &field)
+{
+    const auto [lo, hi] = std::minmax_element(s.means.begin(), s.means.end());
+    const double sd = s.perLevelSds() ? *std::min_element(s.sds.begin(), s.sds.end()) : s.sd;
+    if ((*hi - *lo) / sd > kMaxMagnitude)
+        return u"%1: the means differ by %2 SDs, beyond what power can be computed for (at most 1e100)"_s.arg(field, shortNum((*hi - *lo) / sd));
     return {};
 }
 
@@ -317,7 +335,11 @@ QString validatePowerSettings(const PowerSettings &s, int levelCount, const QStr
             return e;
     } else if (!positiveFinite(s.sd)) {
         return u"%1: %2 is not a positive standard deviation; the SD must be above 0"_s.arg(field(u"sd"), num(s.sd));
+    } else if (e = checkValues({s.sd}, field(u"sd"), true, u"standard deviation"_s); !e.isEmpty()) {
+        return e;
     }
+    if (e = checkSpread(s, field(u"means")); !e.isEmpty())
+        return e;
     if (!s.n.empty()) {
         if (!s.ratios.empty())
             return u"%1 and %2: give planned sizes per level, or ratios with a total, not both"_s.arg(field(u"n"), field(u"ratios"));

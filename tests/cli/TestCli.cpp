@@ -8,6 +8,8 @@
 #include "tests/support/ProcessRunner.h"
 #include <QTest>
 
+#include <cmath>
+
 using namespace Qt::StringLiterals;
 
 namespace {
@@ -39,6 +41,7 @@ private slots:
     void badInput_data();
     void badInput();
     void fileFromStandardInput();
+    void extremeSpacingGivesFiniteColumns();
     void textReport();
     void versionIsTheProjectVersion();
 };
@@ -180,6 +183,25 @@ void TestCli::fileFromStandardInput()
     }
     const cb::test::ProcessRun a = cb::test::runCli({u"analyze"_s, u"--file"_s, u"-"_s}, bytes);
     QVERIFY(a.outText().startsWith(u"Design: margin"_s));
+}
+
+// Positions that span 600 orders of magnitude: the exact trends are normalised as ratios in
+// [0, 1], so no column overflows to NaN (issue 21, class 4); export and analyze agree.
+void TestCli::extremeSpacingGivesFiniteColumns()
+{
+    const QStringList scheme = {u"--levels"_s, u"a,b,c,d"_s, u"--scheme"_s, u"polynomial"_s, u"--spacing"_s, u"1e300,-1e300,1e-300,0"_s};
+    const Run json = cli(QStringList{u"analyze"_s} + scheme + QStringList{u"--json"_s});
+    QCOMPARE(json.exitCode, 0);
+    const QJsonArray coding = QJsonDocument::fromJson(json.out).object()[u"coding"_s].toArray();
+    QCOMPARE(coding.size(), 4);
+    for (const QJsonValue &row : coding)
+        for (const QJsonValue &v : row.toArray())
+            QVERIFY2(v.isDouble() && std::isfinite(v.toDouble()), json.out.constData());
+    // The linear trend: a and b at -1e300 and 1e300 dominate, each 1/sqrt(2) (orthonormal).
+    QCOMPARE(coding[0].toArray()[0].toDouble(), -std::sqrt(0.5));
+    const Run csv = cli(QStringList{u"export"_s, u"--format"_s, u"csv"_s} + scheme);
+    QCOMPARE(csv.exitCode, 0);
+    QVERIFY(!csv.outText().contains(u"nan"_s, Qt::CaseInsensitive));
 }
 
 void TestCli::textReport()

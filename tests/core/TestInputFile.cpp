@@ -54,6 +54,8 @@ void TestInputFile::readsARegularFile()
     QVERIFY2(data, qPrintable(data.error()));
     QCOMPARE(*data, kScheme);
     QCOMPARE(inputLabel(u"-"_s), u"standard input"_s);
+    // Qt resources (the demos compiled in) are files too.
+    QVERIFY(inputPathProblem(u":/no/such/resource.json"_s, u"a file"_s).contains(u"no such file"_s));
     QCOMPARE(inputLabel(path), path);
 }
 

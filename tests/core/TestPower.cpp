@@ -1126,6 +1126,13 @@ void TestPower::commandLineRejectsInput_data()
                                       << u"--baseline: 'z' is not one of the levels (a, b, c)"_s;
     QTest::newRow("ratio zero") << levels + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1"_s, u"--ratios"_s, u"1,0,1"_s, u"--total"_s, u"30"_s}
                                 << u"--ratios, item 2: 0 is not a positive ratio; it must be above 0"_s;
+    // Magnitudes whose squares or ratios overflow are refused (issue 21, class 4).
+    QTest::newRow("sd tiny") << levels + sizes + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1e-300"_s}
+                             << u"--sd, item 1: 1e-300 is beyond what power can be computed for; give magnitudes from 1e-100 to 1e100"_s;
+    QTest::newRow("sds huge") << levels + sizes + QStringList{u"--means"_s, u"0,1,2"_s, u"--sds"_s, u"1,1,1e300"_s}
+                              << u"--sds, item 3: 1e+300 is beyond what power can be computed for"_s;
+    QTest::newRow("means far apart in SDs") << levels + sizes + QStringList{u"--means"_s, u"0,1,1e99"_s, u"--sd"_s, u"1e-90"_s}
+                                            << u"--means: the means differ by 1e+189 SDs, beyond what power can be computed for (at most 1e100)"_s;
     QTest::newRow("unknown option") << ok + QStringList{u"--power"_s, u"0.9"_s} << u"Unknown option 'power'"_s;
 }
 
