@@ -99,8 +99,8 @@ int runDesign(const QStringList &args, Io &io)
     }
     const bool intercept = !p.isSet(u"no-intercept"_s);
     auto cols = codingFromHypotheses(f, rows, intercept, interceptRow);
-    if (!cols)
-        return badInput(io, u"design"_s, cols.error());
+    if (!cols) // core names the rows ("hypotheses: row 1 ..."); the options are --hypotheses and --intercept-row
+        return badInput(io, u"design"_s, (cols.error().startsWith(u"intercept:"_s) ? u"--intercept-row: "_s : u"--"_s) + cols.error());
     Scheme s;
     s.factor = f;
     s.kind = SchemeKind::Custom;

@@ -51,10 +51,10 @@ int runExport(const QStringList &args, Io &io)
     const auto format = exportFormatFromId(p.value(u"format"_s));
     if (!format)
         return exportError(io, kExitBadInput,
-                           u"--format: unknown format '%1'; expected one of %2"_s.arg(p.value(u"format"_s), formatIds()));
+                           u"--format: unknown format %1; expected one of %2"_s.arg(quoted(p.value(u"format"_s)), formatIds()));
     const QString matrix = p.value(u"matrix"_s);
     if (matrix != u"coding"_s && matrix != u"hypotheses"_s)
-        return exportError(io, kExitBadInput, u"--matrix: unknown matrix '%1'; expected coding or hypotheses"_s.arg(matrix));
+        return exportError(io, kExitBadInput, u"--matrix: unknown matrix %1; expected coding or hypotheses"_s.arg(quoted(matrix)));
     if (p.isSet(u"output"_s) && p.value(u"output"_s).isEmpty())
         return exportError(io, kExitBadInput, u"-o: empty file name"_s);
 
@@ -71,7 +71,7 @@ int runExport(const QStringList &args, Io &io)
     options.variableName = p.value(u"variable"_s);
     auto text = exportTable(*table, *format, options);
     if (!text)
-        return exportError(io, kExitFailure, text.error());
+        return exportError(io, kExitBadInput, text.error()); // what the input made cannot be written
 
     if (!p.isSet(u"output"_s)) {
         io.out << *text;

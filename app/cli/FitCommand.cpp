@@ -66,8 +66,8 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
     if (p.isSet(u"delimiter"_s)) {
         const auto d = delimiterFromName(p.value(u"delimiter"_s));
         if (!d)
-            return R::failure(u"--delimiter: '%1' is not a delimiter; expected comma, tab, semicolon, bar or one punctuation character"_s
-                                  .arg(p.value(u"delimiter"_s)));
+            return R::failure(u"--delimiter: %1 is not a delimiter; expected comma, tab, semicolon, bar or one punctuation character"_s
+                                  .arg(quoted(p.value(u"delimiter"_s))));
         a.delimiter = *d;
     }
     if (p.isSet(u"header"_s)) {
@@ -77,18 +77,18 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
         else if (h == u"no"_s)
             a.header = HeaderMode::Absent;
         else if (h != u"auto"_s)
-            return R::failure(u"--header: '%1'; expected auto, yes or no"_s.arg(p.value(u"header"_s)));
+            return R::failure(u"--header: %1; expected auto, yes or no"_s.arg(quoted(p.value(u"header"_s))));
     }
     if (p.isSet(u"alpha"_s)) {
         bool ok = false;
         a.fit.alpha = p.value(u"alpha"_s).toDouble(&ok);
         if (!ok || !(a.fit.alpha > 0.0 && a.fit.alpha < 1.0))
-            return R::failure(u"--alpha: '%1'; expected a number between 0 and 1, such as 0.05"_s.arg(p.value(u"alpha"_s)));
+            return R::failure(u"--alpha: %1; expected a number between 0 and 1, such as 0.05"_s.arg(quoted(p.value(u"alpha"_s))));
     }
     if (p.isSet(u"adjust"_s)) {
         const auto m = adjustmentFromId(p.value(u"adjust"_s));
         if (!m)
-            return R::failure(u"--adjust: '%1'; expected %2"_s.arg(p.value(u"adjust"_s), adjustmentIdList(false)));
+            return R::failure(u"--adjust: %1; expected %2"_s.arg(quoted(p.value(u"adjust"_s)), adjustmentIdList(false)));
         a.fit.adjust = *m;
     }
     if (p.isSet(u"map"_s)) {
@@ -161,8 +161,8 @@ int runFit(const QStringList &args, Io &io)
     if (!data)
         return badInput(io, data.error());
     auto fit = fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
-    if (!fit)
-        return badInput(io, fit.error());
+    if (!fit) // named by the data it could not fit
+        return badInput(io, data->source + u": "_s + fit.error());
     if (p.isSet(u"json"_s))
         io.out << QString::fromUtf8(QJsonDocument(fitResultToJson(*fit, *data)).toJson(QJsonDocument::Indented));
     else

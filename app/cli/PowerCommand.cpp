@@ -77,7 +77,7 @@ QString readMeans(const QCommandLineParser &p, const QStringList &levels, PowerS
     if (p.isSet(u"baseline"_s)) {
         baseline = int(levels.indexOf(p.value(u"baseline"_s)));
         if (baseline < 0)
-            return u"--baseline: '%1' is not one of the levels (%2)"_s.arg(p.value(u"baseline"_s), levels.join(u", "_s));
+            return u"--baseline: %1 is not one of the levels (%2)"_s.arg(quoted(p.value(u"baseline"_s)), shortenedInput(levels.join(u", "_s)));
     }
     auto differences = parseNumberList(p.value(u"differences"_s), u"--differences"_s);
     if (!differences)
@@ -152,8 +152,8 @@ QString readTest(const QCommandLineParser &p, PowerSettings &s)
         return target.error();
     const auto adjustment = adjustmentFromId(p.value(u"adjust"_s));
     if (!adjustment || !adjustsPower(*adjustment))
-        return u"--adjust: unknown adjustment '%1'; expected %2 (Holm's step-down needs the observed p-values and is "
-               u"applied in the data check)"_s.arg(p.value(u"adjust"_s), adjustmentIdList(true));
+        return u"--adjust: unknown adjustment %1; expected %2 (Holm's step-down needs the observed p-values and is "
+               u"applied in the data check)"_s.arg(quoted(p.value(u"adjust"_s)), adjustmentIdList(true));
     s.alpha = *alpha;
     s.target = *target;
     s.adjustment = *adjustment;

@@ -2,6 +2,7 @@
 
 #include "core/files/SchemeFile.h"
 #include "core/model/SchemeEdits.h"
+#include "core/files/InputFile.h"
 
 using namespace Qt::StringLiterals;
 
@@ -42,7 +43,7 @@ Result<std::vector<Weight>> weightRowFromText(const QString &text, const Factor 
     for (qsizetype i = 0; i < items.size(); ++i) {
         auto w = parseWeight(items[i]);
         if (!w)
-            return R::failure(u"%1, level %2 ('%3'): %4"_s.arg(where).arg(i + 1).arg(f.levels[i], w.error()));
+            return R::failure(u"%1, level %2 (%3): %4"_s.arg(where).arg(i + 1).arg(quoted(f.levels[i]), w.error()));
         row.push_back(*w);
     }
     return R(std::move(row));
@@ -68,7 +69,7 @@ QString parseArguments(QCommandLineParser &p, const QString &command, const QStr
     if (!p.parse(QStringList{u"contrast-bench-cli %1"_s.arg(command)} + args))
         return p.errorText();
     if (!p.positionalArguments().isEmpty())
-        return u"unexpected argument '%1'"_s.arg(p.positionalArguments().first());
+        return u"unexpected argument %1"_s.arg(quoted(p.positionalArguments().first()));
     return {};
 }
 
@@ -104,8 +105,8 @@ Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QStri
     const Design &d = study->design;
     for (size_t c = 0; c < d.cellN.size(); ++c)
         if (d.cellN[c] == 0)
-            return Result<Scheme>::failure(u"%1: cell '%2' is empty (cell_n 0); %3 needs a planned size above 0 for every cell"_s
-                                               .arg(p.value(u"file"_s), d.cellNames()[qsizetype(c)], what));
+            return Result<Scheme>::failure(u"%1: cell %2 is empty (cell_n 0); %3 needs a planned size above 0 for every cell"_s
+                                               .arg(inputLabel(p.value(u"file"_s)), quoted(d.cellNames()[qsizetype(c)]), what));
     if (designOut)
         *designOut = d;
     return cellScheme(d);
@@ -137,14 +138,14 @@ Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
     if (haveScheme) {
         const auto kind = schemeFromId(p.value(u"scheme"_s));
         if (!kind || *kind == SchemeKind::Custom)
-            return R::failure(u"--scheme: unknown scheme '%1'; expected one of %2"_s.arg(p.value(u"scheme"_s), schemeIdList()));
+            return R::failure(u"--scheme: unknown scheme %1; expected one of %2"_s.arg(quoted(p.value(u"scheme"_s)), schemeIdList()));
         SchemeOptions opt;
         if (p.isSet(u"reference"_s)) {
             if (!schemeUsesReference(*kind))
                 return R::failure(u"--reference: the %1 scheme has no reference level"_s.arg(schemeId(*kind)));
             opt.reference = int(f.levels.indexOf(p.value(u"reference"_s)));
             if (opt.reference < 0)
-                return R::failure(u"--reference: '%1' is not one of the levels (%2)"_s.arg(p.value(u"reference"_s), f.levels.join(u", "_s)));
+                return R::failure(u"--reference: %1 is not one of the levels (%2)"_s.arg(quoted(p.value(u"reference"_s)), shortenedInput(f.levels.join(u", "_s))));
         }
         if (p.isSet(u"integer"_s))
             opt.polynomialForm = PolynomialForm::Integer;

@@ -789,10 +789,13 @@ Result<std::vector<Column>> codingFromHypotheses(const Factor &factor, const std
             }
             const Rational want = r == 0 ? 1 : 0;
             const bool okSum = exact ? sq == want : std::abs(sd - want.get_d()) <= kZeroTolerance * std::max(1.0, sa);
+            // A sum of 300 digits is shown as a short number.
+            const QString exactSum = exact ? rationalToString(sq) : QString();
+            const QString sum = exact && exactSum.size() <= 24 ? exactSum : QString::number(exact ? nearestDouble(sq) : sd);
             if (!okSum)
-                return R::failure(r == 0 ? u"intercept: its weights sum to %1; with an intercept they must sum to 1"_s.arg(exact ? rationalToString(sq) : QString::number(sd))
+                return R::failure(r == 0 ? u"intercept: its weights sum to %1; with an intercept they must sum to 1"_s.arg(sum)
                                          : u"hypotheses: row %1 sums to %2; with an intercept each comparison must sum to 0 "
-                                           "(or turn the intercept off)"_s.arg(r).arg(exact ? rationalToString(sq) : QString::number(sd)));
+                                           "(or turn the intercept off)"_s.arg(r).arg(sum));
         }
     }
 

@@ -21,14 +21,6 @@ QString expectedNumber()
     return u"expected a number such as 2, -1/3, 0.25 or 1e-3"_s;
 }
 
-QString quoted(QStringView text)
-{
-    QString t = text.toString();
-    if (t.size() > 60)
-        t = t.left(57) + u"..."_s;
-    return u"'"_s + t + u"'"_s;
-}
-
 // Parses an unsigned decimal "12", "0.25", "1e-3", ".5", "3." exactly.
 bool parseDecimal(QStringView s, Rational &out, qsizetype maxLength)
 {
@@ -175,6 +167,19 @@ QString rationalToString(const Rational &q, bool unicodeMinus)
     if (unicodeMinus && s.startsWith(u'-'))
         s[0] = QChar(kUnicodeMinus);
     return s;
+}
+
+QString shortenedInput(QStringView text)
+{
+    constexpr qsizetype kShown = 60;
+    if (text.size() <= kShown)
+        return text.toString();
+    return text.left(kShown - 1).toString() + u"\u2026"_s;
+}
+
+QString quoted(QStringView text)
+{
+    return u"'"_s + shortenedInput(text) + u"'"_s;
 }
 
 QString doubleToString(double x)

@@ -122,6 +122,11 @@ int shortDecimal(double magnitude, char *buf);
 inline constexpr int kApproxDisplayBuffer = 64;
 int approxDisplayText(double v, char *buf);
 
+// Input text as messages show it: at most 60 characters, longer text cut with an ellipsis, so
+// that a field of a million characters gives a readable message. quoted() adds single quotes.
+QString shortenedInput(QStringView text);
+QString quoted(QStringView text);
+
 // Shortest decimal text that reads back to the same double.
 QString doubleToString(double x);
 

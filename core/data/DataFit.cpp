@@ -62,7 +62,7 @@ QString quotedList(const QStringList &names)
 {
     QStringList q;
     for (const QString &n : names)
-        q << u"'%1'"_s.arg(n);
+        q << quoted(n);
     return q.join(u", "_s);
 }
 
@@ -120,9 +120,9 @@ Result<LevelMapping> parseLevelMapping(const QString &text)
         const QString to = item.mid(eq + 1).trimmed();
         if (eq < 0 || from.isEmpty() || to.isEmpty())
             return Result<LevelMapping>::failure(
-                u"level mapping: '%1' should read 'data name=scheme level'"_s.arg(item));
+                u"level mapping: %1 should read 'data name=scheme level'"_s.arg(quoted(item)));
         if (mapping.contains(from))
-            return Result<LevelMapping>::failure(u"level mapping: '%1' is mapped twice"_s.arg(from));
+            return Result<LevelMapping>::failure(u"level mapping: %1 is mapped twice"_s.arg(quoted(from)));
         mapping.insert(from, to);
     }
     return mapping;
@@ -136,11 +136,11 @@ Result<MatchedLevels> matchLevels(const QStringList &schemeLevels, const std::ve
         dataNames << l.name;
     for (auto it = mapping.cbegin(); it != mapping.cend(); ++it) {
         if (!dataNames.contains(it.key()))
-            return Result<MatchedLevels>::failure(u"level mapping: '%1' is not a level in the data (the data have %2)"_s.arg(
-                it.key(), quotedList(dataNames)));
+            return Result<MatchedLevels>::failure(u"level mapping: %1 is not a level in the data (the data have %2)"_s.arg(
+                quoted(it.key()), quotedList(dataNames)));
         if (!schemeLevels.contains(it.value()))
             return Result<MatchedLevels>::failure(
-                u"level mapping: '%1' is not a level of the scheme (the scheme has %2)"_s.arg(it.value(),
+                u"level mapping: %1 is not a level of the scheme (the scheme has %2)"_s.arg(quoted(it.value()),
                                                                                            quotedList(schemeLevels)));
     }
     MatchedLevels out;
@@ -179,7 +179,7 @@ Result<MatchedLevels> matchLevels(const QStringList &schemeLevels, const std::ve
     for (const QString &d : std::as_const(dataOnly))
         for (const QString &s : std::as_const(schemeOnly))
             if (d.compare(s, Qt::CaseInsensitive) == 0 || d.trimmed() == s.trimmed())
-                hints << u"'%1' looks like '%2'"_s.arg(d, s);
+                hints << u"%1 looks like %2"_s.arg(quoted(d), quoted(s));
     QString message = u"the levels do not match; "_s + parts.join(u"; "_s)
         + u". Rename them, or map data names to scheme levels, before fitting"_s;
     if (!hints.isEmpty())
@@ -217,11 +217,18 @@ Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &
     for (Eigen::Index j = 0; j < k; ++j) {
         const RunningStats &s = levels.stats[size_t(j)];
         if (!(s.n > 0.0))
-            return Fail::failure(u"level '%1' has no observations; every level needs data"_s.arg(levels.levels.value(j)));
+            return Fail::failure(u"level %1 has no observations; every level needs data"_s.arg(quoted(levels.levels.value(j))));
+        // Beyond this the squares and differences of the means overflow a double.
+        constexpr double kMaxResponse = 1e150;
+        if (!(std::abs(s.mean) <= kMaxResponse))
+            return Fail::failure(u"level %1: the mean response is %2, too large to fit (its square overflows); rescale the response"_s
+                                     .arg(quoted(levels.levels.value(j)), QString::number(s.mean, 'g', 4)));
         n[j] = s.n;
         ybar[j] = s.mean;
         within += s.m2;
     }
+    if (!std::isfinite(within))
+        return Fail::failure(u"the response varies too much to fit: its sum of squares within levels overflows; rescale the response"_s);
     const double totalN = n.sum();
     if (totalN < double(p))
         return Fail::failure(u"%1 observations for %2 coefficients; need at least as many observations as coefficients"_s

@@ -1,6 +1,9 @@
 #include "core/data/DataReader.h"
 #include "core/model/Design.h"
 
+#include "core/base/Weight.h"
+#include "core/files/InputFile.h"
+
 #include <QFile>
 #include <QFileInfo>
 #include <QStringDecoder>
@@ -161,11 +164,9 @@ std::optional<double> parseNumberField(std::string_view text)
 
 static QString quoteText(std::string_view s)
 {
-    constexpr size_t kShown = 40;
-    QString q = QString::fromUtf8(s.data(), qsizetype(std::min(s.size(), kShown)));
-    if (s.size() > kShown)
-        q += u"..."_s;
-    return u"'"_s + q + u"'"_s;
+    // Enough bytes for more than the characters quoted() shows, without decoding a huge field.
+    constexpr size_t kDecoded = 256;
+    return quoted(QString::fromUtf8(s.data(), qsizetype(std::min(s.size(), kDecoded))));
 }
 
 // Why a field is not a usable number, e.g. "is missing" or "'abc' is not a number".
@@ -261,13 +262,9 @@ Result<std::unique_ptr<ByteSource>> openSource(const QString &path)
         std::unique_ptr<ByteSource> s = std::make_unique<FileSource>(stdin, false);
         return s;
     }
-    if (path.isEmpty())
-        return Result<std::unique_ptr<ByteSource>>::failure(u"no data file given"_s);
+    if (const QString problem = inputPathProblem(path, u"a data file"_s); !problem.isEmpty())
+        return Result<std::unique_ptr<ByteSource>>::failure(problem);
     const QFileInfo info(path);
-    if (!info.exists())
-        return Result<std::unique_ptr<ByteSource>>::failure(u"%1: no such file"_s.arg(path));
-    if (info.isDir())
-        return Result<std::unique_ptr<ByteSource>>::failure(u"%1 is a folder; expected a data file"_s.arg(path));
     std::FILE *f = std::fopen(QFile::encodeName(path).constData(), "rb");
     if (!f)
         return Result<std::unique_ptr<ByteSource>>::failure(
@@ -277,11 +274,6 @@ Result<std::unique_ptr<ByteSource>> openSource(const QString &path)
     source->setSize(info.size());
     std::unique_ptr<ByteSource> s = std::move(source);
     return s;
-}
-
-QString sourceLabel(const QString &path)
-{
-    return path == u"-"_s ? u"standard input"_s : path;
 }
 
 // Bytes readable after the end of the data, so that short keys can be loaded as whole words.
@@ -513,9 +505,12 @@ char detectDelimiter(const char *p, const char *end)
 
 QString joinColumns(const QStringList &columns)
 {
+    constexpr qsizetype kListed = 20;
     QStringList shown;
-    for (const QString &c : columns)
-        shown << (c.isEmpty() ? u"(unnamed)"_s : c);
+    for (qsizetype i = 0; i < std::min(columns.size(), kListed); ++i)
+        shown << (columns[i].isEmpty() ? u"(unnamed)"_s : shortenedInput(columns[i]));
+    if (columns.size() > kListed)
+        shown << u"and %1 more"_s.arg(columns.size() - kListed);
     return shown.join(u", "_s);
 }
 
@@ -667,7 +662,7 @@ public:
     {
         for (const QString &c : m_firstText)
             if (c.compare(spec.trimmed(), Qt::CaseInsensitive) == 0)
-                return u" (did you mean '%1'?)"_s.arg(c);
+                return u" (did you mean %1?)"_s.arg(quoted(c));
         return {};
     }
 
@@ -921,6 +916,10 @@ protected:
             error = self.resolveColumns();
         if (error.isEmpty())
             error = self.readAll();
+        if (error.isEmpty() && self.m_out.usedRows == 0 && !self.m_out.skipped.empty())
+            error = u"%1: no row could be used; the first left out is line %2: %3"_s.arg(self.m_out.source)
+                        .arg(self.m_out.skipped.front().line)
+                        .arg(self.m_out.skipped.front().message);
         if (!error.isEmpty())
             return Result<DataSummary>::failure(error);
         self.m_out.bytes = self.m_start.m_stream.bytesRead();
@@ -1006,15 +1005,15 @@ private:
             if (index < 0) {
                 if (m_options.header == HeaderMode::Detect && !anyNameFound(specs)
                     && !guessHeader(m_start.m_first, m_start.m_hasSecond ? &m_start.m_second : nullptr))
-                    return u"%1: no column '%2' for the %3: the first row does not look like a header; "
-                           "give a column number from 1 to %4 or add a header row"_s.arg(label, s.text, s.role)
+                    return u"%1: no column %2 for the %3: the first row does not look like a header; "
+                           "give a column number from 1 to %4 or add a header row"_s.arg(label, quoted(s.text), s.role)
                         .arg(m_start.m_first.count);
                 if (!hasHeader)
-                    return u"%1: no column '%2' for the %3: the file has no header row; give a column number from 1 to %4"_s
-                        .arg(label, s.text, s.role)
+                    return u"%1: no column %2 for the %3: the file has no header row; give a column number from 1 to %4"_s
+                        .arg(label, quoted(s.text), s.role)
                         .arg(m_start.m_first.count);
-                return u"%1: no column '%2' for the %3; the columns are: %4%5"_s.arg(
-                    label, s.text, s.role, joinColumns(m_out.columns), m_start.suggestion(s.text));
+                return u"%1: no column %2 for the %3; the columns are: %4%5"_s.arg(
+                    label, quoted(s.text), s.role, joinColumns(m_out.columns), m_start.suggestion(s.text));
             }
             *s.index = index;
         }
@@ -1022,17 +1021,17 @@ private:
         factors.insert(factors.end(), m_out.moreFactorIndices.begin(), m_out.moreFactorIndices.end());
         for (size_t i = 0; i < factors.size(); ++i) {
             if (factors[i] == m_out.responseIndex)
-                return u"%1: the factor and the response are the same column ('%2'); choose two different columns"_s.arg(
-                    label, m_out.columns[factors[i]]);
+                return u"%1: the factor and the response are the same column (%2); choose two different columns"_s.arg(
+                    label, quoted(m_out.columns[factors[i]]));
             for (size_t j = 0; j < i; ++j)
                 if (factors[j] == factors[i])
-                    return u"%1: column '%2' is named for two factors; give each factor its own column"_s.arg(
-                        label, m_out.columns[factors[i]]);
+                    return u"%1: column %2 is named for two factors; give each factor its own column"_s.arg(
+                        label, quoted(m_out.columns[factors[i]]));
         }
         if (m_out.weightIndex >= 0
             && (std::find(factors.begin(), factors.end(), m_out.weightIndex) != factors.end() || m_out.weightIndex == m_out.responseIndex))
-            return u"%1: the weight column ('%2') is also the factor or the response; choose another column"_s.arg(
-                label, m_out.columns[m_out.weightIndex]);
+            return u"%1: the weight column (%2) is also the factor or the response; choose another column"_s.arg(
+                label, quoted(m_out.columns[m_out.weightIndex]));
         m_out.delimiter = m_start.m_delimiter;
         m_out.weighted = m_out.weightIndex >= 0;
         m_fieldCount = m_start.m_first.count;
@@ -1220,8 +1219,8 @@ private:
         for (size_t i = 0; i < count; ++i) {
             const std::string_view part = trimmed(i == 0 ? first : more[i - 1]);
             if (part.empty()) {
-                skip(line, u"factor (column '%1') is empty"_s.arg(
-                               m_out.columns[i == 0 ? m_out.factorIndex : m_out.moreFactorIndices[i - 1]]));
+                skip(line, u"factor (column %1) is empty"_s.arg(
+                               quoted(m_out.columns[i == 0 ? m_out.factorIndex : m_out.moreFactorIndices[i - 1]])));
                 return false;
             }
             if (i > 0)
@@ -1239,12 +1238,12 @@ private:
             [[unlikely]] {
             level = trimmed(level);
             if (level.empty())
-                return skip(line, u"factor (column '%1') is empty"_s.arg(m_out.columns[m_out.factorIndex]));
+                return skip(line, u"factor (column %1) is empty"_s.arg(quoted(m_out.columns[m_out.factorIndex])));
         }
         if (!yParsed) [[unlikely]] {
             const auto v = parseNumberField(response);
             if (!v)
-                return skip(line, u"response (column '%1') %2"_s.arg(m_out.columns[m_out.responseIndex],
+                return skip(line, u"response (column %1) %2"_s.arg(quoted(m_out.columns[m_out.responseIndex]),
                                                                      numberProblem(response, m_out.delimiter)));
             y = *v;
         }
@@ -1252,11 +1251,11 @@ private:
         if (m_out.weightIndex >= 0) {
             const auto v = parseNumberField(weight);
             if (!v)
-                return skip(line, u"weight (column '%1') %2"_s.arg(m_out.columns[m_out.weightIndex],
+                return skip(line, u"weight (column %1) %2"_s.arg(quoted(m_out.columns[m_out.weightIndex]),
                                                                    numberProblem(weight, m_out.delimiter)));
             if (*v < 0)
-                return skip(line, u"weight (column '%1') %2 is negative; expected a number >= 0"_s.arg(
-                                      m_out.columns[m_out.weightIndex], quoteText(trimmed(weight))));
+                return skip(line, u"weight (column %1) %2 is negative; expected a number >= 0"_s.arg(
+                                      quoted(m_out.columns[m_out.weightIndex]), quoteText(trimmed(weight))));
             w = *v;
         }
         const LevelKey key = makeKey(level, inBuffer);
@@ -1277,8 +1276,8 @@ private:
             return -1;
         }
         if (int(m_levels.size()) >= kMaxDataLevels) {
-            error = fail(line, u"column '%1' has more than %2 different values; is it really the factor?"_s
-                                   .arg(m_out.columns[m_out.factorIndex])
+            error = fail(line, u"column %1 has more than %2 different values; is it really the factor?"_s
+                                   .arg(quoted(m_out.columns[m_out.factorIndex]))
                                    .arg(kMaxDataLevels));
             return -1;
         }
@@ -1420,7 +1419,7 @@ private:
         if (name->isEmpty())
             return u"%1 line %2: the level name is empty"_s.arg(label).arg(line);
         if (m_out.levelIndex(*name) >= 0)
-            return u"%1 line %2: level '%3' appears twice; give one row per level"_s.arg(label).arg(line).arg(*name);
+            return u"%1 line %2: level %3 appears twice; give one row per level"_s.arg(label).arg(line).arg(quoted(*name));
         const auto number = [&](size_t role) { return parseNumberField(m_record.field(m_index[role])); };
         const std::optional<double> n = number(1);
         if (!n || *n <= 0)
@@ -1495,7 +1494,7 @@ static Result<Out> readPath(const QString &path, const Options &options)
     auto source = openSource(path);
     if (!source)
         return Result<Out>::failure(source.error());
-    return Reader(*source.value(), sourceLabel(path), options).run();
+    return Reader(*source.value(), inputLabel(path), options).run();
 }
 
 Result<DataSummary> readLevelData(const QString &path, const DataReadOptions &options)
@@ -1527,7 +1526,7 @@ Result<DataPreview> previewData(const QString &path, int maxRows, char delimiter
     auto source = openSource(path);
     if (!source)
         return Result<DataPreview>::failure(source.error());
-    return preview(*source.value(), sourceLabel(path), maxRows, delimiter, header);
+    return preview(*source.value(), inputLabel(path), maxRows, delimiter, header);
 }
 
 Result<DataPreview> previewDataFromBytes(const QByteArray &bytes, const QString &sourceName, int maxRows,

@@ -1,5 +1,7 @@
 #include "core/files/SchemeFile.h"
 
+#include "core/files/InputFile.h"
+
 #include <QFile>
 #include <QFileInfo>
 #include <QJsonArray>
@@ -132,6 +134,8 @@ QByteArray schemeToJson(const Scheme &s)
 Result<QJsonObject> schemeDocumentRoot(const QByteArray &data, const QString &where)
 {
     using R = Result<QJsonObject>;
+    if (data.trimmed().isEmpty())
+        return R::failure(u"%1: the file is empty; expected a scheme file (JSON)"_s.arg(where));
     QJsonParseError pe;
     const QJsonDocument doc = QJsonDocument::fromJson(data, &pe);
     if (pe.error != QJsonParseError::NoError) {
@@ -203,17 +207,27 @@ Result<Scheme> schemeFromObject(const QJsonObject &root, const QString &where, c
     if (const Problem p = s.factor.problem(); !p.isEmpty())
         return R::failure(rd.fail(u"factor."_s + p.field, p.message));
 
-    const QJsonObject origin = root.value(u"scheme"_s).toObject();
+    const QJsonValue ov = root.value(u"scheme"_s);
+    if (!ov.isUndefined() && !ov.isObject())
+        return R::failure(rd.fail(u"scheme"_s, u"expected an object with kind (and reference, polynomial_form, polynomial_weighted)"_s));
+    const QJsonObject origin = ov.toObject();
+    // Every optional key of "scheme" is checked for its type before it is read.
+    for (const auto &[key, isString] : {std::pair{u"kind", true}, std::pair{u"reference", true}, std::pair{u"polynomial_form", true},
+                                        std::pair{u"polynomial_weighted", false}}) {
+        const QJsonValue v = origin.value(QString::fromUtf16(key));
+        if (!v.isUndefined() && (isString ? !v.isString() : !v.isBool()))
+            return R::failure(rd.fail(u"scheme."_s + QString::fromUtf16(key), isString ? u"expected a string"_s : u"expected true or false"_s));
+    }
     const QString kindId = origin.value(u"kind"_s).toString(u"custom"_s);
     const auto kind = schemeFromId(kindId);
     if (!kind)
-        return R::failure(rd.fail(u"scheme.kind"_s, u"unknown scheme '%1'; expected one of %2"_s.arg(kindId, schemeIdList(true))));
+        return R::failure(rd.fail(u"scheme.kind"_s, u"unknown scheme %1; expected one of %2"_s.arg(quoted(kindId), schemeIdList(true))));
     s.kind = *kind;
     if (origin.contains(u"reference"_s)) {
         const QString ref = origin.value(u"reference"_s).toString();
         s.reference = int(s.factor.levels.indexOf(ref));
         if (s.reference < 0)
-            return R::failure(rd.fail(u"scheme.reference"_s, u"'%1' is not one of the levels"_s.arg(ref)));
+            return R::failure(rd.fail(u"scheme.reference"_s, u"%1 is not one of the levels"_s.arg(quoted(ref))));
     }
     const QString form = origin.value(u"polynomial_form"_s).toString(u"orthonormal"_s);
     if (form != u"orthonormal"_s && form != u"integer"_s)

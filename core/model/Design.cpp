@@ -489,23 +489,31 @@ Result<Design> designFromJson(const QByteArray &data, const QString &where)
             Term term;
             const QJsonArray names = to.value(u"factors"_s).toArray();
             for (qsizetype i = 0; i < names.size(); ++i) {
+                if (!names[i].isString())
+                    return fail(u"%1.factors[%2]"_s.arg(path).arg(i), u"expected a factor name (a string)"_s);
                 const int f = factorIndex(names[i]);
                 if (f < 0)
-                    return fail(u"%1.factors[%2]"_s.arg(path).arg(i), u"'%1' is not a factor of the design"_s.arg(names[i].toString()));
+                    return fail(u"%1.factors[%2]"_s.arg(path).arg(i), u"%1 is not a factor of the design"_s.arg(quoted(names[i].toString())));
                 term.factors.push_back(f);
             }
             std::sort(term.factors.begin(), term.factors.end());
             if (to.contains(u"within"_s)) {
+                if (!to.value(u"within"_s).isString())
+                    return fail(path + u".within"_s, u"expected a factor name (a string)"_s);
                 term.within = factorIndex(to.value(u"within"_s));
                 if (term.within < 0)
-                    return fail(path + u".within"_s, u"'%1' is not a factor of the design"_s.arg(to.value(u"within"_s).toString()));
+                    return fail(path + u".within"_s, u"%1 is not a factor of the design"_s.arg(quoted(to.value(u"within"_s).toString())));
             }
             d.terms.push_back(term);
         }
     }
-    if (dobj.contains(u"cell_n"_s)) {
+    if (dobj.contains(u"cell_n"_s) && !dobj.value(u"cell_n"_s).isNull()) {
+        if (!dobj.value(u"cell_n"_s).isArray())
+            return fail(u"design.cell_n"_s, u"expected an array of planned cell sizes such as [\"12\", \"10\"], one per cell"_s);
         const QJsonArray n = dobj.value(u"cell_n"_s).toArray();
         for (qsizetype c = 0; c < n.size(); ++c) {
+            if (!n[c].isString() && !n[c].isDouble())
+                return fail(u"design.cell_n[%1]"_s.arg(c), u"expected a planned cell size of 0 or more, as a string such as \"12\" or a number"_s);
             auto w = parseWeight(n[c].isString() ? n[c].toString() : doubleToString(n[c].toDouble()));
             if (!w || !w->isExact() || w->rational() < 0)
                 return fail(u"design.cell_n[%1]"_s.arg(c), u"expected a planned cell size of 0 or more"_s);
@@ -516,7 +524,10 @@ Result<Design> designFromJson(const QByteArray &data, const QString &where)
     if (!iv.isUndefined() && !iv.isBool())
         return fail(u"intercept"_s, u"expected true or false"_s);
     d.intercept = iv.toBool(true);
-    d.notes = root->value(u"notes"_s).toString();
+    const QJsonValue nv = root->value(u"notes"_s);
+    if (!nv.isUndefined() && !nv.isString())
+        return fail(u"notes"_s, u"expected a string"_s);
+    d.notes = nv.toString();
     if (QString e = d.validate(); !e.isEmpty())
         return R::failure(where + u": "_s + e);
     return R(std::move(d));

@@ -51,7 +51,7 @@ Problem Factor::problem() const
         QSet<QString> seen;
         for (qsizetype i = 0; i < levels.size(); ++i) {
             if (seen.contains(levels[i]))
-                return Problem{u"level %1 repeats the name '%2'; level names must be unique"_s.arg(i + 1).arg(levels[i]), u"levels"_s};
+                return Problem{u"level %1 repeats the name %2; level names must be unique"_s.arg(i + 1).arg(quoted(levels[i])), u"levels"_s};
             seen.insert(levels[i]);
         }
     }
@@ -60,7 +60,7 @@ Problem Factor::problem() const
             return Problem{u"%1 planned group sizes for %2 levels; give one per level"_s.arg(plannedN.size()).arg(levels.size()), u"n"_s};
         for (size_t i = 0; i < plannedN.size(); ++i)
             if (plannedN[i] <= 0)
-                return Problem{u"the planned size of level '%1' is %2; sizes must be positive"_s.arg(levels[qsizetype(i)], rationalToString(plannedN[i])),
+                return Problem{u"the planned size of level %1 is %2; sizes must be positive"_s.arg(quoted(levels[qsizetype(i)]), rationalToString(plannedN[i])),
                                u"n"_s};
     }
     if (!spacing.empty()) {
@@ -69,8 +69,8 @@ Problem Factor::problem() const
         for (size_t i = 0; i < spacing.size(); ++i)
             for (size_t j = 0; j < i; ++j)
                 if (spacing[i].value() == spacing[j].value())
-                    return Problem{u"levels '%1' and '%2' have the same position %3; positions must differ"_s
-                                       .arg(levels[qsizetype(j)], levels[qsizetype(i)], spacing[i].display()),
+                    return Problem{u"levels %1 and %2 have the same position %3; positions must differ"_s
+                                       .arg(quoted(levels[qsizetype(j)]), quoted(levels[qsizetype(i)]), spacing[i].display()),
                                    u"spacing"_s};
     }
     return {};
@@ -104,7 +104,7 @@ Result<std::vector<Rational>> parseSizes(const QStringList &items, int levelCoun
         if (!w)
             return R::failure(u"%1, item %2: %3"_s.arg(where).arg(i + 1).arg(w.error()));
         if (!w->isExact() || w->rational() <= 0)
-            return R::failure(u"%1, item %2: '%3' is not a positive size; expected a number above 0"_s.arg(where).arg(i + 1).arg(items[i]));
+            return R::failure(u"%1, item %2: %3 is not a positive size; expected a number above 0"_s.arg(where).arg(i + 1).arg(quoted(items[i])));
         out.push_back(w->rational());
     }
     return R(std::move(out));

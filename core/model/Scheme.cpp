@@ -2,6 +2,7 @@
 
 #include "core/base/NameTable.h"
 
+#include <algorithm>
 #include <cmath>
 
 using namespace Qt::StringLiterals;
@@ -351,10 +352,13 @@ Result<std::vector<Column>> standardColumns(const Factor &factor, SchemeKind kin
             Rational norm2 = 0;
             for (const Rational &v : t)
                 norm2 += v * v;
-            const double norm = std::sqrt(norm2.get_d());
+            // v / |t| as sign(v) sqrt(v^2 / |t|^2): the ratio lies in [0, 1], so positions such as
+            // 1e300 and 1e-300, whose trend values overflow a double, still give finite columns.
             std::vector<double> col;
-            for (const Rational &v : t)
-                col.push_back(Rational(v).get_d() / norm);
+            for (const Rational &v : t) {
+                const double share = std::sqrt(nearestDouble(Rational(v * v / norm2)));
+                col.push_back(v < 0 ? -share : share);
+            }
             values.push_back(std::move(col));
         }
     } else {
@@ -371,6 +375,9 @@ Result<std::vector<Column>> standardColumns(const Factor &factor, SchemeKind kin
             norm = std::sqrt(norm);
             for (double &v : col)
                 v /= norm;
+            if (!std::all_of(col.begin(), col.end(), [](double v) { return std::isfinite(v); }))
+                return R::failure(u"spacing: the positions span too wide a range for trends up to degree %1 in floating point "
+                                  u"(their powers overflow); rescale them, or write them as exact numbers"_s.arg(k - 1));
         }
     }
     for (size_t d = 0; d < values.size(); ++d) {

@@ -1,10 +1,10 @@
 #include "core/model/Study.h"
 
 #include "core/model/SchemeEdits.h"
+#include "core/files/InputFile.h"
 #include "core/files/SchemeFile.h"
 
 #include <QCoreApplication>
-#include <QFile>
 #include <QJsonDocument>
 #include <QJsonObject>
 
@@ -346,13 +346,10 @@ Result<Study> studyFromJson(const QByteArray &data, const QString &where)
 
 Result<Study> loadStudy(const QString &path)
 {
-    QFile f(path);
-    if (!f.open(QIODevice::ReadOnly))
-        return R::failure(u"%1: cannot open the file: %2"_s.arg(path, f.errorString()));
-    constexpr qint64 kMaxFile = 64 * 1024 * 1024;
-    if (f.size() > kMaxFile)
-        return R::failure(u"%1: the file is %2 bytes; scheme files are at most 64 MiB"_s.arg(path).arg(f.size()));
-    return studyFromJson(f.readAll(), path);
+    auto data = readInput(path);
+    if (!data)
+        return R::failure(data.error());
+    return studyFromJson(*data, inputLabel(path));
 }
 
 QString saveStudy(const Study &study, const QString &path)

@@ -18,6 +18,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <exception>
 #include <functional>
 #include <numeric>
 
@@ -42,11 +43,15 @@ QString num(double x)
     return doubleToString(x);
 }
 
-// Short text for people: 4 significant digits.
+// Short text for people: core's number formatter (the one mark for what is not a finite number).
 QString shortNum(double x)
 {
     return numberText(x);
 }
+
+// Means and SDs whose squares and ratios a double holds: beyond these the noncentrality
+// overflows to infinity, or a variance to 0, and no power can be computed.
+constexpr double kMaxMagnitude = 1e100;
 
 bool positiveFinite(double x)
 {
@@ -68,7 +73,21 @@ QString checkValues(const std::vector<double> &values, const QString &field, boo
             return u"%1, item %2: not a finite number"_s.arg(field).arg(i + 1);
         if (positive && values[i] <= 0.0)
             return u"%1, item %2: %3 is not a positive %4; it must be above 0"_s.arg(field).arg(i + 1).arg(num(values[i]), what);
+        if (std::abs(values[i]) > kMaxMagnitude || (positive && values[i] < 1.0 / kMaxMagnitude))
+            return u"%1, item %2: %3 is beyond what power can be computed for; give magnitudes from 1e-100 to 1e100"_s.arg(field)
+                .arg(i + 1)
+                .arg(num(values[i]));
     }
+    return {};
+}
+
+// The largest difference between means in SDs must keep the noncentrality finite.
+QString checkSpread(const PowerSettings &s, const QString &field)
+{
+    const auto [lo, hi] = std::minmax_element(s.means.begin(), s.means.end());
+    const double sd = s.perLevelSds() ? *std::min_element(s.sds.begin(), s.sds.end()) : s.sd;
+    if ((*hi - *lo) / sd > kMaxMagnitude)
+        return u"%1: the means differ by %2 SDs, beyond what power can be computed for (at most 1e100)"_s.arg(field, shortNum((*hi - *lo) / sd));
     return {};
 }
 
@@ -273,7 +292,11 @@ Problem validatePowerSettings(const PowerSettings &s, int levelCount, const QStr
             return p;
     } else if (!positiveFinite(s.sd)) {
         return problem(u"sd", u"%1: %2 is not a positive standard deviation; the SD must be above 0"_s.arg(field(u"sd"), num(s.sd)));
+    } else if (QString e = checkValues({s.sd}, field(u"sd"), true, u"standard deviation"_s); !e.isEmpty()) {
+        return problem(u"sd", e);
     }
+    if (QString e = checkSpread(s, field(u"means")); !e.isEmpty())
+        return problem(u"means", e);
     if (!s.n.empty()) {
         if (!s.ratios.empty())
             return problem(u"n", u"%1 and %2: give planned sizes per level, or ratios with a total, not both"_s.arg(field(u"n"), field(u"ratios")));
@@ -352,34 +375,56 @@ double perTestAlpha(double alpha, Adjustment adjustment, int tests)
     return alpha;
 }
 
+namespace {
+
+// The boundary to Boost.Math. The policy above turns its errors into NaN, but some of its
+// internal steps use the default policy and throw (non_central_beta truncates lambda / 2 to an
+// int: a noncentrality above about 4e9 throws a rounding_error). No library error may end the
+// process: whatever escapes becomes NaN, which callers report as "could not be evaluated".
+template<typename F>
+double evaluated(F &&f) noexcept
+{
+    try {
+        return f();
+    } catch (...) {
+        return kNaN;
+    }
+}
+
+} // namespace
+
 double tTestPower(double noncentrality, double df, double alpha, bool oneSided)
 {
     if (!(df > 0.0) || !(alpha > 0.0 && alpha < 1.0) || !std::isfinite(noncentrality))
         return kNaN;
-    const bm::students_t_distribution<double, Policy> central(df);
-    const double critical = bm::quantile(bm::complement(central, oneSided ? alpha : alpha / 2.0));
-    if (noncentrality == 0.0) {
-        // The central case: the test's own size, alpha (up to rounding).
-        const double upper = bm::cdf(bm::complement(central, critical));
-        return oneSided ? upper : 2.0 * upper;
-    }
-    const bm::non_central_t_distribution<double, Policy> shifted(df, noncentrality);
-    const double upper = bm::cdf(bm::complement(shifted, critical));
-    if (oneSided)
-        return upper;
-    return upper + bm::cdf(shifted, -critical);
+    return evaluated([&] {
+        const bm::students_t_distribution<double, Policy> central(df);
+        const double critical = bm::quantile(bm::complement(central, oneSided ? alpha : alpha / 2.0));
+        if (noncentrality == 0.0) {
+            // The central case: the test's own size, alpha (up to rounding).
+            const double upper = bm::cdf(bm::complement(central, critical));
+            return oneSided ? upper : 2.0 * upper;
+        }
+        const bm::non_central_t_distribution<double, Policy> shifted(df, noncentrality);
+        const double upper = bm::cdf(bm::complement(shifted, critical));
+        if (oneSided)
+            return upper;
+        return upper + bm::cdf(shifted, -critical);
+    });
 }
 
 double fTestPower(double lambda, double df1, double df2, double alpha)
 {
     if (!(df1 > 0.0) || !(df2 > 0.0) || !(alpha > 0.0 && alpha < 1.0) || !(lambda >= 0.0) || !std::isfinite(lambda))
         return kNaN;
-    const bm::fisher_f_distribution<double, Policy> central(df1, df2);
-    const double critical = bm::quantile(bm::complement(central, alpha));
-    if (lambda == 0.0)
-        return bm::cdf(bm::complement(central, critical));
-    const bm::non_central_f_distribution<double, Policy> shifted(df1, df2, lambda);
-    return bm::cdf(bm::complement(shifted, critical));
+    return evaluated([&] {
+        const bm::fisher_f_distribution<double, Policy> central(df1, df2);
+        const double critical = bm::quantile(bm::complement(central, alpha));
+        if (lambda == 0.0)
+            return bm::cdf(bm::complement(central, critical));
+        const bm::non_central_f_distribution<double, Policy> shifted(df1, df2, lambda);
+        return bm::cdf(bm::complement(shifted, critical));
+    });
 }
 
 namespace {
@@ -398,6 +443,14 @@ Problem checkRows(const Eigen::MatrixXd &rows, const PowerSettings &s)
     return {};
 }
 
+// Why a power is shown as '-': the inputs that the distribution could not be evaluated at.
+QString unevaluatedNote(const QString &distribution, double noncentrality, double df, double alpha)
+{
+    return u"the power at the planned sizes could not be evaluated (noncentral %1 with noncentrality %2, df %3, "
+           u"alpha %4 are beyond what it can be computed for); it is shown as '-' and is not reliable"_s
+        .arg(distribution, shortNum(noncentrality), shortNum(df), shortNum(alpha));
+}
+
 void describeContrast(ContrastPower &c, const PowerSettings &s, double target)
 {
     const double sum = std::accumulate(c.weights.begin(), c.weights.end(), 0.0);
@@ -407,6 +460,8 @@ void describeContrast(ContrastPower &c, const PowerSettings &s, double target)
     if (std::abs(sum) > 1e-12 * sumAbs)
         c.notes << u"its weights sum to %1, not 0: it tests a level of the means, not only their differences, "
                    u"so its power depends on where the means lie"_s.arg(shortNum(sum));
+    if (std::isnan(c.power))
+        c.notes << unevaluatedNote(u"t"_s, c.noncentrality, c.df, c.alpha);
     if (c.zeroEstimate) {
         c.notes << u"the expected estimate is 0: power equals alpha (%1) at every n, and no sample size reaches "
                    u"the target"_s.arg(shortNum(c.alpha));
@@ -466,6 +521,8 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
     if (o.pooledFromLevelSds)
         o.notes << u"with per-level SDs the F-test's power uses their pooled SD (%1, weighted by n - 1); the "
                    u"F-test assumes equal SDs, so this is an approximation"_s.arg(shortNum(o.sd));
+    if (std::isnan(o.power))
+        o.notes << unevaluatedNote(u"F"_s, o.noncentrality, o.df2, o.alpha);
     if (allEqual)
         o.notes << u"all expected means are equal: the F-test's power equals alpha at every n"_s;
     else if (!o.required.reachable)

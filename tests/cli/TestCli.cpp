@@ -1,4 +1,5 @@
 // The command line: analyze and design, JSON keys, exit codes and messages.
+#include <QFile>
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QJsonObject>
@@ -6,6 +7,8 @@
 
 #include "tests/support/ProcessRunner.h"
 #include <QTest>
+
+#include <cmath>
 
 using namespace Qt::StringLiterals;
 
@@ -37,6 +40,8 @@ private slots:
     void fileRoundTrip();
     void badInput_data();
     void badInput();
+    void fileFromStandardInput();
+    void extremeSpacingGivesFiniteColumns();
     void textReport();
     void versionIsTheProjectVersion();
 };
@@ -144,7 +149,10 @@ void TestCli::badInput_data()
                            << u"--n, item 2: '0' is not a positive size"_s;
     QTest::newRow("n count") << QStringList{u"analyze"_s, u"--levels"_s, u"a,b"_s, u"--scheme"_s, u"sum"_s, u"--n"_s, u"5"_s}
                              << u"--n: 1 sizes for 2 levels; give one per level"_s;
-    QTest::newRow("missing file") << QStringList{u"analyze"_s, u"--file"_s, u"/no/such.json"_s} << u"/no/such.json: cannot open the file"_s;
+    QTest::newRow("missing file") << QStringList{u"analyze"_s, u"--file"_s, u"/no/such.json"_s} << u"/no/such.json: no such file"_s;
+    QTest::newRow("endless device") << QStringList{u"analyze"_s, u"--file"_s, u"/dev/zero"_s} << u"/dev/zero is a device, not a file"_s;
+    QTest::newRow("folder") << QStringList{u"export"_s, u"--format"_s, u"csv"_s, u"--file"_s, u"/tmp"_s} << u"/tmp is a folder; expected a file"_s;
+    QTest::newRow("empty stdin") << QStringList{u"power"_s, u"--file"_s, u"-"_s} << u"standard input: the file is empty"_s;
     QTest::newRow("design needs rows") << QStringList{u"design"_s, u"--levels"_s, u"a,b"_s} << u"give --levels and --hypotheses"_s;
     QTest::newRow("design row sum") << QStringList{u"design"_s, u"--levels"_s, u"a,b"_s, u"--hypotheses"_s, u"1,1"_s}
                                     << u"hypotheses: row 1 sums to 2; with an intercept each comparison must sum to 0"_s;
@@ -159,6 +167,41 @@ void TestCli::badInput()
     const Run r = cli(args);
     QCOMPARE(r.exitCode, 2);
     QVERIFY2(r.errText().contains(message), r.err.constData());
+}
+
+// Standard input and pipes give their bytes once: a design file through "-" is read once and
+// analysed as a design (it used to be opened twice, the second time finding nothing).
+void TestCli::fileFromStandardInput()
+{
+    QFile demo(QString::fromUtf8(CB_SOURCE_DIR) + u"/resources/demos/hedgerow.json"_s);
+    QVERIFY(demo.open(QIODevice::ReadOnly));
+    const QByteArray bytes = demo.readAll();
+    for (const QStringList &command : {QStringList{u"analyze"_s}, QStringList{u"export"_s, u"--format"_s, u"csv"_s}}) {
+        const cb::test::ProcessRun r = cb::test::runCli(command + QStringList{u"--file"_s, u"-"_s}, bytes);
+        QVERIFY2(r.exitCode == 0, r.err.constData());
+        QVERIFY(!r.out.isEmpty());
+    }
+    const cb::test::ProcessRun a = cb::test::runCli({u"analyze"_s, u"--file"_s, u"-"_s}, bytes);
+    QVERIFY(a.outText().startsWith(u"Design: margin"_s));
+}
+
+// Positions that span 600 orders of magnitude: the exact trends are normalised as ratios in
+// [0, 1], so no column overflows to NaN (issue 21, class 4); export and analyze agree.
+void TestCli::extremeSpacingGivesFiniteColumns()
+{
+    const QStringList scheme = {u"--levels"_s, u"a,b,c,d"_s, u"--scheme"_s, u"polynomial"_s, u"--spacing"_s, u"1e300,-1e300,1e-300,0"_s};
+    const Run json = cli(QStringList{u"analyze"_s} + scheme + QStringList{u"--json"_s});
+    QCOMPARE(json.exitCode, 0);
+    const QJsonArray coding = QJsonDocument::fromJson(json.out).object()[u"coding"_s].toArray();
+    QCOMPARE(coding.size(), 4);
+    for (const QJsonValue &row : coding)
+        for (const QJsonValue &v : row.toArray())
+            QVERIFY2(v.isDouble() && std::isfinite(v.toDouble()), json.out.constData());
+    // The linear trend: a and b at -1e300 and 1e300 dominate, each 1/sqrt(2) (orthonormal).
+    QCOMPARE(coding[0].toArray()[0].toDouble(), -std::sqrt(0.5));
+    const Run csv = cli(QStringList{u"export"_s, u"--format"_s, u"csv"_s} + scheme);
+    QCOMPARE(csv.exitCode, 0);
+    QVERIFY(!csv.outText().contains(u"nan"_s, Qt::CaseInsensitive));
 }
 
 void TestCli::textReport()

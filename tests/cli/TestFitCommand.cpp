@@ -295,7 +295,17 @@ void TestFitCommand::refusesBadInput_data()
                                  << u"standard input line 3: 1 field; expected 2 as in the header"_s;
     QTest::newRow("unmatched levels") << (QStringList{u"--data"_s, u"-"_s} + cols + scheme)
                                       << QByteArray("g,y\na,1\na,2\nb,3\nd,4\n")
-                                      << u"the levels do not match; in the data but not in the scheme: 'd'; in the scheme but not in the data: 'c'"_s;
+                                      << u"standard input: the levels do not match; in the data but not in the scheme: 'd'; in the scheme but not in the data: 'c'"_s;
+    // No response value is a number: the column and the first line, not "the levels do not match".
+    QTest::newRow("no numeric response") << (QStringList{u"--data"_s, u"-"_s} + cols + scheme) << QByteArray("g,y\na,x\nb,y\nc,z\n")
+                                         << u"standard input: no row could be used; the first left out is line 2: response (column 'y') 'x' is not a number"_s;
+    // A million-character field is cut to a readable length with an ellipsis.
+    QTest::newRow("huge level") << (QStringList{u"--data"_s, u"-"_s} + cols + scheme)
+                                << QByteArray("g,y\na,1\nb,3\nc,4\n") + QByteArray(1000000, 'q') + ",5\n"
+                                << u"standard input: the levels do not match; in the data but not in the scheme: '"_s + QString(59, u'q') + u"\u2026'"_s;
+    // Responses whose squares overflow are refused instead of giving inf estimates.
+    QTest::newRow("huge responses") << (QStringList{u"--data"_s, u"-"_s} + cols + scheme) << QByteArray("g,y\na,1e308\nb,-1e308\nc,1\na,1e308\n")
+                                    << u"standard input: level 'a': the mean response is 1e+308, too large to fit (its square overflows); rescale the response"_s;
     QTest::newRow("missing column") << (QStringList{u"--data"_s, u"-"_s, u"--factor"_s, u"grp"_s, u"--response"_s, u"y"_s} + scheme)
                                     << good << u"standard input: no column 'grp' for the factor; the columns are: g, y"_s;
 }

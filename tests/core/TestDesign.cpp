@@ -249,6 +249,20 @@ void TestDesign::fileRoundTripAndErrors_data()
                                                 << u"d.json: field 'design.factors[0].columns[0].weights[0]': weight 'x' is not a number"_s;
     QTest::newRow("one factor") << QByteArray("\"factors\": [") << QByteArray("\"factors\": [], \"x\": [")
                                 << u"d.json: field 'design.factors': expected an array of 2 or 3 factors"_s;
+    // Wrong JSON types are refused with the key path (issue 21, class 3); a null cell size used
+    // to make its cell empty in silence.
+    for (const char *wrong : {"null", "true", "[]", "{}"})
+        QTest::newRow(qPrintable(u"cell_n[0] is "_s + QString::fromLatin1(wrong)))
+            << QByteArray("\"cell_n\": [\n            \"10\",") << QByteArray("\"cell_n\": [") + wrong + ","
+            << u"d.json: field 'design.cell_n[0]': expected a planned cell size of 0 or more"_s;
+    QTest::newRow("cell_n not an array") << QByteArray("\"cell_n\": [\n            \"10\",") << QByteArray("\"cell_n\": \"10\", \"x\": [")
+                                         << u"d.json: field 'design.cell_n': expected an array of planned cell sizes"_s;
+    QTest::newRow("term factor a number") << QByteArray("\"A\",\n                    \"B\"") << QByteArray("\"A\", 1")
+                                          << u"d.json: field 'design.terms[2].factors[1]': expected a factor name (a string)"_s;
+    QTest::newRow("factor's scheme a bool") << QByteArray("\"scheme\": {") << QByteArray("\"scheme\": true, \"x\": {")
+                                            << u"d.json: field 'design.factors[0].scheme': expected an object with kind"_s;
+    QTest::newRow("notes a number") << QByteArray("\"notes\": \"\"") << QByteArray("\"notes\": 5")
+                                    << u"d.json: field 'notes': expected a string"_s;
 }
 
 void TestDesign::fileRoundTripAndErrors()

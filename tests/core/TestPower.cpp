@@ -9,6 +9,7 @@
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QProcess>
+#include <QRegularExpression>
 
 #include "tests/support/ProcessRunner.h"
 #include <QTemporaryDir>
@@ -184,6 +185,9 @@ private slots:
     void commandLineReadsDesignFile();
     void commandLineRejectsInput_data();
     void commandLineRejectsInput();
+    void libraryErrorsBecomeUnreliableResults_data();
+    void libraryErrorsBecomeUnreliableResults();
+    void commandLineSurvivesLibraryErrors();
 };
 
 // Cohen (1988), Statistical Power Analysis for the Behavioral Sciences, 2nd ed.,
@@ -1126,6 +1130,13 @@ void TestPower::commandLineRejectsInput_data()
                                       << u"--baseline: 'z' is not one of the levels (a, b, c)"_s;
     QTest::newRow("ratio zero") << levels + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1"_s, u"--ratios"_s, u"1,0,1"_s, u"--total"_s, u"30"_s}
                                 << u"--ratios, item 2: 0 is not a positive ratio; it must be above 0"_s;
+    // Magnitudes whose squares or ratios overflow are refused (issue 21, class 4).
+    QTest::newRow("sd tiny") << levels + sizes + QStringList{u"--means"_s, u"0,1,2"_s, u"--sd"_s, u"1e-300"_s}
+                             << u"--sd, item 1: 1e-300 is beyond what power can be computed for; give magnitudes from 1e-100 to 1e100"_s;
+    QTest::newRow("sds huge") << levels + sizes + QStringList{u"--means"_s, u"0,1,2"_s, u"--sds"_s, u"1,1,1e300"_s}
+                              << u"--sds, item 3: 1e+300 is beyond what power can be computed for"_s;
+    QTest::newRow("means far apart in SDs") << levels + sizes + QStringList{u"--means"_s, u"0,1,1e99"_s, u"--sd"_s, u"1e-90"_s}
+                                            << u"--means: the means differ by 1e+189 SDs, beyond what power can be computed for (at most 1e100)"_s;
     QTest::newRow("unknown option") << ok + QStringList{u"--power"_s, u"0.9"_s} << u"Unknown option 'power'"_s;
 }
 
@@ -1137,6 +1148,51 @@ void TestPower::commandLineRejectsInput()
     QCOMPARE(run.exitCode, 2);
     QVERIFY2(run.err.contains(message), qPrintable(run.err));
     QVERIFY(run.out.isEmpty());
+}
+
+// Boost.Math's non_central_beta truncates lambda / 2 to an int with its default (throwing) policy,
+// whatever policy the distribution was given: a noncentrality above about 4.3e9 threw a
+// rounding_error that aborted the process. Such inputs now give NaN and a note.
+void TestPower::libraryErrorsBecomeUnreliableResults_data()
+{
+    QTest::addColumn<double>("lambda");
+    QTest::addColumn<double>("df2");
+    QTest::newRow("lambda 5e9") << 5e9 << 2e10;
+    QTest::newRow("lambda 1e12") << 1e12 << 100.0;
+    QTest::newRow("lambda 1e300") << 1e300 << 1e300;
+}
+
+void TestPower::libraryErrorsBecomeUnreliableResults()
+{
+    QFETCH(double, lambda);
+    QFETCH(double, df2);
+    QVERIFY(std::isnan(fTestPower(lambda, 1.0, df2, 0.05)));
+
+    PowerSettings s;
+    s.means = {0.0, 1.0};
+    s.sd = 1.0;
+    s.n = {1e10, 1e10};
+    const PowerReport r = mustCompute(rowsOf({{-1, 1}}), s);
+    QVERIFY(std::isnan(r.omnibus.power));
+    QVERIFY2(r.omnibus.notes.join(u' ').contains(u"could not be evaluated (noncentral F with noncentrality 5e+09"_s),
+             qPrintable(r.omnibus.notes.join(u'|')));
+    QVERIFY(r.omnibus.notes.join(u' ').contains(u"not reliable"_s));
+    // The search still finds the smallest sizes: d = 1 needs 17 per level (Cohen 1988, Table 2.4.1, written from memory;
+    // the exact noncentral t gives the same).
+    QVERIFY(r.omnibus.required.reachable);
+    QCOMPARE(r.omnibus.required.perLevel, (std::vector<long long>{17, 17}));
+}
+
+void TestPower::commandLineSurvivesLibraryErrors()
+{
+    const QStringList base = {u"--levels"_s, u"a,b"_s, u"--scheme"_s, u"treatment"_s, u"--means"_s, u"0,1"_s, u"--sd"_s, u"1"_s};
+    for (const QStringList &extra : {QStringList{u"-n"_s, u"1e10,1e10"_s}, QStringList{u"--total"_s, u"100"_s, u"--alpha"_s, u"1e-300"_s},
+                                     QStringList{u"-n"_s, u"1e10,1e10"_s, u"--json"_s}}) {
+        const CliRun run = runCli(base + extra);
+        QVERIFY2(run.exitCode == 0, qPrintable(extra.join(u' ') + u": "_s + run.err));
+        static const QRegularExpression nonFinite(u"\\b(nan|inf|infinity)\\b"_s, QRegularExpression::CaseInsensitiveOption);
+        QVERIFY2(!run.out.contains(nonFinite), qPrintable(run.out));
+    }
 }
 
 QTEST_GUILESS_MAIN(TestPower)

@@ -147,6 +147,22 @@ void TestSchemeFile::loadErrors_data()
                                 << u"roast.json: field 'columns': expected an array of columns, each with a name and weights"_s;
     QTest::newRow("notes not text") << QByteArray("\"tasting panel\"") << QByteArray("12")
                                     << u"roast.json: field 'notes': expected a string"_s;
+    // Every key checks its type (issue 21, class 3): these were read as defaults before.
+    for (const char *wrong : {"true", "12", "\"text\"", "[]"})
+        QTest::newRow(qPrintable(u"scheme is "_s + QString::fromLatin1(wrong)))
+            << QByteArray("\"scheme\": {\"kind\": \"custom\"}") << QByteArray("\"scheme\": ") + wrong
+            << u"roast.json: field 'scheme': expected an object with kind"_s;
+    QTest::newRow("kind a number") << QByteArray("\"kind\": \"custom\"") << QByteArray("\"kind\": 3")
+                                   << u"roast.json: field 'scheme.kind': expected a string"_s;
+    QTest::newRow("polynomial_form a bool") << QByteArray("\"kind\": \"custom\"") << QByteArray("\"kind\": \"custom\", \"polynomial_form\": true")
+                                            << u"roast.json: field 'scheme.polynomial_form': expected a string"_s;
+    QTest::newRow("polynomial_weighted a string") << QByteArray("\"kind\": \"custom\"")
+                                                  << QByteArray("\"kind\": \"custom\", \"polynomial_weighted\": \"yes\"")
+                                                  << u"roast.json: field 'scheme.polynomial_weighted': expected true or false"_s;
+    QTest::newRow("reference a number") << QByteArray("\"kind\": \"custom\"") << QByteArray("\"kind\": \"treatment\", \"reference\": 0")
+                                        << u"roast.json: field 'scheme.reference': expected a string"_s;
+    QTest::newRow("long unknown scheme is cut") << QByteArray("\"kind\": \"custom\"") << QByteArray("\"kind\": \"") + QByteArray(100000, 'x') + "\""
+                                                << u"roast.json: field 'scheme.kind': unknown scheme '"_s + QString(59, u'x') + u"\u2026'; expected"_s;
     QTest::newRow("top level array") << validFile() << QByteArray("[1, 2]") << u"roast.json: expected a JSON object at the top level"_s;
 }
 
@@ -176,7 +192,7 @@ void TestSchemeFile::missingFile()
 {
     auto s = loadStudy(u"/nonexistent/dir/scheme.json"_s);
     QVERIFY(!s.ok());
-    QVERIFY(s.error().startsWith(u"/nonexistent/dir/scheme.json: cannot open the file"_s));
+    QVERIFY(s.error().startsWith(u"/nonexistent/dir/scheme.json: no such file"_s));
 }
 
 void TestSchemeFile::saveIsAtomic()

@@ -1,5 +1,6 @@
 #include "ui/document/RecoveryStore.h"
 
+#include "core/files/InputFile.h"
 #include "core/files/SchemeFile.h"
 
 #include <QDir>
@@ -16,7 +17,6 @@ namespace cb {
 namespace {
 const QString kFormat = u"contrast-bench-recovery"_s;
 constexpr int kVersion = 1;
-constexpr qint64 kMaxRecoveryFile = 64 * 1024 * 1024;
 // More windows at once than anyone opens; beyond it the last slot is shared, as before slots.
 constexpr int kMaxSlots = 64;
 } // namespace
@@ -85,13 +85,11 @@ Result<RecoveryStore::Recovered> RecoveryStore::load() const
 {
     using R = Result<Recovered>;
     const QString where = path();
-    QFile f(where);
-    if (!f.open(QIODevice::ReadOnly))
-        return R::failure(u"%1: cannot open the recovery file: %2"_s.arg(where, f.errorString()));
-    if (f.size() > kMaxRecoveryFile)
-        return R::failure(u"%1: the recovery file is %2 bytes, more than any scheme needs"_s.arg(where).arg(f.size()));
+    auto data = readInput(where);
+    if (!data)
+        return R::failure(data.error());
     QJsonParseError error;
-    const QJsonDocument doc = QJsonDocument::fromJson(f.readAll(), &error);
+    const QJsonDocument doc = QJsonDocument::fromJson(*data, &error);
     if (error.error != QJsonParseError::NoError || !doc.isObject())
         return R::failure(u"%1: not valid JSON (%2)"_s.arg(where, error.errorString()));
     const QJsonObject root = doc.object();
