@@ -3,9 +3,31 @@
 #include "ui/common/ColumnStatus.h"
 #include "ui/document/Document.h"
 
+#include <algorithm>
+
 using namespace Qt::StringLiterals;
 
 namespace cb {
+
+namespace {
+// Where the active factor's own columns sit among a design's coding columns: the first column of
+// its main effect (the Design tab numbers b1, b2, ... over those). 0 outside a design or when its
+// main effect is not a term.
+int firstDesignColumn(const Document &d)
+{
+    if (!d.isDesign())
+        return 0;
+    const std::vector<Term> &terms = d.design().terms;
+    const std::vector<int> &columnTerm = d.designAnalysis().columnTerm;
+    for (size_t t = 0; t < terms.size(); ++t) {
+        if (terms[t].factors != std::vector<int>{d.study().active} || terms[t].within >= 0)
+            continue;
+        const auto found = std::find(columnTerm.begin(), columnTerm.end(), int(t));
+        return found == columnTerm.end() ? 0 : int(found - columnTerm.begin());
+    }
+    return 0;
+}
+} // namespace
 
 MeaningModel::MeaningModel(Document *document, QObject *parent)
     : DocumentTableModel(document, parent)
@@ -32,8 +54,11 @@ QVariant MeaningModel::data(const QModelIndex &index, int role) const
         return {};
     const bool intercept = a.intercept && r == 0;
     switch (role) {
-    case TitleRole:
-        return u"b%1  %2"_s.arg(a.intercept ? r : r + 1).arg(intercept ? tr("intercept") : a.coefficientNames[r]);
+    case TitleRole: {
+        // In a design, the factor's coefficients carry the design's numbers (as in the Design tab).
+        const int number = intercept ? 0 : firstDesignColumn(*document()) + (a.intercept ? r : r + 1);
+        return u"b%1  %2"_s.arg(number).arg(intercept ? tr("intercept") : a.coefficientNames[r]);
+    }
     case Qt::DisplayRole:
     case SymbolsRole:
         return a.hypothesisSymbols[r];
