@@ -117,8 +117,12 @@ int main(int argc, char *argv[])
 
     cb::WindowOptions options;
     options.useRecovery = !screenshot;
+    options.rememberLayout = !screenshot;
     cb::MainWindow window(options);
-    window.resize(size);
+    // The window fits itself to the screen (or takes the size it was left at); --size is for
+    // screenshots, or when asked for.
+    if (screenshot || parser.isSet(sizeOption))
+        window.resize(size);
 
     const bool restored = !screenshot && window.offerRecovery();
     if (!restored) {

@@ -62,9 +62,8 @@ Study settled(Study study)
             totals.assign(size_t(s.levelCount()), Rational(0));
             for (int c = 0; c < d.cellCount(); ++c)
                 totals[size_t(cellLevels(d, c)[f])] += d.cellN[size_t(c)];
-            const bool usable = std::all_of(totals.begin(), totals.end(), [](const Rational &n) { return n > 0; });
-            const bool equal = std::all_of(totals.begin(), totals.end(), [&](const Rational &n) { return n == totals[0]; });
-            if (!usable || equal)
+            // Equal totals stay written out too: the levels panel shows what the cell table implies.
+            if (!std::all_of(totals.begin(), totals.end(), [](const Rational &n) { return n > 0; }))
                 totals.clear();
         }
         if (totals == s.factor.plannedN)

@@ -15,21 +15,22 @@ struct WindowFixture
     ScriptedPrompter prompter;
     std::unique_ptr<cb::MainWindow> window;
 
-    explicit WindowFixture(int autosaveMs = 30'000) { open(autosaveMs); }
+    // The recovery file's delay is long by default, so that tests write it when they say so.
+    explicit WindowFixture(int recoveryDelayMs = 30'000) { open(recoveryDelayMs); }
 
-    cb::WindowOptions options(int autosaveMs)
+    cb::WindowOptions options(int recoveryDelayMs)
     {
         cb::WindowOptions o;
         o.prompter = &prompter;
         o.settingsFile = dir.filePath(QStringLiteral("settings.ini"));
         o.recoveryDirectory = dir.filePath(QStringLiteral("recovery"));
-        o.autosaveIntervalMs = autosaveMs;
+        o.recoveryDelayMs = recoveryDelayMs;
         return o;
     }
     // Starts a new window on the same directory (as after a crash and restart).
-    void open(int autosaveMs = 30'000)
+    void open(int recoveryDelayMs = 30'000)
     {
-        window = std::make_unique<cb::MainWindow>(options(autosaveMs));
+        window = std::make_unique<cb::MainWindow>(options(recoveryDelayMs));
         window->resize(1200, 800);
     }
     bool show()

@@ -15,6 +15,7 @@
 #include <QFile>
 
 #include <cmath>
+#include <QComboBox>
 #include <QSignalSpy>
 #include <QTableWidget>
 #include <QTemporaryDir>
@@ -34,6 +35,8 @@ private slots:
     void unreadableFileShowsMessage();
     void rendersTheIrrigationDemo();
     void fitsADesignFromOneColumnPerFactor();
+    void responseIsAMeasurementNeverText_data();
+    void responseIsAMeasurementNeverText();
 
 private:
     static void useLevels(Document &doc, const QStringList &levels);
@@ -227,6 +230,40 @@ void TestDataPanel::fitsADesignFromOneColumnPerFactor()
     doc.reset(broken, {});
     QVERIFY(!panel.fit().has_value());
     QVERIFY2(panel.message().contains(u"the design cannot be fitted: design.terms: give at least one term"_s), qPrintable(panel.message()));
+}
+
+// The proposed response is the first numeric column that is not a row label (named like one,
+// or whole numbers counting up by one), and text columns are not offered at all.
+void TestDataPanel::responseIsAMeasurementNeverText_data()
+{
+    QTest::addColumn<QByteArray>("csv");
+    QTest::addColumn<QString>("proposed");
+    QTest::addColumn<QStringList>("offered");
+    QTest::newRow("counting id first") << QByteArray("id,group,weight\n1,a,4.2\n2,b,5.1\n3,a,3.9\n4,b,6.0\n") << u"weight"_s
+                                       << QStringList{u"id"_s, u"weight"_s};
+    QTest::newRow("named plot_id, not counting") << QByteArray("plot_id,dose,yield\n17,low,2.5\n4,high,3.1\n9,low,2.2\n")
+                                                 << u"yield"_s << QStringList{u"plot_id"_s, u"yield"_s};
+    QTest::newRow("whole-number response") << QByteArray("site,count,note\nnorth,12,dry\nsouth,7,wet\neast,30,dry\n") << u"count"_s
+                                           << QStringList{u"count"_s};
+    QTest::newRow("only a row label") << QByteArray("row,group\n1,a\n2,b\n3,a\n") << u"row"_s << QStringList{u"row"_s};
+}
+
+void TestDataPanel::responseIsAMeasurementNeverText()
+{
+    QFETCH(QByteArray, csv);
+    QFETCH(QString, proposed);
+    QFETCH(QStringList, offered);
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"data.csv"_s);
+    QVERIFY(test::writeFile(path, csv));
+    Document doc;
+    DataPanel panel(&doc);
+    QVERIFY2(panel.openFile(path), qPrintable(panel.message()));
+    QCOMPARE(panel.responseBox()->currentText(), proposed);
+    QStringList items;
+    for (int i = 0; i < panel.responseBox()->count(); ++i)
+        items << panel.responseBox()->itemText(i);
+    QCOMPARE(items, offered);
 }
 
 QTEST_MAIN(TestDataPanel)

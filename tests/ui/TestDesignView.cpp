@@ -6,6 +6,8 @@
 #include "ui/export/ExportDialog.h"
 #include "ui/document/Document.h"
 #include "ui/levels/LevelsModel.h"
+#include "ui/meaning/MeaningModel.h"
+#include "ui/meaning/MeaningPanel.h"
 #include "core/power/Power.h"
 #include "ui/power/PowerPanel.h"
 #include "ui/document/RecoveryStore.h"
@@ -34,6 +36,7 @@ private slots:
     void pictureShowsCoresWeightsForTheInteraction();
     void pictureHasOneGridPerLevelOfAThirdFactor();
     void editingTheActiveFactorUpdatesTheDesignAndUndoRestores();
+    void choosingTheFactorToEditIsNotAnEditAndKeepsTheDesignNumbers();
     void leavingOutATermShowsTheCellSizeDependence();
     void addingAndRemovingAFactorIsUndoable();
     void removingAFactorKeepsTheTermsWithoutIt();
@@ -195,6 +198,41 @@ void TestDesignView::editingTheActiveFactorUpdatesTheDesignAndUndoRestores()
     QVERIFY(hasFinding(p->findingsText(), u"of margin compares cells only at mowing = early"_s));
 }
 
+// Which factor the grid edits is a choice of view: no undo step, not modified. Its cards then
+// number its coefficients as the Design tab does (margin's two columns are b1 and b2, so
+// mowing's one column is b3 in both places).
+void TestDesignView::choosingTheFactorToEditIsNotAnEditAndKeepsTheDesignNumbers()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    QVERIFY(!d->isModified());
+    f.window->designPanel()->makeActive(1);
+    QCOMPARE(d->study().active, 1);
+    QVERIFY(!d->isModified());
+    QVERIFY(!f.window->isWindowModified());
+    QCOMPARE(d->undoStack()->count(), 0);
+    MeaningModel *cards = f.window->meaningPanel()->model();
+    QCOMPARE(cards->index(0, 0).data(MeaningModel::TitleRole).toString(), u"b0  intercept"_s);
+    QVERIFY2(cards->index(1, 0).data(MeaningModel::TitleRole).toString().startsWith(u"b3  "_s),
+             qPrintable(cards->index(1, 0).data(MeaningModel::TitleRole).toString()));
+    QTreeWidgetItem *mowing = termItem(f.window->designPanel()->termTree(), u"mowing"_s);
+    QVERIFY(mowing);
+    QCOMPARE(mowing->childCount(), 1);
+    QVERIFY2(mowing->child(0)->text(0).startsWith(u"b3 "_s), qPrintable(mowing->child(0)->text(0)));
+    // Back to margin: b1 and b2 again, still no step.
+    f.window->designPanel()->makeActive(0);
+    QVERIFY(cards->index(2, 0).data(MeaningModel::TitleRole).toString().startsWith(u"b2  "_s));
+    QVERIFY(!d->isModified());
+    // An edit after the choice is one step, and undo keeps the factor in view.
+    f.window->designPanel()->makeActive(1);
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight::exact(Rational(-1, 2))}}), u"edit"_s);
+    QCOMPARE(d->undoStack()->count(), 1);
+    d->undoStack()->undo();
+    QCOMPARE(d->study().active, 1);
+    QVERIFY(!d->isModified());
+}
+
 void TestDesignView::leavingOutATermShowsTheCellSizeDependence()
 {
     WindowFixture f;
@@ -263,6 +301,11 @@ void TestDesignView::factorSizesAreTheLevelTotalsOverTheCells()
     g.window->designPanel()->addFactor();
     QCOMPARE(one->design().cellN, (std::vector<Rational>{10, 10, 20, 20, 30, 30, 40, 40}));
     QCOMPARE(one->design().factors[0].factor.plannedN, (std::vector<Rational>{20, 40, 60, 80}));
+    // The added factor shows the totals its cells imply (100 each), not "equal" without a number.
+    QCOMPARE(one->study().active, 1);
+    QCOMPARE(one->design().factors[1].factor.plannedN, (std::vector<Rational>{100, 100}));
+    LevelsModel added(one);
+    QCOMPARE(added.data(added.index(0, LevelsModel::SizeColumn)).toString(), u"100"_s);
 }
 
 // With a design open, File > Export writes the design's coding over its cells.
@@ -445,7 +488,9 @@ void TestDesignView::recoveryKeepsTheDesign()
     WindowFixture f;
     QVERIFY(f.window->openDemo(u"hedgerow"_s));
     f.window->designPanel()->makeActive(1);
-    QVERIFY(f.window->document()->isModified());
+    Document *d = f.window->document();
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight::exact(Rational(-1, 2))}}), u"edit"_s);
+    QVERIFY(d->isModified());
     QVERIFY(f.window->writeRecovery());
     const QByteArray kept = designToJson(f.window->document()->design());
     f.window.reset();

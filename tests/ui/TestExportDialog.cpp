@@ -6,7 +6,10 @@
 #include "ui/export/ExportDialog.h"
 #include "tests/support/PanelShot.h"
 
+#include <QAbstractButton>
+#include <QPushButton>
 #include <QClipboard>
+#include <QDialogButtonBox>
 #include <QFile>
 #include <QGuiApplication>
 #include <QPlainTextEdit>
@@ -26,6 +29,7 @@ private slots:
     void previewIsCoreText_data();
     void previewIsCoreText();
     void copyPutsTextOnClipboard();
+    void controlsAnswerTheirMnemonics();
     void saveWritesTheFile();
     void saveFailureNamesThePath();
     void rankDeficientShowsCoreMessage();
@@ -81,6 +85,35 @@ void TestExportDialog::copyPutsTextOnClipboard()
     dialog.copyToClipboard();
     QVERIFY(!dialog.text().isEmpty());
     QCOMPARE(QGuiApplication::clipboard()->text(), dialog.text());
+}
+
+// Every button and choice in the dialog has its own Alt+letter, and the letters work: Alt+H
+// switches to the hypotheses, Alt+C copies what the preview shows.
+void TestExportDialog::controlsAnswerTheirMnemonics()
+{
+    QGuiApplication::clipboard()->clear();
+    Document doc;
+    ExportDialog dialog(&doc);
+    dialog.setFormat(ExportFormat::R);
+    dialog.show();
+    QVERIFY(QTest::qWaitForWindowActive(&dialog));
+    QAbstractButton *close = dialog.findChild<QDialogButtonBox *>()->button(QDialogButtonBox::Close);
+    QStringList letters;
+    for (QAbstractButton *b : dialog.findChildren<QAbstractButton *>()) {
+        if (!b->isVisible() || b == close)
+            continue; // Close answers Escape
+        const QKeySequence key = QKeySequence::mnemonic(b->text());
+        QVERIFY2(!key.isEmpty(), qPrintable(b->text()));
+        QVERIFY2(!letters.contains(key.toString()), qPrintable(b->text()));
+        letters << key.toString();
+    }
+    QVERIFY(letters.size() >= 5);
+    const QString coding = dialog.text();
+    // A mnemonic clicks its button the way a mouse does, a moment later (QAbstractButton::animateClick).
+    QTest::keyClick(&dialog, Qt::Key_H, Qt::AltModifier);
+    QTRY_VERIFY(dialog.text() != coding);
+    QTest::keyClick(&dialog, Qt::Key_C, Qt::AltModifier);
+    QTRY_COMPARE(QGuiApplication::clipboard()->text(), dialog.text());
 }
 
 void TestExportDialog::saveWritesTheFile()

@@ -9,6 +9,7 @@
 #include "tests/support/WindowFixture.h"
 
 #include <QAbstractItemModelTester>
+#include <QLineEdit>
 #include <QMimeData>
 #include <QSignalSpy>
 #include <QTest>
@@ -22,6 +23,7 @@ class TestLevelsModel : public QObject
 
 private slots:
     void passesTheModelTester();
+    void enterAfterANameMovesToTheNextLevel();
     void aRenamedLevelAppearsInEveryHypothesis_data();
     void aRenamedLevelAppearsInEveryHypothesis();
     void aClashingNameIsRefused();
@@ -50,6 +52,33 @@ void TestLevelsModel::passesTheModelTester()
     QVERIFY(m->addLevel());
     QVERIFY(m->moveLevel(4, 0));
     QVERIFY(m->removeLevel(2));
+}
+
+// Typing names one after another: Enter commits a name and moves down, so the next name goes
+// to the next level instead of overwriting the one just typed (as in the coding grid).
+void TestLevelsModel::enterAfterANameMovesToTheNextLevel()
+{
+    WindowFixture f;
+    QVERIFY(f.show());
+    LevelsView *v = f.window->levelsPanel()->view();
+    v->setCurrentIndex(v->model()->index(0, LevelsModel::NameColumn));
+    int row = 0;
+    for (const QString &name : {u"low"_s, u"mid"_s}) {
+        v->edit(v->currentIndex());
+        QLineEdit *editor = nullptr;
+        for (QLineEdit *e : v->viewport()->findChildren<QLineEdit *>())
+            if (e->isVisible())
+                editor = e;
+        QVERIFY(editor);
+        editor->selectAll();
+        QTest::keyClicks(editor, name);
+        QTest::keyClick(editor, Qt::Key_Return);
+        ++row;
+        QTRY_COMPARE(v->currentIndex().row(), row); // the delegate commits from the event loop
+    }
+    QCOMPARE(f.window->document()->scheme().factor.levels, (QStringList{u"low"_s, u"mid"_s, u"C"_s, u"D"_s}));
+    QCOMPARE(v->currentIndex().row(), 2);
+    QCOMPARE(v->currentIndex().column(), int(LevelsModel::NameColumn));
 }
 
 void TestLevelsModel::aRenamedLevelAppearsInEveryHypothesis_data()

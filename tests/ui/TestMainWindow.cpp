@@ -17,11 +17,16 @@
 #include <QComboBox>
 #include <QTableView>
 #include <QDir>
+#include <QElapsedTimer>
 #include <QDockWidget>
 #include <QFile>
 #include <QLabel>
 #include <QMimeData>
 #include <QScrollArea>
+#include <QStatusBar>
+#include <QAction>
+#include <QUndoStack>
+#include <QScreen>
 #include <QTest>
 
 #include <algorithm>
@@ -47,7 +52,7 @@ private slots:
     void closingAsksAboutUnsavedWork();
     void openingABadFileReportsItAndKeepsTheDocument();
     void droppingAFileOpensIt();
-    void autosaveWritesTheRecoveryFileOnlyWhenThereIsNewWork();
+    void recoveryFileFollowsEachEditAfterAPause();
     void recoveryIsOfferedAndRestores();
     void twoWindowsKeepTheirOwnRecoveryFiles();
     void declinedRecoveryIsDiscarded();
@@ -55,6 +60,13 @@ private slots:
     void savingRemovesTheRecoveryFile();
     void addPanelTabsBesideDesignHealth();
     void titleShowsNameAndUnsavedMark();
+    void redoAnswersCtrlYAndCtrlShiftZ();
+    void windowFitsTheScreenAndKeepsItsLayout();
+    void ampersandInANameSurvivesInUndoLabels();
+    void statusBarDescribesTheSchemeAfterNew();
+    void helpHasAGuideToPanelsAndSymbols();
+    void referenceBoxShowsTheWholeLevelName();
+    void refusalNoticeClearsAfterTheNextEdit();
     void firstTaskFromTheReadme();
 };
 
@@ -221,23 +233,52 @@ void TestMainWindow::droppingAFileOpensIt()
     QCOMPARE(f.window->document()->scheme().factor.name, u"roast"_s);
 }
 
-void TestMainWindow::autosaveWritesTheRecoveryFileOnlyWhenThereIsNewWork()
+void TestMainWindow::recoveryFileFollowsEachEditAfterAPause()
 {
     WindowFixture f(50);
-    QVERIFY(f.window->autosaveTimer()->isActive());
-    QCOMPARE(f.window->autosaveTimer()->interval(), 50);
+    QTimer *timer = f.window->recoveryTimer();
+    QVERIFY(timer->isSingleShot());
+    QCOMPARE(timer->interval(), 50);
     const QString path = f.window->recoveryStore().path();
     QTest::qWait(150);
-    QVERIFY(!QFile::exists(path)); // nothing unsaved yet
+    QVERIFY(!timer->isActive()); // nothing edited, nothing waiting
+    QVERIFY(!QFile::exists(path));
     Document *d = f.window->document();
     d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(3)}}), u"edit"_s);
+    QVERIFY(timer->isActive());
     QTRY_VERIFY(QFile::exists(path));
+    QVERIFY(!timer->isActive());
     QVERIFY(!f.window->writeRecovery()); // already written for this revision
+    auto kept = f.window->recoveryStore().load();
+    QVERIFY2(kept.ok(), qPrintable(kept.error()));
+    QCOMPARE(kept->study.activeScheme().columns[0].weights[0], Weight(3));
+    // Each edit restarts the wait: while typing goes on, nothing is written.
     d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(4)}}), u"edit"_s);
-    QVERIFY(f.window->writeRecovery());
-    // The default interval is thirty seconds.
-    WindowFixture g;
-    QCOMPARE(g.window->autosaveTimer()->interval(), 30'000);
+    QTest::qWait(20);
+    QVERIFY(timer->isActive());
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(5)}}), u"edit"_s);
+    QVERIFY(timer->remainingTime() > 30);
+    QTRY_VERIFY(!timer->isActive());
+    kept = f.window->recoveryStore().load();
+    QVERIFY2(kept.ok(), qPrintable(kept.error()));
+    QCOMPARE(kept->study.activeScheme().columns[0].weights[0], Weight(5));
+    // Undo back to the saved state removes the file, and the pending write then has nothing to do.
+    QVERIFY(f.window->saveTo(f.dir.filePath(u"saved.json"_s)));
+    QVERIFY(!QFile::exists(path));
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(6)}}), u"edit"_s);
+    d->undoStack()->undo();
+    QTest::qWait(150);
+    QVERIFY(!QFile::exists(path));
+    // Edits without a pause (every 20 ms here) are still written within ten delays (500 ms).
+    QElapsedTimer typing;
+    typing.start();
+    for (int i = 7; !QFile::exists(path); ++i) {
+        QVERIFY2(typing.elapsed() < 2'000, "edits every 20 ms kept the recovery file from being written");
+        d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(i)}}), u"edit"_s);
+        QTest::qWait(20);
+    }
+    // The window's own delay is about a second.
+    QCOMPARE(cb::WindowOptions{}.recoveryDelayMs, 1'000);
 }
 
 void TestMainWindow::recoveryIsOfferedAndRestores()
@@ -373,6 +414,144 @@ void TestMainWindow::titleShowsNameAndUnsavedMark()
     QVERIFY(f.window->healthPanel()->summaryText().contains(u"Rank 4 of 4"_s));
 }
 
+// The window opens within the screen's free area (the offscreen screen here is smaller than the
+// 1400 x 900 the panels are laid out for), keeps its size and panels for the next start, and
+// View > Reset layout brings the panels back.
+void TestMainWindow::windowFitsTheScreenAndKeepsItsLayout()
+{
+    WindowFixture f;
+    f.window.reset();
+    auto w = std::make_unique<MainWindow>(f.options(30'000));
+    const QRect free = w->screen()->availableGeometry();
+    const QSize frame(16, 48); // what MainWindow allows for the window manager's frame
+    // The least the panels need fits the smallest screen of issue 17 (1024 x 768).
+    const QSize least = w->minimumSizeHint();
+    QVERIFY2(least.width() <= 1024 - frame.width() && least.height() <= 768 - frame.height(),
+             qPrintable(u"the window needs at least %1 x %2"_s.arg(least.width()).arg(least.height())));
+    // It opens at 1400 x 900 or the screen's free area, whichever is less (the offscreen screen here
+    // is smaller than 1400 x 900), never smaller than it can be, at the free area's top left or right of it.
+    const QSize expected = QSize(1400, 900).boundedTo(free.size() - frame).expandedTo(least);
+    QCOMPARE(w->size(), expected);
+    QVERIFY(w->x() >= free.left() && w->y() >= free.top());
+    if (expected.width() + frame.width() <= free.width() && expected.height() + frame.height() <= free.height())
+        QVERIFY(free.contains(w->geometry()));
+    w->show();
+    QVERIFY(QTest::qWaitForWindowExposed(w.get()));
+    auto *levels = w->findChild<QDockWidget *>(u"levelsDock"_s);
+    levels->hide();
+    const QSize chosen = expected + QSize(37, 23);
+    w->resize(chosen);
+    QTRY_COMPARE(w->size(), chosen);
+    QVERIFY(w->close());
+
+    // The next start has the size and panels it was left with.
+    auto again = std::make_unique<MainWindow>(f.options(30'000));
+    again->show();
+    QVERIFY(QTest::qWaitForWindowExposed(again.get()));
+    QTRY_COMPARE(again->size(), chosen);
+    levels = again->findChild<QDockWidget *>(u"levelsDock"_s);
+    QVERIFY(levels->isHidden());
+    auto *reset = again->findChild<QAction *>(u"resetLayoutAction"_s);
+    QVERIFY(reset);
+    reset->trigger();
+    QVERIFY(!levels->isHidden());
+    QTRY_COMPARE(again->size(), expected);
+    // Reset also forgets the kept layout: the next start is a first start again.
+    again.reset();
+    auto third = std::make_unique<MainWindow>(f.options(30'000));
+    QVERIFY(!third->findChild<QDockWidget *>(u"levelsDock"_s)->isHidden());
+    QCOMPARE(third->size(), expected);
+}
+
+void TestMainWindow::redoAnswersCtrlYAndCtrlShiftZ()
+{
+    WindowFixture f;
+    QVERIFY(f.show());
+    QVERIFY(QTest::qWaitForWindowActive(f.window.get()));
+    auto *redo = f.window->findChild<QAction *>(u"redoAction"_s);
+    QVERIFY(redo);
+    QVERIFY(redo->shortcuts().contains(QKeySequence(Qt::CTRL | Qt::Key_Y)));
+    QVERIFY(redo->shortcuts().contains(QKeySequence(Qt::CTRL | Qt::SHIFT | Qt::Key_Z)));
+    Document *d = f.window->document();
+    d->edit(edits::withWeights(d->scheme(), {{0, 0, Weight(9)}}), u"edit"_s);
+    for (const QKeyCombination keys : {QKeyCombination(Qt::CTRL, Qt::Key_Y), QKeyCombination(Qt::CTRL | Qt::SHIFT, Qt::Key_Z)}) {
+        QTest::keyClick(f.window.get(), Qt::Key_Z, Qt::ControlModifier);
+        QCOMPARE(d->scheme().columns[0].weights[0], Weight(0));
+        QTest::keyClick(f.window.get(), keys.key(), keys.keyboardModifiers());
+        QCOMPARE(d->scheme().columns[0].weights[0], Weight(9));
+    }
+}
+
+// An "&" in a level's name is shown as "&" in the Undo and Redo items, not taken as a mnemonic.
+void TestMainWindow::ampersandInANameSurvivesInUndoLabels()
+{
+    WindowFixture f;
+    auto *undo = f.window->findChild<QAction *>(u"undoAction"_s);
+    auto *redo = f.window->findChild<QAction *>(u"redoAction"_s);
+    QVERIFY(undo && redo);
+    QVERIFY(!undo->isEnabled());
+    QVERIFY(f.window->levelsPanel()->model()->setData(f.window->levelsPanel()->model()->index(0, LevelsModel::NameColumn),
+                                                      u"salt & pepper"_s, Qt::EditRole));
+    const QString step = f.window->document()->undoStack()->undoText();
+    QVERIFY2(step.contains(u"salt & pepper"_s), qPrintable(step));
+    QVERIFY(undo->isEnabled());
+    QCOMPARE(undo->text(), u"&Undo "_s + QString(step).replace(u"&"_s, u"&&"_s));
+    QVERIFY(undo->iconText().contains(u"salt & pepper"_s)); // what a toolbar button shows
+    f.window->document()->undoStack()->undo();
+    QCOMPARE(redo->text(), u"&Redo "_s + QString(step).replace(u"&"_s, u"&&"_s));
+    QCOMPARE(undo->text(), u"&Undo"_s);
+    QVERIFY(!undo->isEnabled());
+}
+
+void TestMainWindow::statusBarDescribesTheSchemeAfterNew()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"roast"_s));
+    QVERIFY(f.window->statusBar()->currentMessage().contains(u"roast"_s));
+    QVERIFY(f.window->newScheme());
+    const QString said = f.window->statusBar()->currentMessage();
+    QVERIFY2(said.startsWith(u"New scheme: factor \u2018group\u2019 with 4 levels, treatment"_s), qPrintable(said));
+}
+
+void TestMainWindow::helpHasAGuideToPanelsAndSymbols()
+{
+    WindowFixture f;
+    auto *guide = f.window->findChild<QAction *>(u"guideAction"_s);
+    QVERIFY(guide);
+    const QString text = MainWindow::guideText();
+    for (const QString &part : {u"Coding grid"_s, u"Factor and levels"_s, u"What each coefficient tests"_s, u"Design health"_s,
+                                u"Power"_s, u"Check on data"_s, u"\u03a3 sums to"_s, u"\u22a5 not orthogonal to"_s, u"VIF"_s,
+                                u"\u2713"_s, u"<b>!</b>"_s, u"\u2717"_s, u"\u25b2"_s, u"\u25bc"_s})
+        QVERIFY2(text.contains(part), qPrintable(part));
+}
+
+void TestMainWindow::referenceBoxShowsTheWholeLevelName()
+{
+    WindowFixture f;
+    QVERIFY(f.show());
+    const QString name = u"untreated control plots on the north slope"_s;
+    QVERIFY(f.window->levelsPanel()->model()->setData(f.window->levelsPanel()->model()->index(0, LevelsModel::NameColumn), name,
+                                                      Qt::EditRole));
+    QComboBox *box = f.window->codingPanel()->picker()->referenceBox();
+    QCOMPARE(box->currentText(), name);
+    // The box asks for the room of the whole name (the layout gives it when the window has it).
+    QTRY_VERIFY2(box->sizeHint().width() >= box->fontMetrics().horizontalAdvance(name),
+                 qPrintable(u"%1 px for a name of %2 px"_s.arg(box->sizeHint().width()).arg(box->fontMetrics().horizontalAdvance(name))));
+}
+
+void TestMainWindow::refusalNoticeClearsAfterTheNextEdit()
+{
+    WindowFixture f;
+    QVERIFY(f.show()); // the notice is a label shown under the grid
+    CodingPanel *coding = f.window->codingPanel();
+    QVERIFY(!coding->codingModel()->setData(coding->codingModel()->index(0, 0), u"not a number"_s, Qt::EditRole));
+    QVERIFY(!coding->notice().isEmpty());
+    // The next edit that goes through, here a level renamed in the levels panel, ends the notice.
+    QVERIFY(f.window->levelsPanel()->model()->setData(f.window->levelsPanel()->model()->index(1, LevelsModel::NameColumn), u"low"_s,
+                                                      Qt::EditRole));
+    QVERIFY(coding->notice().isEmpty());
+}
+
 // The README's first task, step by step, through the same models the window's views use.
 void TestMainWindow::firstTaskFromTheReadme()
 {
@@ -410,6 +589,15 @@ void TestMainWindow::firstTaskFromTheReadme()
     QVERIFY(coding->setData(coding->index(1, 1), u"-2"_s));
     QCOMPARE(coding->index(footer + CodingModel::OrthogonalityRow, 0).data().toString(), u"\u2713 none"_s);
     QCOMPARE(pairs->index(1, 0).data().toString(), u"\u2713"_s);
+    // Step 5's other marks: column 2 sums to -1 as written, and the pair is not orthogonal as
+    // written (1*1 + 1*(-2) = -1), only under the planned n (20*1*1 + 10*1*(-2) = 0).
+    const QString sum = coding->index(footer + CodingModel::SumRow, 1).data().toString();
+    QVERIFY2(sum.startsWith(u"!"_s) && sum.contains(u"\u22121"_s), qPrintable(sum));
+    QCOMPARE(pairs->index(0, 1).data().toString(), u"\u2717"_s);
+    // The intercept is no longer the plain mean of the four means: 1/3, 1/6, 1/4, 1/4, the first row
+    // of the inverse of [1 | C] (NumPy, numpy.linalg.inv, run with /usr/bin/python3).
+    QCOMPARE(meaning->index(0, 0).data(MeaningModel::WeightTextsRole).toStringList(),
+             (QStringList{u"1/3"_s, u"1/6"_s, u"1/4"_s, u"1/4"_s}));
     // Column 2 still compares control with low (a third of the difference); column 1 now
     // weights control and low by their n, 2 : 1.
     QCOMPARE(meaning->index(2, 0).data(MeaningModel::SymbolsRole).toString(), u"b2: 1/3 * (mean(control) - mean(low)) = 0"_s);

@@ -158,6 +158,10 @@ void TestWeightGridView::aColumnIsRenamedInItsHeader()
     QTest::keyClick(editor, Qt::Key_Return);
     QCOMPARE(f.window->document()->scheme().columns[1].name, u"mid dose"_s);
     QCOMPARE(f.window->document()->undoStack()->undoText(), u"Rename column 2 to \u2018mid dose\u2019"_s);
+    // Enter only saved the name: no weight cell is open for the next keystrokes.
+    for (QLineEdit *cellEditor : v->viewport()->findChildren<QLineEdit *>())
+        QVERIFY(!cellEditor->isVisible());
+    QCOMPARE(f.window->document()->undoStack()->count(), 1);
     // Escape leaves the name alone.
     v->renameColumn(0);
     QLineEdit *second = nullptr;

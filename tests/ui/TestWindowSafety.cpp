@@ -141,6 +141,7 @@ private slots:
     void failedSaveKeepsTheWork();
     void killedWindowIsRecoveredAtTheNextStart();
     void killedWindowDeclinedRecoveryIsDiscarded();
+    void editKilledTwoSecondsLaterIsRecovered();
     void killDuringRecoveryWritesLeavesACompleteVersion();
     void damagedRecoveryFileAtStart_data();
     void damagedRecoveryFileAtStart();
@@ -279,6 +280,31 @@ void TestWindowSafety::killedWindowDeclinedRecoveryIsDiscarded()
     f.open();
     QVERIFY(!f.window->offerRecovery());
     QCOMPARE(f.prompter.restoreQuestions, 1);
+}
+
+// A level renamed in a child window that is killed (SIGKILL) 2 s later, with no explicit
+// write: the window's own delay after the edit (about 1 s) has put it in the recovery file,
+// and the next start offers it back.
+void TestWindowSafety::editKilledTwoSecondsLaterIsRecovered()
+{
+    WindowFixture f;
+    f.window.reset();
+    Child child;
+    child.start(f, {u"edit"_s});
+    const QByteArray edited = child.waitFor("edited ");
+    QVERIFY2(!edited.isEmpty(), child.process.readAllStandardError().constData());
+    QThread::msleep(2'000);
+    child.killAndReap();
+    QCOMPARE(child.process.exitStatus(), QProcess::CrashExit);
+
+    f.open();
+    QVERIFY(f.window->recoveryStore().exists());
+    QVERIFY(f.window->offerRecovery());
+    QCOMPARE(f.prompter.restoreQuestions, 1);
+    Document *d = f.window->document();
+    QCOMPARE(schemeToJson(d->scheme()), QByteArray::fromBase64(edited.mid(7)));
+    QCOMPARE(d->scheme().factor.levels[1], u"renamed 2 s before the kill"_s);
+    QVERIFY(d->isModified());
 }
 
 // A child window writes its recovery file again and again (1 MiB each) and is killed at

@@ -3,6 +3,10 @@
 //   WindowCrashChild RECOVERY_DIR SETTINGS_FILE once
 //     makes three edits, writes the recovery file (the autosave step), prints
 //     "ready <base64 of the scheme's JSON>" and waits to be killed.
+//   WindowCrashChild RECOVERY_DIR SETTINGS_FILE edit
+//     renames a level through the levels table, as typing does, prints
+//     "edited <base64 of the scheme's JSON>" and waits to be killed: the window alone
+//     (its usual delay after an edit) writes the recovery file.
 //   WindowCrashChild RECOVERY_DIR SETTINGS_FILE loop FIRST_GENERATION
 //     prints "started", then edits and writes the recovery file again and again:
 //     generation g puts g into the first weight of the first column and carries a
@@ -11,6 +15,8 @@
 // Both stop by themselves after two minutes, in case the test that started them died.
 #include "ui/document/Document.h"
 #include "ui/window/MainWindow.h"
+#include "ui/levels/LevelsModel.h"
+#include "ui/levels/LevelsPanel.h"
 #include "core/model/SchemeEdits.h"
 #include "core/files/SchemeFile.h"
 
@@ -50,11 +56,26 @@ int once(cb::MainWindow &window, QApplication &app)
     return app.exec();
 }
 
+int editOnly(cb::MainWindow &window, QApplication &app)
+{
+    cb::LevelsModel *levels = window.levelsPanel()->model();
+    const QModelIndex name = levels->index(1, cb::LevelsModel::NameColumn);
+    if (!levels->setData(name, u"renamed 2 s before the kill"_s, Qt::EditRole)) {
+        std::fprintf(stderr, "the level was not renamed\n");
+        return 1;
+    }
+    say("edited " + cb::schemeToJson(window.document()->scheme()).toBase64());
+    QTimer::singleShot(kLifetimeMs, &app, &QCoreApplication::quit);
+    return app.exec();
+}
+
 int loop(cb::MainWindow &window, long long first)
 {
     cb::Document *d = window.document();
     cb::Scheme s = d->scheme();
     s.notes = QString(1 << 20, u'n');
+    // Typed weights: a standard scheme is read back as its definition, not as the weights written.
+    s.kind = cb::SchemeKind::Custom;
     const QDeadlineTimer lifetime(kLifetimeMs);
     say("started");
     for (long long g = first; !lifetime.hasExpired(); ++g) {
@@ -79,15 +100,19 @@ int main(int argc, char **argv)
     QApplication app(argc, argv);
     const QStringList args = QCoreApplication::arguments();
     const bool isOnce = args.size() == 4 && args[3] == u"once"_s;
+    const bool isEdit = args.size() == 4 && args[3] == u"edit"_s;
     const bool isLoop = args.size() == 5 && args[3] == u"loop"_s;
-    if (!isOnce && !isLoop) {
-        std::fprintf(stderr, "usage: WindowCrashChild RECOVERY_DIR SETTINGS_FILE once|loop FIRST_GENERATION\n");
+    if (!isOnce && !isEdit && !isLoop) {
+        std::fprintf(stderr, "usage: WindowCrashChild RECOVERY_DIR SETTINGS_FILE once|edit|loop FIRST_GENERATION\n");
         return 2;
     }
     cb::WindowOptions options;
     options.recoveryDirectory = args[1];
     options.settingsFile = args[2];
-    options.autosaveIntervalMs = 3'600'000; // the writes here are the explicit autosave steps
+    if (!isEdit)
+        options.recoveryDelayMs = 3'600'000; // the writes here are the explicit ones
     cb::MainWindow window(options);
+    if (isEdit)
+        return editOnly(window, app);
     return isOnce ? once(window, app) : loop(window, args[4].toLongLong());
 }

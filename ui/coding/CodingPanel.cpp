@@ -69,6 +69,8 @@ CodingPanel::CodingPanel(Document *document, QWidget *parent)
     connect(m_picker, &SchemePicker::editRefused, this, refused);
     connect(m_coding, &WeightTableModel::editAccepted, this, [this] { showNotice({}); });
     connect(m_hypotheses, &WeightTableModel::editAccepted, this, [this] { showNotice({}); });
+    // Any edit that goes through (here, in the levels or the design, an undo) ends the refusal's notice.
+    connect(document, &Document::changed, this, [this] { showNotice({}); });
     connect(m_hypotheses, &HypothesisModel::draftChanged, this, [this](const QString &problem) {
         m_draftNotice->setText(problem.isEmpty() ? QString()
                                                  : tr("\u2717 Typed, not applied yet: %1. The coding changes as soon as the hypotheses "

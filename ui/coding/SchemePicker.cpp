@@ -30,6 +30,7 @@ SchemePicker::SchemePicker(Document *document, QWidget *parent)
         m_scheme->addItem(schemeTitle(k), schemeId(k));
     m_scheme->addItem(tr("Custom (typed by hand)"), schemeId(SchemeKind::Custom));
     m_scheme->setToolTip(tr("Start from a standard coding, then edit any weight: the scheme becomes custom."));
+    m_reference->setSizeAdjustPolicy(QComboBox::AdjustToContents); // the whole name of the level, as it changes
     m_reference->setToolTip(tr("The reference level (treatment, simple) or the base level coded \u22121 (sum, weighted effect)."));
     m_integer->setToolTip(tr("Polynomial trends as the smallest whole numbers instead of unit-length columns."));
     m_weighted->setToolTip(tr("Make the polynomial trends orthogonal under the planned group sizes rather than equal ones."));

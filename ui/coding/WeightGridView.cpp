@@ -33,7 +33,8 @@ QList<QStringList> parseBlock(const QString &text)
     return rows;
 }
 
-// An inline editor over a header section; Escape cancels.
+// An inline editor over a header section; Escape cancels. Enter saves the name and goes no
+// further: QLineEdit leaves it unaccepted, and the grid would take it as "edit this cell".
 class HeaderEditor : public QLineEdit
 {
 public:
@@ -49,6 +50,8 @@ protected:
             return;
         }
         QLineEdit::keyPressEvent(event);
+        if (event->key() == Qt::Key_Return || event->key() == Qt::Key_Enter)
+            event->accept();
     }
 };
 

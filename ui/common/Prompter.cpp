@@ -28,6 +28,9 @@ Prompter::SaveChoice DialogPrompter::askSaveChanges(QWidget *parent, const QStri
                     tr("%1 has changes that are not saved.").arg(documentName),
                     QMessageBox::Save | QMessageBox::Discard | QMessageBox::Cancel, parent);
     box.setInformativeText(tr("Save them before going on?"));
+    // Alt+S and Alt+D answer from the keyboard (the platform's own texts carry no mnemonic); Escape cancels.
+    box.button(QMessageBox::Save)->setText(tr("&Save"));
+    box.button(QMessageBox::Discard)->setText(tr("&Discard"));
     box.setDefaultButton(QMessageBox::Save);
     switch (box.exec()) {
     case QMessageBox::Save: return SaveChoice::Save;
@@ -52,8 +55,8 @@ QString DialogPrompter::askSavePath(QWidget *parent, const QString &suggestedPat
 bool DialogPrompter::askRestoreRecovery(QWidget *parent, const QString &description)
 {
     QMessageBox box(QMessageBox::Question, tr("Restore unsaved work?"), description, QMessageBox::Yes | QMessageBox::No, parent);
-    box.button(QMessageBox::Yes)->setText(tr("Restore"));
-    box.button(QMessageBox::No)->setText(tr("Discard it"));
+    box.button(QMessageBox::Yes)->setText(tr("&Restore"));
+    box.button(QMessageBox::No)->setText(tr("&Discard it"));
     box.setDefaultButton(QMessageBox::Yes);
     return box.exec() == QMessageBox::Yes;
 }

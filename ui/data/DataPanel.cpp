@@ -19,6 +19,7 @@
 #include <QProgressDialog>
 #include <QPushButton>
 #include <QSplitter>
+#include <QRegularExpression>
 #include <QTableWidget>
 #include <QThread>
 #include <QTimer>
@@ -76,6 +77,27 @@ bool numericColumn(const DataPreview &preview, int column)
         any = true;
     }
     return any;
+}
+
+// Whether a numeric column looks like a row label rather than a measurement: a name such as
+// "id", "plot_id", "row" or "subject", or whole numbers counting up by one (1, 2, 3, ...).
+bool identifierColumn(const DataPreview &preview, int column)
+{
+    static const QRegularExpression named(u"^(id|.*[_ .-]id|.*ID|row|index|no|number|#|plot|subject|participant|case|obs|observation|record)$"_s,
+                                          QRegularExpression::CaseInsensitiveOption);
+    if (named.match(preview.columns.value(column).trimmed()).hasMatch())
+        return true;
+    std::optional<double> previous;
+    int counted = 0;
+    for (const QStringList &row : preview.rows) {
+        const QByteArray text = row.value(column).toUtf8();
+        const auto value = parseNumberField(std::string_view(text.constData(), size_t(text.size())));
+        if (!value || *value != std::floor(*value) || (previous && *value != *previous + 1))
+            return false;
+        previous = value;
+        ++counted;
+    }
+    return counted >= 3;
 }
 
 } // namespace
@@ -258,14 +280,22 @@ bool DataPanel::openFile(const QString &path)
         for (int c = 0; c < int(preview->columns.size()); ++c)
             m_preview->setItem(r, c, cell(preview->rows[size_t(r)].value(c), false));
 
-    int factor = -1, response = -1;
+    // The response is offered among the numeric columns only, a measurement before a row label.
+    int factor = -1;
+    QStringList numericNames;
+    QString response;
     for (int c = 0; c < int(preview->columns.size()); ++c) {
-        const bool numeric = numericColumn(*preview, c);
-        if (!numeric && factor < 0)
-            factor = c;
-        else if (numeric && response < 0)
-            response = c;
+        if (!numericColumn(*preview, c)) {
+            if (factor < 0)
+                factor = c;
+            continue;
+        }
+        numericNames << preview->columns[c];
+        if (response.isEmpty() && !identifierColumn(*preview, c))
+            response = preview->columns[c];
     }
+    if (response.isEmpty())
+        response = numericNames.value(0);
     m_factor->clear();
     m_response->clear();
     m_weight->clear();
@@ -274,13 +304,13 @@ bool DataPanel::openFile(const QString &path)
         more->clear();
         more->addItems(preview->columns);
     }
-    m_response->addItems(preview->columns);
+    m_response->addItems(numericNames);
     m_weight->addItem(tr("(none: every row counts once)"));
     m_weight->addItems(preview->columns);
     m_factor->setCurrentIndex(std::max(factor, 0));
     for (int i = 0; i < 2; ++i)
         m_moreFactors[i]->setCurrentIndex(std::min(std::max(factor, 0) + i + 1, int(preview->columns.size()) - 1));
-    m_response->setCurrentIndex(response >= 0 ? response : std::min(1, int(preview->columns.size()) - 1));
+    m_response->setCurrentIndex(int(numericNames.indexOf(response)));
     m_factorNames.clear(); // propose the columns named like the design's factors again
     updateFactorRows();
     m_readButton->setEnabled(true);

@@ -63,6 +63,7 @@ public:
     QTableWidget *coefficientTable() const { return m_coefficients; }
     QTableWidget *mappingTable() const { return m_mapping; }
     QTableWidget *previewTable() const { return m_preview; }
+    QComboBox *responseBox() const { return m_response; }
     SmallChart *meansChart() const { return m_chart; }
 
     void setPathAsker(std::function<QString()> asker) { m_askPath = std::move(asker); }
@@ -97,7 +98,7 @@ private:
     QComboBox *m_moreFactors[2];
     QFormLayout *m_columnsForm = nullptr;
     QStringList m_factorNames; // the design's factor names the choosers were last set up for
-    QComboBox *m_response;
+    QComboBox *m_response; // the numeric columns only
     QComboBox *m_weight;
     QPushButton *m_readButton;
     QComboBox *m_adjust;

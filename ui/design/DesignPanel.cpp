@@ -409,7 +409,10 @@ void DesignPanel::makeActive(int factor)
         emit message(next.error());
         return;
     }
-    m_document->editStudy(next.take(), tr("Edit factor %1 in the grid").arg(m_document->design().factors[size_t(factor)].factor.name));
+    // Which factor the grid edits is a choice of view, not an edit: the study is swapped in
+    // without an undo step, so the document stays as modified as it was. (A later undo brings
+    // back the factor that step was made on, with its study.)
+    m_document->exchangeStudy(next.take());
 }
 
 void DesignPanel::termToggled(QTreeWidgetItem *item)

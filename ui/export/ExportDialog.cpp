@@ -31,14 +31,14 @@ ExportDialog::ExportDialog(Document *document, QWidget *parent)
     : QDialog(parent)
     , m_document(document)
     , m_format(new QComboBox(this))
-    , m_coding(new QRadioButton(tr("Coding (one row per level)"), this))
-    , m_hypotheses(new QRadioButton(tr("Hypotheses (one row per coefficient)"), this))
-    , m_exact(new QCheckBox(tr("Exact fractions where the weights are exact"), this))
+    , m_coding(new QRadioButton(tr("C&oding (one row per level)"), this))
+    , m_hypotheses(new QRadioButton(tr("&Hypotheses (one row per coefficient)"), this))
+    , m_exact(new QCheckBox(tr("&Exact fractions where the weights are exact"), this))
     , m_variable(new QLineEdit(this))
     , m_preview(new QPlainTextEdit(this))
     , m_status(new QLabel(this))
-    , m_copyButton(new QPushButton(tr("Copy to clipboard"), this))
-    , m_saveButton(new QPushButton(tr("Save\u2026"), this))
+    , m_copyButton(new QPushButton(tr("&Copy to clipboard"), this))
+    , m_saveButton(new QPushButton(tr("&Save\u2026"), this))
 {
     setObjectName(u"exportDialog"_s);
     setWindowTitle(tr("Export a matrix"));
@@ -61,10 +61,10 @@ ExportDialog::ExportDialog(Document *document, QWidget *parent)
     matrixBox->addWidget(m_coding);
     matrixBox->addWidget(m_hypotheses);
     auto *form = new QFormLayout;
-    form->addRow(tr("Format:"), m_format);
+    form->addRow(tr("&Format:"), m_format);
     form->addRow(tr("Matrix:"), matrixBox);
     form->addRow(tr("Numbers:"), m_exact);
-    form->addRow(tr("Variable:"), m_variable);
+    form->addRow(tr("&Variable:"), m_variable);
 
     auto *buttons = new QDialogButtonBox(QDialogButtonBox::Close, this);
     buttons->addButton(m_copyButton, QDialogButtonBox::ActionRole);

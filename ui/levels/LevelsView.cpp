@@ -67,4 +67,16 @@ void LevelsView::keyPressEvent(QKeyEvent *event)
     QTableView::keyPressEvent(event);
 }
 
+void LevelsView::closeEditor(QWidget *editor, QAbstractItemDelegate::EndEditHint hint)
+{
+    if (hint != QAbstractItemDelegate::SubmitModelCache) {
+        QTableView::closeEditor(editor, hint);
+        return;
+    }
+    QTableView::closeEditor(editor, QAbstractItemDelegate::NoHint);
+    const QModelIndex cur = currentIndex();
+    if (m_model && cur.isValid() && cur.row() + 1 < m_model->rowCount())
+        setCurrentIndex(m_model->index(cur.row() + 1, cur.column()));
+}
+
 } // namespace cb

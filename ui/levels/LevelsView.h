@@ -20,6 +20,8 @@ public:
 
 protected:
     void keyPressEvent(QKeyEvent *event) override;
+    // Enter commits and moves down, as in the coding grid: the next name goes to the next level.
+    void closeEditor(QWidget *editor, QAbstractItemDelegate::EndEditHint hint) override;
 
 private:
     LevelsModel *m_model = nullptr;

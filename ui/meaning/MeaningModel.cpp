@@ -3,9 +3,31 @@
 #include "ui/common/ColumnStatus.h"
 #include "ui/document/Document.h"
 
+#include <algorithm>
+
 using namespace Qt::StringLiterals;
 
 namespace cb {
+
+namespace {
+// Where the active factor's own columns sit among a design's coding columns: the first column of
+// its main effect (the Design tab numbers b1, b2, ... over those). 0 outside a design or when its
+// main effect is not a term.
+int firstDesignColumn(const Document &d)
+{
+    if (!d.isDesign())
+        return 0;
+    const std::vector<Term> &terms = d.design().terms;
+    const std::vector<int> &columnTerm = d.designAnalysis().columnTerm;
+    for (size_t t = 0; t < terms.size(); ++t) {
+        if (terms[t].factors != std::vector<int>{d.study().active} || terms[t].within >= 0)
+            continue;
+        const auto found = std::find(columnTerm.begin(), columnTerm.end(), int(t));
+        return found == columnTerm.end() ? 0 : int(found - columnTerm.begin());
+    }
+    return 0;
+}
+} // namespace
 
 MeaningModel::MeaningModel(Document *document, QObject *parent)
     : DocumentTableModel(document, parent)
@@ -33,7 +55,8 @@ QVariant MeaningModel::data(const QModelIndex &index, int role) const
     const bool intercept = a.intercept && r == 0;
     switch (role) {
     case TitleRole:
-        return coefficientLabel(a.intercept, r, a.coefficientNames[r]);
+        // In a design, the factor's coefficients carry the design's numbers (as in the Design tab).
+        return coefficientLabel(a.intercept, intercept ? 0 : r + firstDesignColumn(*document()), a.coefficientNames[r]);
     case Qt::DisplayRole:
     case SymbolsRole:
         return a.hypothesisSymbols[r];

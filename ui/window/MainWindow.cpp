@@ -10,12 +10,14 @@
 #include "ui/levels/LevelsPanel.h"
 #include "ui/meaning/MeaningPanel.h"
 #include "ui/power/PowerPanel.h"
+#include "ui/common/Look.h"
 #include "ui/common/Prompter.h"
 #include "core/base/Version.h"
 #include "core/files/SchemeFile.h"
 #include "ui/coding/WeightGridView.h"
 
 #include <QApplication>
+#include <QGuiApplication>
 #include <QCloseEvent>
 #include <QDir>
 #include <QDockWidget>
@@ -25,7 +27,9 @@
 #include <QMenuBar>
 #include <QMessageBox>
 #include <QMimeData>
+#include <QScreen>
 #include <QScrollArea>
+#include <QSettings>
 #include <QStatusBar>
 #include <QTimer>
 #include <QToolBar>
@@ -39,6 +43,14 @@ namespace cb {
 namespace {
 
 constexpr int kBottomDockHeight = 240;
+const QString kGeometryKey = u"window/geometry"_s;
+const QString kStateKey = u"window/state"_s;
+
+// The application's settings, or the file a test gives.
+std::unique_ptr<QSettings> openSettings(const QString &file)
+{
+    return file.isEmpty() ? std::make_unique<QSettings>() : std::make_unique<QSettings>(file, QSettings::IniFormat);
+}
 
 // Panels below the grid sit in a scroll area: none can push the grid out of sight with its
 // minimum size, and a panel whose labels change on every edit lays out only itself, not the
@@ -63,7 +75,7 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     , m_coding(new CodingPanel(m_document, this))
     , m_recent(options.settingsFile)
     , m_recovery(options.recoveryDirectory)
-    , m_autosave(new QTimer(this))
+    , m_recoveryTimer(new QTimer(this))
 {
     setObjectName(u"mainWindow"_s);
     setWindowIcon(QIcon(u":/contrast-bench.svg"_s));
@@ -108,14 +120,49 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
             m_recovery.discard();
     });
 
-    m_autosave->setInterval(options.autosaveIntervalMs);
-    connect(m_autosave, &QTimer::timeout, this, &MainWindow::writeRecovery);
-    if (options.useRecovery)
-        m_autosave->start();
+    // The recovery file follows the edits within about a second: a killed window loses at most
+    // the edit being typed.
+    m_recoveryTimer->setSingleShot(true);
+    m_recoveryTimer->setInterval(options.recoveryDelayMs);
+    connect(m_recoveryTimer, &QTimer::timeout, this, &MainWindow::writeRecovery);
+    connect(m_document, &Document::changed, this, &MainWindow::scheduleRecovery);
 
     m_arithmetic->setText(m_document->analysis().exact ? tr("exact fractions") : tr("floating point"));
     updateTitle();
-    resize(1400, 900);
+    m_startState = saveState();
+    fitToScreen();
+    if (m_options.rememberLayout) {
+        const auto settings = openSettings(m_options.settingsFile);
+        const QByteArray geometry = settings->value(kGeometryKey).toByteArray();
+        // restoreGeometry keeps the window on a screen that is still there.
+        if (!geometry.isEmpty() && restoreGeometry(geometry) && restoreState(settings->value(kStateKey).toByteArray()))
+            m_docksSized = true; // the panels keep the widths they were left at
+    }
+}
+
+void MainWindow::fitToScreen()
+{
+    // The size the panels are laid out for, or less: within the screen's free area, frame included.
+    QScreen *where = screen() ? screen() : QGuiApplication::primaryScreen();
+    const QRect free = where ? where->availableGeometry() : QRect(0, 0, 1400, 900);
+    const QSize frame(16, 48); // window frame and title bar, drawn outside the window's own size
+    const QSize size = QSize(1400, 900).boundedTo(free.size() - frame);
+    resize(size);
+    move(free.topLeft() + QPoint((free.width() - size.width() - frame.width()) / 2, (free.height() - size.height() - frame.height()) / 2));
+}
+
+void MainWindow::resetLayout()
+{
+    restoreState(m_startState);
+    for (QDockWidget *d : findChildren<QDockWidget *>())
+        d->setFloating(false);
+    fitToScreen();
+    sizeDocks();
+    if (m_options.rememberLayout) {
+        const auto settings = openSettings(m_options.settingsFile);
+        settings->remove(kGeometryKey);
+        settings->remove(kStateKey);
+    }
 }
 
 QString MainWindow::aboutText()
@@ -123,6 +170,33 @@ QString MainWindow::aboutText()
     return tr("<b>Contrast Bench %1</b><p>A workbench for designing contrast codings of categorical predictors: "
               "type a coding and read, in exact fractions, what each coefficient tests.</p>")
         .arg(QString::fromUtf16(cb::kVersion));
+}
+
+QString MainWindow::guideText()
+{
+    return tr("<h3>The panels</h3>"
+              "<p><b>Coding grid</b> (middle): one row per level, one column per coefficient. Type weights (\u201c1/3\u201d, "
+              "\u201c\u22121\u201d), paste blocks from a spreadsheet, double-click a column\u2019s title to name it. "
+              "<i>Start from</i> gives a standard coding. Below the levels, three rows check each column:</p>"
+              "<ul><li><b>\u03a3 sums to</b>: the column\u2019s sum as typed (0 means it is a contrast);</li>"
+              "<li><b>\u22a5 not orthogonal to</b>: the columns it is not orthogonal to;</li>"
+              "<li><b>VIF</b>: how much the other columns inflate its variance.</li></ul>"
+              "<p><i>Hypotheses \u2192 coding</i> (Ctrl+2) goes the other way: type the comparisons, read the coding.</p>"
+              "<p><b>Factor and levels</b> (left): the factor\u2019s name, its levels in order (Ctrl+Up/Down moves one), "
+              "the planned n of each and, for trends, their positions.</p>"
+              "<p><b>What each coefficient tests</b> (right): one card per coefficient, in symbols and in words, with bars "
+              "for the weight it puts on each level\u2019s mean. <b>Design</b> (beside it) adds factors, their terms and cells.</p>"
+              "<p><b>Design health</b>, <b>Power</b> and <b>Check on data</b> (below): rank, condition number, VIF and what to "
+              "look at; the power of each test for the planned n; the coding fitted to a CSV file.</p>"
+              "<h3>The symbols</h3>"
+              "<ul><li><b>%1</b> fine: nothing to flag;</li>"
+              "<li><b>%2</b> caution: worth a look (a threshold of common practice is reached);</li>"
+              "<li><b>%3</b> problem: the check fails (a column that is not a contrast, a pair that is not orthogonal, "
+              "a coefficient that cannot be estimated);</li>"
+              "<li><b>\u25b2</b> / <b>\u25bc</b> in the bars and cell pictures: the level or cell is counted in above "
+              "(positive weight) or below (negative weight) the line.</li></ul>"
+              "<p>View \u25b8 Reset layout puts the panels back where they started.</p>")
+        .arg(look::mark(look::State::Good), look::mark(look::State::Caution), look::mark(look::State::Problem));
 }
 
 MainWindow::~MainWindow()
@@ -209,10 +283,29 @@ void MainWindow::buildMenus()
     quit->setShortcut(QKeySequence::Quit);
 
     QMenu *edit = menuBar()->addMenu(tr("&Edit"));
-    QAction *undo = m_document->undoStack()->createUndoAction(this, tr("Undo"));
-    QAction *redo = m_document->undoStack()->createRedoAction(this, tr("Redo"));
-    undo->setShortcut(QKeySequence::Undo);
-    redo->setShortcut(QKeySequence::Redo);
+    // Undo and redo name the step; a name with "&" in it shows the "&" (no mnemonic is made of it).
+    QUndoStack *stack = m_document->undoStack();
+    auto historyAction = [this, stack](const QString &verb, auto canChanged, auto textChanged, auto run) {
+        auto *a = new QAction(verb, this);
+        a->setEnabled(false);
+        connect(stack, canChanged, a, &QAction::setEnabled);
+        connect(stack, textChanged, a, [a, verb](const QString &step) {
+            a->setText(step.isEmpty() ? verb : tr("%1 %2").arg(verb, QString(step).replace(u"&"_s, u"&&"_s)));
+        });
+        connect(a, &QAction::triggered, stack, run);
+        return a;
+    };
+    QAction *undo = historyAction(tr("&Undo"), &QUndoStack::canUndoChanged, &QUndoStack::undoTextChanged, &QUndoStack::undo);
+    QAction *redo = historyAction(tr("&Redo"), &QUndoStack::canRedoChanged, &QUndoStack::redoTextChanged, &QUndoStack::redo);
+    undo->setObjectName(u"undoAction"_s);
+    redo->setObjectName(u"redoAction"_s);
+    undo->setShortcuts(QKeySequence::Undo);
+    // Ctrl+Y as well as the platform's own redo keys (Ctrl+Shift+Z here).
+    QList<QKeySequence> redoKeys = QKeySequence::keyBindings(QKeySequence::Redo);
+    for (const QKeySequence &k : {QKeySequence(Qt::CTRL | Qt::Key_Y), QKeySequence(Qt::CTRL | Qt::SHIFT | Qt::Key_Z)})
+        if (!redoKeys.contains(k))
+            redoKeys << k;
+    redo->setShortcuts(redoKeys);
     edit->addAction(undo);
     edit->addAction(redo);
     edit->addSeparator();
@@ -240,12 +333,21 @@ void MainWindow::buildMenus()
     forward->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_1));
     QAction *backward = m_viewMenu->addAction(tr("Hypotheses \u2192 coding"), this, [this] { m_coding->showDirection(CodingPanel::HypothesisDirection); });
     backward->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_2));
+    QAction *reset = m_viewMenu->addAction(tr("Reset &layout"), this, &MainWindow::resetLayout);
+    reset->setObjectName(u"resetLayoutAction"_s);
     m_viewMenu->addSeparator();
     const QList<QDockWidget *> docks = findChildren<QDockWidget *>();
     for (QDockWidget *d : docks)
         m_viewMenu->addAction(d->toggleViewAction());
 
     QMenu *help = menuBar()->addMenu(tr("&Help"));
+    QAction *guide = help->addAction(tr("&Guide to the window"), this, [this] {
+        QMessageBox box(QMessageBox::NoIcon, tr("Guide to the window"), guideText(), QMessageBox::Close, this);
+        box.setTextFormat(Qt::RichText);
+        box.exec();
+    });
+    guide->setObjectName(u"guideAction"_s);
+    guide->setShortcut(QKeySequence::HelpContents);
     help->addAction(tr("&About Contrast Bench"), this, [this] {
         QMessageBox::about(this, tr("About Contrast Bench"), aboutText());
     });
@@ -304,6 +406,12 @@ bool MainWindow::newScheme()
     if (!maybeSave())
         return false;
     m_document->reset(Document::starterScheme(), {});
+    const Scheme &s = m_document->scheme();
+    showMessage(tr("New scheme: factor \u2018%1\u2019 with %2 levels, %3 coding. Rename the levels, type weights or start from "
+                   "another coding.")
+                    .arg(s.factor.name)
+                    .arg(s.levelCount())
+                    .arg(schemeTitle(s.kind).toLower()));
     return true;
 }
 
@@ -362,7 +470,7 @@ bool MainWindow::saveAs()
 bool MainWindow::saveTo(const QString &path)
 {
     if (const QString error = saveStudy(m_document->study(), path); !error.isEmpty()) {
-        // The work stays open; a copy goes to the recovery file now rather than at the next autosave.
+        // The work stays open; a copy goes to the recovery file now rather than after the usual delay.
         writeRecovery();
         const bool kept = m_options.useRecovery && m_document->isModified() && m_document->revision() == m_recoveredRevision
                           && m_recovery.exists();
@@ -377,8 +485,21 @@ bool MainWindow::saveTo(const QString &path)
     return true;
 }
 
+void MainWindow::scheduleRecovery()
+{
+    if (!m_options.useRecovery)
+        return;
+    if (!m_unwrittenSince.isValid())
+        m_unwrittenSince.start();
+    // Each edit restarts the wait, unless the oldest unwritten edit has waited long enough.
+    if (!m_recoveryTimer->isActive() || m_unwrittenSince.elapsed() < 10 * qint64(m_options.recoveryDelayMs))
+        m_recoveryTimer->start();
+}
+
 bool MainWindow::writeRecovery()
 {
+    m_unwrittenSince.invalidate();
+    m_recoveryTimer->stop();
     if (!m_options.useRecovery || !m_document->isModified() || m_document->revision() == m_recoveredRevision)
         return false;
     if (const QString error = m_recovery.save(m_document->study(), m_document->filePath()); !error.isEmpty()) {
@@ -423,10 +544,16 @@ void MainWindow::showEvent(QShowEvent *event)
     if (m_docksSized)
         return;
     m_docksSized = true;
+    sizeDocks();
+}
+
+void MainWindow::sizeDocks()
+{
     auto *levels = findChild<QDockWidget *>(u"levelsDock"_s);
     auto *meaning = findChild<QDockWidget *>(u"meaningDock"_s);
     if (levels && meaning)
         resizeDocks({levels, m_document->isDesign() ? m_designDock : meaning}, {290, m_document->isDesign() ? 470 : 380}, Qt::Horizontal);
+    resizeDocks({m_healthDock}, {kBottomDockHeight}, Qt::Vertical);
 }
 
 void MainWindow::closeEvent(QCloseEvent *event)
@@ -437,6 +564,11 @@ void MainWindow::closeEvent(QCloseEvent *event)
     }
     if (m_options.useRecovery)
         m_recovery.discard();
+    if (m_options.rememberLayout) {
+        const auto settings = openSettings(m_options.settingsFile);
+        settings->setValue(kGeometryKey, saveGeometry());
+        settings->setValue(kStateKey, saveState());
+    }
     event->accept();
 }
 

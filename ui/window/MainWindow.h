@@ -3,6 +3,7 @@
 #include "ui/document/RecentFiles.h"
 #include "ui/document/RecoveryStore.h"
 
+#include <QElapsedTimer>
 #include <QMainWindow>
 
 #include <memory>
@@ -28,8 +29,11 @@ struct WindowOptions
     Prompter *prompter = nullptr;    // not owned; null means the real dialogs
     QString settingsFile;            // empty: the application's QSettings
     QString recoveryDirectory;       // empty: QStandardPaths::AppDataLocation
-    int autosaveIntervalMs = 30'000; // while there are unsaved changes
+    // The recovery file is written this long after the last edit (typing resets the wait), and
+    // at least every ten such delays while edits keep coming.
+    int recoveryDelayMs = 1'000;
     bool useRecovery = true;         // off for screenshots
+    bool rememberLayout = true;      // restore and keep the window's size and panels (off for screenshots)
 };
 
 // The workbench window: levels on the left, the coding grid in the middle,
@@ -52,13 +56,19 @@ public:
     QDockWidget *designDock() const { return m_designDock; }
     const RecoveryStore &recoveryStore() const { return m_recovery; }
     RecentFiles &recentFiles() { return m_recent; }
-    QTimer *autosaveTimer() const { return m_autosave; }
+    // The single-shot timer that writes the recovery file after an edit.
+    QTimer *recoveryTimer() const { return m_recoveryTimer; }
 
     // The text of Help > About, with the version from the project's CMake version.
     static QString aboutText();
+    // Help > Guide to the window: what each panel shows and what the symbols mean.
+    static QString guideText();
 
     // Adds a panel as a tab beside "Design health" (inside a scroll area) and returns its dock.
     QDockWidget *addPanel(QWidget *panel, const QString &title, const QString &objectName);
+
+    // View > Reset layout: the panels where they start, at a size that fits the screen.
+    void resetLayout();
 
     // File commands. Each asks about unsaved work first where that applies,
     // and reports failures through the prompter. They return whether they happened.
@@ -70,7 +80,7 @@ public:
     bool saveTo(const QString &path);
     // At start: offers to restore work left by a crash. Returns true when restored.
     bool offerRecovery();
-    // The autosave step: writes the recovery file when there is unsaved, unwritten work.
+    // Writes the recovery file when there is unsaved, unwritten work (the timer's step).
     bool writeRecovery();
 
 protected:
@@ -87,6 +97,9 @@ private:
     void rebuildRecentMenu();
     void updateTitle();
     void showMessage(const QString &text);
+    void scheduleRecovery();
+    void sizeDocks();
+    void fitToScreen();
 
     WindowOptions m_options;
     std::unique_ptr<Prompter> m_ownPrompter;
@@ -100,13 +113,15 @@ private:
     QDockWidget *m_designDock = nullptr;
     bool m_wasDesign = false;
     bool m_docksSized = false; // the side docks get their widths once, when first shown
+    QByteArray m_startState;   // the panels as built, for Reset layout
     QDockWidget *m_healthDock = nullptr;
     QMenu *m_recentMenu = nullptr;
     QMenu *m_viewMenu = nullptr;
     QLabel *m_arithmetic = nullptr;
     RecentFiles m_recent;
     RecoveryStore m_recovery;
-    QTimer *m_autosave;
+    QTimer *m_recoveryTimer;
+    QElapsedTimer m_unwrittenSince; // invalid while the recovery file holds the latest edit
     quint64 m_recoveredRevision = 0;
 };
 
