@@ -213,8 +213,8 @@ void TestDesignView::choosingTheFactorToEditIsNotAnEditAndKeepsTheDesignNumbers(
     QVERIFY(!f.window->isWindowModified());
     QCOMPARE(d->undoStack()->count(), 0);
     MeaningModel *cards = f.window->meaningPanel()->model();
-    QCOMPARE(cards->index(0, 0).data(MeaningModel::TitleRole).toString(), u"b0  intercept"_s);
-    QVERIFY2(cards->index(1, 0).data(MeaningModel::TitleRole).toString().startsWith(u"b3  "_s),
+    QCOMPARE(cards->index(0, 0).data(MeaningModel::TitleRole).toString(), u"b0 intercept"_s);
+    QVERIFY2(cards->index(1, 0).data(MeaningModel::TitleRole).toString().startsWith(u"b3 "_s),
              qPrintable(cards->index(1, 0).data(MeaningModel::TitleRole).toString()));
     QTreeWidgetItem *mowing = termItem(f.window->designPanel()->termTree(), u"mowing"_s);
     QVERIFY(mowing);
@@ -222,7 +222,7 @@ void TestDesignView::choosingTheFactorToEditIsNotAnEditAndKeepsTheDesignNumbers(
     QVERIFY2(mowing->child(0)->text(0).startsWith(u"b3 "_s), qPrintable(mowing->child(0)->text(0)));
     // Back to margin: b1 and b2 again, still no step.
     f.window->designPanel()->makeActive(0);
-    QVERIFY(cards->index(2, 0).data(MeaningModel::TitleRole).toString().startsWith(u"b2  "_s));
+    QVERIFY(cards->index(2, 0).data(MeaningModel::TitleRole).toString().startsWith(u"b2 "_s));
     QVERIFY(!d->isModified());
     // An edit after the choice is one step, and undo keeps the factor in view.
     f.window->designPanel()->makeActive(1);
