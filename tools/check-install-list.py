@@ -102,9 +102,10 @@ def used_files(build):
         if key.endswith('_DIR') and value.startswith('/') and os.path.isdir(value):
             for cfg in glob.glob(os.path.join(value, '*onfig.cmake')) + glob.glob(os.path.join(value, '*-config.cmake')):
                 files.append((cfg, f'{key} in {build}/CMakeCache.txt'))
-    # The tools the build and the tests run.
+    # The tools the build and the tests run. (CMAKE_LINKER is left out: CMake links through the
+    # compiler driver, which runs binutils' ld, and never calls the linker it records.)
     for key in ('CMAKE_CXX_COMPILER', 'CMAKE_MAKE_PROGRAM', 'CMAKE_COMMAND', 'CMAKE_CTEST_COMMAND', 'CMAKE_AR',
-                'CMAKE_LINKER', 'PKG_CONFIG_EXECUTABLE', 'CB_PYTHON'):
+                'CMAKE_RANLIB', 'PKG_CONFIG_EXECUTABLE', 'CB_PYTHON'):
         value = cache.get(key, '')
         if value.startswith('/') and os.path.exists(value):
             files.append((value, f'{key} in {build}/CMakeCache.txt'))

@@ -19,7 +19,7 @@ PACKAGES=(
   libeigen3-dev libboost-dev libboost-math-dev libgmp-dev
   libbenchmark-dev
   python3-numpy python3-scipy python3-pandas
-  clang libclang-rt-14-dev
+  clang libclang-rt-14-dev llvm-14
   xvfb xauth fonts-dejavu-core
   dpkg-dev desktop-file-utils appstream bash-completion shared-mime-info
 )
