@@ -1,9 +1,12 @@
 // Fuzz target: the command line's matrix arguments (--levels, --columns,
 // --hypotheses, --intercept-row, --n, --spacing, --scheme, --reference) through
-// the analyze and design subcommands' own parsing, then their output.
-// Input: lines; the first holds flags (d: design subcommand, j: --json,
-// i: --no-intercept, g: --integer, w: --poly-weighted), the next ones the values of
-// --levels, --columns/--hypotheses, --n, --spacing, --scheme, --reference, --intercept-row
+// the analyze, design and power subcommands' own parsing, then their output.
+// Input: lines; the first holds flags (d: design subcommand, p: power subcommand,
+// j: --json, i: --no-intercept, g: --integer, w: --poly-weighted, o: --one-sided),
+// the next ones the values of
+//   analyze: --levels, --columns, --n, --spacing, --scheme, --reference
+//   design:  --levels, --hypotheses, --n, (unused x3), --intercept-row
+//   power:   --levels, --columns, --n, --means, --scheme, --sd, --alpha, --target, --adjust
 // (an empty line leaves the option out).
 #include "tests/fuzz/FuzzChecks.h"
 
@@ -28,6 +31,7 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t *data, std::size_t size
     auto line = [&](int i) { return i < lines.size() ? lines[i] : QString(); };
     const QString flags = line(0);
     const bool design = flags.contains(u'd');
+    const bool power = !design && flags.contains(u'p');
     if (splitList(line(1)).size() > kMaxFuzzLevels)
         return 0;
 
@@ -41,6 +45,15 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t *data, std::size_t size
     option(u"--n"_s, 3);
     if (design) {
         option(u"--intercept-row"_s, 7);
+    } else if (power) {
+        option(u"--means"_s, 4);
+        option(u"--scheme"_s, 5);
+        option(u"--sd"_s, 6);
+        option(u"--alpha"_s, 7);
+        option(u"--target"_s, 8);
+        option(u"--adjust"_s, 9);
+        if (flags.contains(u'o'))
+            args << u"--one-sided"_s;
     } else {
         option(u"--spacing"_s, 4);
         option(u"--scheme"_s, 5);
@@ -59,7 +72,7 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t *data, std::size_t size
     QString out, err;
     QTextStream os(&out), es(&err);
     cli::Io io{os, es};
-    const int code = design ? cli::runDesign(args, io) : cli::runAnalyze(args, io);
+    const int code = design ? cli::runDesign(args, io) : power ? cli::runPower(args, io) : cli::runAnalyze(args, io);
     os.flush();
     es.flush();
     fuzz::require(code == cli::kExitOk || code == cli::kExitBadInput ? QString() : u"exit code %1"_s.arg(code), "exit code");

@@ -1,6 +1,7 @@
 #include "ui/coding/CodingPanel.h"
 
 #include "ui/coding/CodingModel.h"
+#include "ui/coding/FooterStrip.h"
 #include "ui/common/ColumnStatus.h"
 #include "ui/document/Document.h"
 #include "ui/coding/HypothesisModel.h"
@@ -19,6 +20,8 @@
 #include <QTabWidget>
 #include <QTimer>
 #include <QVBoxLayout>
+
+#include <algorithm>
 
 using namespace Qt::StringLiterals;
 
@@ -96,8 +99,9 @@ QWidget *CodingPanel::buildCodingTab()
     connect(add, &QPushButton::clicked, this, &CodingPanel::addColumn);
     connect(remove, &QPushButton::clicked, this, &CodingPanel::removeColumn);
     auto *bar = new QHBoxLayout;
-    bar->addWidget(look::note(tr("Rows are levels, columns are coding columns. Type fractions (1/3) or decimals; paste blocks from a "
-                           "spreadsheet; double-click a column name to rename it."), tab), 1);
+    auto *hint = look::note(tr("Rows are levels, columns are coding columns. Type 1/3 or 0.25; paste from a spreadsheet."), tab);
+    hint->setToolTip(tr("Type fractions (1/3) or decimals; paste blocks from a spreadsheet; double-click a column name to rename it."));
+    bar->addWidget(hint, 1);
     bar->addWidget(add);
     bar->addWidget(remove);
 
@@ -121,14 +125,23 @@ QWidget *CodingPanel::buildCodingTab()
 
     // The grid comes first; the pairs table gets the room it needs up to a share of the
     // height (fitSplit), and the person can move the divider.
+    // The indicator rows stay in a strip under the grid while a long grid scrolls.
+    auto *gridBox = new QWidget(tab);
+    auto *gridLayout = new QVBoxLayout(gridBox);
+    gridLayout->setContentsMargins(0, 0, 0, 0);
+    gridLayout->setSpacing(0);
+    gridLayout->addWidget(m_codingView, 1);
+    m_footer = new FooterStrip(m_codingView, m_coding, gridBox);
+    gridLayout->addWidget(m_footer);
     m_split = new QSplitter(Qt::Vertical, tab);
-    m_split->addWidget(m_codingView);
+    m_split->addWidget(gridBox);
     m_split->addWidget(pairsBox);
     m_split->setChildrenCollapsible(false);
     m_split->setStretchFactor(0, 1);
     m_split->setStretchFactor(1, 0);
     connect(m_split, &QSplitter::splitterMoved, this, [this] { m_splitMoved = true; });
     connect(m_pairs, &QAbstractItemModel::modelReset, this, &CodingPanel::fitSplit);
+    connect(m_coding, &QAbstractItemModel::modelReset, this, &CodingPanel::fitSplit);
 
     auto *layout = new QVBoxLayout(tab);
     layout->setContentsMargins(0, 4, 0, 0);
@@ -194,9 +207,15 @@ void CodingPanel::fitSplit()
     m_pairsView->setMaximumSize(tableWidth + bar, table + bar);
     if (m_splitMoved || !m_split || m_split->height() <= 0)
         return;
+    // The grid first: its level rows and the indicator strip get the height they need, and the
+    // pairs table what is left (at least its caption and a row, at most what it needs).
     const int total = m_split->height();
-    const int wanted = m_pairsCaption->sizeHint().height() + 8 + table;
-    const int pairs = std::min(wanted, total * 38 / 100);
+    const int grid = std::max(m_codingView->horizontalHeader()->height(), m_codingView->horizontalHeader()->sizeHint().height())
+                     + m_codingView->verticalHeader()->length() + 2 * m_codingView->frameWidth() + m_footer->sizeHint().height() + 4;
+    const int caption = m_pairsCaption->heightForWidth(m_split->width());
+    const int wanted = caption + 8 + table;
+    const int least = std::min(wanted, caption + 8 + 2 * 24);
+    const int pairs = std::clamp(total - grid, least, std::max(least, wanted));
     m_split->setSizes({total - pairs, pairs});
 }
 

@@ -11,6 +11,7 @@ class QToolButton;
 namespace cb {
 
 class CodingModel;
+class FooterStrip;
 class Document;
 class HypothesisModel;
 class PairsModel;
@@ -74,6 +75,7 @@ private:
     QTabWidget *m_tabs;
     WeightGridView *m_codingView = nullptr;
     WeightGridView *m_hypothesisView = nullptr;
+    FooterStrip *m_footer = nullptr;
     QTableView *m_pairsView = nullptr;
     QLabel *m_pairsCaption = nullptr;
     QSplitter *m_split = nullptr;

@@ -68,6 +68,7 @@ WeightGridView::WeightGridView(QWidget *parent)
     horizontalHeader()->setMinimumSectionSize(70);
     horizontalHeader()->setDefaultSectionSize(130);
     verticalHeader()->setSectionResizeMode(QHeaderView::Fixed);
+    verticalHeader()->setDefaultSectionSize(fontMetrics().height() + 8); // a compact row, as in a spreadsheet
     connect(horizontalHeader(), &QHeaderView::sectionDoubleClicked, this, [this](int section) {
         if (m_renamable)
             renameColumn(section);

@@ -36,13 +36,24 @@
 #include <QUndoStack>
 #include <QUrl>
 
+#include <algorithm>
+
 using namespace Qt::StringLiterals;
 
 namespace cb {
 
 namespace {
 
-constexpr int kBottomDockHeight = 240;
+// Below this width (a laptop's 1024-pixel screen) the factor's levels share the right-hand dock
+// area with the coefficient cards, so the grid keeps room for its columns.
+constexpr int kNarrowWidth = 1200;
+
+// The bottom panels' share of the height: less on a low screen, where the grid needs the room.
+int bottomDockHeight(int windowHeight)
+{
+    return std::clamp(windowHeight * 26 / 100, 170, 240);
+}
+
 const QString kGeometryKey = u"window/geometry"_s;
 const QString kStateKey = u"window/state"_s;
 
@@ -226,7 +237,7 @@ void MainWindow::buildDocks()
     dock(m_levels, tr("Factor and levels"), u"levelsDock"_s, Qt::LeftDockWidgetArea);
     auto *meaning = dock(m_meaning, tr("What each coefficient tests"), u"meaningDock"_s, Qt::RightDockWidgetArea);
     m_healthDock = dock(scrolling(m_health, this), tr("Design health"), u"healthDock"_s, Qt::BottomDockWidgetArea);
-    resizeDocks({m_healthDock}, {kBottomDockHeight}, Qt::Vertical);
+    resizeDocks({m_healthDock}, {bottomDockHeight(height())}, Qt::Vertical);
     // The design view: a tab beside the coefficient cards, brought forward when the study becomes a
     // design. The side docks' widths are set when the window is first shown (showEvent): before
     // that, a tabbed dock area does not keep them.
@@ -243,7 +254,7 @@ QDockWidget *MainWindow::addPanel(QWidget *panel, const QString &title, const QS
     addDockWidget(Qt::BottomDockWidgetArea, d);
     tabifyDockWidget(m_healthDock, d);
     m_healthDock->raise();
-    resizeDocks({m_healthDock}, {kBottomDockHeight}, Qt::Vertical);
+    resizeDocks({m_healthDock}, {bottomDockHeight(height())}, Qt::Vertical);
     if (m_viewMenu)
         m_viewMenu->addAction(d->toggleViewAction());
     return d;
@@ -549,11 +560,23 @@ void MainWindow::showEvent(QShowEvent *event)
 
 void MainWindow::sizeDocks()
 {
+    // The grid comes first: the side and bottom panels take what is left of its room.
     auto *levels = findChild<QDockWidget *>(u"levelsDock"_s);
     auto *meaning = findChild<QDockWidget *>(u"meaningDock"_s);
-    if (levels && meaning)
-        resizeDocks({levels, m_document->isDesign() ? m_designDock : meaning}, {290, m_document->isDesign() ? 470 : 380}, Qt::Horizontal);
-    resizeDocks({m_healthDock}, {kBottomDockHeight}, Qt::Vertical);
+    if (levels && meaning) {
+        const bool narrow = width() < kNarrowWidth;
+        if (narrow && dockWidgetArea(levels) == Qt::LeftDockWidgetArea && !levels->isFloating()) {
+            tabifyDockWidget(meaning, levels);
+            meaning->raise();
+        }
+        QDockWidget *right = m_document->isDesign() ? m_designDock : meaning;
+        const int rightWidth = m_document->isDesign() ? 470 : narrow ? 330 : 360;
+        if (dockWidgetArea(levels) == Qt::LeftDockWidgetArea)
+            resizeDocks({levels, right}, {270, rightWidth}, Qt::Horizontal);
+        else
+            resizeDocks({right}, {rightWidth}, Qt::Horizontal);
+    }
+    resizeDocks({m_healthDock}, {bottomDockHeight(height())}, Qt::Vertical);
 }
 
 void MainWindow::closeEvent(QCloseEvent *event)
