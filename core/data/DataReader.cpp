@@ -291,6 +291,10 @@ public:
         : m_source(source), m_block(std::max<qsizetype>(1, blockBytes)), m_progress(std::move(progress))
     {
         m_cap = size_t(2 * m_block);
+        // A small input gets a small buffer (it doubles as needed, should the source hold more
+        // than it said): a summary table of a few lines need not clear two blocks of memory.
+        if (const qint64 known = source.size(); known >= 0)
+            m_cap = std::min(m_cap, size_t(known) + 64);
         m_buf.resize(m_cap + 1 + kSlackBytes);
     }
 

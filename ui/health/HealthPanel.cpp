@@ -73,9 +73,10 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
     right->addWidget(m_findingsView, 1);
     auto *layout = new QHBoxLayout(this);
     layout->setContentsMargins(6, 4, 6, 4);
-    layout->addLayout(left, 4);
-    layout->addLayout(middle, 3);
-    layout->addLayout(right, 4);
+    // The VIF table gets the widest share, so column names are not cut where there is room.
+    layout->addLayout(left, 3);
+    layout->addLayout(middle, 4);
+    layout->addLayout(right, 3);
 
     connect(document, &Document::changed, this, &HealthPanel::follow);
     follow();
