@@ -252,91 +252,32 @@ QString numericCombination(const std::vector<Weight> &row, const QStringList &le
     return s.isEmpty() ? u"0"_s : s.toString();
 }
 
-} // namespace
+// --- Recognisers -----------------------------------------------------------------
+// describeHypothesis reads a row once into RowFacts, then tries small recognisers in
+// turn: each either knows the pattern of weights and writes its statement, or declines
+// and writes nothing. The first that recognises the row wins; each list ends with one
+// that always does. Where two could match, the order decides (TestAnalysis::recogniserOrder).
 
-HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringList &levels,
-                                  const std::vector<Rational> &sizes, bool isIntercept, QStringView label)
+// What the recognisers know about a row.
+struct RowFacts
 {
-    HypothesisText out;
-    const size_t k = row.size();
-    // Room for every level name once, with separators: the longest text names each level once.
-    qsizetype room = label.size() + 64;
-    for (qsizetype i = 0; i < qsizetype(k); ++i)
-        room += levels[i].size() + 8;
-    // Exact weights, recognising simple fractions in floating ones; the sum on the way.
-    std::vector<Frac> w(k);
-    std::optional<Frac> total = Frac{};
-    // Rows repeat values (a group's weights are equal): each run of equal weights is converted
-    // once and enters the sum once, as count times its value.
-    for (size_t i = 0; i < k && total;) {
-        const std::optional<Frac> f = toFrac(row[i]);
-        if (!f) {
-            total.reset();
-            break;
-        }
-        size_t end = i + 1;
-        while (end < k && row[end] == row[i])
-            ++end;
-        std::fill(w.begin() + std::ptrdiff_t(i), w.begin() + std::ptrdiff_t(end), *f);
-        const auto run = makeFrac(static_cast<__int128>(f->n) * static_cast<__int128>(end - i), f->d);
-        total = run ? add(*total, *run) : std::nullopt;
-        i = end;
-    }
-    if (total)
-        out.combination = exactCombination(w, levels, room);
-    // "b1: " then the statement.
-    TextBuilder sym, words;
-    const auto symbolsStart = [&] {
-        sym.reserve(room + out.combination.size());
-        sym << label << u": ";
-    };
-    const auto done = [&] {
-        if (!sym.isEmpty())
-            out.symbols = sym.toString();
-        if (!words.isEmpty())
-            out.words = words.toString();
-        return out;
-    };
-    if (!total || out.combination.isEmpty()) {
-        out.combination = numericCombination(row, levels);
-        symbolsStart();
-        sym << out.combination;
-        if (!isIntercept)
-            sym << u" = 0";
-        if (isIntercept)
-            words << u"a weighted combination of the level means: ";
-        else
-            words << u"a weighted combination of the level means (weights not simple fractions): ";
-        words << out.combination;
-        return done();
-    }
+    const std::vector<Weight> &row;
+    const QStringList &levels;
+    const std::vector<Rational> &sizes;
+    QStringView label;
+    size_t k = 0;
+    qsizetype room = 0;  // every level name once, with separators: the longest text names each level once
+    std::vector<Frac> w{}; // exact weights, simple fractions recognised in floating ones
+    std::optional<Frac> total{}; // their sum; nullopt when a weight is not a simple fraction
+    bool simpleFractions = false; // every weight and the combination's denominators fit
+    QString combination{};        // "(weekly + twice)/2 - none", or decimals when not simpleFractions
+    Indices pos{}, neg{};         // levels with positive and negative weights (simpleFractions only)
+    std::vector<Frac> posValues{}, negValues{}; // distinct values, at most two kept
 
-    Indices pos, neg;
-    std::vector<Frac> posValues, negValues; // distinct values, at most two kept
-    auto note = [](std::vector<Frac> &values, const Frac &f) {
-        if (values.size() < 2 && std::find(values.begin(), values.end(), f) == values.end())
-            values.push_back(f);
-    };
-    for (size_t i = 0; i < k; ++i) {
-        if (w[i].n > 0) {
-            pos.push_back(qsizetype(i));
-            note(posValues, w[i]);
-        } else if (w[i].n < 0) {
-            neg.push_back(qsizetype(i));
-            note(negValues, w[i]);
-        }
-    }
-    const Frac zero{}, one{1, 1};
-    const auto combinationStatement = [&](bool equalsZero) {
-        symbolsStart();
-        sym << out.combination;
-        if (equalsZero)
-            sym << u" = 0";
-    };
-
-    // Is sign w_i + [i == at] = n_i / N for every level? (Checked only when needed: it takes
+    // Is sign w_i + [i == at] = n_i / N for every level? (Asked only when needed: it takes
     // arbitrary precision.)
-    const auto weightsAreShares = [&](int sign, qsizetype at) {
+    bool weightsAreShares(int sign, qsizetype at) const
+    {
         Rational nTotal = 0;
         for (const Rational &n : sizes)
             nTotal += n;
@@ -349,104 +290,288 @@ HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringL
                 return false;
         }
         return true;
-    };
-    if (isIntercept) {
-        bool equal = true, sizesEqual = true;
-        for (size_t i = 0; i < k && equal; ++i)
-            equal = w[i] == Frac{1, static_cast<long long>(k)};
-        for (size_t i = 0; i < k && sizesEqual; ++i)
-            sizesEqual = sizes[i] == sizes[0];
-        if (pos.size() == 1 && neg.empty() && posValues[0] == one) {
-            symbolsStart();
-            appendMeanSymbol(sym, levels, pos);
-            words << u"the mean of " << levels[pos[0]];
-        } else if (equal) {
-            symbolsStart();
-            appendMeanSymbol(sym, levels, allIndices(qsizetype(k)));
-            words << u"the unweighted mean of the " << QString::number(k) << u" level means";
-        } else if (!sizesEqual && weightsAreShares(1, -1)) {
-            combinationStatement(false);
-            words << u"the mean of the level means weighted by the planned n (the overall mean of all observations)";
-        } else {
-            combinationStatement(false);
-            if (*total == one)
-                words << u"a weighted average of the level means: ";
-            else
-                words << u"a combination of the level means whose weights sum to " << fracText(*total) << u": ";
-            words << out.combination;
-        }
-        return done();
     }
+};
 
-    if (pos.empty() && neg.empty()) {
-        out.symbols = label.toString() + u": 0 = 0"_s;
-        out.words = u"nothing: every weight is 0"_s;
-        return out;
+RowFacts rowFacts(const std::vector<Weight> &row, const QStringList &levels, const std::vector<Rational> &sizes,
+                  QStringView label)
+{
+    RowFacts f{row, levels, sizes, label};
+    const size_t k = row.size();
+    f.k = k;
+    f.room = label.size() + 64;
+    for (qsizetype i = 0; i < qsizetype(k); ++i)
+        f.room += levels[i].size() + 8;
+    f.w.resize(k);
+    f.total = Frac{};
+    // Rows repeat values (a group's weights are equal): each run of equal weights is converted
+    // once and enters the sum once, as count times its value.
+    for (size_t i = 0; i < k && f.total;) {
+        const std::optional<Frac> v = toFrac(row[i]);
+        if (!v) {
+            f.total.reset();
+            break;
+        }
+        size_t end = i + 1;
+        while (end < k && row[end] == row[i])
+            ++end;
+        std::fill(f.w.begin() + std::ptrdiff_t(i), f.w.begin() + std::ptrdiff_t(end), *v);
+        const auto run = makeFrac(static_cast<__int128>(v->n) * static_cast<__int128>(end - i), v->d);
+        f.total = run ? add(*f.total, *run) : std::nullopt;
+        i = end;
     }
-    // One level against the mean of all levels (sum coding), unweighted or weighted by n
-    // (weighted-effect coding): w = e_j - 1/k, or w = e_j - n/N.
-    if (*total == zero && pos.size() == 1 && neg.size() + 1 == k) {
-        const qsizetype j = pos[0];
-        // Unweighted: w = e_j - 1/k, checked in small fractions; weighted: w + n/N = e_j.
-        bool unweighted = true;
-        const long long kk = static_cast<long long>(k);
-        for (size_t i = 0; i < k && unweighted; ++i)
-            unweighted = w[i] == (qsizetype(i) == j ? Frac{kk - 1, kk} : Frac{-1, kk});
-        const bool weighted = !unweighted && weightsAreShares(-1, j);
-        if (unweighted || weighted) {
-            const QString what = unweighted ? u"the unweighted mean of all %1 level means"_s.arg(k)
-                                            : u"the mean of all %1 levels weighted by the planned n"_s.arg(k);
-            symbolsStart();
-            sym << u"mean(" << levels[j] << u") - ";
-            if (unweighted)
-                sym << u"grand mean = 0";
-            else
-                sym << u"weighted grand mean = 0";
-            words << levels[j] << u" minus " << what;
-            return done();
+    if (f.total)
+        f.combination = exactCombination(f.w, levels, f.room);
+    f.simpleFractions = f.total && !f.combination.isEmpty();
+    if (!f.simpleFractions) {
+        f.combination = numericCombination(row, levels);
+        return f;
+    }
+    auto note = [](std::vector<Frac> &values, const Frac &v) {
+        if (values.size() < 2 && std::find(values.begin(), values.end(), v) == values.end())
+            values.push_back(v);
+    };
+    for (size_t i = 0; i < k; ++i) {
+        if (f.w[i].n > 0) {
+            f.pos.push_back(qsizetype(i));
+            note(f.posValues, f.w[i]);
+        } else if (f.w[i].n < 0) {
+            f.neg.push_back(qsizetype(i));
+            note(f.negValues, f.w[i]);
         }
     }
-    // A difference of two averages, possibly scaled: all positive weights equal,
-    // all negative weights equal, and the two groups balance.
-    if (*total == zero && posValues.size() == 1 && negValues.size() == 1) {
-        const auto scale = makeFrac(static_cast<__int128>(posValues[0].n) * qsizetype(pos.size()), posValues[0].d);
-        if (scale) {
-            const bool scaled = !(*scale == one);
-            symbolsStart();
-            if (scaled)
-                sym << fracText(*scale) << u" * (";
-            appendMeanSymbol(sym, levels, pos);
-            sym << u" - ";
-            appendMeanSymbol(sym, levels, neg);
-            if (scaled)
-                sym << u")";
-            sym << u" = 0";
-            words.reserve(room);
-            if (scaled)
-                words << fracText(*scale) << u" times the difference: ";
-            appendAverageWords(words, levels, pos);
-            words << u" minus ";
-            appendAverageWords(words, levels, neg);
-            return done();
-        }
+    return f;
+}
+
+// What a recogniser writes: the statement ("b1: ...") and the words.
+struct Statement
+{
+    TextBuilder symbols, words;
+
+    // "b1: "
+    TextBuilder &startSymbols(const RowFacts &f)
+    {
+        symbols.reserve(f.room + f.combination.size());
+        symbols << f.label << u": ";
+        return symbols;
     }
-    if (neg.empty() && posValues.size() == 1 && *total == one) {
-        // An average of level means itself (cell-means style), tested against 0.
-        symbolsStart();
-        appendMeanSymbol(sym, levels, pos);
-        sym << u" = 0";
-        words.reserve(room);
-        appendAverageWords(words, levels, pos);
-        words << u" itself (its test asks whether it is 0)";
-        return done();
+    // "b1: <combination>", with " = 0" for a coefficient's test.
+    void combinationStatement(const RowFacts &f, bool equalsZero)
+    {
+        startSymbols(f) << f.combination;
+        if (equalsZero)
+            symbols << u" = 0";
     }
-    combinationStatement(true);
-    if (*total == zero)
-        words << u"a contrast of the level means (weights sum to 0): ";
+};
+
+using Recogniser = bool (*)(const RowFacts &, Statement &);
+
+constexpr Frac kZero{}, kOne{1, 1};
+
+// Weights that are not simple fractions: the combination in decimals.
+bool notSimpleFractions(const RowFacts &f, Statement &s, bool isIntercept)
+{
+    if (f.simpleFractions)
+        return false;
+    s.combinationStatement(f, !isIntercept);
+    if (isIntercept)
+        s.words << u"a weighted combination of the level means: ";
     else
-        words << u"not a pure comparison: the weights sum to " << fracText(*total) << u", so it mixes the overall level with differences: ";
-    words << out.combination;
-    return done();
+        s.words << u"a weighted combination of the level means (weights not simple fractions): ";
+    s.words << f.combination;
+    return true;
+}
+
+// Any other row (the last recogniser of each list: it always recognises): the combination,
+// and what its weights sum to. An intercept is a weighted average or a combination; another
+// coefficient is a contrast, or a mixture with the overall level.
+bool anyCombination(const RowFacts &f, Statement &s, bool isIntercept)
+{
+    s.combinationStatement(f, !isIntercept);
+    if (isIntercept && *f.total == kOne)
+        s.words << u"a weighted average of the level means: ";
+    else if (isIntercept)
+        s.words << u"a combination of the level means whose weights sum to " << fracText(*f.total) << u": ";
+    else if (*f.total == kZero)
+        s.words << u"a contrast of the level means (weights sum to 0): ";
+    else
+        s.words << u"not a pure comparison: the weights sum to " << fracText(*f.total)
+                << u", so it mixes the overall level with differences: ";
+    s.words << f.combination;
+    return true;
+}
+
+// The intercept.
+
+bool interceptNotSimpleFractions(const RowFacts &f, Statement &s)
+{
+    return notSimpleFractions(f, s, true);
+}
+
+// w = e_j: "the mean of none" (treatment coding).
+bool interceptOneLevelMean(const RowFacts &f, Statement &s)
+{
+    if (!(f.pos.size() == 1 && f.neg.empty() && f.posValues[0] == kOne))
+        return false;
+    appendMeanSymbol(s.startSymbols(f), f.levels, f.pos);
+    s.words << u"the mean of " << f.levels[f.pos[0]];
+    return true;
+}
+
+// w = 1/k everywhere (sum coding).
+bool interceptUnweightedMean(const RowFacts &f, Statement &s)
+{
+    for (size_t i = 0; i < f.k; ++i)
+        if (!(f.w[i] == Frac{1, static_cast<long long>(f.k)}))
+            return false;
+    appendMeanSymbol(s.startSymbols(f), f.levels, allIndices(qsizetype(f.k)));
+    s.words << u"the unweighted mean of the " << QString::number(f.k) << u" level means";
+    return true;
+}
+
+// w = n/N with unequal n (weighted-effect coding).
+bool interceptSizeWeightedMean(const RowFacts &f, Statement &s)
+{
+    bool sizesEqual = true;
+    for (size_t i = 0; i < f.k && sizesEqual; ++i)
+        sizesEqual = f.sizes[i] == f.sizes[0];
+    if (sizesEqual || !f.weightsAreShares(1, -1))
+        return false;
+    s.combinationStatement(f, false);
+    s.words << u"the mean of the level means weighted by the planned n (the overall mean of all observations)";
+    return true;
+}
+
+bool interceptCombination(const RowFacts &f, Statement &s)
+{
+    return anyCombination(f, s, true);
+}
+
+// The other coefficients.
+
+bool coefficientNotSimpleFractions(const RowFacts &f, Statement &s)
+{
+    return notSimpleFractions(f, s, false);
+}
+
+bool nothing(const RowFacts &f, Statement &s)
+{
+    if (!(f.pos.empty() && f.neg.empty()))
+        return false;
+    s.symbols << f.label << u": 0 = 0";
+    s.words << u"nothing: every weight is 0";
+    return true;
+}
+
+// One level against the mean of all levels (sum coding), unweighted or weighted by n
+// (weighted-effect coding): w = e_j - 1/k, or w = e_j - n/N.
+bool levelMinusGrandMean(const RowFacts &f, Statement &s)
+{
+    if (!(*f.total == kZero && f.pos.size() == 1 && f.neg.size() + 1 == f.k))
+        return false;
+    const qsizetype j = f.pos[0];
+    // Unweighted: w = e_j - 1/k, checked in small fractions; weighted: w + n/N = e_j.
+    bool unweighted = true;
+    const long long kk = static_cast<long long>(f.k);
+    for (size_t i = 0; i < f.k && unweighted; ++i)
+        unweighted = f.w[i] == (qsizetype(i) == j ? Frac{kk - 1, kk} : Frac{-1, kk});
+    if (!unweighted && !f.weightsAreShares(-1, j))
+        return false;
+    s.startSymbols(f) << u"mean(" << f.levels[j] << u") - ";
+    if (unweighted)
+        s.symbols << u"grand mean = 0";
+    else
+        s.symbols << u"weighted grand mean = 0";
+    s.words << f.levels[j] << u" minus ";
+    if (unweighted)
+        s.words << u"the unweighted mean of all " << QString::number(f.k) << u" level means";
+    else
+        s.words << u"the mean of all " << QString::number(f.k) << u" levels weighted by the planned n";
+    return true;
+}
+
+// A difference of two averages, possibly scaled: all positive weights equal, all negative
+// weights equal, and the two groups balance.
+bool differenceOfAverages(const RowFacts &f, Statement &s)
+{
+    if (!(*f.total == kZero && f.posValues.size() == 1 && f.negValues.size() == 1))
+        return false;
+    const auto scale = makeFrac(static_cast<__int128>(f.posValues[0].n) * qsizetype(f.pos.size()), f.posValues[0].d);
+    if (!scale)
+        return false;
+    const bool scaled = !(*scale == kOne);
+    TextBuilder &sym = s.startSymbols(f);
+    if (scaled)
+        sym << fracText(*scale) << u" * (";
+    appendMeanSymbol(sym, f.levels, f.pos);
+    sym << u" - ";
+    appendMeanSymbol(sym, f.levels, f.neg);
+    if (scaled)
+        sym << u")";
+    sym << u" = 0";
+    s.words.reserve(f.room);
+    if (scaled)
+        s.words << fracText(*scale) << u" times the difference: ";
+    appendAverageWords(s.words, f.levels, f.pos);
+    s.words << u" minus ";
+    appendAverageWords(s.words, f.levels, f.neg);
+    return true;
+}
+
+// An average of level means itself (cell-means style), tested against 0.
+bool averageItself(const RowFacts &f, Statement &s)
+{
+    if (!(f.neg.empty() && f.posValues.size() == 1 && *f.total == kOne))
+        return false;
+    appendMeanSymbol(s.startSymbols(f), f.levels, f.pos);
+    s.symbols << u" = 0";
+    s.words.reserve(f.room);
+    appendAverageWords(s.words, f.levels, f.pos);
+    s.words << u" itself (its test asks whether it is 0)";
+    return true;
+}
+
+bool contrastOrMixture(const RowFacts &f, Statement &s)
+{
+    return anyCombination(f, s, false);
+}
+
+constexpr Recogniser kInterceptRecognisers[] = {
+    interceptNotSimpleFractions, interceptOneLevelMean, interceptUnweightedMean, interceptSizeWeightedMean,
+    interceptCombination,
+};
+
+constexpr Recogniser kCoefficientRecognisers[] = {
+    coefficientNotSimpleFractions, nothing, levelMinusGrandMean, differenceOfAverages, averageItself,
+    contrastOrMixture,
+};
+
+template <size_t N>
+void recognise(const Recogniser (&recognisers)[N], const RowFacts &f, Statement &s)
+{
+    for (Recogniser r : recognisers)
+        if (r(f, s))
+            return;
+}
+
+} // namespace
+
+HypothesisText describeHypothesis(const std::vector<Weight> &row, const QStringList &levels,
+                                  const std::vector<Rational> &sizes, bool isIntercept, QStringView label)
+{
+    RowFacts facts = rowFacts(row, levels, sizes, label);
+    Statement s;
+    if (isIntercept)
+        recognise(kInterceptRecognisers, facts, s);
+    else
+        recognise(kCoefficientRecognisers, facts, s);
+    HypothesisText out;
+    out.combination = std::move(facts.combination);
+    if (!s.symbols.isEmpty())
+        out.symbols = s.symbols.toString();
+    if (!s.words.isEmpty())
+        out.words = s.words.toString();
+    return out;
 }
 
 } // namespace cb

@@ -608,10 +608,15 @@ public:
         for (int i = 0; i < m_first.count; ++i) {
             const auto name = decodeUtf8(trimmed(m_first.field(i)));
             if (!name)
-                return u"%1 line %2: field %3 is not valid UTF-8; save the file as UTF-8"_s.arg(m_label).arg(m_line).arg(i + 1);
+                return notUtf8(m_line, i + 1);
             m_firstText << *name;
         }
         return {};
+    }
+
+    QString notUtf8(qint64 line, int field) const
+    {
+        return u"%1 line %2: field %3 is not valid UTF-8; save the file as UTF-8"_s.arg(m_label).arg(line).arg(field);
     }
 
     QString streamError(BlockStream::Status s) const
@@ -697,6 +702,43 @@ public:
     bool m_hasSecond = false;
     QStringList m_firstText;
 };
+
+// Hands each record from the start's position on to take() (which reads the parsed record
+// and start.m_line, its first line), across blocks; blank lines are skipped and counted.
+// Returns the first problem: a broken record, a failed read, or what take() returns.
+template <typename Take>
+QString forEachRecord(FileStart &start, char delimiter, SlowRecord &record, qint64 &blankLines, Take take)
+{
+    BlockStream &stream = start.m_stream;
+    const char *p = start.m_p;
+    for (;;) {
+        const char *end = stream.end();
+        while (p < end) {
+            if (isBlankLine(p, end)) {
+                p = skipBlankLine(p);
+                ++start.m_line;
+                ++blankLines;
+                continue;
+            }
+            const RecordStatus st = parseRecord(p, end, delimiter, record);
+            if (st == RecordStatus::Incomplete && !stream.atEof())
+                break;
+            if (st != RecordStatus::Complete)
+                return start.recordError(st, record, start.m_line);
+            const QString error = take();
+            if (!error.isEmpty())
+                return error;
+            p = record.next;
+            start.m_line += record.newlines;
+        }
+        const BlockStream::Status s = stream.next(p);
+        if (s == BlockStream::Status::End)
+            return {};
+        if (s != BlockStream::Status::Ok)
+            return start.streamError(s);
+        p = stream.pos();
+    }
+}
 
 // ---------------------------------------------------------------------------
 // The long-format reader
@@ -1372,35 +1414,9 @@ private:
 
     QString readAll()
     {
-        BlockStream &stream = m_start.m_stream;
-        const char *p = m_start.m_p;
-        for (;;) {
-            const char *end = stream.end();
-            while (p < end) {
-                if (isBlankLine(p, end)) {
-                    p = skipBlankLine(p);
-                    ++m_start.m_line;
-                    ++m_out.blankLines;
-                    continue;
-                }
-                const RecordStatus st = parseRecord(p, end, m_out.delimiter, m_record);
-                if (st == RecordStatus::Incomplete && !stream.atEof())
-                    break;
-                if (st != RecordStatus::Complete)
-                    return m_start.recordError(st, m_record, m_start.m_line);
-                const QString error = addRow();
-                if (!error.isEmpty())
-                    return error;
-                p = m_record.next;
-                m_start.m_line += m_record.newlines;
-            }
-            const BlockStream::Status s = stream.next(p);
-            if (s == BlockStream::Status::End)
-                break;
-            if (s != BlockStream::Status::Ok)
-                return m_start.streamError(s);
-            p = stream.pos();
-        }
+        const QString error = forEachRecord(m_start, m_out.delimiter, m_record, m_out.blankLines, [this] { return addRow(); });
+        if (!error.isEmpty())
+            return error;
         if (m_out.levels.empty())
             return u"%1 has no rows; expected one row per level"_s.arg(m_start.m_label);
         return {};
@@ -1487,6 +1503,36 @@ Result<DataPreview> preview(ByteSource &source, const QString &label, int maxRow
     return out;
 }
 
+// ---------------------------------------------------------------------------
+// Every record as text
+
+Result<DataRecords> records(ByteSource &source, const QString &label, char delimiter)
+{
+    FileStart start(source, label, kDefaultBlockBytes, {});
+    QString error = start.begin(delimiter);
+    DataRecords out;
+    out.source = label;
+    out.delimiter = start.m_delimiter;
+    SlowRecord r;
+    qint64 blankLines = 0;
+    if (error.isEmpty())
+        error = forEachRecord(start, start.m_delimiter, r, blankLines, [&] {
+            DataRecord record{start.m_line, {}};
+            record.fields.reserve(r.count);
+            for (int i = 0; i < r.count; ++i) {
+                const auto text = decodeUtf8(r.field(i));
+                if (!text)
+                    return start.notUtf8(start.m_line, i + 1);
+                record.fields << *text;
+            }
+            out.records.push_back(std::move(record));
+            return QString();
+        });
+    if (!error.isEmpty())
+        return Result<DataRecords>::failure(error);
+    return out;
+}
+
 } // namespace
 
 // ---------------------------------------------------------------------------
@@ -1501,6 +1547,13 @@ static Result<Out> readPath(const QString &path, const Options &options)
     return Reader(*source.value(), inputLabel(path), options).run();
 }
 
+template <typename Reader, typename Options, typename Out>
+static Result<Out> readBytes(const QByteArray &bytes, const QString &sourceName, const Options &options)
+{
+    MemorySource source(bytes);
+    return Reader(source, sourceName, options).run();
+}
+
 Result<DataSummary> readLevelData(const QString &path, const DataReadOptions &options)
 {
     return readPath<LongReader, DataReadOptions, DataSummary>(path, options);
@@ -1509,8 +1562,7 @@ Result<DataSummary> readLevelData(const QString &path, const DataReadOptions &op
 Result<DataSummary> readLevelDataFromBytes(const QByteArray &bytes, const QString &sourceName,
                                            const DataReadOptions &options)
 {
-    MemorySource source(bytes);
-    return LongReader(source, sourceName, options).run();
+    return readBytes<LongReader, DataReadOptions, DataSummary>(bytes, sourceName, options);
 }
 
 Result<DataSummary> readSummaryTable(const QString &path, const SummaryReadOptions &options)
@@ -1521,8 +1573,7 @@ Result<DataSummary> readSummaryTable(const QString &path, const SummaryReadOptio
 Result<DataSummary> readSummaryTableFromBytes(const QByteArray &bytes, const QString &sourceName,
                                               const SummaryReadOptions &options)
 {
-    MemorySource source(bytes);
-    return SummaryReader(source, sourceName, options).run();
+    return readBytes<SummaryReader, SummaryReadOptions, DataSummary>(bytes, sourceName, options);
 }
 
 Result<DataPreview> previewData(const QString &path, int maxRows, char delimiter, HeaderMode header)
@@ -1538,6 +1589,12 @@ Result<DataPreview> previewDataFromBytes(const QByteArray &bytes, const QString 
 {
     MemorySource source(bytes);
     return preview(source, sourceName, maxRows, delimiter, header);
+}
+
+Result<DataRecords> readRecordsFromBytes(const QByteArray &bytes, const QString &sourceName, char delimiter)
+{
+    MemorySource source(bytes);
+    return records(source, sourceName, delimiter);
 }
 
 } // namespace cb

@@ -166,6 +166,25 @@ Result<DataPreview> previewData(const QString &path, int maxRows = 20, char deli
 Result<DataPreview> previewDataFromBytes(const QByteArray &bytes, const QString &sourceName, int maxRows = 20,
                                          char delimiter = 0, HeaderMode header = HeaderMode::Detect);
 
+// Every record of a delimited text as it is written, for a caller that wants the cells
+// themselves (the tests read exported CSV back through it): quotes removed, fields not
+// trimmed, blank lines skipped, no header decision (the first record comes first). The
+// same parsing and checks as the readers above (RFC 4180 quoting, byte-order mark, LF or
+// CRLF, UTF-8); a broken record fails with a message naming the source and line.
+struct DataRecord
+{
+    qint64 line = 0; // physical line (1-based) where the record starts
+    QStringList fields;
+};
+struct DataRecords
+{
+    QString source;
+    char delimiter = ',';
+    std::vector<DataRecord> records;
+};
+// delimiter 0: detect it as the readers above do.
+Result<DataRecords> readRecordsFromBytes(const QByteArray &bytes, const QString &sourceName, char delimiter = 0);
+
 // "comma", "tab", "semicolon", "vertical bar", or the character itself in quotes.
 QString delimiterName(char delimiter);
 // Accepts those names, "\t", or a single ASCII punctuation character.

@@ -355,15 +355,6 @@ bool startsFormula(QStringView s)
     return (c == u'=' || c == u'+' || c == u'-' || c == u'@' || c == u'\t' || c == u'\r') && !isPlainNumber(s);
 }
 
-// The reader drops a leading apostrophe that protects a formula-like name or
-// another apostrophe; the writer adds one exactly where the reader drops one.
-QString unguardCsv(const QString &s)
-{
-    if (s.startsWith(u'\'') && (startsFormula(QStringView(s).mid(1)) || QStringView(s).mid(1).startsWith(u'\'')))
-        return s.mid(1);
-    return s;
-}
-
 QString guardCsv(const QString &s)
 {
     if (startsFormula(s) || unguardCsv(s) != s)
@@ -681,82 +672,6 @@ const FormatInfo &info(ExportFormat format)
     return rowOf(kFormats, format);
 }
 
-// --- CSV reader -----------------------------------------------------------------
-
-struct CsvRecord
-{
-    int line = 0; // 1-based line where the record starts
-    QStringList fields;
-};
-
-Result<std::vector<CsvRecord>> splitCsv(const QString &input)
-{
-    QStringView text(input);
-    if (text.startsWith(u'\uFEFF'))
-        text = text.mid(1);
-    std::vector<CsvRecord> records;
-    CsvRecord record{1, {}};
-    QString field;
-    int line = 1;
-    qsizetype i = 0;
-    const qsizetype n = text.size();
-    auto where = [&] { return u"line %1, field %2"_s.arg(line).arg(record.fields.size() + 1); };
-    while (i <= n) {
-        // At the start of a field.
-        field.clear();
-        if (i < n && text[i] == u'"') {
-            ++i;
-            for (;;) {
-                if (i >= n)
-                    return Result<std::vector<CsvRecord>>::failure(
-                        u"CSV line %1, field %2: the quoted field is not closed (expected a closing '\"')"_s
-                            .arg(record.line).arg(record.fields.size() + 1));
-                if (text[i] == u'"') {
-                    if (i + 1 < n && text[i + 1] == u'"') {
-                        field += u'"';
-                        i += 2;
-                        continue;
-                    }
-                    ++i;
-                    break;
-                }
-                if (text[i] == u'\n')
-                    ++line;
-                field += text[i++];
-            }
-            if (i < n && text[i] != u',' && text[i] != u'\r' && text[i] != u'\n')
-                return Result<std::vector<CsvRecord>>::failure(
-                    u"CSV %1: expected ',' or the end of the line after the closing '\"'"_s.arg(where()));
-        } else {
-            while (i < n && text[i] != u',' && text[i] != u'\r' && text[i] != u'\n') {
-                if (text[i] == u'"')
-                    return Result<std::vector<CsvRecord>>::failure(
-                        u"CSV %1: a '\"' inside a field that does not start with '\"' (quote the whole field)"_s.arg(where()));
-                field += text[i++];
-            }
-        }
-        record.fields.append(field);
-        if (i < n && text[i] == u',') {
-            ++i;
-            continue;
-        }
-        // End of record: CRLF, LF, a lone CR, or the end of the text.
-        if (i < n && text[i] == u'\r')
-            ++i;
-        if (i < n && text[i] == u'\n')
-            ++i;
-        ++line;
-        records.push_back(record);
-        record = CsvRecord{line, {}};
-        if (i >= n)
-            break;
-    }
-    // A final line end leaves no empty record behind; drop empty trailing lines.
-    while (!records.empty() && records.back().fields == QStringList{QString()})
-        records.pop_back();
-    return records;
-}
-
 } // namespace
 
 QString ExportTable::validate() const
@@ -852,45 +767,13 @@ Result<QString> exportTable(const ExportTable &table, ExportFormat format, const
     return Result<QString>::failure(u"cannot export: unknown format"_s);
 }
 
-Result<ExportTable> readCsvTable(const QString &text)
+// The writer adds a leading apostrophe exactly where this drops one: before a
+// formula-like name or a name that starts with an apostrophe.
+QString unguardCsv(const QString &s)
 {
-    auto split = splitCsv(text);
-    if (!split)
-        return Result<ExportTable>::failure(split.error());
-    const std::vector<CsvRecord> &records = split.value();
-    if (records.size() < 2)
-        return Result<ExportTable>::failure(
-            u"CSV: expected a header row and at least one row of weights, found %1 row(s)"_s.arg(records.size()));
-    const CsvRecord &head = records.front();
-    if (head.fields.size() < 2)
-        return Result<ExportTable>::failure(
-            u"CSV line %1: the header has %2 field(s); expected the row header and at least one column name"_s
-                .arg(head.line).arg(head.fields.size()));
-    ExportTable table;
-    table.title = u"Imported table"_s;
-    table.variableName = u"table"_s;
-    table.rowHeader = unguardCsv(head.fields.front());
-    table.columnHeader = u"column"_s;
-    for (qsizetype j = 1; j < head.fields.size(); ++j)
-        table.columnNames.append(unguardCsv(head.fields[j]));
-    for (size_t r = 1; r < records.size(); ++r) {
-        const CsvRecord &rec = records[r];
-        if (rec.fields.size() != head.fields.size())
-            return Result<ExportTable>::failure(u"CSV line %1: %2 field(s); expected %3 like the header (a name and one weight per column)"_s
-                                                    .arg(rec.line).arg(rec.fields.size()).arg(head.fields.size()));
-        table.rowNames.append(unguardCsv(rec.fields.front()));
-        std::vector<Weight> row;
-        row.reserve(size_t(rec.fields.size() - 1));
-        for (qsizetype j = 1; j < rec.fields.size(); ++j) {
-            auto w = parseStoredWeight(rec.fields[j]);
-            if (!w)
-                return Result<ExportTable>::failure(u"CSV line %1, field %2 (column %3): "_s.arg(rec.line).arg(j + 1)
-                                                        .arg(shortQuoted(table.columnNames[j - 1])) + w.error());
-            row.push_back(w.value());
-        }
-        table.cells.push_back(std::move(row));
-    }
-    return table;
+    if (s.startsWith(u'\'') && (startsFormula(QStringView(s).mid(1)) || QStringView(s).mid(1).startsWith(u'\'')))
+        return s.mid(1);
+    return s;
 }
 
 Result<ExportTable> codingTable(const Scheme &scheme)

@@ -63,11 +63,10 @@ struct ExportOptions
 // ExportTable::validate).
 Result<QString> exportTable(const ExportTable &table, ExportFormat format, const ExportOptions &options = {});
 
-// Reads CSV as written by exportTable(..., ExportFormat::Csv, ...) (RFC 4180:
-// quoted fields, CRLF or LF line ends, an optional UTF-8 byte order mark).
-// The first row holds the row header and the column names, the first column the
-// row names; cells parse with parseWeight. Errors name the line and field.
-Result<ExportTable> readCsvTable(const QString &text);
+// A name as it was before the CSV writer guarded it: the writer puts an apostrophe
+// before a name a spreadsheet would run as a formula ("=1+2", "@x"; OWASP, "CSV
+// Injection") or one that starts with an apostrophe; this removes exactly that one.
+QString unguardCsv(const QString &csvName);
 
 // The coding matrix of a scheme: one row per level, one column per coding column.
 // Fails when a column does not have one weight per level.

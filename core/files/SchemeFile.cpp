@@ -1,6 +1,7 @@
 #include "core/files/SchemeFile.h"
 
 #include "core/files/InputFile.h"
+#include "core/base/JsonArray.h"
 
 #include <QFile>
 #include <QFileInfo>
@@ -17,10 +18,7 @@ namespace {
 
 QJsonArray weightsToJson(const std::vector<Weight> &ws)
 {
-    QJsonArray a;
-    for (const Weight &w : ws)
-        a.append(w.storageString());
-    return a;
+    return jsonArray(ws, [](const Weight &w) { return w.storageString(); });
 }
 
 // Reads the document with messages of the form "<where>: field '<path>': <what was expected>".
@@ -90,10 +88,7 @@ QJsonObject schemeToObject(const Scheme &s)
     factor[u"name"_s] = s.factor.name;
     factor[u"levels"_s] = QJsonArray::fromStringList(s.factor.levels);
     if (s.factor.hasPlannedN()) {
-        QJsonArray n;
-        for (const Rational &r : s.factor.plannedN)
-            n.append(rationalToString(r));
-        factor[u"n"_s] = n;
+        factor[u"n"_s] = jsonArray(s.factor.plannedN, [](const Rational &r) { return rationalToString(r); });
     }
     if (!s.factor.spacing.empty())
         factor[u"spacing"_s] = weightsToJson(s.factor.spacing);

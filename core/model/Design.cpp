@@ -3,6 +3,7 @@
 #include "core/report/AnalysisJson.h"
 #include "core/analysis/HypothesisText.h"
 #include "core/files/SchemeFile.h"
+#include "core/base/JsonArray.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>
@@ -393,10 +394,7 @@ QJsonObject designAnalysisToJson(const Design &d, const DesignAnalysis &da)
         factors.append(QJsonObject{{u"name"_s, s.factor.name}, {u"levels"_s, QJsonArray::fromStringList(s.factor.levels)}});
     o[u"factors"_s] = factors;
     o[u"terms"_s] = QJsonArray::fromStringList(da.termNames);
-    QJsonArray colTerm;
-    for (int t : da.columnTerm)
-        colTerm.append(da.termNames[t]);
-    o[u"column_terms"_s] = colTerm;
+    o[u"column_terms"_s] = jsonArray(da.columnTerm, [&](int t) { return da.termNames[t]; });
     QJsonArray to;
     for (const auto &r : da.termsOrthogonalInDesign) {
         QJsonArray row;
@@ -430,10 +428,7 @@ QByteArray designToJson(const Design &d)
     }
     QJsonObject design{{u"factors"_s, factors}, {u"terms"_s, terms}};
     if (!d.cellN.empty()) {
-        QJsonArray n;
-        for (const Rational &r : d.cellN)
-            n.append(rationalToString(r));
-        design[u"cell_n"_s] = n;
+        design[u"cell_n"_s] = jsonArray(d.cellN, [](const Rational &r) { return rationalToString(r); });
     }
     QJsonObject root{{u"format"_s, QString::fromLatin1(kSchemeFormatTag)}, {u"version"_s, kSchemeFormatVersion},
                      {u"design"_s, design}, {u"intercept"_s, d.intercept}, {u"notes"_s, d.notes}};

@@ -93,36 +93,43 @@ QStringList splitList(const QString &text, QChar separator)
     return out;
 }
 
-Result<std::vector<Rational>> parseSizes(const QStringList &items, int levelCount, const QString &where)
+// One value per level, each typed as a weight and read by take(weight, index), which returns
+// the value or a failure naming the item. what names the values in the count's message.
+template <typename T, typename Take>
+static Result<std::vector<T>> parsePerLevel(const QStringList &items, int levelCount, const QString &where,
+                                            QStringView what, Take take)
 {
-    using R = Result<std::vector<Rational>>;
+    using R = Result<std::vector<T>>;
     if (items.size() != levelCount)
-        return R::failure(u"%1: %2 sizes for %3 levels; give one per level"_s.arg(where).arg(items.size()).arg(levelCount));
-    std::vector<Rational> out;
+        return R::failure(u"%1: %2 %3 for %4 levels; give one per level"_s.arg(where).arg(items.size()).arg(what).arg(levelCount));
+    std::vector<T> out;
     for (qsizetype i = 0; i < items.size(); ++i) {
         auto w = parseWeight(items[i]);
         if (!w)
             return R::failure(u"%1, item %2: %3"_s.arg(where).arg(i + 1).arg(w.error()));
-        if (!w->isExact() || w->rational() <= 0)
-            return R::failure(u"%1, item %2: %3 is not a positive size; expected a number above 0"_s.arg(where).arg(i + 1).arg(quoted(items[i])));
-        out.push_back(w->rational());
+        Result<T> value = take(*w, i);
+        if (!value)
+            return R::failure(value.error());
+        out.push_back(value.take());
     }
     return R(std::move(out));
 }
 
+Result<std::vector<Rational>> parseSizes(const QStringList &items, int levelCount, const QString &where)
+{
+    return parsePerLevel<Rational>(items, levelCount, where, u"sizes", [&](const Weight &w, qsizetype i) {
+        if (!w.isExact() || w.rational() <= 0)
+            return Result<Rational>::failure(u"%1, item %2: %3 is not a positive size; expected a number above 0"_s.arg(where)
+                                                 .arg(i + 1)
+                                                 .arg(quoted(items[i])));
+        return Result<Rational>(w.rational());
+    });
+}
+
 Result<std::vector<Weight>> parseSpacing(const QStringList &items, int levelCount, const QString &where)
 {
-    using R = Result<std::vector<Weight>>;
-    if (items.size() != levelCount)
-        return R::failure(u"%1: %2 positions for %3 levels; give one per level"_s.arg(where).arg(items.size()).arg(levelCount));
-    std::vector<Weight> out;
-    for (qsizetype i = 0; i < items.size(); ++i) {
-        auto w = parseWeight(items[i]);
-        if (!w)
-            return R::failure(u"%1, item %2: %3"_s.arg(where).arg(i + 1).arg(w.error()));
-        out.push_back(*w);
-    }
-    return R(std::move(out));
+    return parsePerLevel<Weight>(items, levelCount, where, u"positions",
+                                 [](const Weight &w, qsizetype) { return Result<Weight>(w); });
 }
 
 } // namespace cb

@@ -2,6 +2,7 @@
 
 #include "core/analysis/Analysis.h"
 #include "core/model/Factor.h"
+#include "core/base/JsonArray.h"
 #include "core/base/NumberText.h"
 #include "core/base/Weight.h"
 
@@ -260,13 +261,6 @@ void putNumbers(QJsonObject &o, std::initializer_list<std::pair<const char16_t *
         o[QString::fromUtf16(key)] = jsonNumber(value);
 }
 
-QJsonArray jsonArray(const std::vector<double> &values)
-{
-    QJsonArray a;
-    for (double v : values)
-        a.append(jsonNumber(v));
-    return a;
-}
 
 } // namespace
 
@@ -691,7 +685,7 @@ QJsonObject powerReportToJson(const PowerReport &report)
 {
     QJsonObject root;
     root[u"levels"_s] = report.levelCount;
-    root[u"planned_n"_s] = jsonArray(report.plannedN);
+    root[u"planned_n"_s] = jsonNumbers(report.plannedN);
     root[u"planned_total"_s] = jsonNumber(report.plannedTotal);
     root[u"alpha"_s] = report.alpha;
     root[u"alpha_per_test"_s] = report.perTestAlpha;
@@ -704,7 +698,7 @@ QJsonObject powerReportToJson(const PowerReport &report)
     for (const ContrastPower &c : report.contrasts) {
         QJsonObject o;
         o[u"name"_s] = c.name;
-        o[u"weights"_s] = jsonArray(c.weights);
+        o[u"weights"_s] = jsonNumbers(c.weights);
         putNumbers(o, {{u"estimate", c.estimate}, {u"se", c.se}, {u"effect_size", c.effectSize},
                        {u"noncentrality", c.noncentrality}, {u"df", c.df}, {u"alpha", c.alpha}, {u"power", c.power}});
         o[u"welch"_s] = c.welch;

@@ -1,6 +1,6 @@
 #include "core/report/AnalysisJson.h"
 
-#include <QJsonArray>
+#include "core/base/JsonArray.h"
 
 using namespace Qt::StringLiterals;
 
@@ -10,27 +10,14 @@ namespace {
 
 QJsonArray numbers(const std::vector<Weight> &ws)
 {
-    QJsonArray a;
-    for (const Weight &w : ws)
-        a.append(jsonNumber(w.value()));
-    return a;
+    return jsonArray(ws, [](const Weight &w) { return jsonNumber(w.value()); });
 }
 
 QJsonArray exactStrings(const std::vector<Weight> &ws)
 {
-    QJsonArray a;
-    for (const Weight &w : ws)
-        a.append(w.isExact() ? QJsonValue(rationalToString(w.rational())) : QJsonValue(QJsonValue::Null));
-    return a;
-}
-
-template <typename Row, typename F>
-QJsonArray rows(const std::vector<Row> &m, F f)
-{
-    QJsonArray a;
-    for (const Row &r : m)
-        a.append(f(r));
-    return a;
+    return jsonArray(ws, [](const Weight &w) {
+        return w.isExact() ? QJsonValue(rationalToString(w.rational())) : QJsonValue(QJsonValue::Null);
+    });
 }
 
 QJsonArray rows(const SquareTable<bool> &t)
@@ -72,12 +59,12 @@ QJsonObject analysisToJson(const Scheme &scheme, const Analysis &a)
     for (int i = 0; i < a.levelCount; ++i)
         for (const Column &c : scheme.columns)
             coding[size_t(i)].push_back(i < int(c.weights.size()) ? c.weights[size_t(i)] : Weight());
-    o[u"coding"_s] = rows(coding, numbers);
-    o[u"coding_exact"_s] = rows(coding, exactStrings);
+    o[u"coding"_s] = jsonArray(coding, numbers);
+    o[u"coding_exact"_s] = jsonArray(coding, exactStrings);
 
     if (a.fullRank) {
-        o[u"hypotheses"_s] = rows(a.hypotheses, numbers);
-        o[u"hypotheses_exact"_s] = rows(a.hypotheses, exactStrings);
+        o[u"hypotheses"_s] = jsonArray(a.hypotheses, numbers);
+        o[u"hypotheses_exact"_s] = jsonArray(a.hypotheses, exactStrings);
         o[u"hypothesis_text"_s] = QJsonArray::fromStringList(a.hypothesisSymbols);
         o[u"hypothesis_words"_s] = QJsonArray::fromStringList(a.hypothesisWords);
         o[u"hypothesis_combinations"_s] = QJsonArray::fromStringList(a.hypothesisCombinations);
@@ -97,14 +84,8 @@ QJsonObject analysisToJson(const Scheme &scheme, const Analysis &a)
     o[u"orthogonal"_s] = rows(a.orthogonal);
     o[u"orthogonal_in_design"_s] = rows(a.orthogonalInDesign);
     o[u"condition_number"_s] = jsonNumber(a.conditionNumber);
-    QJsonArray ci;
-    for (double v : a.conditionIndices)
-        ci.append(jsonNumber(v));
-    o[u"condition_indices"_s] = ci;
-    QJsonArray vif;
-    for (const auto &v : a.vif)
-        vif.append(jsonNumber(v));
-    o[u"vif"_s] = vif;
+    o[u"condition_indices"_s] = jsonNumbers(a.conditionIndices);
+    o[u"vif"_s] = jsonNumbers(a.vif);
     QJsonArray corr;
     for (Eigen::Index i = 0; i < a.correlation.rows(); ++i) {
         QJsonArray r;

@@ -9,6 +9,7 @@
 #include "core/files/SchemeFile.h"
 
 #include "tests/fuzz/FuzzChecks.h"
+#include "tests/support/ExportedCsv.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>
@@ -123,7 +124,7 @@ void TestRegression::hypothesisCsvOutsideTheWeightRangeIsRefusedClearly()
     const QString problem = fuzz::checkAllExports(t);
     QVERIFY2(problem.isEmpty(), qPrintable(problem));
     const QString csv = exportTable(t, ExportFormat::Csv).value();
-    auto back = readCsvTable(csv);
+    auto back = test::readExportedCsv(csv);
     QVERIFY(!back.ok());
     QVERIFY2(back.error().startsWith(u"CSV line 3, field 2 (column 'a'): weight '"_s) && back.error().contains(u"is too small"_s),
              qPrintable(back.error()));
@@ -153,7 +154,7 @@ void TestRegression::longExactWeightSurvivesSaveAndLoad()
 
     ExportOptions exact;
     exact.exact = true;
-    auto csv = readCsvTable(exportTable(codingTable(s).value(), ExportFormat::Csv, exact).value());
+    auto csv = test::readExportedCsv(exportTable(codingTable(s).value(), ExportFormat::Csv, exact).value());
     QVERIFY2(csv.ok(), qPrintable(csv.error()));
     QVERIFY(csv->cells[0][0] == w);
 }

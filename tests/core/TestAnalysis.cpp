@@ -53,6 +53,8 @@ private slots:
     void hypothesisTexts_data();
     void hypothesisTexts();
     void interceptMeanings();
+    void recogniserOrder_data();
+    void recogniserOrder();
     void treatmentTwoLevelConditionNumber();
     void treatmentVifIsFourThirds();
     void orthogonalAsWrittenButNotUnderN();
@@ -134,6 +136,54 @@ void TestAnalysis::interceptMeanings()
     QCOMPARE(wec.hypothesisCombinations[0], u"(none + 2 weekly + 3 twice + 4 daily)/10"_s);
     QCOMPARE(wec.hypothesisSymbols[1], u"b1: mean(none) - weighted grand mean = 0"_s);
     QCOMPARE(wec.hypothesisWords[1], u"none minus the mean of all 4 levels weighted by the planned n"_s);
+}
+
+// describeHypothesis tries its recognisers in order; these rows fit two of them, and the
+// first in the list speaks. (Every row also fits the general combination, tried last.)
+void TestAnalysis::recogniserOrder_data()
+{
+    QTest::addColumn<QStringList>("weights");
+    QTest::addColumn<QStringList>("sizes");
+    QTest::addColumn<bool>("isIntercept");
+    QTest::addColumn<QString>("words");
+    // Also a scaled difference of averages: "2/3 times the difference: a minus the average of b and c".
+    QTest::newRow("level minus grand mean before difference, k = 3")
+        << QStringList{u"2/3"_s, u"-1/3"_s, u"-1/3"_s} << QStringList{u"1"_s, u"1"_s, u"1"_s} << false
+        << u"a minus the unweighted mean of all 3 level means"_s;
+    // Also "1/2 times the difference: a minus b".
+    QTest::newRow("level minus grand mean before difference, k = 2")
+        << QStringList{u"1/2"_s, u"-1/2"_s} << QStringList{u"1"_s, u"1"_s} << false
+        << u"a minus the unweighted mean of all 2 level means"_s;
+    // e_a - n/N with n = (1, 3); also "3/4 times the difference: a minus b".
+    QTest::newRow("level minus weighted grand mean before difference")
+        << QStringList{u"3/4"_s, u"-3/4"_s} << QStringList{u"1"_s, u"3"_s} << false
+        << u"a minus the mean of all 2 levels weighted by the planned n"_s;
+    // Also the unweighted mean of the one level.
+    QTest::newRow("one level's mean before the unweighted mean")
+        << QStringList{u"1"_s} << QStringList{u"1"_s} << true << u"the mean of a"_s;
+    // Also the shares n/N of n = (3, 0, 0).
+    QTest::newRow("one level's mean before the size-weighted mean")
+        << QStringList{u"1"_s, u"0"_s, u"0"_s} << QStringList{u"3"_s, u"0"_s, u"0"_s} << true << u"the mean of a"_s;
+    // Also a weighted average of the level means (the intercept's last recogniser).
+    QTest::newRow("unweighted mean before weighted average")
+        << QStringList{u"1/2"_s, u"1/2"_s} << QStringList{u"1"_s, u"2"_s} << true
+        << u"the unweighted mean of the 2 level means"_s;
+}
+
+void TestAnalysis::recogniserOrder()
+{
+    QFETCH(QStringList, weights);
+    QFETCH(QStringList, sizes);
+    QFETCH(bool, isIntercept);
+    QFETCH(QString, words);
+    const QStringList levels = QStringList{u"a"_s, u"b"_s, u"c"_s}.mid(0, weights.size());
+    std::vector<Weight> r;
+    std::vector<Rational> n;
+    for (qsizetype i = 0; i < weights.size(); ++i) {
+        r.push_back(parseWeight(weights[i]).value());
+        n.push_back(parseWeight(sizes[i]).value().rational());
+    }
+    QCOMPARE(describeHypothesis(r, levels, n, isIntercept, u"b1"_s).words, words);
 }
 
 void TestAnalysis::treatmentTwoLevelConditionNumber()

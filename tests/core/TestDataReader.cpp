@@ -132,6 +132,10 @@ private slots:
     void previewsFile();
     void namesDelimiters();
     void joinsFactorColumnsIntoCells();
+    void readsRecordsAsWritten();
+    void readsRecordsAcrossBlocks();
+    void rejectsBrokenRecords_data();
+    void rejectsBrokenRecords();
 };
 
 // Dobson (1983), An Introduction to Statistical Modelling, plant-growth data (values
@@ -663,4 +667,82 @@ void TestDataReader::joinsFactorColumnsIntoCells()
 }
 
 QTEST_GUILESS_MAIN(TestDataReader)
+// Every record as written: quotes removed, quoted spaces, commas, quotes and line breaks kept,
+// unquoted spaces kept (no trimming), blank lines skipped, each record with the line it starts on;
+// a byte-order mark and LF or CRLF line ends read the same.
+void TestDataReader::readsRecordsAsWritten()
+{
+    const QByteArray text = "level,\"  a   b  \",\"say \"\"hi\"\"\"\r\n"
+                            "\"two\r\nlines\", x ,1/3\r\n"
+                            "\r\n"
+                            "'=1+2,,-1\r\n";
+    const std::vector<DataRecord> want = {
+        {1, {u"level"_s, u"  a   b  "_s, u"say \"hi\""_s}},
+        {2, {u"two\r\nlines"_s, u" x "_s, u"1/3"_s}},
+        {5, {u"'=1+2"_s, QString(), u"-1"_s}},
+    };
+    QByteArray lf = text;
+    lf.replace("\r\n", "\n");
+    const std::pair<QByteArray, QString> inputs[] = {
+        {text, u"\r\n"_s}, {QByteArray("\xEF\xBB\xBF") + text, u"\r\n"_s}, {lf, u"\n"_s}};
+    for (const auto &[input, lineEnd] : inputs) {
+        auto r = readRecordsFromBytes(input, u"t.csv"_s, ',');
+        QVERIFY2(r.ok(), qPrintable(r.error()));
+        QCOMPARE(r->delimiter, ',');
+        QCOMPARE(int(r->records.size()), int(want.size()));
+        for (size_t i = 0; i < want.size(); ++i) {
+            QCOMPARE(r->records[i].line, want[i].line);
+            QStringList fields = want[i].fields;
+            fields.replaceInStrings(u"\r\n"_s, lineEnd);
+            QCOMPARE(r->records[i].fields, fields);
+        }
+    }
+    // Without a delimiter given, it is detected as the other readers detect it.
+    auto tsv = readRecordsFromBytes("a\tb\n1\t2\n", u"t.tsv"_s);
+    QVERIFY2(tsv.ok(), qPrintable(tsv.error()));
+    QCOMPARE(tsv->delimiter, '\t');
+    QCOMPARE(tsv->records[1].fields, (QStringList{u"1"_s, u"2"_s}));
+}
+
+// An input larger than the reader's block (1 MiB), with a quoted line break in every record,
+// reads whole: records that straddle blocks are joined, and their lines counted on.
+void TestDataReader::readsRecordsAcrossBlocks()
+{
+    constexpr int kRecords = 40000; // about 1.4 MiB
+    QByteArray text;
+    for (int i = 0; i < kRecords; ++i)
+        text += "row " + QByteArray::number(i) + ",\"first\nsecond\"," + QByteArray(12, 'x') + "\r\n";
+    QVERIFY(text.size() > 1024 * 1024);
+    auto r = readRecordsFromBytes(text, u"big.csv"_s, ',');
+    QVERIFY2(r.ok(), qPrintable(r.error()));
+    QCOMPARE(int(r->records.size()), kRecords);
+    const DataRecord &last = r->records.back();
+    QCOMPARE(last.line, qint64(2 * (kRecords - 1) + 1));
+    QCOMPARE(last.fields, (QStringList{u"row %1"_s.arg(kRecords - 1), u"first\nsecond"_s, QString(12, u'x')}));
+}
+
+void TestDataReader::rejectsBrokenRecords_data()
+{
+    QTest::addColumn<QByteArray>("text");
+    QTest::addColumn<QString>("message");
+    QTest::newRow("empty") << QByteArray() << u"t.csv is empty; expected a header and data rows"_s;
+    QTest::newRow("unclosed quote") << QByteArray("a,b\r\n\"x,1\r\n")
+                                    << u"t.csv line 2: a quoted field is never closed; expected a closing quote"_s;
+    QTest::newRow("text after quote")
+        << QByteArray("a,b\r\n\"x\"y,1\r\n")
+        << u"t.csv line 2: field 1 has text after its closing quote; expected a delimiter or the end of the line"_s;
+    QTest::newRow("not UTF-8 after the first line") << QByteArray("a,b\r\n\n\"x\",\xFF\r\n")
+                                                    << u"t.csv line 3: field 2 is not valid UTF-8; save the file as UTF-8"_s;
+    QTest::newRow("NUL byte") << QByteArray("a,b\r\nx,\0\r\n", 10) << u"t.csv contains NUL bytes; expected a UTF-8 text file"_s;
+}
+
+void TestDataReader::rejectsBrokenRecords()
+{
+    QFETCH(QByteArray, text);
+    QFETCH(QString, message);
+    auto r = readRecordsFromBytes(text, u"t.csv"_s, ',');
+    QVERIFY(!r.ok());
+    QCOMPARE(r.error(), message);
+}
+
 #include "TestDataReader.moc"

@@ -1,5 +1,7 @@
 #include "tests/fuzz/FuzzChecks.h"
 
+#include "tests/support/ExportedCsv.h"
+
 #include <QStringList>
 
 #include <cmath>
@@ -277,7 +279,7 @@ bool cleanForCsv(const QStringList &names)
 // The CSV reads back to the same names and numbers.
 QString checkCsv(const ExportTable &table, const ExportOptions &options, const QString &text)
 {
-    auto back = readCsvTable(text);
+    auto back = test::readExportedCsv(text);
     // Cells are read as weights (1e-300 to 1e300 in magnitude); a hypothesis matrix may hold
     // smaller or larger values: then the reader must refuse clearly, naming the cell.
     // Exact cells are compared exactly, as the reader does: a double can round a value just
