@@ -106,6 +106,9 @@ QJsonObject schemeToObject(const Scheme &s)
     for (const Column &c : s.columns) {
         QJsonObject o;
         o[u"name"_s] = c.name;
+        o[u"named"_s] = c.named;
+        if (c.named && !c.namedFor.empty())
+            o[u"named_for"_s] = weightsToJson(c.namedFor);
         o[u"weights"_s] = weightsToJson(c.weights);
         columns.append(o);
     }
@@ -251,6 +254,20 @@ Result<Scheme> schemeFromObject(const QJsonObject &root, const QString &where, c
             return R::failure(err);
         if (int(c.weights.size()) != s.levelCount())
             return R::failure(rd.fail(path + u".weights"_s, u"%1 weights for %2 levels; expected one per level"_s.arg(c.weights.size()).arg(s.levelCount())));
+        // A file without the flag (written before it existed) keeps every name it gives: the user's.
+        const QJsonValue named = co.value(u"named"_s);
+        if (!named.isUndefined() && !named.isBool())
+            return R::failure(rd.fail(path + u".named"_s, u"expected true (the user named the column) or false (the tool names it)"_s));
+        c.named = named.isBool() ? named.toBool() : !c.name.trimmed().isEmpty();
+        const QJsonValue namedFor = co.value(u"named_for"_s);
+        if (!namedFor.isUndefined() && !namedFor.isNull()) {
+            if (!rd.weights(namedFor, path + u".named_for"_s, c.namedFor, err))
+                return R::failure(err);
+            if (int(c.namedFor.size()) != s.levelCount())
+                return R::failure(rd.fail(path + u".named_for"_s, u"%1 weights for %2 levels; expected one per level"_s.arg(c.namedFor.size()).arg(s.levelCount())));
+            if (!c.named)
+                c.namedFor.clear();
+        }
         s.columns.push_back(std::move(c));
     }
     if (s.columns.empty())

@@ -48,14 +48,6 @@ const SchemeInfo &info(SchemeKind kind)
     return rowOf(kSchemes, kind);
 }
 
-QString degreeName(int degree)
-{
-    static const char16_t *names[] = {u"constant", u"linear", u"quadratic", u"cubic", u"quartic", u"quintic"};
-    if (degree < 6)
-        return QString::fromUtf16(names[degree]);
-    return u"degree %1"_s.arg(degree);
-}
-
 // Columns from closed forms; each scheme's hypotheses are checked exactly in TestSchemes.
 std::vector<Column> comparisonColumns(const Factor &f, SchemeKind kind, int ref)
 {
@@ -138,6 +130,14 @@ std::vector<Column> comparisonColumns(const Factor &f, SchemeKind kind, int ref)
 }
 
 } // namespace
+
+QString degreeName(int degree)
+{
+    static const char16_t *names[] = {u"constant", u"linear", u"quadratic", u"cubic", u"quartic", u"quintic"};
+    if (degree < 6)
+        return QString::fromUtf16(names[degree]);
+    return u"degree %1"_s.arg(degree);
+}
 
 QString schemeId(SchemeKind kind) { return QString::fromUtf16(info(kind).id); }
 QString schemeTitle(SchemeKind kind) { return QString::fromUtf16(info(kind).title); }

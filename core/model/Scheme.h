@@ -46,10 +46,20 @@ enum class PolynomialForm {
 };
 
 // One coding column: a name and a weight per level.
+// A column the user has not named (named == false) is named by the tool after what it tests
+// (core/analysis/ColumnNames.h), and the name follows every edit. A column the user named keeps
+// its name; namedFor holds the hypothesis row (weights on the level means) it tested when it was
+// named, so that the window can say when the column has come to test something else. An empty
+// namedFor is filled in with the current hypothesis by the naming pass (withCurrentNames).
 struct Column
 {
+    Column() = default;
+    Column(QString name_, std::vector<Weight> weights_) : name(std::move(name_)), weights(std::move(weights_)) {}
+
     QString name;
     std::vector<Weight> weights;
+    bool named = false;
+    std::vector<Weight> namedFor;
     friend bool operator==(const Column &, const Column &) = default;
 };
 
@@ -93,6 +103,9 @@ Result<std::vector<Column>> standardColumns(const Factor &factor, SchemeKind kin
 
 // A whole scheme of the given kind (intercept on, except for indicator where it is off).
 Result<Scheme> makeScheme(const Factor &factor, SchemeKind kind, const SchemeOptions &options = {});
+
+// "linear", "quadratic", ..., "degree 6": the name of a polynomial trend.
+QString degreeName(int degree);
 
 // Orthogonal polynomial trends of degree 1..k-1 over the positions, orthogonal
 // under the weights w (all 1 for the unweighted version), unnormalised.

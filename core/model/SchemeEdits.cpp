@@ -43,20 +43,6 @@ Scheme withWeights(const Scheme &scheme, const std::vector<CellWeight> &cells)
     Scheme s = asCustom(scheme);
     for (const CellWeight &c : cells)
         s.columns[size_t(c.column)].weights[size_t(c.level)] = c.weight;
-    // A standard scheme's names ("B vs A") describe its own weights: once a column
-    // is typed over, its name would mislead, so it gets a neutral one.
-    if (scheme.kind != SchemeKind::Custom) {
-        QStringList names;
-        for (const Column &c : s.columns)
-            names << c.name;
-        for (const CellWeight &c : cells) {
-            QString &name = s.columns[size_t(c.column)].name;
-            if (name != scheme.columns[size_t(c.column)].name)
-                continue; // renamed already in this edit
-            name = freshName(names, u"comparison"_s);
-            names << name;
-        }
-    }
     return s;
 }
 
@@ -65,7 +51,30 @@ Result<Scheme> withColumnName(const Scheme &scheme, int column, const QString &n
     if (name.trimmed().isEmpty())
         return Result<Scheme>::failure(u"column %1: a column needs a name"_s.arg(column + 1));
     Scheme s = asCustom(scheme);
-    s.columns[size_t(column)].name = name.trimmed();
+    Column &c = s.columns[size_t(column)];
+    c.name = name.trimmed();
+    c.named = true;
+    c.namedFor.clear(); // the naming pass records what it tests now
+    return Result<Scheme>(std::move(s));
+}
+
+Result<Scheme> withGeneratedName(const Scheme &scheme, int column)
+{
+    if (column < 0 || column >= scheme.columnCount())
+        return Result<Scheme>::failure(u"column %1: no such column"_s.arg(column + 1));
+    Scheme s = scheme;
+    Column &c = s.columns[size_t(column)];
+    c.named = false;
+    c.namedFor.clear();
+    return Result<Scheme>(std::move(s));
+}
+
+Result<Scheme> withNameKept(const Scheme &scheme, int column)
+{
+    if (column < 0 || column >= scheme.columnCount() || !scheme.columns[size_t(column)].named)
+        return Result<Scheme>::failure(u"column %1: only a name the user gave can be kept"_s.arg(column + 1));
+    Scheme s = scheme;
+    s.columns[size_t(column)].namedFor.clear();
     return Result<Scheme>(std::move(s));
 }
 
@@ -254,8 +263,12 @@ Result<Scheme> withHypotheses(const Scheme &scheme, const std::vector<std::vecto
     Scheme s = asCustom(scheme);
     std::vector<Column> cols = columns.take();
     QStringList names;
-    for (size_t j = 0; j < cols.size() && j < scheme.columns.size(); ++j)
-        names << (cols[j].name = scheme.columns[j].name);
+    for (size_t j = 0; j < cols.size() && j < scheme.columns.size(); ++j) {
+        const Column &before = scheme.columns[j];
+        names << (cols[j].name = before.name);
+        cols[j].named = before.named;
+        cols[j].namedFor = before.namedFor;
+    }
     for (size_t j = scheme.columns.size(); j < cols.size(); ++j)
         names << (cols[j].name = freshName(names, u"comparison"_s));
     s.columns = std::move(cols);

@@ -21,7 +21,12 @@ struct CellWeight
 
 // Coding grid. Typing weights turns any scheme into a custom one.
 Scheme withWeights(const Scheme &scheme, const std::vector<CellWeight> &cells);
+// A name the user gives: kept through later edits (Column::named).
 Result<Scheme> withColumnName(const Scheme &scheme, int column, const QString &name);
+// Back to the name the tool gives after what the column tests; it follows edits again.
+Result<Scheme> withGeneratedName(const Scheme &scheme, int column);
+// Keeps the user's name for what the column tests now (the window stops marking it).
+Result<Scheme> withNameKept(const Scheme &scheme, int column);
 Result<Scheme> withColumnAdded(const Scheme &scheme);
 Result<Scheme> withColumnRemoved(const Scheme &scheme, int column);
 Scheme withIntercept(const Scheme &scheme, bool intercept);
@@ -46,7 +51,8 @@ Scheme withNotes(const Scheme &scheme, const QString &notes);
 // Replaces the columns with a standard scheme's, keeping levels, sizes, intercept and notes.
 Result<Scheme> withStandard(const Scheme &scheme, SchemeKind kind, const SchemeOptions &options);
 // The coding that tests the given hypotheses (one row of level weights per
-// coefficient, the intercept's first when there is one). Column names are kept.
+// coefficient, the intercept's first when there is one). Column names (and whether the user
+// gave them) are kept.
 Result<Scheme> withHypotheses(const Scheme &scheme, const std::vector<std::vector<Weight>> &coefficientRows);
 
 // "level 5", "level 6", ... not yet among `taken`.

@@ -1,6 +1,7 @@
 #include "core/model/Study.h"
 
 #include "core/model/SchemeEdits.h"
+#include "core/analysis/ColumnNames.h"
 #include "core/files/InputFile.h"
 #include "core/files/SchemeFile.h"
 
@@ -52,25 +53,28 @@ QString factorName(const Design &d, int f)
 Study settled(Study study)
 {
     Design &d = study.design;
-    if (!study.isDesign())
-        return study;
-    syncShared(d);
-    for (size_t f = 0; f < d.factors.size(); ++f) {
-        Scheme &s = d.factors[f];
-        std::vector<Rational> totals;
-        if (!d.cellN.empty() && d.cellN.size() == size_t(d.cellCount())) {
-            totals.assign(size_t(s.levelCount()), Rational(0));
-            for (int c = 0; c < d.cellCount(); ++c)
-                totals[size_t(cellLevels(d, c)[f])] += d.cellN[size_t(c)];
-            // Equal totals stay written out too: the levels panel shows what the cell table implies.
-            if (!std::all_of(totals.begin(), totals.end(), [](const Rational &n) { return n > 0; }))
-                totals.clear();
+    if (study.isDesign()) {
+        syncShared(d);
+        for (size_t f = 0; f < d.factors.size(); ++f) {
+            Scheme &s = d.factors[f];
+            std::vector<Rational> totals;
+            if (!d.cellN.empty() && d.cellN.size() == size_t(d.cellCount())) {
+                totals.assign(size_t(s.levelCount()), Rational(0));
+                for (int c = 0; c < d.cellCount(); ++c)
+                    totals[size_t(cellLevels(d, c)[f])] += d.cellN[size_t(c)];
+                // Equal totals stay written out too: the levels panel shows what the cell table implies.
+                if (!std::all_of(totals.begin(), totals.end(), [](const Rational &n) { return n > 0; }))
+                    totals.clear();
+            }
+            if (totals == s.factor.plannedN)
+                continue;
+            if (auto next = edits::withSizes(s, std::move(totals)))
+                s = next.take();
         }
-        if (totals == s.factor.plannedN)
-            continue;
-        if (auto next = edits::withSizes(s, std::move(totals)))
-            s = next.take();
     }
+    // Names after sizes: what a column tests can depend on the planned n.
+    for (Scheme &s : d.factors)
+        s = withCurrentNames(std::move(s));
     return study;
 }
 

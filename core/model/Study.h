@@ -29,6 +29,8 @@ struct Study
 // shares the design's intercept and notes, and a factor's planned n are its levels' totals over
 // the cells (equal when the cells are, or when a level has no planned observations), so its
 // one-factor panels and its n-dependent codings (weighted-effect) read the design's sizes.
+// Every factor's columns that the user has not named take the names of what they test
+// (withCurrentNames, core/analysis/ColumnNames.h).
 Study settled(Study study);
 
 // Pure edits, like SchemeEdits: each returns the next study or says why not.

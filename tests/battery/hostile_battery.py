@@ -35,7 +35,7 @@ SCHEME = {
     "scheme": {"kind": "polynomial", "polynomial_form": "integer", "polynomial_weighted": False},
     "intercept": True,
     "columns": [
-        {"name": "linear", "weights": ["-1", "0", "1"]},
+        {"name": "linear", "named": True, "named_for": ["-1/2", "0", "1/2"], "weights": ["-1", "0", "1"]},
         {"name": "quadratic", "weights": ["1", "-2", "1"]},
     ],
     "notes": "an invented plan",
@@ -83,8 +83,10 @@ ACCEPTED = {
     "factor.n": {"null"},  # null means "no planned sizes"
     "factor.spacing": {"null"},  # null means "equal spacing"
     "design.cell_n": {"null"},  # null means "equal cells"
+    "columns[0].named_for": {"null"},  # null means "not recorded": filled in when read
     # A weight, size or position may be a JSON number, read as the decimal it shows.
     "columns[0].weights[0]": {"number", "negative", "huge number"},
+    "columns[0].named_for[0]": {"number", "negative", "huge number"},
     "factor.n[0]": {"number", "huge number"},
     "factor.spacing[0]": {"number", "negative", "huge number"},
     "design.cell_n[0]": {"number", "huge number"},

@@ -1,5 +1,6 @@
 #include "core/analysis/Analysis.h"
 #include "core/model/SchemeEdits.h"
+#include "core/model/Study.h"
 
 #include <QTest>
 
@@ -55,8 +56,14 @@ void TestSchemeEdits::typingTurnsAStandardSchemeCustomAndRenamesTypedColumns()
     QCOMPARE(t.kind, SchemeKind::Custom);
     QCOMPARE(t.reference, -1);
     QCOMPARE(t.columns[1].weights[0], w(-1, 2));
-    QCOMPARE(t.columns[0].name, s.columns[0].name);      // untouched column keeps its name
-    QVERIFY(t.columns[1].name != s.columns[1].name);     // "L3 vs L1" no longer describes it
+    // The edit leaves names alone; settling the study names every column after what it tests
+    // now (TestColumnNames): rows of inv([1 | C]) are (2 L1 + L3)/3 for b0, then
+    // L2 - (2 L1 + L3)/3 and 2/3 (L3 - L1), worked by hand from L1 = b0 - b2/2, L2 = b0 + b1,
+    // L3 = b0 + b2.
+    QCOMPARE(t.columns[1].name, s.columns[1].name);
+    const Scheme n = settled(studyOf(t)).activeScheme();
+    QCOMPARE(n.columns[0].name, u"L2 - (2 L1 + L3)/3"_s);
+    QCOMPARE(n.columns[1].name, u"2/3 (L3 vs L1)"_s);
     // Typing into a custom scheme keeps names.
     const Scheme u = edits::withWeights(t, {{1, 1, w(3)}});
     QCOMPARE(u.columns[1].name, t.columns[1].name);

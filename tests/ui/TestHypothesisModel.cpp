@@ -75,7 +75,8 @@ void TestHypothesisModel::editingHypothesesRebuildsTheCodingAndRoundTrips()
     QCOMPARE(a.hypotheses[1], (std::vector<Weight>{q(-1), q(1, 2), q(1, 2), q(0)}));
     QCOMPARE(a.hypotheses[0], (std::vector<Weight>{q(1), q(0), q(0), q(0)})); // the intercept is kept
     QCOMPARE(w.document()->scheme().kind, SchemeKind::Custom);
-    QCOMPARE(w.document()->scheme().columns[0].name, u"B vs A"_s);
+    // The column was named by the tool, so its name follows what it tests now.
+    QCOMPARE(w.document()->scheme().columns[0].name, u"B, C vs A"_s);
     // The coding grid shows the new coding, and reading it forward gives the typed hypotheses back.
     const Scheme s = w.document()->scheme();
     QCOMPARE(analyze(s).hypotheses, a.hypotheses);
@@ -203,7 +204,7 @@ void TestHypothesisModel::aNewComparisonIsADraftUntilItsWeightsAreTyped()
     QVERIFY(m->setCellTexts({{1, 3, u"-1/2"_s}, {2, 3, u"-1/2"_s}, {3, 3, u"1"_s}}, u"new comparison"_s));
     QVERIFY(!m->hasDraft());
     QCOMPARE(d->scheme().columnCount(), 3);
-    QCOMPARE(d->scheme().columns[2].name, u"comparison 3"_s);
+    QCOMPARE(d->scheme().columns[2].name, u"D vs B, C"_s); // named after what it tests
     QCOMPARE(d->analysis().hypotheses[3], (std::vector<Weight>{q(0), q(-1, 2), q(-1, 2), q(1)}));
     // Undo takes the comparison away again.
     d->undoStack()->undo();

@@ -575,6 +575,10 @@ void TestMainWindow::firstTaskFromTheReadme()
             QVERIFY(coding->setData(coding->index(r, c), columns[c][r]));
     QCOMPARE(w.document()->scheme().kind, SchemeKind::Custom);
     QCOMPARE(w.codingPanel()->picker()->schemeBox()->currentText(), u"Custom (typed by hand)"_s);
+    // Step 3's column titles, from rows 1/4 (1, 1, -1, -1), 1/2 (1, -1, 0, 0), 1/2 (0, 0, 1, -1)
+    // of inv([1 | C]) (numpy.linalg.inv, /usr/bin/python3).
+    QCOMPARE(w.document()->analysis().columnNames,
+             (QStringList{u"1/2 (control, low vs mid, high)"_s, u"1/2 (control vs low)"_s, u"1/2 (mid vs high)"_s}));
     // What the README says you see: columns 1 and 2 clash under the planned n, not as written.
     const int footer = 4;
     QCOMPARE(coding->index(footer + CodingModel::OrthogonalityRow, 0).data().toString(), u"! 2"_s);

@@ -1,5 +1,6 @@
 #include "ui/coding/CodingModel.h"
 
+#include "core/analysis/ColumnNames.h"
 #include "core/base/NumberText.h"
 #include "ui/document/Document.h"
 
@@ -174,18 +175,73 @@ QVariant CodingModel::headerData(int section, Qt::Orientation orientation, int r
     const look::State state = st ? st->overall() : look::State::Neutral;
     switch (role) {
     case Qt::DisplayRole: {
-        const QString name = look::twoLines(u"%1  %2"_s.arg(section + 1).arg(s.columns[size_t(section)].name));
+        QString name = look::twoLines(u"%1  %2"_s.arg(section + 1).arg(s.columns[size_t(section)].name));
+        if (nameIsStale(section))
+            name = kStaleNameMark.toString() + u" "_s + name;
         return state == look::State::Caution || state == look::State::Problem ? look::mark(state) + u" "_s + name : name;
     }
     case Qt::EditRole:
         return s.columns[size_t(section)].name;
     case Qt::ForegroundRole:
         return state == look::State::Caution || state == look::State::Problem ? QVariant(look::ink(state)) : QVariant();
-    case Qt::ToolTipRole:
-        return (st ? st->explanation + u"\n\n"_s : QString()) + tr("Double-click the name to rename the column.");
+    case Qt::ToolTipRole: {
+        QString tip = st ? st->explanation + u"\n\n"_s : QString();
+        if (nameIsStale(section))
+            tip += tr("%1 Name out of date: you named this column \u2018%2\u2019 when it tested something else. It now tests %3. "
+                      "Right-click the name to use \u2018%4\u2019 or to keep yours.\n\n")
+                       .arg(kStaleNameMark, s.columns[size_t(section)].name, nowTests(section), generatedName(section));
+        else if (nameIsUsers(section))
+            tip += tr("You named this column; the name stays when the weights change. Right-click the name to let the tool name it.\n\n");
+        return tip + tr("Double-click the name to rename the column.");
+    }
     default:
         return {};
     }
+}
+
+bool CodingModel::nameIsStale(int column) const
+{
+    return cb::nameIsStale(document()->scheme(), document()->analysis(), column);
+}
+
+bool CodingModel::nameIsUsers(int column) const
+{
+    const Scheme &s = document()->scheme();
+    return column >= 0 && column < s.columnCount() && s.columns[size_t(column)].named;
+}
+
+QString CodingModel::generatedName(int column) const
+{
+    return generatedColumnName(document()->scheme(), document()->analysis(), column);
+}
+
+// "the average of A and B minus C", or what the coefficient's hypothesis says without words.
+QString CodingModel::nowTests(int column) const
+{
+    const Analysis &a = document()->analysis();
+    const qsizetype row = column + (a.intercept ? 1 : 0);
+    return row < a.hypothesisWords.size() ? a.hypothesisWords[row] : tr("no unique hypothesis (the coding is rank deficient)");
+}
+
+bool CodingModel::useGeneratedName(int column)
+{
+    Document *d = document();
+    const QString name = generatedName(column);
+    auto next = edits::withGeneratedName(d->scheme(), column);
+    if (!next || name.isEmpty())
+        return false;
+    d->edit(next.take(), tr("Name column %1 \u2018%2\u2019 after what it tests").arg(column + 1).arg(name));
+    return true;
+}
+
+bool CodingModel::keepName(int column)
+{
+    Document *d = document();
+    auto next = edits::withNameKept(d->scheme(), column);
+    if (!next)
+        return false;
+    d->edit(next.take(), tr("Keep the name \u2018%1\u2019 of column %2").arg(d->scheme().columns[size_t(column)].name).arg(column + 1));
+    return true;
 }
 
 bool CodingModel::setHeaderData(int section, Qt::Orientation orientation, const QVariant &value, int role)

@@ -31,6 +31,18 @@ public:
     bool setHeaderData(int section, Qt::Orientation orientation, const QVariant &value, int role = Qt::EditRole) override;
     Qt::ItemFlags flags(const QModelIndex &index) const override;
 
+    // Names (core/analysis/ColumnNames.h): a column the user named whose hypothesis has
+    // changed since is stale, and its header shows kStaleNameMark.
+    static constexpr QStringView kStaleNameMark = u"\u2260"; // ≠
+    bool nameIsStale(int column) const;
+    bool nameIsUsers(int column) const;
+    // The name the tool gives the column for what it tests now.
+    QString generatedName(int column) const;
+    // One undo step each: back to the generated name (it follows edits again), or keep the
+    // user's name for what the column tests now.
+    bool useGeneratedName(int column);
+    bool keepName(int column);
+
 protected:
     Shape currentShape() const override;
     void aboutToFollow() override;
@@ -39,6 +51,7 @@ protected:
 private:
     QVariant footerData(int footer, int column, int role) const;
     QVariant footerHeader(int footer, int role) const;
+    QString nowTests(int column) const;
 
     std::vector<ColumnStatus> m_status;
 };

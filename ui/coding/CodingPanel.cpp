@@ -14,6 +14,7 @@
 #include <QHBoxLayout>
 #include <QHeaderView>
 #include <QLabel>
+#include <QMenu>
 #include <QPushButton>
 #include <QSplitter>
 #include <QStyle>
@@ -91,6 +92,14 @@ QWidget *CodingPanel::buildCodingTab()
     m_codingView->setWeightModel(m_coding);
     m_codingView->setColumnsRenamable(true);
     m_codingView->setObjectName(u"codingGrid"_s);
+    QHeaderView *header = m_codingView->horizontalHeader();
+    header->setContextMenuPolicy(Qt::CustomContextMenu);
+    connect(header, &QHeaderView::customContextMenuRequested, this, [this, header](const QPoint &at) {
+        if (QMenu *menu = columnNameMenu(header->logicalIndexAt(at))) {
+            menu->exec(header->viewport()->mapToGlobal(at));
+            delete menu;
+        }
+    });
 
     auto *add = new QPushButton(tr("+ Column"), tab);
     auto *remove = new QPushButton(tr("\u2212 Column"), tab);
@@ -229,6 +238,32 @@ void CodingPanel::resizeEvent(QResizeEvent *event)
 void CodingPanel::showDirection(Direction direction)
 {
     m_tabs->setCurrentIndex(direction == CodingDirection ? 0 : 1);
+}
+
+QMenu *CodingPanel::columnNameMenu(int column)
+{
+    if (column < 0 || column >= m_document->scheme().columnCount() || !m_coding->nameIsUsers(column))
+        return nullptr;
+    const QString generated = m_coding->generatedName(column);
+    const QString name = m_document->scheme().columns[size_t(column)].name;
+    auto *menu = new QMenu(this);
+    if (generated != name) {
+        QAction *use = menu->addAction(tr("Use the name \u2018%1\u2019").arg(generated).replace(u'&', u"&&"_s));
+        use->setToolTip(tr("Name the column after what it tests; the name then follows its weights."));
+        connect(use, &QAction::triggered, this, [this, column] { m_coding->useGeneratedName(column); });
+    } else {
+        QAction *follow = menu->addAction(tr("Let the name follow the weights"));
+        connect(follow, &QAction::triggered, this, [this, column] { m_coding->useGeneratedName(column); });
+    }
+    if (m_coding->nameIsStale(column)) {
+        QAction *keep = menu->addAction(tr("Keep the name \u2018%1\u2019").arg(name).replace(u'&', u"&&"_s));
+        connect(keep, &QAction::triggered, this, [this, column] { m_coding->keepName(column); });
+    }
+    if (menu->isEmpty()) {
+        delete menu;
+        return nullptr;
+    }
+    return menu;
 }
 
 WeightGridView *CodingPanel::activeView() const

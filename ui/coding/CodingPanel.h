@@ -3,6 +3,7 @@
 #include <QWidget>
 
 class QLabel;
+class QMenu;
 class QSplitter;
 class QTableView;
 class QTabWidget;
@@ -40,6 +41,11 @@ public:
     void showDirection(Direction direction);
     // The grid the user works in now.
     WeightGridView *activeView() const;
+
+    // The menu of a coding column's name (right-click on its header): "Use the name '...'"
+    // when the tool would name it otherwise, "Keep the name '...'" when it is out of date.
+    // The caller owns it; null when there is nothing to offer.
+    QMenu *columnNameMenu(int column);
 
     // The message under the grids (empty when hidden).
     QString notice() const;
