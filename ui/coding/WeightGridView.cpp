@@ -58,7 +58,7 @@ protected:
 } // namespace
 
 WeightGridView::WeightGridView(QWidget *parent)
-    : QTableView(parent)
+    : EntryTableView(parent)
 {
     setSelectionMode(QAbstractItemView::ExtendedSelection);
     setEditTriggers(QAbstractItemView::AnyKeyPressed | QAbstractItemView::DoubleClicked | QAbstractItemView::EditKeyPressed);
@@ -235,17 +235,9 @@ void WeightGridView::keyPressEvent(QKeyEvent *event)
     QTableView::keyPressEvent(event);
 }
 
-void WeightGridView::closeEditor(QWidget *editor, QAbstractItemDelegate::EndEditHint hint)
+int WeightGridView::entryRowCount() const
 {
-    if (hint != QAbstractItemDelegate::SubmitModelCache) {
-        QTableView::closeEditor(editor, hint);
-        return;
-    }
-    // Enter commits and moves down, as in a spreadsheet.
-    QTableView::closeEditor(editor, QAbstractItemDelegate::NoHint);
-    const QModelIndex cur = currentIndex();
-    if (m_model && cur.isValid() && cur.row() + 1 < m_model->weightRowCount())
-        setCurrentIndex(m_model->index(cur.row() + 1, cur.column()));
+    return m_model ? m_model->weightRowCount() : 0;
 }
 
 } // namespace cb
