@@ -93,11 +93,17 @@ void WeightGridView::fitColumns()
         names << m_model->headerData(c, Qt::Horizontal, Qt::DisplayRole).toString();
     if (names == m_fittedNames)
         return;
-    m_fittedNames = names;
+    // Only the columns whose names changed are measured again (a status mark on one column's
+    // name does not measure every cell of the grid); all of them when the columns changed.
+    const bool sameColumns = names.size() == m_fittedNames.size();
     constexpr int kWidest = 240;
-    resizeColumnsToContents();
-    for (int c = 0; c < m_model->columnCount(); ++c)
+    for (int c = 0; c < m_model->columnCount(); ++c) {
+        if (sameColumns && names[c] == m_fittedNames[c])
+            continue;
+        resizeColumnToContents(c);
         setColumnWidth(c, std::min(kWidest, columnWidth(c) + 16));
+    }
+    m_fittedNames = names;
 }
 
 QString WeightGridView::selectionText() const
