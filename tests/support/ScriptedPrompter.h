@@ -2,6 +2,7 @@
 
 #include "ui/common/Prompter.h"
 
+#include <QList>
 #include <QStringList>
 
 // Answers the window's questions from a script, and records what was asked.
@@ -16,14 +17,23 @@ public:
     int saveQuestions = 0;
     int restoreQuestions = 0;
     QStringList told; // titles and messages of the warnings shown
+    QList<cb::FileQuestion> fileQuestions; // every file asked for, in order
 
     SaveChoice askSaveChanges(QWidget *, const QString &) override
     {
         ++saveQuestions;
         return saveChoice;
     }
-    QString askOpenPath(QWidget *, const QString &) override { return openPath; }
-    QString askSavePath(QWidget *, const QString &) override { return savePath; }
+    QString askOpenPath(QWidget *, const cb::FileQuestion &question) override
+    {
+        fileQuestions << question;
+        return openPath;
+    }
+    QString askSavePath(QWidget *, const cb::FileQuestion &question) override
+    {
+        fileQuestions << question;
+        return savePath;
+    }
     bool askRestoreRecovery(QWidget *, const QString &) override
     {
         ++restoreQuestions;

@@ -5,10 +5,12 @@
 // the same values TestDataFit checks against NumPy's lstsq).
 
 #include "ui/data/DataPanel.h"
+#include "tests/support/TableText.h"
 #include "core/report/FitReport.h"
 #include "tests/support/FitTestSupport.h"
 #include "ui/window/Demos.h"
 #include "tests/support/PanelShot.h"
+#include "tests/support/ScriptedPrompter.h"
 #include "ui/document/Document.h"
 #include "ui/common/SmallChart.h"
 
@@ -16,8 +18,9 @@
 
 #include <cmath>
 #include <QComboBox>
+#include <QPushButton>
 #include <QSignalSpy>
-#include <QTableWidget>
+#include <QTableView>
 #include <QTemporaryDir>
 #include <QTest>
 
@@ -33,6 +36,7 @@ private slots:
     void mismatchedLevelIsReportedAndCanBeMapped();
     void skippedRowsAreListedWithLines();
     void unreadableFileShowsMessage();
+    void openButtonAsksThePrompter();
     void rendersTheIrrigationDemo();
     void fitsADesignFromOneColumnPerFactor();
     void responseIsAMeasurementNeverText_data();
@@ -67,7 +71,7 @@ void TestDataPanel::publishedThreeGroupsTreatmentCoding()
     DataPanel panel(&doc);
     QVERIFY(panel.openFile(kThreeGroups));
     // The columns are proposed from the preview: text for the level, numbers for the response.
-    QCOMPARE(panel.previewTable()->columnCount(), 2);
+    QCOMPARE(panel.previewTable()->model()->columnCount(), 2);
     QVERIFY(readAndWait(panel));
     QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
     const FitResult &fit = *panel.fit();
@@ -75,21 +79,21 @@ void TestDataPanel::publishedThreeGroupsTreatmentCoding()
     QCOMPARE(qRound(fit.coefficients[0].estimate * 1000), 5032);
     QCOMPARE(qRound(fit.coefficients[1].estimate * 1000), -371);
     QCOMPARE(qRound(fit.coefficients[2].estimate * 1000), 494);
-    QTableWidget *t = panel.coefficientTable();
-    QCOMPARE(t->rowCount(), 3);
-    QCOMPARE(t->item(0, DataPanel::EstimateColumn)->text(), u"5.032"_s);
-    QCOMPARE(t->item(1, DataPanel::EstimateColumn)->text(), u"-0.371"_s);
-    QCOMPARE(t->item(2, DataPanel::EstimateColumn)->text(), u"0.494"_s);
+    const QTableView *t = panel.coefficientTable();
+    QCOMPARE(rowCount(t), 3);
+    QCOMPARE(cellText(t, 0, DataPanel::EstimateColumn), u"5.032"_s);
+    QCOMPARE(cellText(t, 1, DataPanel::EstimateColumn), u"-0.371"_s);
+    QCOMPARE(cellText(t, 2, DataPanel::EstimateColumn), u"0.494"_s);
     // Saturated coding: the hypotheses applied to the observed means give the same numbers.
-    QCOMPARE(t->item(2, DataPanel::FromMeansColumn)->text(), u"0.494"_s);
+    QCOMPARE(cellText(t, 2, DataPanel::FromMeansColumn), u"0.494"_s);
     // F(2, 27) = 4.846, p = 0.0159, residual SD 0.6234 on 27 df (Dobson); the same lines as the
     // command line's report.
     QVERIFY2(panel.summaryText().contains(u"Do the level means differ? F(2, 27) = 4.846, p = 0.0159"_s), qPrintable(panel.summaryText()));
     QVERIFY(panel.summaryText().contains(u"Spread within levels: SD 0.6234 (27 df)"_s));
     for (const QString &line : fitSummaryLines(fit, false))
         QVERIFY2(panel.summaryText().contains(line.toHtmlEscaped()), qPrintable(line));
-    QCOMPARE(t->item(0, DataPanel::NameColumn)->text(), u"b0 intercept"_s);
-    QCOMPARE(t->item(0, DataPanel::PColumn)->text(), u"< 0.0001"_s);
+    QCOMPARE(cellText(t, 0, DataPanel::NameColumn), u"b0 intercept"_s);
+    QCOMPARE(cellText(t, 0, DataPanel::PColumn), u"< 0.0001"_s);
     // Three level means drawn, at the observed means 5.032, 4.661, 5.526.
     QCOMPARE(panel.meansChart()->intervals().size(), size_t(3));
     QCOMPARE(qRound(panel.meansChart()->intervals()[1].value * 1000), 4661);
@@ -221,7 +225,7 @@ void TestDataPanel::fitsADesignFromOneColumnPerFactor()
                  qPrintable(u"coefficient %1: %2, expected %3"_s.arg(i).arg(fit.coefficients[i].estimate).arg(expected[i])));
     QVERIFY(panel.unmatchedText().isEmpty());
     QVERIFY2(panel.summaryText().contains(u"21 observations in 6 cells"_s), qPrintable(panel.summaryText()));
-    QCOMPARE(panel.mappingTable()->horizontalHeaderItem(DataPanel::SchemeLevelColumn)->text(), u"Design cell"_s);
+    QCOMPARE(panel.mappingTable()->model()->headerData(DataPanel::SchemeLevelColumn, Qt::Horizontal).toString(), u"Design cell"_s);
     QVERIFY(renderPanel(panel, QSize(1500, 470), u"data-design"_s));
 
     // A design that is not usable (here: no terms) is named as the reason, not fitted.
@@ -267,4 +271,24 @@ void TestDataPanel::responseIsAMeasurementNeverText()
 }
 
 QTEST_MAIN(TestDataPanel)
+// "Open data…" asks the window's prompter, so a script can answer the file dialog.
+void TestDataPanel::openButtonAsksThePrompter()
+{
+    Document doc;
+    useLevels(doc, {u"g1"_s, u"g2"_s, u"g3"_s});
+    DataPanel panel(&doc);
+    ScriptedPrompter prompter;
+    panel.setPrompter(&prompter);
+    auto *open = panel.findChild<QPushButton *>(u"openData"_s);
+    QVERIFY(open);
+    open->click(); // cancelled: nothing opened
+    QCOMPARE(prompter.fileQuestions.size(), 1);
+    QCOMPARE(prompter.fileQuestions.first().title, u"Open a data file"_s);
+    QVERIFY(prompter.fileQuestions.first().filter.contains(u"*.csv"_s));
+    QCOMPARE(panel.previewTable()->model()->columnCount(), 0);
+    prompter.openPath = kThreeGroups;
+    open->click();
+    QCOMPARE(panel.previewTable()->model()->columnCount(), 2);
+}
+
 #include "TestDataPanel.moc"

@@ -3,6 +3,7 @@
 #include "ui/coding/CodingPanel.h"
 #include "ui/window/Demos.h"
 #include "ui/design/DesignPanel.h"
+#include "tests/support/TableText.h"
 #include "ui/export/ExportDialog.h"
 #include "ui/document/Document.h"
 #include "ui/levels/LevelsModel.h"
@@ -19,9 +20,9 @@
 #include <QDockWidget>
 #include <QFile>
 #include <QLineEdit>
-#include <QTableWidget>
+#include <QTableView>
 #include <QTest>
-#include <QTreeWidget>
+#include <QTreeView>
 #include <QUndoStack>
 
 using namespace Qt::StringLiterals;
@@ -70,12 +71,31 @@ Study twoByTwo()
     return s;
 }
 
-QTreeWidgetItem *termItem(QTreeWidget *tree, const QString &name)
+// A term's row in the term tree, found by its name; invalid when there is none.
+QModelIndex termItem(const QTreeView *tree, const QString &name)
 {
-    for (int i = 0; i < tree->topLevelItemCount(); ++i)
-        if (tree->topLevelItem(i)->text(0) == name)
-            return tree->topLevelItem(i);
-    return nullptr;
+    const QAbstractItemModel *m = tree->model();
+    for (int i = 0; i < m->rowCount(); ++i)
+        if (m->index(i, 0).data().toString() == name)
+            return m->index(i, 0);
+    return {};
+}
+
+int childCount(const QModelIndex &item)
+{
+    return item.model()->rowCount(item);
+}
+
+QModelIndex child(const QModelIndex &item, int row)
+{
+    return item.model()->index(row, 0, item);
+}
+
+// Ticks or clears a term's box, as a click does.
+void setTicked(const QModelIndex &item, bool ticked)
+{
+    QVERIFY(item.isValid());
+    const_cast<QAbstractItemModel *>(item.model())->setData(item, ticked ? Qt::Checked : Qt::Unchecked, Qt::CheckStateRole);
 }
 
 QStringList texts(const std::vector<Weight> &weights)
@@ -103,9 +123,9 @@ void TestDesignView::demoLoadsAsADesign()
     QCOMPARE(d->design().cellCount(), 6);
     QVERIFY(!d->isModified());
     DesignPanel *p = f.window->designPanel();
-    QCOMPARE(p->factorTable()->rowCount(), 2);
-    QCOMPARE(p->factorTable()->item(1, 1)->text(), u"mowing"_s);
-    QCOMPARE(p->cellSizeTable()->item(2, 1)->text(), u"4"_s); // wildflower\u00b7late
+    QCOMPARE(rowCount(p->factorTable()), 2);
+    QCOMPARE(cellText(p->factorTable(), 1, 1), u"mowing"_s);
+    QCOMPARE(cellText(p->cellSizeTable(), 2, 1), u"4"_s); // wildflower\u00b7late
     QVERIFY(!p->picture()->isEmpty());
     QCOMPARE(p->picture()->cellTexts().size(), 6);
     // Treatment coding of mowing: the margin columns compare early-mown plots only.
@@ -138,10 +158,10 @@ void TestDesignView::pictureShowsCoresWeightsForTheInteraction()
     QCOMPARE(p->picture()->cellTexts(), (QStringList{u"1/2"_s, u"1/2"_s, u"\u22121/2"_s, u"\u22121/2"_s}));
     QVERIFY(!hasFinding(p->findingsText(), u"simple effect"_s));
     // Choosing a column in the term tree shows it too.
-    QTreeWidgetItem *interaction = termItem(p->termTree(), u"cue \u00d7 load"_s);
-    QVERIFY(interaction);
-    QCOMPARE(interaction->childCount(), 1);
-    p->termTree()->setCurrentItem(interaction->child(0));
+    const QModelIndex interaction = termItem(p->termTree(), u"cue \u00d7 load"_s);
+    QVERIFY(interaction.isValid());
+    QCOMPARE(childCount(interaction), 1);
+    p->termTree()->setCurrentIndex(child(interaction, 0));
     QCOMPARE(p->selectedColumn(), 2);
     QCOMPARE(p->picture()->cellTexts(), expected);
 }
@@ -174,7 +194,7 @@ void TestDesignView::editingTheActiveFactorUpdatesTheDesignAndUndoRestores()
     p->makeActive(1);
     QCOMPARE(d->study().active, 1);
     QCOMPARE(d->scheme().factor.name, u"mowing"_s);
-    QCOMPARE(p->factorTable()->item(1, 0)->text(), u"\u270e"_s);
+    QCOMPARE(cellText(p->factorTable(), 1, 0), u"\u270e"_s);
     QVERIFY(hasFinding(p->findingsText(), u"simple effect"_s));
     const std::vector<Weight> before = d->designAnalysis().analysis.hypotheses[1];
     const int steps = d->undoStack()->count();
@@ -216,10 +236,10 @@ void TestDesignView::choosingTheFactorToEditIsNotAnEditAndKeepsTheDesignNumbers(
     QCOMPARE(cards->index(0, 0).data(MeaningModel::TitleRole).toString(), u"b0 intercept"_s);
     QVERIFY2(cards->index(1, 0).data(MeaningModel::TitleRole).toString().startsWith(u"b3 "_s),
              qPrintable(cards->index(1, 0).data(MeaningModel::TitleRole).toString()));
-    QTreeWidgetItem *mowing = termItem(f.window->designPanel()->termTree(), u"mowing"_s);
-    QVERIFY(mowing);
-    QCOMPARE(mowing->childCount(), 1);
-    QVERIFY2(mowing->child(0)->text(0).startsWith(u"b3 "_s), qPrintable(mowing->child(0)->text(0)));
+    const QModelIndex mowing = termItem(f.window->designPanel()->termTree(), u"mowing"_s);
+    QVERIFY(mowing.isValid());
+    QCOMPARE(childCount(mowing), 1);
+    QVERIFY2(child(mowing, 0).data().toString().startsWith(u"b3 "_s), qPrintable(child(mowing, 0).data().toString()));
     // Back to margin: b1 and b2 again, still no step.
     f.window->designPanel()->makeActive(0);
     QVERIFY(cards->index(2, 0).data(MeaningModel::TitleRole).toString().startsWith(u"b2 "_s));
@@ -240,23 +260,23 @@ void TestDesignView::leavingOutATermShowsTheCellSizeDependence()
     Document *d = f.window->document();
     DesignPanel *p = f.window->designPanel();
     QVERIFY(!hasFinding(p->findingsText(), u"depend on the cell sizes"_s));
-    QTreeWidgetItem *interaction = termItem(p->termTree(), u"margin \u00d7 mowing"_s);
-    QVERIFY(interaction);
-    interaction->setCheckState(0, Qt::Unchecked);
+    const QModelIndex interaction = termItem(p->termTree(), u"margin \u00d7 mowing"_s);
+    QVERIFY(interaction.isValid());
+    setTicked(interaction, false);
     QCOMPARE(d->design().terms.size(), size_t(2));
     QVERIFY2(hasFinding(p->findingsText(), u"depend on the cell sizes"_s), qPrintable(p->findingsText()));
     QVERIFY(hasFinding(p->findingsText(), u"main effects only"_s));
-    QVERIFY(!termItem(p->termTree(), u"margin \u00d7 mowing"_s)->childCount());
+    QVERIFY(!childCount(termItem(p->termTree(), u"margin \u00d7 mowing"_s)));
     d->undoStack()->undo();
     QCOMPARE(d->design().terms.size(), size_t(3));
     QVERIFY(!hasFinding(p->findingsText(), u"depend on the cell sizes"_s));
 
     // A nested term instead of the main effect and the interaction: margin within mowing.
-    termItem(p->termTree(), u"margin within mowing"_s)->setCheckState(0, Qt::Checked);
+    setTicked(termItem(p->termTree(), u"margin within mowing"_s), true);
     QVERIFY(hasFinding(p->findingsText(), u"columns for"_s)); // too many columns: core's message
     QVERIFY(p->picture()->isEmpty());
-    termItem(p->termTree(), u"margin"_s)->setCheckState(0, Qt::Unchecked);
-    termItem(p->termTree(), u"margin \u00d7 mowing"_s)->setCheckState(0, Qt::Unchecked);
+    setTicked(termItem(p->termTree(), u"margin"_s), false);
+    setTicked(termItem(p->termTree(), u"margin \u00d7 mowing"_s), false);
     QCOMPARE(d->designAnalysis().analysis.columnCount, 5);
     QVERIFY(!p->picture()->isEmpty());
 }
@@ -417,12 +437,12 @@ void TestDesignView::emptyCellIsNamed()
     QVERIFY(f.window->openDemo(u"hedgerow"_s));
     Document *d = f.window->document();
     DesignPanel *p = f.window->designPanel();
-    QTableWidgetItem *cell = p->cellSizeTable()->item(1, 1); // grass·late
-    cell->setText(u"0"_s);
+    QAbstractItemModel *sizes = p->cellSizeTable()->model();
+    QVERIFY(sizes->setData(sizes->index(1, 1), u"0"_s)); // grass·late, as typed
     QCOMPARE(rationalToString(d->design().cellN[3]), u"0"_s);
     QVERIFY2(hasFinding(p->findingsText(), u"empty cells (planned n = 0): grass\u00b7late"_s), qPrintable(p->findingsText()));
-    QVERIFY(p->cellSizeTable()->item(1, 1)->text().startsWith(u"\u2717"_s));
-    p->cellSizeTable()->item(1, 1)->setText(u"x"_s); // refused, nothing changes
+    QVERIFY(cellText(p->cellSizeTable(), 1, 1).startsWith(u"\u2717"_s));
+    sizes->setData(sizes->index(1, 1), u"x"_s); // refused, nothing changes
     QCOMPARE(rationalToString(d->design().cellN[3]), u"0"_s);
     d->undoStack()->undo();
     QCOMPARE(rationalToString(d->design().cellN[3]), u"5"_s);
@@ -434,7 +454,7 @@ void TestDesignView::saveThenOpenRoundTripsTheDesign()
     QVERIFY(f.window->openDemo(u"hedgerow"_s));
     Document *d = f.window->document();
     f.window->designPanel()->makeActive(1);
-    termItem(f.window->designPanel()->termTree(), u"margin \u00d7 mowing"_s)->setCheckState(0, Qt::Unchecked);
+    setTicked(termItem(f.window->designPanel()->termTree(), u"margin \u00d7 mowing"_s), false);
     const QByteArray saved = designToJson(d->design());
     const QString path = f.dir.filePath(u"field.json"_s);
     QVERIFY(f.window->saveTo(path));
@@ -510,7 +530,7 @@ void TestDesignView::powerIsPerDesignColumnOverTheCells()
     d->reset(s, {});
     auto *power = f.window->findChild<PowerPanel *>();
     QVERIFY(power);
-    QCOMPARE(power->inputTable()->rowCount(), 4); // one row per cell
+    QCOMPARE(rowCount(power->inputTable()), 4); // one row per cell
     power->setSizeSource(PowerPanel::SizeSource::PlannedN);
     power->sdEdit()->setText(u"1"_s);
     power->setExpectedTexts({u"0"_s, u"0"_s, u"0"_s, u"1"_s}); // only invalid\u00b7high differs

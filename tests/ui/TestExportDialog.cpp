@@ -5,6 +5,7 @@
 #include "ui/window/Demos.h"
 #include "ui/export/ExportDialog.h"
 #include "tests/support/PanelShot.h"
+#include "tests/support/ScriptedPrompter.h"
 
 #include <QAbstractButton>
 #include <QPushButton>
@@ -122,20 +123,19 @@ void TestExportDialog::saveWritesTheFile()
     Document doc;
     ExportDialog dialog(&doc);
     dialog.setFormat(ExportFormat::Python);
-    QString suggested;
+    ScriptedPrompter prompter;
+    dialog.setPrompter(&prompter);
     const QString path = dir.filePath(u"out.py"_s);
-    dialog.setPathAsker([&](const QString &s) {
-        suggested = s;
-        return path;
-    });
+    prompter.savePath = path;
     QVERIFY(dialog.save());
-    QVERIFY(suggested.endsWith(u".py"_s));
+    QCOMPARE(prompter.fileQuestions.size(), 1);
+    QVERIFY(prompter.fileQuestions.first().start.endsWith(u".py"_s));
     QFile f(path);
     QVERIFY(f.open(QIODevice::ReadOnly));
     QCOMPARE(QString::fromUtf8(f.readAll()), dialog.text());
 
     // Cancelling the question writes nothing.
-    dialog.setPathAsker([](const QString &) { return QString(); });
+    prompter.savePath.clear();
     QVERIFY(!dialog.save());
 }
 

@@ -6,15 +6,29 @@
 #include "ui/document/Document.h"
 #include "tests/support/PanelShot.h"
 #include "ui/power/PowerPanel.h"
+#include "tests/support/TableText.h"
 #include "ui/common/SmallChart.h"
 
 #include <QLineEdit>
 #include <QComboBox>
-#include <QTableWidget>
+#include <QTableView>
+#include <QSignalSpy>
 #include <QTest>
 
 using namespace Qt::StringLiterals;
 using namespace cb;
+
+namespace {
+
+// The starter scheme's four levels: equal ratios, a total N of 40 and expected means 1, 2, 3, 4.
+void planFourLevels(PowerPanel &panel)
+{
+    panel.setRatioTexts({u"1"_s, u"1"_s, u"1"_s, u"1"_s});
+    panel.totalEdit()->setText(u"40"_s);
+    panel.setExpectedTexts({u"1"_s, u"2"_s, u"3"_s, u"4"_s});
+}
+
+} // namespace
 
 class TestPowerPanel : public QObject
 {
@@ -27,6 +41,7 @@ private slots:
     void invalidInputShowsCoreMessage();
     void followsSchemeEdits();
     void plannedSizesComeFromTheLevels();
+    void typingChangesOnlyItsCell();
     void rendersTheIrrigationDemo();
 };
 
@@ -76,23 +91,23 @@ void TestPowerPanel::tableShowsCorePower()
     const auto direct = computePower(rows->rows, rows->names, s);
     QVERIFY(direct.ok());
 
-    QTableWidget *t = panel.resultTable();
-    QCOMPARE(t->rowCount(), int(direct->contrasts.size()) + 1);
+    const QTableView *t = panel.resultTable();
+    QCOMPARE(rowCount(t), int(direct->contrasts.size()) + 1);
     for (int i = 0; i < int(direct->contrasts.size()); ++i) {
         const ContrastPower &c = direct->contrasts[size_t(i)];
         QCOMPARE(panel.report()->contrasts[size_t(i)].power, c.power);
-        QCOMPARE(t->item(i, PowerPanel::TestColumn)->text(), c.name);
-        QCOMPARE(t->item(i, PowerPanel::EstimateColumn)->text(), QString::number(c.estimate, 'g', 4));
-        QCOMPARE(t->item(i, PowerPanel::SeColumn)->text(), QString::number(c.se, 'g', 4));
-        QCOMPARE(t->item(i, PowerPanel::EffectColumn)->text(), QString::number(c.effectSize, 'g', 3));
-        QVERIFY(t->item(i, PowerPanel::PowerColumn)->text().endsWith(QString::number(c.power, 'f', 3)));
-        QCOMPARE(t->item(i, PowerPanel::NeededTotalColumn)->text(),
+        QCOMPARE(cellText(t, i, PowerPanel::TestColumn), c.name);
+        QCOMPARE(cellText(t, i, PowerPanel::EstimateColumn), QString::number(c.estimate, 'g', 4));
+        QCOMPARE(cellText(t, i, PowerPanel::SeColumn), QString::number(c.se, 'g', 4));
+        QCOMPARE(cellText(t, i, PowerPanel::EffectColumn), QString::number(c.effectSize, 'g', 3));
+        QVERIFY(cellText(t, i, PowerPanel::PowerColumn).endsWith(QString::number(c.power, 'f', 3)));
+        QCOMPARE(cellText(t, i, PowerPanel::NeededTotalColumn),
                  c.required.reachable ? QString::number(c.required.total) : u"\u2014"_s);
-        QCOMPARE(t->item(i, PowerPanel::VersusOmnibusColumn)->text().isEmpty(), !c.fewerThanOmnibus);
+        QCOMPARE(cellText(t, i, PowerPanel::VersusOmnibusColumn).isEmpty(), !c.fewerThanOmnibus);
     }
-    const int last = t->rowCount() - 1;
-    QVERIFY(t->item(last, PowerPanel::PowerColumn)->text().endsWith(QString::number(direct->omnibus.power, 'f', 3)));
-    QCOMPARE(t->item(last, PowerPanel::EffectColumn)->text(), u"f = "_s + QString::number(direct->omnibus.effectSize, 'g', 3));
+    const int last = rowCount(t) - 1;
+    QVERIFY(cellText(t, last, PowerPanel::PowerColumn).endsWith(QString::number(direct->omnibus.power, 'f', 3)));
+    QCOMPARE(cellText(t, last, PowerPanel::EffectColumn), u"f = "_s + QString::number(direct->omnibus.effectSize, 'g', 3));
     // One curve per contrast and one for the F test, each agreeing with core's powerCurve at its points.
     QCOMPARE(int(panel.chart()->lines().size()), int(direct->contrasts.size()) + 1);
     const SmallChart::Line &first = panel.chart()->lines()[1];
@@ -123,15 +138,13 @@ void TestPowerPanel::invalidInputShowsCoreMessage()
 
     Document doc;
     PowerPanel panel(&doc);
-    panel.setRatioTexts({u"1"_s, u"1"_s, u"1"_s, u"1"_s});
-    panel.totalEdit()->setText(u"40"_s);
-    panel.setExpectedTexts({u"1"_s, u"2"_s, u"3"_s, u"4"_s});
+    planFourLevels(panel);
     panel.sdEdit()->setText(sd);
     panel.alphaEdit()->setText(alpha);
     panel.recompute();
     QVERIFY(!panel.report().has_value());
     QVERIFY2(panel.fieldMessage(field).endsWith(message), qPrintable(panel.fieldMessage(field)));
-    QCOMPARE(panel.resultTable()->rowCount(), 0);
+    QCOMPARE(rowCount(panel.resultTable()), 0);
     QVERIFY(panel.chart()->lines().empty());
 
     // Corrected, the message goes and the table comes back.
@@ -139,23 +152,21 @@ void TestPowerPanel::invalidInputShowsCoreMessage()
     panel.alphaEdit()->setText(u"0.05"_s);
     panel.recompute();
     QVERIFY(panel.fieldMessage(field).isEmpty());
-    QCOMPARE(panel.resultTable()->rowCount(), 4);
+    QCOMPARE(rowCount(panel.resultTable()), 4);
 }
 
 void TestPowerPanel::followsSchemeEdits()
 {
     Document doc;
     PowerPanel panel(&doc);
-    panel.setRatioTexts({u"1"_s, u"1"_s, u"1"_s, u"1"_s});
-    panel.totalEdit()->setText(u"40"_s);
-    panel.setExpectedTexts({u"1"_s, u"2"_s, u"3"_s, u"4"_s});
+    planFourLevels(panel);
     panel.recompute();
-    QCOMPARE(panel.resultTable()->item(0, PowerPanel::EstimateColumn)->text(), u"1"_s); // B - A
+    QCOMPARE(cellText(panel.resultTable(), 0, PowerPanel::EstimateColumn), u"1"_s); // B - A
 
     // Reference level D: the first contrast becomes A - D = -3.
     Scheme next = makeScheme(doc.scheme().factor, SchemeKind::Treatment, SchemeOptions{3}).take();
     doc.edit(next, u"reference D"_s);
-    QTRY_COMPARE(panel.resultTable()->item(0, PowerPanel::EstimateColumn)->text(), u"-3"_s);
+    QTRY_COMPARE(cellText(panel.resultTable(), 0, PowerPanel::EstimateColumn), u"-3"_s);
 
     // A fifth level has no expected mean yet: the message names it.
     Factor f = doc.scheme().factor;
@@ -175,7 +186,40 @@ void TestPowerPanel::plannedSizesComeFromTheLevels()
     panel.recompute();
     QVERIFY(panel.report().has_value());
     QCOMPARE(panel.report()->plannedN, (std::vector<double>{10, 10, 20, 20}));
-    QCOMPARE(panel.inputTable()->item(2, PowerPanel::PlannedNColumn)->text(), u"20"_s);
+    QCOMPARE(cellText(panel.inputTable(), 2, PowerPanel::PlannedNColumn), u"20"_s);
+}
+
+// The typed values are the panel's state, kept by level name; the table repaints only the cell
+// that changed, and a scheme edit that keeps the levels leaves the inputs alone.
+void TestPowerPanel::typingChangesOnlyItsCell()
+{
+    Document doc;
+    PowerPanel panel(&doc);
+    planFourLevels(panel);
+    QAbstractItemModel *inputs = panel.inputTable()->model();
+    QSignalSpy changed(inputs, &QAbstractItemModel::dataChanged);
+    QSignalSpy reset(inputs, &QAbstractItemModel::modelReset);
+    QVERIFY(inputs->setData(inputs->index(2, PowerPanel::ExpectedColumn), u"7"_s)); // as typed
+    QCOMPARE(cellText(panel.inputTable(), 2, PowerPanel::ExpectedColumn), u"7"_s);
+    QCOMPARE(changed.size(), 1);
+    QCOMPARE(changed[0][0].toModelIndex(), inputs->index(2, PowerPanel::ExpectedColumn));
+    QCOMPARE(changed[0][1].toModelIndex(), inputs->index(2, PowerPanel::ExpectedColumn));
+    QCOMPARE(reset.size(), 0);
+    panel.recompute();
+    QVERIFY(panel.report().has_value());
+    QCOMPARE(panel.settings()->means, (std::vector<double>{1, 2, 7, 4}));
+
+    // Another coding of the same levels: no input cell changes.
+    changed.clear();
+    doc.edit(makeScheme(doc.scheme().factor, SchemeKind::Helmert).take(), u"Helmert"_s);
+    QCOMPARE(changed.size(), 0);
+    QCOMPARE(reset.size(), 0);
+    // A renamed level starts empty; the others keep their values.
+    Factor f = doc.scheme().factor;
+    f.levels[1] = u"B2"_s;
+    doc.edit(makeScheme(f, SchemeKind::Helmert).take(), u"rename"_s);
+    QCOMPARE(cellText(panel.inputTable(), 1, PowerPanel::ExpectedColumn), QString());
+    QCOMPARE(cellText(panel.inputTable(), 2, PowerPanel::ExpectedColumn), u"7"_s);
 }
 
 // The irrigation demo (invented): expected plot yields per schedule, eight plots each.
@@ -188,7 +232,7 @@ void TestPowerPanel::rendersTheIrrigationDemo()
     panel.sdEdit()->setText(u"0.9"_s);
     panel.recompute();
     QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
-    QCOMPARE(panel.resultTable()->rowCount(), 5);
+    QCOMPARE(rowCount(panel.resultTable()), 5);
     QVERIFY(renderPanel(panel, QSize(1500, 430), u"power"_s));
 }
 

@@ -58,7 +58,7 @@ protected:
 } // namespace
 
 WeightGridView::WeightGridView(QWidget *parent)
-    : QTableView(parent)
+    : EntryTableView(parent)
 {
     setSelectionMode(QAbstractItemView::ExtendedSelection);
     setEditTriggers(QAbstractItemView::AnyKeyPressed | QAbstractItemView::DoubleClicked | QAbstractItemView::EditKeyPressed);
@@ -94,11 +94,17 @@ void WeightGridView::fitColumns()
         names << m_model->headerData(c, Qt::Horizontal, Qt::DisplayRole).toString();
     if (names == m_fittedNames)
         return;
-    m_fittedNames = names;
+    // Only the columns whose names changed are measured again (a status mark on one column's
+    // name does not measure every cell of the grid); all of them when the columns changed.
+    const bool sameColumns = names.size() == m_fittedNames.size();
     constexpr int kWidest = 240;
-    resizeColumnsToContents();
-    for (int c = 0; c < m_model->columnCount(); ++c)
+    for (int c = 0; c < m_model->columnCount(); ++c) {
+        if (sameColumns && names[c] == m_fittedNames[c])
+            continue;
+        resizeColumnToContents(c);
         setColumnWidth(c, std::min(kWidest, columnWidth(c) + 16));
+    }
+    m_fittedNames = names;
 }
 
 QString WeightGridView::selectionText() const
@@ -236,17 +242,9 @@ void WeightGridView::keyPressEvent(QKeyEvent *event)
     QTableView::keyPressEvent(event);
 }
 
-void WeightGridView::closeEditor(QWidget *editor, QAbstractItemDelegate::EndEditHint hint)
+int WeightGridView::entryRowCount() const
 {
-    if (hint != QAbstractItemDelegate::SubmitModelCache) {
-        QTableView::closeEditor(editor, hint);
-        return;
-    }
-    // Enter commits and moves down, as in a spreadsheet.
-    QTableView::closeEditor(editor, QAbstractItemDelegate::NoHint);
-    const QModelIndex cur = currentIndex();
-    if (m_model && cur.isValid() && cur.row() + 1 < m_model->weightRowCount())
-        setCurrentIndex(m_model->index(cur.row() + 1, cur.column()));
+    return m_model ? m_model->weightRowCount() : 0;
 }
 
 } // namespace cb

@@ -1,6 +1,6 @@
 #pragma once
 
-#include <QTableView>
+#include "ui/common/EntryTableView.h"
 
 namespace cb {
 
@@ -10,7 +10,7 @@ class WeightTableModel;
 // Ctrl+C / Ctrl+V copy and paste rectangular blocks as tab-separated text,
 // Delete clears the selected cells to 0. Each paste or clear is one undo step.
 // Column names can be edited by double-clicking the header.
-class WeightGridView : public QTableView
+class WeightGridView : public EntryTableView
 {
     Q_OBJECT
 
@@ -35,7 +35,7 @@ public slots:
 
 protected:
     void keyPressEvent(QKeyEvent *event) override;
-    void closeEditor(QWidget *editor, QAbstractItemDelegate::EndEditHint hint) override;
+    int entryRowCount() const override; // the weight rows, not the footers
 
 private:
     // Fits the columns to their names and weights after the shape or the names changed.

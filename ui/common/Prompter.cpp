@@ -14,13 +14,29 @@ QString tr(const char *text)
 {
     return QCoreApplication::translate("cb::Prompter", text);
 }
-QString schemeFilter()
+QString studyFilter()
 {
     // New studies are saved as .cbstudy (a MIME type of our own, so that they open with a double-click);
     // the same JSON saved as .json opens too.
     return tr("Contrast Bench studies (*.cbstudy *.json);;All files (*)");
 }
 } // namespace
+
+FileQuestion studyToOpen(const QString &startDirectory)
+{
+    return {tr("Open a scheme"), startDirectory, studyFilter(), {}};
+}
+
+FileQuestion studyToSave(const QString &suggestedPath)
+{
+    return {tr("Save the scheme"), suggestedPath, studyFilter(), u"cbstudy"_s};
+}
+
+Prompter &dialogPrompter()
+{
+    static DialogPrompter prompter;
+    return prompter;
+}
 
 Prompter::SaveChoice DialogPrompter::askSaveChanges(QWidget *parent, const QString &documentName)
 {
@@ -39,16 +55,16 @@ Prompter::SaveChoice DialogPrompter::askSaveChanges(QWidget *parent, const QStri
     }
 }
 
-QString DialogPrompter::askOpenPath(QWidget *parent, const QString &startDirectory)
+QString DialogPrompter::askOpenPath(QWidget *parent, const FileQuestion &question)
 {
-    return QFileDialog::getOpenFileName(parent, tr("Open a scheme"), startDirectory, schemeFilter());
+    return QFileDialog::getOpenFileName(parent, question.title, question.start, question.filter);
 }
 
-QString DialogPrompter::askSavePath(QWidget *parent, const QString &suggestedPath)
+QString DialogPrompter::askSavePath(QWidget *parent, const FileQuestion &question)
 {
-    QString path = QFileDialog::getSaveFileName(parent, tr("Save the scheme"), suggestedPath, schemeFilter());
-    if (!path.isEmpty() && !path.contains(u'.'))
-        path += u".cbstudy"_s;
+    QString path = QFileDialog::getSaveFileName(parent, question.title, question.start, question.filter);
+    if (!path.isEmpty() && !question.suffix.isEmpty() && !path.contains(u'.'))
+        path += u"."_s + question.suffix;
     return path;
 }
 

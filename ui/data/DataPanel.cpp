@@ -4,13 +4,15 @@
 #include "core/report/FitReport.h"
 
 #include "ui/document/Document.h"
+#include "ui/common/CellTable.h"
 #include "ui/common/Look.h"
+#include "ui/common/Prompter.h"
 #include "ui/common/SmallChart.h"
 
 #include <QComboBox>
+#include <QCoreApplication>
 #include <QDir>
 #include <QFileInfo>
-#include <QFileDialog>
 #include <QFormLayout>
 #include <QHBoxLayout>
 #include <QHeaderView>
@@ -20,7 +22,7 @@
 #include <QPushButton>
 #include <QSplitter>
 #include <QRegularExpression>
-#include <QTableWidget>
+#include <QTableView>
 #include <QThread>
 #include <QTimer>
 #include <QVBoxLayout>
@@ -38,23 +40,22 @@ QString number(double v, int digits = 4)
     return std::isfinite(v) ? numberText(v, digits) : kMissingMark.toString();
 }
 
-QTableWidgetItem *cell(const QString &text, bool numeric = true)
+TableCell cell(const QString &text, bool numeric = true)
 {
-    auto *item = new QTableWidgetItem(text);
-    item->setFlags(Qt::ItemIsEnabled | Qt::ItemIsSelectable);
-    if (numeric)
-        item->setTextAlignment(Qt::AlignRight | Qt::AlignVCenter);
-    return item;
+    return textCell(text, numeric);
 }
 
-QTableWidget *table(int columns, const QStringList &headers, QWidget *parent)
+QTableView *tableView(CellTableModel *model, QWidget *parent)
 {
-    auto *t = new QTableWidget(0, columns, parent);
-    t->setHorizontalHeaderLabels(headers);
-    t->verticalHeader()->hide();
-    t->verticalHeader()->setDefaultSectionSize(22);
-    t->setWordWrap(false);
-    return t;
+    auto *view = new QTableView(parent);
+    view->setModel(model);
+    setUpResultTable(view);
+    return view;
+}
+
+QString noMatch()
+{
+    return QCoreApplication::translate("cb::DataPanel", "(no match)");
 }
 
 QLabel *caption(const QString &text, QWidget *parent)
@@ -105,9 +106,11 @@ bool identifierColumn(const DataPreview &preview, int column)
 DataPanel::DataPanel(Document *document, QWidget *parent)
     : QWidget(parent)
     , m_document(document)
+    , m_prompter(&dialogPrompter())
     , m_fileLabel(look::note(tr("No data file yet. Open a long-format file: one row per observation, a column naming "
                                 "the level and a numeric response."), this))
-    , m_preview(table(0, {}, this))
+    , m_preview(new CellTableModel({}, this))
+    , m_previewView(tableView(m_preview, this))
     , m_factor(new QComboBox(this))
     , m_moreFactors{new QComboBox(this), new QComboBox(this)}
     , m_response(new QComboBox(this))
@@ -115,66 +118,65 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     , m_readButton(new QPushButton(tr("Read and fit"), this))
     , m_adjust(new QComboBox(this))
     , m_alpha(new QLineEdit(u"0.05"_s, this))
-    , m_mapping(table(MappingColumnCount, {tr("Level in the data"), tr("Rows"), tr("Scheme level")}, this))
+    , m_mapping(new CellTableModel({tr("Level in the data"), tr("Rows"), tr("Scheme level")}, this))
+    , m_mappingView(tableView(m_mapping, this))
     , m_unmatched(new QLabel(this))
     , m_message(new QLabel(this))
     , m_summary(new QLabel(this))
-    , m_coefficients(table(CoefficientColumnCount,
-                           {tr("Coefficient"), tr("Tests"), tr("Estimate"), tr("From means"), tr("SE"),
-                            tr("t"), tr("p"), tr("Adjusted p"), tr("Confidence interval")},
-                           this))
+    , m_coefficients(new CellTableModel({tr("Coefficient"), tr("Tests"), tr("Estimate"), tr("From means"), tr("SE"), tr("t"), tr("p"),
+                                         tr("Adjusted p"), tr("Confidence interval")},
+                                        this))
+    , m_coefficientView(tableView(m_coefficients, this))
     , m_chart(new SmallChart(this))
     , m_problems(look::note({}, this))
 {
     setObjectName(u"dataPanel"_s);
-    m_preview->setObjectName(u"dataPreview"_s);
-    m_preview->setMaximumHeight(150);
-    m_mapping->setObjectName(u"levelMapping"_s);
-    m_mapping->horizontalHeader()->setSectionResizeMode(QHeaderView::Stretch);
-    m_coefficients->setObjectName(u"fitCoefficients"_s);
-    m_coefficients->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
-    m_coefficients->horizontalHeader()->setStretchLastSection(true);
-    m_coefficients->horizontalHeader()->setSectionResizeMode(HypothesisColumn, QHeaderView::Interactive);
-    m_coefficients->setTextElideMode(Qt::ElideMiddle);
-    m_coefficients->horizontalHeaderItem(FromMeansColumn)->setToolTip(
+    buildTables();
+    // Left: the file and its columns. Middle: levels and results. Right: the means.
+    auto *layout = new QHBoxLayout(this);
+    layout->setContentsMargins(6, 4, 6, 4);
+    layout->addLayout(buildFileColumn(), 4);
+    layout->addLayout(buildResultColumn(), 8);
+    layout->addWidget(m_chart, 3);
+    connectInputs();
+    updateFactorRows();
+}
+
+void DataPanel::buildTables()
+{
+    m_previewView->setObjectName(u"dataPreview"_s);
+    m_previewView->setMaximumHeight(150);
+    m_mappingView->setObjectName(u"levelMapping"_s);
+    m_mappingView->horizontalHeader()->setSectionResizeMode(QHeaderView::Stretch);
+    showChoices(m_mappingView, SchemeLevelColumn);
+    m_coefficientView->setObjectName(u"fitCoefficients"_s);
+    m_coefficientView->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
+    m_coefficientView->horizontalHeader()->setStretchLastSection(true);
+    m_coefficientView->horizontalHeader()->setSectionResizeMode(HypothesisColumn, QHeaderView::Interactive);
+    m_coefficientView->setTextElideMode(Qt::ElideMiddle);
+    m_coefficients->setHeaderToolTip(
+        FromMeansColumn,
         tr("The coefficient's hypothesis row applied to the observed level means; it equals the estimate unless the "
            "coding leaves out comparisons and the group sizes are unequal."));
-    m_coefficients->setSelectionMode(QAbstractItemView::NoSelection);
+    m_coefficientView->setSelectionMode(QAbstractItemView::NoSelection);
     m_chart->setObjectName(u"levelMeans"_s);
     m_chart->clear(tr("Level means with their confidence intervals appear here after a fit."));
-    for (QLabel *l : {m_unmatched, m_message, m_summary}) {
-        l->setWordWrap(true);
-        l->setTextInteractionFlags(Qt::TextSelectableByMouse);
-    }
-    m_message->setObjectName(u"dataMessage"_s);
-    m_message->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Problem).name()));
-    m_message->hide();
-    m_unmatched->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Caution).name()));
-    m_summary->setTextFormat(Qt::RichText);
-    m_problems->setObjectName(u"dataProblems"_s);
+}
+
+// The file, its preview, the column choosers and the level matching.
+QLayout *DataPanel::buildFileColumn()
+{
     m_readButton->setEnabled(false);
     for (Adjustment a : {Adjustment::Holm, Adjustment::Bonferroni, Adjustment::Sidak, Adjustment::None})
         m_adjust->addItem(adjustmentTitle(a), QVariant::fromValue(int(a)));
-
     auto *open = new QPushButton(tr("Open data\u2026"), this);
+    open->setObjectName(u"openData"_s);
     connect(open, &QPushButton::clicked, this, [this] {
-        const QString path = m_askPath();
+        const QString path = m_prompter->askOpenPath(this, {tr("Open a data file"), QFileInfo(m_path).absolutePath(),
+                                                            tr("Delimited text (*.csv *.tsv *.txt *.dat);;All files (*)"), {}});
         if (!path.isEmpty())
             openFile(path);
     });
-    m_askPath = [this] {
-        return QFileDialog::getOpenFileName(this, tr("Open a data file"), QFileInfo(m_path).absolutePath(),
-                                            tr("Delimited text (*.csv *.tsv *.txt *.dat);;All files (*)"));
-    };
-    connect(m_readButton, &QPushButton::clicked, this, &DataPanel::readAndFit);
-    connect(m_adjust, &QComboBox::currentIndexChanged, this, &DataPanel::refit);
-    connect(m_alpha, &QLineEdit::textChanged, this, &DataPanel::refit);
-    connect(document, &Document::changed, this, [this] {
-        updateFactorRows();
-        rebuildMapping();
-    });
-
-    // Left: the file and its columns. Middle: levels and results. Right: the means.
     auto *fileRow = new QHBoxLayout;
     fileRow->addWidget(open);
     fileRow->addWidget(m_readButton);
@@ -191,28 +193,49 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     auto *left = new QVBoxLayout;
     left->addLayout(fileRow);
     left->addWidget(m_fileLabel);
-    left->addWidget(m_preview, 1);
+    left->addWidget(m_previewView, 1);
     left->addLayout(columns);
     left->addWidget(caption(tr("Matching levels"), this));
-    left->addWidget(m_mapping, 1);
+    left->addWidget(m_mappingView, 1);
     left->addWidget(m_unmatched);
+    return left;
+}
 
+// The messages, the fit's summary, its coefficients and what was left out.
+QLayout *DataPanel::buildResultColumn()
+{
+    for (QLabel *l : {m_unmatched, m_message, m_summary}) {
+        l->setWordWrap(true);
+        l->setTextInteractionFlags(Qt::TextSelectableByMouse);
+    }
+    m_message->setObjectName(u"dataMessage"_s);
+    m_message->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Problem).name()));
+    m_message->hide();
+    m_unmatched->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Caution).name()));
+    m_summary->setTextFormat(Qt::RichText);
+    m_problems->setObjectName(u"dataProblems"_s);
     auto *middle = new QVBoxLayout;
     middle->addWidget(m_message);
     middle->addWidget(m_summary);
-    middle->addWidget(m_coefficients, 2);
+    middle->addWidget(m_coefficientView, 2);
     middle->addWidget(m_problems);
     middle->addWidget(look::note(tr("Adjusted p-values are for the family of coefficients (the intercept is not counted). "
                                     "Comparisons chosen after looking at the data are post hoc, not planned: "
                                     "their p-values here are not valid as planned tests."),
                                  this));
+    return middle;
+}
 
-    auto *layout = new QHBoxLayout(this);
-    layout->setContentsMargins(6, 4, 6, 4);
-    layout->addLayout(left, 4);
-    layout->addLayout(middle, 8);
-    layout->addWidget(m_chart, 3);
-    updateFactorRows();
+void DataPanel::connectInputs()
+{
+    connect(m_readButton, &QPushButton::clicked, this, &DataPanel::readAndFit);
+    connect(m_adjust, &QComboBox::currentIndexChanged, this, &DataPanel::refit);
+    connect(m_alpha, &QLineEdit::textChanged, this, &DataPanel::refit);
+    connect(m_mapping, &CellTableModel::edited, this, [this](int row, int, const QVariant &choice) { levelChosen(row, choice.toInt()); });
+    connect(m_document, &Document::changed, this, [this] {
+        updateFactorRows();
+        rebuildMapping();
+    });
 }
 
 const Scheme &DataPanel::fitTarget() const
@@ -272,13 +295,15 @@ bool DataPanel::openFile(const QString &path)
     m_fit.reset();
     m_fileLabel->setText(tr("%1 \u2014 %2-separated, %3").arg(QDir::toNativeSeparators(path), delimiterName(preview->delimiter),
                                                               preview->hasHeader ? tr("first row is a header") : tr("no header row")));
-    m_preview->clear();
-    m_preview->setColumnCount(int(preview->columns.size()));
-    m_preview->setHorizontalHeaderLabels(preview->columns);
-    m_preview->setRowCount(int(preview->rows.size()));
-    for (int r = 0; r < int(preview->rows.size()); ++r)
+    m_preview->setRows({});
+    m_preview->setHeaders(preview->columns);
+    TableRows previewRows;
+    for (const QStringList &row : preview->rows) {
+        previewRows.emplace_back();
         for (int c = 0; c < int(preview->columns.size()); ++c)
-            m_preview->setItem(r, c, cell(preview->rows[size_t(r)].value(c), false));
+            previewRows.back().push_back(cell(row.value(c), false));
+    }
+    m_preview->setRows(std::move(previewRows));
 
     // The response is offered among the numeric columns only, a measurement before a row label.
     int factor = -1;
@@ -387,55 +412,54 @@ void DataPanel::readFinished()
     emit finished();
 }
 
-// One row per level found in the data, with the scheme level it stands for.
+// One row per level found in the data, with the scheme level it stands for: the one chosen,
+// else the one of its own name, else none.
 void DataPanel::rebuildMapping()
 {
     if (!m_data)
         return;
     const QStringList scheme = fitTarget().factor.levels;
-    const LevelMapping previous = currentMapping();
-    m_mapping->setHorizontalHeaderLabels({m_document->isDesign() ? tr("Cell in the data") : tr("Level in the data"), tr("Rows"),
-                                          m_document->isDesign() ? tr("Design cell") : tr("Scheme level")});
-    m_building = true;
-    m_mapping->setRowCount(int(m_data->levels.size()));
-    for (int r = 0; r < int(m_data->levels.size()); ++r) {
-        const LevelStats &level = m_data->levels[size_t(r)];
-        m_mapping->setItem(r, DataLevelColumn, cell(level.name, false));
-        m_mapping->setItem(r, RowsColumn, cell(QString::number(level.stats.rows)));
-        auto *box = new QComboBox(m_mapping);
-        box->addItem(tr("(no match)"), QString());
-        for (const QString &s : scheme)
-            box->addItem(s, s);
-        const QString chosen = previous.value(level.name, level.name);
-        box->setCurrentIndex(std::max(0, box->findData(chosen)));
-        connect(box, &QComboBox::currentIndexChanged, this, &DataPanel::refit);
-        m_mapping->setCellWidget(r, SchemeLevelColumn, box);
+    const bool design = m_document->isDesign();
+    m_mapping->setHeaders({design ? tr("Cell in the data") : tr("Level in the data"), tr("Rows"), design ? tr("Design cell") : tr("Scheme level")});
+    const QStringList choices = QStringList{noMatch()} + scheme;
+    LevelMapping chosen;
+    TableRows rows;
+    for (const LevelStats &level : m_data->levels) {
+        QString target = m_chosen.value(level.name, level.name);
+        if (!scheme.contains(target))
+            target.clear();
+        if (target != level.name)
+            chosen.insert(level.name, target);
+        TableCell choice = cell(target.isEmpty() ? noMatch() : target, false);
+        choice.choices = choices;
+        rows.push_back({cell(level.name, false), cell(QString::number(level.stats.rows)), choice});
     }
-    m_building = false;
+    m_chosen = chosen;
+    m_mapping->setRows(std::move(rows));
     refit();
+}
+
+void DataPanel::levelChosen(int row, int choice)
+{
+    if (!m_data || row < 0 || row >= int(m_data->levels.size()))
+        return;
+    const QStringList scheme = fitTarget().factor.levels;
+    m_chosen.insert(m_data->levels[size_t(row)].name, choice > 0 ? scheme.value(choice - 1) : QString());
+    rebuildMapping();
 }
 
 LevelMapping DataPanel::currentMapping() const
 {
-    LevelMapping mapping;
-    for (int r = 0; r < m_mapping->rowCount(); ++r) {
-        const auto *box = qobject_cast<QComboBox *>(m_mapping->cellWidget(r, SchemeLevelColumn));
-        const QString data = m_mapping->item(r, DataLevelColumn)->text();
-        const QString scheme = box ? box->currentData().toString() : QString();
-        if (!scheme.isEmpty() && scheme != data)
-            mapping.insert(data, scheme);
-        else if (scheme.isEmpty())
-            mapping.insert(data, {});
-    }
-    return mapping;
+    return m_chosen;
 }
 
 void DataPanel::mapLevel(const QString &dataLevel, const QString &schemeLevel)
 {
-    for (int r = 0; r < m_mapping->rowCount(); ++r)
-        if (m_mapping->item(r, DataLevelColumn)->text() == dataLevel)
-            if (auto *box = qobject_cast<QComboBox *>(m_mapping->cellWidget(r, SchemeLevelColumn)))
-                box->setCurrentIndex(std::max(0, box->findData(schemeLevel)));
+    if (!m_data)
+        return;
+    for (size_t r = 0; r < m_data->levels.size(); ++r)
+        if (m_data->levels[r].name == dataLevel)
+            levelChosen(int(r), int(fitTarget().factor.levels.indexOf(schemeLevel)) + 1);
 }
 
 void DataPanel::setAdjustment(Adjustment adjust)
@@ -470,7 +494,7 @@ void DataPanel::updateUnmatched()
 
 void DataPanel::refit()
 {
-    if (m_building || !m_data)
+    if (!m_data)
         return;
     updateUnmatched();
     m_fit.reset();
@@ -493,7 +517,7 @@ void DataPanel::refit()
         : fitScheme(fitTarget(), *m_data, options, mapping);
     if (!fit) {
         showMessage(fit.error());
-        m_coefficients->setRowCount(0);
+        m_coefficients->setRows({});
         m_summary->clear();
         m_chart->clear(tr("No fit: see the message."));
         return;
@@ -505,31 +529,28 @@ void DataPanel::refit()
 
 void DataPanel::showFit(const FitResult &fit)
 {
-    const int p = int(fit.coefficients.size());
-    m_coefficients->setRowCount(p);
     const QString level = QString::number((1.0 - fit.alpha) * 100.0, 'g', 4);
-    m_coefficients->setHorizontalHeaderItem(CiColumn, new QTableWidgetItem(tr("%1% interval").arg(level)));
-    m_coefficients->setColumnWidth(HypothesisColumn, 220);
-    for (int i = 0; i < p; ++i) {
+    m_coefficients->setHeaders({tr("Coefficient"), tr("Tests"), tr("Estimate"), tr("From means"), tr("SE"), tr("t"), tr("p"),
+                                tr("Adjusted p"), tr("%1% interval").arg(level)});
+    TableRows rows;
+    for (int i = 0; i < int(fit.coefficients.size()); ++i) {
         const FitCoefficient &c = fit.coefficients[size_t(i)];
-        m_coefficients->setItem(i, NameColumn, cell(coefficientLabel(fit.intercept, i, c.name), false));
-        m_coefficients->setItem(i, HypothesisColumn, cell(c.hypothesis, false));
-        m_coefficients->item(i, HypothesisColumn)->setToolTip(c.hypothesis);
-        m_coefficients->setItem(i, EstimateColumn, cell(number(c.estimate)));
-        QTableWidgetItem *means = cell(number(c.hypothesisEstimate));
+        TableCell hypothesis = cell(c.hypothesis, false);
+        hypothesis.toolTip = c.hypothesis;
+        TableCell means = cell(number(c.hypothesisEstimate));
         if (std::isfinite(c.hypothesisEstimate) && !c.agrees) {
-            means->setText(look::mark(look::State::Caution) + u" "_s + means->text());
-            means->setForeground(look::ink(look::State::Caution));
-            means->setToolTip(tr("The estimate is not this hypothesis applied to the observed means: with these group sizes "
-                                 "the coefficient tests something else."));
+            means.text = look::mark(look::State::Caution) + u" "_s + means.text;
+            means.ink = look::ink(look::State::Caution);
+            means.toolTip = tr("The estimate is not this hypothesis applied to the observed means: with these group sizes "
+                               "the coefficient tests something else.");
         }
-        m_coefficients->setItem(i, FromMeansColumn, means);
-        m_coefficients->setItem(i, SeColumn, cell(number(c.se)));
-        m_coefficients->setItem(i, TColumn, cell(number(c.t, 3)));
-        m_coefficients->setItem(i, PColumn, cell(pValueText(c.p)));
-        m_coefficients->setItem(i, PAdjustedColumn, cell(c.inFamily ? pValueText(c.pAdjusted) : tr("not in family")));
-        m_coefficients->setItem(i, CiColumn, cell(u"%1 to %2"_s.arg(number(c.ciLow), number(c.ciHigh))));
+        rows.push_back({cell(coefficientLabel(fit.intercept, i, c.name), false), hypothesis, cell(number(c.estimate)), means,
+                        cell(number(c.se)), cell(number(c.t, 3)), cell(pValueText(c.p)),
+                        cell(c.inFamily ? pValueText(c.pAdjusted) : tr("not in family")),
+                        cell(u"%1 to %2"_s.arg(number(c.ciLow), number(c.ciHigh)))});
     }
+    m_coefficients->setRows(std::move(rows));
+    m_coefficientView->setColumnWidth(HypothesisColumn, 220);
 
     QStringList lines;
     for (const QString &line : fitSummaryLines(fit, m_document->isDesign()))

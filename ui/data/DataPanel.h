@@ -5,22 +5,24 @@
 #include <QWidget>
 
 #include <atomic>
-#include <functional>
 #include <memory>
 #include <optional>
 
 class QComboBox;
 class QFormLayout;
 class QLabel;
+class QLayout;
 class QLineEdit;
 class QProgressDialog;
 class QPushButton;
-class QTableWidget;
+class QTableView;
 class QThread;
 
 namespace cb {
 
+class CellTableModel;
 class Document;
+class Prompter;
 class SmallChart;
 
 // The data check: a long-format CSV/TSV file read in the background
@@ -60,21 +62,30 @@ public:
     QString unmatchedText() const;
     QString problemsText() const;
     QString summaryText() const;
-    QTableWidget *coefficientTable() const { return m_coefficients; }
-    QTableWidget *mappingTable() const { return m_mapping; }
-    QTableWidget *previewTable() const { return m_preview; }
+    QTableView *coefficientTable() const { return m_coefficientView; }
+    QTableView *mappingTable() const { return m_mappingView; }
+    QTableView *previewTable() const { return m_previewView; }
     QComboBox *responseBox() const { return m_response; }
     SmallChart *meansChart() const { return m_chart; }
 
-    void setPathAsker(std::function<QString()> asker) { m_askPath = std::move(asker); }
+    // Who answers "which data file?" (the window's prompter; the real dialog by default).
+    void setPrompter(Prompter *prompter) { m_prompter = prompter; }
 
 signals:
     // A read (and fit) ended, with or without success.
     void finished();
 
 private:
+    // The constructor's steps.
+    void buildTables();
+    QLayout *buildFileColumn();
+    QLayout *buildResultColumn();
+    void connectInputs();
+
     void readFinished();
+    // The level table from the data's levels, the scheme's and the choices made.
     void rebuildMapping();
+    void levelChosen(int row, int choice);
     void refit();
     void showFit(const FitResult &fit);
     void showMessage(const QString &message);
@@ -86,13 +97,14 @@ private:
     LevelMapping currentMapping() const;
 
     Document *m_document;
-    std::function<QString()> m_askPath;
+    Prompter *m_prompter;
     QString m_path;
     char m_delimiter = ',';
     bool m_hasHeader = true;
     qint64 m_fileSize = -1;
     QLabel *m_fileLabel;
-    QTableWidget *m_preview;
+    CellTableModel *m_preview;
+    QTableView *m_previewView;
     QComboBox *m_factor;
     // The second and third factors' columns (design only), with the form that shows them.
     QComboBox *m_moreFactors[2];
@@ -103,11 +115,16 @@ private:
     QPushButton *m_readButton;
     QComboBox *m_adjust;
     QLineEdit *m_alpha;
-    QTableWidget *m_mapping;
+    CellTableModel *m_mapping;
+    QTableView *m_mappingView;
+    // Data level -> the scheme level chosen for it ("" for no match); a level not listed
+    // stands for the scheme level of its own name.
+    LevelMapping m_chosen;
     QLabel *m_unmatched;
     QLabel *m_message;
     QLabel *m_summary;
-    QTableWidget *m_coefficients;
+    CellTableModel *m_coefficients;
+    QTableView *m_coefficientView;
     SmallChart *m_chart;
     QLabel *m_problems;
 
@@ -120,7 +137,6 @@ private:
 
     std::optional<DataSummary> m_data;
     std::optional<FitResult> m_fit;
-    bool m_building = false;
 };
 
 } // namespace cb

@@ -1,7 +1,9 @@
 #include "ui/design/DesignPanel.h"
 
 #include "ui/design/CellPicture.h"
+#include "ui/design/TermModel.h"
 #include "ui/document/Document.h"
+#include "ui/common/CellTable.h"
 #include "ui/common/Look.h"
 
 #include <QHBoxLayout>
@@ -9,8 +11,8 @@
 #include <QLabel>
 #include <QPushButton>
 #include <QRegularExpression>
-#include <QTableWidget>
-#include <QTreeWidget>
+#include <QTableView>
+#include <QTreeView>
 #include <QVBoxLayout>
 
 #include <algorithm>
@@ -20,9 +22,6 @@ using namespace Qt::StringLiterals;
 namespace cb {
 
 namespace {
-
-constexpr int kCandidateRole = Qt::UserRole + 1;
-constexpr int kColumnRole = Qt::UserRole + 2;
 
 QString capitalised(QString text)
 {
@@ -43,12 +42,15 @@ DesignPanel::DesignPanel(Document *document, QWidget *parent)
     , m_document(document)
     , m_intro(look::note(QString(), this))
     , m_designPart(new QWidget(this))
-    , m_factors(new QTableWidget(this))
+    , m_factors(new CellTableModel({u"\u270e"_s, tr("Factor"), tr("Levels"), tr("Coding")}, this))
+    , m_factorView(new QTableView(this))
     , m_add(new QPushButton(tr("Add a factor"), this))
     , m_remove(new QPushButton(tr("Remove"), this))
     , m_activate(new QPushButton(tr("Edit in the grid"), this))
-    , m_terms(new QTreeWidget(m_designPart))
-    , m_cellN(new QTableWidget(m_designPart))
+    , m_terms(new TermModel(this))
+    , m_termView(new QTreeView(m_designPart))
+    , m_cellN(new CellTableModel({}, this))
+    , m_cellView(new QTableView(m_designPart))
     , m_equal(new QPushButton(tr("Equal sizes"), m_designPart))
     , m_cellNote(look::note(QString(), m_designPart))
     , m_columnTitle(look::caption(QString(), m_designPart))
@@ -57,19 +59,27 @@ DesignPanel::DesignPanel(Document *document, QWidget *parent)
     , m_findings(new QLabel(m_designPart))
 {
     setObjectName(u"designPanel"_s);
+    buildFactorPart();
+    buildDesignPart();
+    connect(m_document, &Document::changed, this, &DesignPanel::follow);
+    follow();
+}
+
+// The factors, with the buttons that add, remove and choose one.
+void DesignPanel::buildFactorPart()
+{
     auto *layout = new QVBoxLayout(this);
     layout->addWidget(look::caption(tr("Factors"), this));
     layout->addWidget(m_intro);
-    m_factors->setObjectName(u"designFactors"_s);
-    m_factors->setColumnCount(4);
-    m_factors->setHorizontalHeaderLabels({u"\u270e"_s, tr("Factor"), tr("Levels"), tr("Coding")});
-    m_factors->verticalHeader()->hide();
-    m_factors->setSelectionBehavior(QAbstractItemView::SelectRows);
-    m_factors->setSelectionMode(QAbstractItemView::SingleSelection);
-    m_factors->setEditTriggers(QAbstractItemView::NoEditTriggers);
-    m_factors->horizontalHeader()->setSectionResizeMode(2, QHeaderView::Stretch);
-    m_factors->setToolTip(tr("Double-click a factor to edit its levels and coding in the grid."));
-    layout->addWidget(m_factors);
+    m_factorView->setObjectName(u"designFactors"_s);
+    m_factorView->setModel(m_factors);
+    m_factorView->verticalHeader()->hide();
+    m_factorView->setSelectionBehavior(QAbstractItemView::SelectRows);
+    m_factorView->setSelectionMode(QAbstractItemView::SingleSelection);
+    m_factorView->setEditTriggers(QAbstractItemView::NoEditTriggers);
+    m_factorView->horizontalHeader()->setSectionResizeMode(2, QHeaderView::Stretch);
+    m_factorView->setToolTip(tr("Double-click a factor to edit its levels and coding in the grid."));
+    layout->addWidget(m_factorView);
     auto *buttons = new QHBoxLayout;
     buttons->addWidget(m_add);
     buttons->addWidget(m_remove);
@@ -79,21 +89,28 @@ DesignPanel::DesignPanel(Document *document, QWidget *parent)
     m_add->setToolTip(tr("Cross the study with another factor (two levels coded +1/2 and \u22121/2; rename and recode it in the grid)."));
     connect(m_add, &QPushButton::clicked, this, &DesignPanel::addFactor);
     connect(m_remove, &QPushButton::clicked, this, &DesignPanel::removeFactor);
-    connect(m_activate, &QPushButton::clicked, this, [this] { makeActive(m_factors->currentRow()); });
-    connect(m_factors, &QTableWidget::cellDoubleClicked, this, [this](int row, int) { makeActive(row); });
+    connect(m_activate, &QPushButton::clicked, this, [this] { makeActive(m_factorView->currentIndex().row()); });
+    connect(m_factorView, &QTableView::doubleClicked, this, [this](const QModelIndex &index) { makeActive(index.row()); });
+    layout->addWidget(m_designPart);
+    layout->addStretch(1);
+}
 
+// Shown for a design: its terms and columns, the picture of one column, the cell sizes, the findings.
+void DesignPanel::buildDesignPart()
+{
     auto *design = new QVBoxLayout(m_designPart);
     design->setContentsMargins(0, 0, 0, 0);
     design->addWidget(look::caption(tr("Terms and their columns"), m_designPart));
-    m_terms->setObjectName(u"designTerms"_s);
-    m_terms->setHeaderHidden(true);
-    m_terms->setRootIsDecorated(true);
-    m_terms->setToolTip(tr("Tick the terms of the model; pick a column to see its weights over the cells."));
-    design->addWidget(m_terms);
-    connect(m_terms, &QTreeWidget::itemChanged, this, [this](QTreeWidgetItem *item) { termToggled(item); });
-    connect(m_terms, &QTreeWidget::currentItemChanged, this, [this](QTreeWidgetItem *item) {
-        if (!m_filling && item && item->data(0, kColumnRole).isValid())
-            selectColumn(item->data(0, kColumnRole).toInt());
+    m_termView->setObjectName(u"designTerms"_s);
+    m_termView->setModel(m_terms);
+    m_termView->setHeaderHidden(true);
+    m_termView->setRootIsDecorated(true);
+    m_termView->setToolTip(tr("Tick the terms of the model; pick a column to see its weights over the cells."));
+    design->addWidget(m_termView);
+    connect(m_terms, &TermModel::toggled, this, &DesignPanel::termToggled);
+    connect(m_termView->selectionModel(), &QItemSelectionModel::currentChanged, this, [this](const QModelIndex &current) {
+        if (current.data(TermModel::ColumnRole).isValid())
+            selectColumn(current.data(TermModel::ColumnRole).toInt());
     });
 
     design->addWidget(m_columnTitle);
@@ -103,14 +120,16 @@ DesignPanel::DesignPanel(Document *document, QWidget *parent)
     design->addWidget(m_hypothesis);
 
     design->addWidget(look::caption(tr("Planned n per cell"), m_designPart));
-    m_cellN->setObjectName(u"designCellSizes"_s);
-    m_cellN->setToolTip(tr("Type the planned number of observations in each cell; 0 marks an empty cell."));
-    design->addWidget(m_cellN);
+    m_cellView->setObjectName(u"designCellSizes"_s);
+    m_cellView->setModel(m_cellN);
+    m_cellView->setToolTip(tr("Type the planned number of observations in each cell; 0 marks an empty cell."));
+    design->addWidget(m_cellView);
     auto *sizeRow = new QHBoxLayout;
     sizeRow->addWidget(m_cellNote, 1);
     sizeRow->addWidget(m_equal, 0, Qt::AlignTop);
     design->addLayout(sizeRow);
-    connect(m_cellN, &QTableWidget::itemChanged, this, [this](QTableWidgetItem *item) { cellSizeTyped(item); });
+    connect(m_cellN, &CellTableModel::edited, this,
+            [this](int row, int column, const QVariant &text) { cellSizeTyped(row, column, text.toString()); });
     connect(m_equal, &QPushButton::clicked, this, [this] {
         m_document->editStudy(withEqualCellSizes(m_document->study()), tr("Equal cell sizes"));
     });
@@ -121,16 +140,10 @@ DesignPanel::DesignPanel(Document *document, QWidget *parent)
     m_findings->setTextFormat(Qt::RichText);
     m_findings->setTextInteractionFlags(Qt::TextSelectableByMouse);
     design->addWidget(m_findings);
-    layout->addWidget(m_designPart);
-    layout->addStretch(1);
-
-    connect(m_document, &Document::changed, this, &DesignPanel::follow);
-    follow();
 }
 
 void DesignPanel::follow()
 {
-    m_filling = true;
     const bool design = m_document->isDesign();
     look::setText(m_intro, design ? tr("The grid edits the factor marked \u270e; double-click another to edit it.")
                                   : tr("One factor. Add a factor to cross it with another and see the design over the cells."));
@@ -147,33 +160,31 @@ void DesignPanel::follow()
         fillPicture();
         fillFindings();
     }
-    m_filling = false;
 }
 
 void DesignPanel::fillFactors()
 {
     const Study &s = m_document->study();
-    m_factors->setRowCount(s.factorCount());
+    TableRows rows;
     for (int f = 0; f < s.factorCount(); ++f) {
         const Scheme &scheme = s.design.factors[size_t(f)];
-        const QStringList texts{f == s.active ? u"\u270e"_s : QString(), scheme.factor.name,
-                                u"%1: %2"_s.arg(scheme.levelCount()).arg(scheme.factor.levels.join(u", "_s)), schemeTitle(scheme.kind)};
-        for (int c = 0; c < texts.size(); ++c) {
-            auto *item = m_factors->item(f, c);
-            if (!item) {
-                item = new QTableWidgetItem;
-                m_factors->setItem(f, c, item);
-            }
-            item->setText(texts[c]);
-            item->setToolTip(c == 0 && f == s.active ? tr("The coding grid and the levels panel edit this factor.") : QString());
+        TableCell mark;
+        if (f == s.active) {
+            mark.text = u"\u270e"_s;
+            mark.toolTip = tr("The coding grid and the levels panel edit this factor.");
         }
+        rows.push_back({mark, textCell(scheme.factor.name, false),
+                         textCell(u"%1: %2"_s.arg(scheme.levelCount()).arg(scheme.factor.levels.join(u", "_s)), false),
+                         textCell(schemeTitle(scheme.kind), false)});
     }
-    m_factors->resizeColumnToContents(0);
-    m_factors->resizeColumnToContents(1);
-    m_factors->resizeColumnToContents(3);
-    m_factors->setFixedHeight(m_factors->horizontalHeader()->height() + s.factorCount() * m_factors->verticalHeader()->defaultSectionSize() + 4);
-    if (m_factors->currentRow() < 0 || m_factors->currentRow() >= s.factorCount())
-        m_factors->selectRow(s.active);
+    m_factors->setRows(std::move(rows));
+    m_factorView->resizeColumnToContents(0);
+    m_factorView->resizeColumnToContents(1);
+    m_factorView->resizeColumnToContents(3);
+    m_factorView->setFixedHeight(m_factorView->horizontalHeader()->height() + s.factorCount() * m_factorView->verticalHeader()->defaultSectionSize() + 4);
+    const int current = m_factorView->currentIndex().row();
+    if (current < 0 || current >= s.factorCount())
+        m_factorView->selectRow(s.active);
 }
 
 void DesignPanel::fillTerms()
@@ -182,52 +193,30 @@ void DesignPanel::fillTerms()
     const DesignAnalysis &da = m_document->designAnalysis();
     const Analysis &a = da.analysis;
     const int off = coefficientOffset(a);
-    const std::vector<Term> candidates = candidateTerms(int(d.factors.size()));
-    // Items are updated in place: a tick's own itemChanged signal may be what led here.
-    if (m_terms->topLevelItemCount() != int(candidates.size())) {
-        m_terms->clear();
-        for (size_t c = 0; c < candidates.size(); ++c) {
-            auto *item = new QTreeWidgetItem(m_terms);
-            item->setFlags(Qt::ItemIsEnabled | Qt::ItemIsUserCheckable);
-            item->setData(0, kCandidateRole, int(c));
-        }
-    }
-    QTreeWidgetItem *current = nullptr;
-    int rows = 0;
-    for (size_t c = 0; c < candidates.size(); ++c) {
-        const Term &t = candidates[c];
-        QTreeWidgetItem *item = m_terms->topLevelItem(int(c));
-        while (item->childCount() > 0)
-            delete item->takeChild(0);
+    std::vector<TermModel::TermRow> rows;
+    for (const Term &t : candidateTerms(int(d.factors.size()))) {
+        TermModel::TermRow row;
         const auto found = std::find_if(d.terms.begin(), d.terms.end(), [&](const Term &x) { return sameTerm(x, t); });
-        const bool included = found != d.terms.end();
-        item->setText(0, termName(d, t));
-        item->setCheckState(0, included ? Qt::Checked : Qt::Unchecked);
-        item->setForeground(0, included ? palette().color(QPalette::Text) : look::quietText());
-        item->setToolTip(0, t.within < 0 ? QString()
-                                         : tr("An alternative to %1 and its interaction with %2: the contrasts of %1 within each level of %2.")
-                                               .arg(termName(d, Term{t.factors, -1}), d.factors[size_t(t.within)].factor.name));
-        ++rows;
-        if (!included)
-            continue;
-        const int termIndex = int(found - d.terms.begin());
-        for (int j = 0; j < int(da.columnTerm.size()); ++j) {
-            if (da.columnTerm[size_t(j)] != termIndex)
-                continue;
-            auto *child = new QTreeWidgetItem(item, {coefficientLabel(a.intercept, j + off, da.cellScheme.columns[size_t(j)].name)});
-            child->setData(0, kColumnRole, j);
-            child->setToolTip(0, tr("Show this column's weights over the cells"));
-            ++rows;
-            if (j == m_column)
-                current = child;
+        row.included = found != d.terms.end();
+        row.name = termName(d, t);
+        if (t.within >= 0)
+            row.toolTip = tr("An alternative to %1 and its interaction with %2: the contrasts of %1 within each level of %2.")
+                              .arg(termName(d, Term{t.factors, -1}), d.factors[size_t(t.within)].factor.name);
+        if (row.included) {
+            const int termIndex = int(found - d.terms.begin());
+            for (int j = 0; j < int(da.columnTerm.size()); ++j)
+                if (da.columnTerm[size_t(j)] == termIndex)
+                    row.columns.push_back({coefficientLabel(a.intercept, j + off, da.cellScheme.columns[size_t(j)].name), j});
         }
+        rows.push_back(std::move(row));
     }
-    m_terms->expandAll();
-    if (current)
-        m_terms->setCurrentItem(current);
-    const int hinted = m_terms->sizeHintForRow(0);
-    const int rowHeight = hinted > 0 ? hinted : m_terms->fontMetrics().height() + 2;
-    m_terms->setFixedHeight(std::min(rows, 16) * rowHeight + 2 * m_terms->frameWidth() + 2);
+    m_terms->setTerms(std::move(rows));
+    m_termView->expandAll();
+    if (const QModelIndex current = m_terms->indexOfColumn(m_column); current.isValid())
+        m_termView->setCurrentIndex(current);
+    const int hinted = m_termView->sizeHintForRow(0);
+    const int rowHeight = hinted > 0 ? hinted : m_termView->fontMetrics().height() + 2;
+    m_termView->setFixedHeight(std::min(m_terms->rowsShown(), 16) * rowHeight + 2 * m_termView->frameWidth() + 2);
 }
 
 void DesignPanel::fillCellSizes()
@@ -237,38 +226,37 @@ void DesignPanel::fillCellSizes()
     const Scheme &first = d.factors[0];
     const int rows = first.levelCount();
     const int cols = d.cellCount() / std::max(1, rows);
-    m_cellN->setRowCount(rows);
-    m_cellN->setColumnCount(cols);
-    m_cellN->setVerticalHeaderLabels(first.factor.levels);
     QStringList columnTitles;
     for (int c = 0; c < cols; ++c)
         columnTitles << cells[c].mid(first.factor.levels.value(0).size() + cellJoiner().size());
-    m_cellN->setHorizontalHeaderLabels(columnTitles);
+    m_cellN->setHeaders(columnTitles);
+    m_cellN->setRowHeaders(first.factor.levels);
     const QStringList empty = m_document->designAnalysis().emptyCells;
+    TableRows table(static_cast<size_t>(rows));
     for (int r = 0; r < rows; ++r)
         for (int c = 0; c < cols; ++c) {
             const int cell = r * cols + c;
-            auto *item = m_cellN->item(r, c);
-            if (!item) {
-                item = new QTableWidgetItem;
-                m_cellN->setItem(r, c, item);
-            }
-            item->setTextAlignment(Qt::AlignCenter);
+            TableCell item;
+            item.centred = true;
+            item.editable = true;
             if (d.cellN.empty()) {
-                item->setText(u"1"_s);
-                item->setForeground(look::quietText());
-                item->setToolTip(tr("Equal sizes (none given); type a number to plan this cell."));
-                item->setBackground(QBrush());
+                item.text = u"1"_s;
+                item.ink = look::quietText();
+                item.toolTip = tr("Equal sizes (none given); type a number to plan this cell.");
             } else {
                 const bool isEmpty = empty.contains(cells[cell]);
-                item->setText((isEmpty ? look::mark(look::State::Problem) + u" "_s : QString()) + rationalToString(d.cellN[size_t(cell)]));
-                item->setForeground(isEmpty ? look::ink(look::State::Problem) : palette().color(QPalette::Text));
-                item->setBackground(isEmpty ? QBrush(look::tint(look::State::Problem)) : QBrush());
-                item->setToolTip(isEmpty ? tr("An empty cell: no observations planned for %1.").arg(cells[cell]) : cells[cell]);
+                item.text = (isEmpty ? look::mark(look::State::Problem) + u" "_s : QString()) + rationalToString(d.cellN[size_t(cell)]);
+                if (isEmpty) {
+                    item.ink = look::ink(look::State::Problem);
+                    item.background = look::tint(look::State::Problem);
+                }
+                item.toolTip = isEmpty ? tr("An empty cell: no observations planned for %1.").arg(cells[cell]) : cells[cell];
             }
+            table[size_t(r)].push_back(std::move(item));
         }
-    m_cellN->resizeColumnsToContents();
-    m_cellN->setFixedHeight(m_cellN->horizontalHeader()->height() + rows * m_cellN->verticalHeader()->defaultSectionSize() + 4);
+    m_cellN->setRows(std::move(table));
+    m_cellView->resizeColumnsToContents();
+    m_cellView->setFixedHeight(m_cellView->horizontalHeader()->height() + rows * m_cellView->verticalHeader()->defaultSectionSize() + 4);
     look::setText(m_cellNote, m_document->study().cellSizeNote.isEmpty()
                                   ? (d.cellN.empty() ? tr("Equal sizes in every cell.") : QString())
                                   : look::mark(look::State::Caution) + u" "_s + m_document->study().cellSizeNote);
@@ -352,12 +340,9 @@ void DesignPanel::selectColumn(int column)
     m_column = column;
     if (!m_document->isDesign())
         return;
-    m_filling = true;
     fillPicture();
-    for (QTreeWidgetItemIterator it(m_terms); *it; ++it)
-        if ((*it)->data(0, kColumnRole).isValid() && (*it)->data(0, kColumnRole).toInt() == column)
-            m_terms->setCurrentItem(*it);
-    m_filling = false;
+    if (const QModelIndex current = m_terms->indexOfColumn(column); current.isValid())
+        m_termView->setCurrentIndex(current);
 }
 
 QString DesignPanel::hypothesisText() const
@@ -391,7 +376,7 @@ void DesignPanel::addFactor()
 
 void DesignPanel::removeFactor()
 {
-    const int row = m_factors->currentRow();
+    const int row = m_factorView->currentIndex().row();
     auto next = withFactorRemoved(m_document->study(), row);
     if (!next) {
         emit message(next.error());
@@ -402,48 +387,32 @@ void DesignPanel::removeFactor()
 
 void DesignPanel::makeActive(int factor)
 {
-    if (factor == m_document->study().active)
-        return;
-    auto next = withActiveFactor(m_document->study(), factor);
-    if (!next) {
-        emit message(next.error());
-        return;
-    }
-    // Which factor the grid edits is a choice of view, not an edit: the study is swapped in
-    // without an undo step, so the document stays as modified as it was. (A later undo brings
-    // back the factor that step was made on, with its study.)
-    m_document->exchangeStudy(next.take());
+    if (const Problem problem = m_document->setActiveFactor(factor); !problem.isEmpty())
+        emit message(problem.message);
 }
 
-void DesignPanel::termToggled(QTreeWidgetItem *item)
+void DesignPanel::termToggled(int term, bool include)
 {
-    if (m_filling || !item->data(0, kCandidateRole).isValid())
-        return;
     const std::vector<Term> candidates = candidateTerms(m_document->study().factorCount());
-    const Term &t = candidates[size_t(item->data(0, kCandidateRole).toInt())];
-    const bool include = item->checkState(0) == Qt::Checked;
+    if (term < 0 || term >= int(candidates.size()))
+        return;
+    const Term &t = candidates[size_t(term)];
     auto next = withTerm(m_document->study(), t, include);
     if (!next) {
-        emit message(next.error());
-        QMetaObject::invokeMethod(this, &DesignPanel::follow, Qt::QueuedConnection); // put the tick back
+        emit message(next.error()); // the tick stays as the design has it
         return;
     }
     const QString name = termName(m_document->design(), t);
     m_document->editStudy(next.take(), include ? tr("Include term %1").arg(name) : tr("Leave out term %1").arg(name));
 }
 
-void DesignPanel::cellSizeTyped(QTableWidgetItem *item)
+void DesignPanel::cellSizeTyped(int row, int column, QString text)
 {
-    if (m_filling)
-        return;
-    const int cols = m_cellN->columnCount();
-    const int cell = item->row() * cols + item->column();
-    QString text = item->text();
+    const int cell = row * m_cellN->columnCount() + column;
     text.remove(look::mark(look::State::Problem));
     auto next = withCellSize(m_document->study(), cell, text.trimmed());
     if (!next) {
-        emit message(next.error());
-        QMetaObject::invokeMethod(this, &DesignPanel::follow, Qt::QueuedConnection);
+        emit message(next.error()); // the table still shows the size as it was
         return;
     }
     m_document->editStudy(next.take(), tr("Cell size"), MergeId::CellSize, QString::number(cell));

@@ -4,14 +4,14 @@
 
 class QLabel;
 class QPushButton;
-class QTableWidget;
-class QTableWidgetItem;
-class QTreeWidget;
-class QTreeWidgetItem;
+class QTableView;
+class QTreeView;
 
 namespace cb {
 
 class CellPicture;
+class CellTableModel;
+class TermModel;
 class Document;
 
 // The study's design: its factors (one of them active, edited by the coding grid),
@@ -34,9 +34,9 @@ public:
     void removeFactor();           // the selected row of the factor table
     void makeActive(int factor);
 
-    QTableWidget *factorTable() const { return m_factors; }
-    QTreeWidget *termTree() const { return m_terms; }
-    QTableWidget *cellSizeTable() const { return m_cellN; }
+    QTableView *factorTable() const { return m_factorView; }
+    QTreeView *termTree() const { return m_termView; }
+    QTableView *cellSizeTable() const { return m_cellView; }
     CellPicture *picture() const { return m_picture; }
     QString hypothesisText() const;
     QString findingsText() const;
@@ -46,26 +46,32 @@ signals:
     void message(const QString &text);
 
 private:
+    // The constructor's steps.
+    void buildFactorPart();
+    void buildDesignPart();
+
     void follow();
     void fillFactors();
     void fillTerms();
     void fillCellSizes();
     void fillPicture();
     void fillFindings();
-    void termToggled(QTreeWidgetItem *item);
-    void cellSizeTyped(QTableWidgetItem *item);
+    void termToggled(int term, bool include);
+    void cellSizeTyped(int row, int column, QString text);
 
     Document *m_document;
     int m_column = 0;
-    bool m_filling = false;
     QLabel *m_intro;
     QWidget *m_designPart;
-    QTableWidget *m_factors;
+    CellTableModel *m_factors;
+    QTableView *m_factorView;
     QPushButton *m_add;
     QPushButton *m_remove;
     QPushButton *m_activate;
-    QTreeWidget *m_terms;
-    QTableWidget *m_cellN;
+    TermModel *m_terms;
+    QTreeView *m_termView;
+    CellTableModel *m_cellN;
+    QTableView *m_cellView;
     QPushButton *m_equal;
     QLabel *m_cellNote;
     QLabel *m_columnTitle;

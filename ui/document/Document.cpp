@@ -75,6 +75,17 @@ Study Document::exchangeStudy(Study study)
     return held;
 }
 
+Problem Document::setActiveFactor(int factor)
+{
+    if (factor == m_study.active)
+        return {};
+    Result<Study> next = withActiveFactor(m_study, factor);
+    if (!next)
+        return next.problem();
+    applyStudy(next.take());
+    return {};
+}
+
 void Document::applyStudy(Study study)
 {
     m_study = std::move(study);

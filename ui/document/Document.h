@@ -56,6 +56,11 @@ public:
     void restore(Scheme scheme, const QString &filePath);
     void restore(Study study, const QString &filePath);
     void markSaved(const QString &filePath);
+    // Which factor the grid and the one-factor panels edit. A choice of view, not an edit: no
+    // undo step, and the document stays as modified as it was (a later undo brings back the
+    // factor that step was made on, with its study). The problem names the factor when there
+    // is no such factor; empty on success.
+    Problem setActiveFactor(int factor);
 
     // For SchemeCommand only: makes `study` the document's and hands back the one it held.
     Study exchangeStudy(Study study);

@@ -7,8 +7,10 @@ namespace cb {
 class Document;
 
 // Base of the window's thin table models. Each follows one Document: when a
-// change keeps the table's shape it emits dataChanged for the whole table
-// (views repaint only what they show); when the shape changes it resets.
+// change keeps the table's shape it emits dataChanged for the cells (views repaint
+// only what they show) and headerDataChanged only for the header sections whose
+// texts or looks changed (a header that resizes to its contents measures again only
+// then); when the shape changes it resets.
 class DocumentTableModel : public QAbstractTableModel
 {
     Q_OBJECT
@@ -40,8 +42,14 @@ protected:
     virtual bool showsChange() { return true; }
 
 private:
+    // What the header sections show, to tell which changed.
+    QList<QVariantList> headerLook(Qt::Orientation orientation, int count) const;
+    void emitChangedHeaders(Qt::Orientation orientation, int count, QList<QVariantList> &shown);
+
     Document *m_document;
     Shape m_shape;
+    QList<QVariantList> m_columnHeaders;
+    QList<QVariantList> m_rowHeaders;
 };
 
 } // namespace cb

@@ -1,5 +1,7 @@
 #include "ui/document/RecentFiles.h"
 
+#include "ui/common/Settings.h"
+
 #include <QFileInfo>
 #include <QSettings>
 
@@ -12,13 +14,6 @@ namespace cb {
 namespace {
 
 const QString kKey = u"files/recent"_s;
-
-std::unique_ptr<QSettings> openSettings(const QString &file)
-{
-    if (file.isEmpty())
-        return std::make_unique<QSettings>();
-    return std::make_unique<QSettings>(file, QSettings::IniFormat);
-}
 
 } // namespace
 

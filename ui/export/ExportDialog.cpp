@@ -2,6 +2,7 @@
 
 #include "ui/document/Document.h"
 #include "ui/common/Look.h"
+#include "ui/common/Prompter.h"
 #include "core/files/SchemeFile.h"
 
 #include <QApplication>
@@ -11,7 +12,6 @@
 #include <QComboBox>
 #include <QDialogButtonBox>
 #include <QDir>
-#include <QFileDialog>
 #include <QFileInfo>
 #include <QFontDatabase>
 #include <QFormLayout>
@@ -30,6 +30,7 @@ namespace cb {
 ExportDialog::ExportDialog(Document *document, QWidget *parent)
     : QDialog(parent)
     , m_document(document)
+    , m_prompter(&dialogPrompter())
     , m_format(new QComboBox(this))
     , m_coding(new QRadioButton(tr("C&oding (one row per level)"), this))
     , m_hypotheses(new QRadioButton(tr("&Hypotheses (one row per coefficient)"), this))
@@ -85,11 +86,6 @@ ExportDialog::ExportDialog(Document *document, QWidget *parent)
     connect(m_exact, &QCheckBox::toggled, this, &ExportDialog::refresh);
     connect(m_variable, &QLineEdit::textChanged, this, &ExportDialog::refresh);
     connect(document, &Document::changed, this, &ExportDialog::refresh);
-    m_askPath = [this](const QString &suggested) {
-        const QString suffix = exportFormatSuffix(format());
-        return QFileDialog::getSaveFileName(this, tr("Save the matrix"), suggested,
-                                            tr("%1 (*.%2);;All files (*)").arg(exportFormatTitle(format()), suffix));
-    };
     resize(720, 560);
     refresh();
 }
@@ -171,7 +167,9 @@ bool ExportDialog::save()
 {
     if (m_text.isEmpty())
         return false;
-    const QString path = m_askPath(suggestedPath());
+    const QString path = m_prompter->askSavePath(
+        this, {tr("Save the matrix"), suggestedPath(),
+               tr("%1 (*.%2);;All files (*)").arg(exportFormatTitle(format()), exportFormatSuffix(format())), {}});
     if (path.isEmpty())
         return false;
     const QString error = saveTo(path);

@@ -4,8 +4,6 @@
 
 #include <QDialog>
 
-#include <functional>
-
 class QCheckBox;
 class QComboBox;
 class QLabel;
@@ -17,6 +15,7 @@ class QRadioButton;
 namespace cb {
 
 class Document;
+class Prompter;
 
 // File ▸ Export…: the coding or hypothesis matrix as text for another
 // program, in one of core's formats. The preview is exactly what is copied or
@@ -42,8 +41,8 @@ public:
     QString problem() const { return m_problem; }
     QPlainTextEdit *preview() const { return m_preview; }
 
-    // Asks for a path to save to; the default opens a file dialog. Tests replace it.
-    void setPathAsker(std::function<QString(const QString &suggestedPath)> asker) { m_askPath = std::move(asker); }
+    // Who answers "save where?" (the window's prompter; the real dialog by default).
+    void setPrompter(Prompter *prompter) { m_prompter = prompter; }
 
 public slots:
     void copyToClipboard();
@@ -57,6 +56,7 @@ private:
     QString suggestedPath() const;
 
     Document *m_document;
+    Prompter *m_prompter;
     QComboBox *m_format;
     QRadioButton *m_coding;
     QRadioButton *m_hypotheses;
@@ -69,7 +69,6 @@ private:
     QString m_text;
     QString m_problem;
     QString m_lastDirectory;
-    std::function<QString(const QString &)> m_askPath;
 };
 
 } // namespace cb

@@ -8,7 +8,7 @@
 namespace cb {
 
 LevelsView::LevelsView(QWidget *parent)
-    : QTableView(parent)
+    : EntryTableView(parent)
 {
     setSelectionBehavior(QAbstractItemView::SelectRows);
     setSelectionMode(QAbstractItemView::SingleSelection);
@@ -64,19 +64,7 @@ void LevelsView::keyPressEvent(QKeyEvent *event)
             return;
         }
     }
-    QTableView::keyPressEvent(event);
-}
-
-void LevelsView::closeEditor(QWidget *editor, QAbstractItemDelegate::EndEditHint hint)
-{
-    if (hint != QAbstractItemDelegate::SubmitModelCache) {
-        QTableView::closeEditor(editor, hint);
-        return;
-    }
-    QTableView::closeEditor(editor, QAbstractItemDelegate::NoHint);
-    const QModelIndex cur = currentIndex();
-    if (m_model && cur.isValid() && cur.row() + 1 < m_model->rowCount())
-        setCurrentIndex(m_model->index(cur.row() + 1, cur.column()));
+    EntryTableView::keyPressEvent(event);
 }
 
 } // namespace cb

@@ -1,13 +1,13 @@
 #pragma once
 
-#include <QTableView>
+#include "ui/common/EntryTableView.h"
 
 namespace cb {
 
 class LevelsModel;
 
-// The levels table: edit in place, drag rows or press Ctrl+Up / Ctrl+Down to reorder.
-class LevelsView : public QTableView
+// The levels table: edit in place (Enter moves down), drag rows or press Ctrl+Up / Ctrl+Down to reorder.
+class LevelsView : public EntryTableView
 {
     Q_OBJECT
 
@@ -20,8 +20,6 @@ public:
 
 protected:
     void keyPressEvent(QKeyEvent *event) override;
-    // Enter commits and moves down, as in the coding grid: the next name goes to the next level.
-    void closeEditor(QWidget *editor, QAbstractItemDelegate::EndEditHint hint) override;
 
 private:
     LevelsModel *m_model = nullptr;

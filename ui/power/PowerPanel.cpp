@@ -2,6 +2,7 @@
 
 #include "core/base/NumberText.h"
 #include "ui/document/Document.h"
+#include "ui/common/CellTable.h"
 #include "ui/common/Look.h"
 #include "ui/common/SmallChart.h"
 
@@ -13,8 +14,9 @@
 #include <QHeaderView>
 #include <QLabel>
 #include <QLineEdit>
+#include <QShowEvent>
 #include <QSignalBlocker>
-#include <QTableWidget>
+#include <QTableView>
 #include <QTimer>
 #include <QVBoxLayout>
 
@@ -80,13 +82,23 @@ QLabel *fieldNote(QWidget *parent)
     return l;
 }
 
-QTableWidgetItem *cell(const QString &text, bool number = true)
+TableCell cell(const QString &text, bool numeric = true)
 {
-    auto *item = new QTableWidgetItem(text);
-    item->setFlags(Qt::ItemIsEnabled | Qt::ItemIsSelectable);
-    if (number)
-        item->setTextAlignment(Qt::AlignRight | Qt::AlignVCenter);
-    return item;
+    return textCell(text, numeric);
+}
+
+TableCell quietCell(const QString &text)
+{
+    TableCell c = cell(text);
+    c.ink = look::quietText();
+    return c;
+}
+
+TableCell entryCell(const QString &text)
+{
+    TableCell c = cell(text);
+    c.editable = true;
+    return c;
 }
 
 } // namespace
@@ -94,7 +106,8 @@ QTableWidgetItem *cell(const QString &text, bool number = true)
 PowerPanel::PowerPanel(Document *document, QWidget *parent)
     : QWidget(parent)
     , m_document(document)
-    , m_inputs(new QTableWidget(0, InputColumnCount, this))
+    , m_inputs(new CellTableModel({tr("Level"), tr("Expected mean"), tr("SD"), tr("Planned n"), tr("Ratio")}, this))
+    , m_inputView(new QTableView(this))
     , m_expectedKind(new QComboBox(this))
     , m_baseline(new QComboBox(this))
     , m_sd(new QLineEdit(u"1"_s, this))
@@ -106,38 +119,55 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     , m_target(new QLineEdit(u"0.8"_s, this))
     , m_adjustment(new QComboBox(this))
     , m_general(fieldNote(this))
-    , m_results(new QTableWidget(0, ResultColumnCount, this))
+    , m_results(new CellTableModel({tr("Test"), tr("Estimate \u03c8"), tr("SE"), tr("Std. eff."), tr("df"), tr("Power at plan"),
+                                    tr("n/level for target"), tr("Total N"), tr("vs F test")},
+                                   this))
+    , m_resultView(new QTableView(this))
     , m_notes(look::note({}, this))
     , m_chart(new SmallChart(this))
 {
     setObjectName(u"powerPanel"_s);
-    m_inputs->setObjectName(u"powerInputs"_s);
-    m_inputs->setHorizontalHeaderLabels({tr("Level"), tr("Expected mean"), tr("SD"), tr("Planned n"), tr("Ratio")});
-    m_inputs->verticalHeader()->hide();
-    m_inputs->verticalHeader()->setDefaultSectionSize(22);
-    m_inputs->horizontalHeader()->setSectionResizeMode(QHeaderView::Stretch);
+    buildTables();
+    // Inputs on the left (the levels table, then the settings), results in the middle, curves on the right.
+    auto *layout = new QHBoxLayout(this);
+    layout->setContentsMargins(6, 4, 6, 4);
+    layout->addLayout(buildInputForm(), 3);
+    layout->addLayout(buildResultColumn(), 7);
+    layout->addWidget(m_chart, 4);
+    connectInputs();
+    followDocument();
+    recompute();
+}
+
+void PowerPanel::buildTables()
+{
+    m_inputView->setObjectName(u"powerInputs"_s);
+    m_inputView->setModel(m_inputs);
+    m_inputView->verticalHeader()->hide();
+    m_inputView->verticalHeader()->setDefaultSectionSize(22);
+    m_inputView->horizontalHeader()->setSectionResizeMode(QHeaderView::Stretch);
+    m_resultView->setObjectName(u"powerResults"_s);
+    m_resultView->setModel(m_results);
+    setUpResultTable(m_resultView);
+    m_resultView->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
+    m_resultView->horizontalHeader()->setStretchLastSection(true);
+    m_resultView->horizontalHeader()->setMinimumSectionSize(48);
+    m_resultView->setSelectionMode(QAbstractItemView::NoSelection);
+    m_chart->setObjectName(u"powerCurve"_s);
+    m_chart->setAxisTitles(tr("size of the smallest group"), tr("power"));
+    m_general->setObjectName(u"powerMessage"_s);
+}
+
+// The levels table, then the settings with a message line under each.
+QLayout *PowerPanel::buildInputForm()
+{
     m_expectedKind->addItems({tr("Means per level"), tr("Differences from a baseline")});
     m_sizeSource->addItems({tr("Planned n of the levels"), tr("Ratios with a total N")});
     m_sided->addItems({tr("Two-sided"), tr("One-sided (\u03c8 > 0 as written)")});
     for (Adjustment a : {Adjustment::None, Adjustment::Bonferroni, Adjustment::Sidak})
         m_adjustment->addItem(adjustmentTitle(a), QVariant::fromValue(int(a)));
     m_total->setPlaceholderText(tr("e.g. 120"));
-    m_results->setObjectName(u"powerResults"_s);
-    m_results->setHorizontalHeaderLabels({tr("Test"), tr("Estimate \u03c8"), tr("SE"), tr("Std. eff."), tr("df"),
-                                          tr("Power at plan"), tr("n/level for target"), tr("Total N"),
-                                          tr("vs F test")});
-    m_results->verticalHeader()->hide();
-    m_results->verticalHeader()->setDefaultSectionSize(22);
-    m_results->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
-    m_results->horizontalHeader()->setStretchLastSection(true);
-    m_results->horizontalHeader()->setMinimumSectionSize(48);
-    m_results->setSelectionMode(QAbstractItemView::NoSelection);
-    m_results->setWordWrap(false);
-    m_chart->setObjectName(u"powerCurve"_s);
-    m_chart->setAxisTitles(tr("size of the smallest group"), tr("power"));
-    m_general->setObjectName(u"powerMessage"_s);
 
-    // Inputs: the levels table, then the settings with a message line under each.
     auto *form = new QFormLayout;
     form->setFieldGrowthPolicy(QFormLayout::AllNonFixedFieldsGrow);
     auto addField = [&](const QString &label, QWidget *field, const QString &key) {
@@ -152,18 +182,16 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
         }
         form->addRow(label, box);
     };
-    auto *expectedRow = new QWidget(this);
-    auto *expectedLayout = new QHBoxLayout(expectedRow);
-    expectedLayout->setContentsMargins(0, 0, 0, 0);
-    expectedLayout->addWidget(m_expectedKind, 1);
-    expectedLayout->addWidget(m_baseline, 1);
-    addField(tr("Expected values:"), expectedRow, {});
-    auto *sdRow = new QWidget(this);
-    auto *sdLayout = new QHBoxLayout(sdRow);
-    sdLayout->setContentsMargins(0, 0, 0, 0);
-    sdLayout->addWidget(m_sd, 1);
-    sdLayout->addWidget(m_perLevelSd);
-    addField(tr("Common SD:"), sdRow, u"sd"_s);
+    auto row = [this](QWidget *a, QWidget *b, int bStretch) {
+        auto *w = new QWidget(this);
+        auto *l = new QHBoxLayout(w);
+        l->setContentsMargins(0, 0, 0, 0);
+        l->addWidget(a, 1);
+        l->addWidget(b, bStretch);
+        return w;
+    };
+    addField(tr("Expected values:"), row(m_expectedKind, m_baseline, 1), {});
+    addField(tr("Common SD:"), row(m_sd, m_perLevelSd, 0), u"sd"_s);
     addField(tr("Group sizes:"), m_sizeSource, {});
     addField(tr("Total N:"), m_total, u"total"_s);
     addField(tr("Alpha (family):"), m_alpha, u"alpha"_s);
@@ -175,10 +203,15 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     m_fieldNotes.insert(u"levels"_s, levelsNote);
 
     auto *left = new QVBoxLayout;
-    left->addWidget(m_inputs, 1);
+    left->addWidget(m_inputView, 1);
     left->addWidget(levelsNote);
     left->addLayout(form);
+    return left;
+}
 
+// The message, the results, their notes and the cautions.
+QLayout *PowerPanel::buildResultColumn()
+{
     auto *cautionBox = look::note(u"<b>%1</b><ul style='margin-left:-20px'><li>%2</li></ul>"_s.arg(
                                       tr("Read with care"), powerCautions().join(u"</li><li>"_s)),
                                   this);
@@ -186,41 +219,35 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     cautionBox->setTextFormat(Qt::RichText);
     auto *middle = new QVBoxLayout;
     middle->addWidget(m_general);
-    middle->addWidget(m_results, 2);
+    middle->addWidget(m_resultView, 2);
     middle->addWidget(m_notes);
     middle->addWidget(cautionBox);
+    return middle;
+}
 
-    auto *layout = new QHBoxLayout(this);
-    layout->setContentsMargins(6, 4, 6, 4);
-    layout->addLayout(left, 3);
-    layout->addLayout(middle, 7);
-    layout->addWidget(m_chart, 4);
-
-    connect(m_inputs, &QTableWidget::itemChanged, this, [this] {
-        if (!m_building)
-            schedule();
-    });
+void PowerPanel::connectInputs()
+{
+    connect(m_inputs, &CellTableModel::edited, this,
+            [this](int row, int column, const QVariant &value) { inputEdited(row, column, value.toString()); });
     for (QLineEdit *e : {m_sd, m_total, m_alpha, m_target})
         connect(e, &QLineEdit::textChanged, this, &PowerPanel::schedule);
     for (QComboBox *c : {m_sided, m_adjustment, m_baseline})
         connect(c, &QComboBox::currentIndexChanged, this, &PowerPanel::schedule);
     connect(m_expectedKind, &QComboBox::currentIndexChanged, this, [this] {
-        rebuildInputRows();
+        showInputs();
         schedule();
     });
-    connect(m_baseline, &QComboBox::currentIndexChanged, this, &PowerPanel::rebuildInputRows);
+    connect(m_baseline, &QComboBox::currentIndexChanged, this, &PowerPanel::showInputs);
     connect(m_perLevelSd, &QCheckBox::toggled, this, [this] {
         updateColumnVisibility();
         schedule();
     });
     connect(m_sizeSource, &QComboBox::currentIndexChanged, this, [this] {
         m_sizeSourceChosen = true;
-        rebuildInputRows();
+        showInputs();
         schedule();
     });
-    connect(document, &Document::changed, this, &PowerPanel::followDocument);
-    followDocument();
-    recompute();
+    connect(m_document, &Document::changed, this, &PowerPanel::followDocument);
 }
 
 // For a design, power is per design column over the cell means: the "levels" are the cells,
@@ -249,99 +276,119 @@ void PowerPanel::followDocument()
         m_baseline->addItems(f.levels);
         m_baseline->setCurrentIndex(std::max(0, int(f.levels.indexOf(previous))));
     }
-    rebuildInputRows();
+    m_levels = f.levels;
+    // Typed values stay with their level's name; a level renamed or added starts empty.
+    for (auto it = m_typed.begin(); it != m_typed.end();)
+        it = m_levels.contains(it.key()) ? std::next(it) : m_typed.erase(it);
+    showInputs();
     schedule();
 }
 
-// One row per level. Typed values stay with their level's name when levels are
-// renamed elsewhere only if the name is kept; new levels start empty.
-void PowerPanel::rebuildInputRows()
+bool PowerPanel::differences() const
+{
+    return m_expectedKind->currentIndex() == 1;
+}
+
+// The input table as the typed values and the factor say (one row per level).
+void PowerPanel::showInputs()
 {
     const Factor &f = factor();
-    QHash<QString, QStringList> kept;
-    for (int r = 0; r < m_inputs->rowCount(); ++r) {
-        QStringList values;
-        for (int c = ExpectedColumn; c < InputColumnCount; ++c)
-            values << (m_inputs->item(r, c) ? m_inputs->item(r, c)->text() : QString());
-        kept.insert(m_levels.value(r), values);
-    }
-    m_building = true;
-    m_levels = f.levels;
-    m_inputs->setRowCount(int(f.levels.size()));
     const std::vector<Rational> sizes = f.sizes();
-    const bool differences = m_expectedKind->currentIndex() == 1;
-    for (int r = 0; r < int(f.levels.size()); ++r) {
-        const QStringList values = kept.value(f.levels[r], QStringList{QString(), QString(), QString(), u"1"_s});
-        m_inputs->setItem(r, LevelColumn, cell(f.levels[r], false));
-        for (int c = ExpectedColumn; c < InputColumnCount; ++c) {
-            auto *item = new QTableWidgetItem(values.value(c - ExpectedColumn));
-            item->setTextAlignment(Qt::AlignRight | Qt::AlignVCenter);
-            m_inputs->setItem(r, c, item);
-        }
-        m_inputs->item(r, PlannedNColumn)->setFlags(Qt::ItemIsEnabled);
-        m_inputs->item(r, PlannedNColumn)->setText(f.hasPlannedN() ? QString::fromStdString(sizes[size_t(r)].get_str()) : dash());
-        m_inputs->item(r, PlannedNColumn)->setForeground(look::quietText());
-        if (differences && r == m_baseline->currentIndex()) {
-            QTableWidgetItem *base = m_inputs->item(r, ExpectedColumn);
-            base->setFlags(Qt::ItemIsEnabled);
-            base->setText(tr("0 (baseline)"));
-            base->setForeground(look::quietText());
-        } else if (m_inputs->item(r, ExpectedColumn)->text() == tr("0 (baseline)")) {
-            m_inputs->item(r, ExpectedColumn)->setText({});
-        }
+    const bool diff = differences();
+    const int baseline = m_baseline->currentIndex();
+    TableRows rows;
+    rows.reserve(size_t(m_levels.size()));
+    for (int r = 0; r < int(m_levels.size()); ++r) {
+        const LevelInput in = m_typed.value(m_levels[r]);
+        const bool isBaseline = diff && r == baseline;
+        if (isBaseline && !in.expected.isEmpty())
+            m_typed[m_levels[r]].expected.clear(); // the baseline's value is 0 by definition
+        rows.push_back({cell(m_levels[r], false), isBaseline ? quietCell(tr("0 (baseline)")) : entryCell(in.expected), entryCell(in.sd),
+                        quietCell(f.hasPlannedN() && size_t(r) < sizes.size() ? QString::fromStdString(sizes[size_t(r)].get_str()) : dash()),
+                        entryCell(in.ratio)});
     }
-    m_inputs->setHorizontalHeaderItem(ExpectedColumn, new QTableWidgetItem(differences ? tr("Difference from %1").arg(m_baseline->currentText())
-                                                                                       : tr("Expected mean")));
-    m_baseline->setVisible(differences);
+    m_inputs->setRows(std::move(rows));
+    m_inputs->setHeaders({tr("Level"), diff ? tr("Difference from %1").arg(m_baseline->currentText()) : tr("Expected mean"), tr("SD"),
+                          tr("Planned n"), tr("Ratio")});
+    m_baseline->setVisible(diff);
     updateColumnVisibility();
-    m_building = false;
+}
+
+void PowerPanel::inputEdited(int row, int column, const QString &text)
+{
+    if (row < 0 || row >= int(m_levels.size()))
+        return;
+    LevelInput &in = m_typed[m_levels[row]];
+    (column == ExpectedColumn ? in.expected : column == SdColumn ? in.sd : in.ratio) = text;
+    showInputs();
+    schedule();
 }
 
 void PowerPanel::updateColumnVisibility()
 {
     const bool ratios = m_sizeSource->currentIndex() == 1;
-    m_inputs->setColumnHidden(SdColumn, !m_perLevelSd->isChecked());
-    m_inputs->setColumnHidden(PlannedNColumn, ratios);
-    m_inputs->setColumnHidden(RatioColumn, !ratios);
+    m_inputView->setColumnHidden(SdColumn, !m_perLevelSd->isChecked());
+    m_inputView->setColumnHidden(PlannedNColumn, ratios);
+    m_inputView->setColumnHidden(RatioColumn, !ratios);
     m_sd->setEnabled(!m_perLevelSd->isChecked());
     m_total->setEnabled(ratios);
 }
 
 void PowerPanel::schedule()
 {
+    // In a shown window with this panel out of sight (a tab behind another), the work waits
+    // for showEvent: an edit elsewhere costs nothing here.
+    if (window()->isVisible() && !isVisible()) {
+        m_stale = true;
+        return;
+    }
     if (m_scheduled)
         return;
     m_scheduled = true;
     QTimer::singleShot(0, this, &PowerPanel::recompute);
 }
 
+void PowerPanel::showEvent(QShowEvent *event)
+{
+    QWidget::showEvent(event);
+    if (m_stale)
+        schedule();
+}
+
 QStringList PowerPanel::columnTexts(int column) const
 {
     QStringList out;
-    for (int r = 0; r < m_inputs->rowCount(); ++r)
-        out << (m_inputs->item(r, column) ? m_inputs->item(r, column)->text().trimmed() : QString());
+    for (const QString &level : m_levels) {
+        const LevelInput in = m_typed.value(level);
+        out << (column == ExpectedColumn ? in.expected : column == SdColumn ? in.sd : in.ratio).trimmed();
+    }
     return out;
+}
+
+void PowerPanel::setColumnTexts(int column, const QStringList &texts)
+{
+    for (int r = 0; r < int(m_levels.size()) && r < texts.size(); ++r)
+        if (column != ExpectedColumn || !(differences() && r == m_baseline->currentIndex()))
+            (column == ExpectedColumn ? m_typed[m_levels[r]].expected : column == SdColumn ? m_typed[m_levels[r]].sd : m_typed[m_levels[r]].ratio) = texts[r];
+    showInputs();
+    schedule();
 }
 
 void PowerPanel::setExpectedTexts(const QStringList &texts)
 {
-    for (int r = 0; r < m_inputs->rowCount() && r < texts.size(); ++r)
-        if (m_inputs->item(r, ExpectedColumn)->flags() & Qt::ItemIsEditable)
-            m_inputs->item(r, ExpectedColumn)->setText(texts[r]);
+    setColumnTexts(ExpectedColumn, texts);
 }
 
 void PowerPanel::setLevelSdTexts(const QStringList &texts)
 {
     m_perLevelSd->setChecked(true);
-    for (int r = 0; r < m_inputs->rowCount() && r < texts.size(); ++r)
-        m_inputs->item(r, SdColumn)->setText(texts[r]);
+    setColumnTexts(SdColumn, texts);
 }
 
 void PowerPanel::setRatioTexts(const QStringList &texts)
 {
     setSizeSource(SizeSource::RatiosAndTotal);
-    for (int r = 0; r < m_inputs->rowCount() && r < texts.size(); ++r)
-        m_inputs->item(r, RatioColumn)->setText(texts[r]);
+    setColumnTexts(RatioColumn, texts);
 }
 
 void PowerPanel::setUseDifferences(bool differences, int baseline)
@@ -366,7 +413,7 @@ Result<PowerSettings> PowerPanel::settings() const
     using R = Result<PowerSettings>;
     PowerSettings s;
     const int k = int(m_levels.size());
-    const bool differences = m_expectedKind->currentIndex() == 1;
+    const bool differences = this->differences();
     const int baseline = m_baseline->currentIndex();
     // One number per level from a column of the table; the message names the level.
     auto column = [&](int c, const QString &key, const QString &field, int skip) -> Result<std::vector<double>> {
@@ -445,10 +492,11 @@ void PowerPanel::showMessages(const Problem &problem)
 void PowerPanel::recompute()
 {
     m_scheduled = false;
+    m_stale = false;
     m_report.reset();
     auto fail = [this](const Problem &problem) {
         showMessages(problem);
-        m_results->setRowCount(0);
+        m_results->setRows({});
         m_notes->clear();
         m_chart->clear(tr("The power curves appear once every input is valid."));
     };
@@ -469,51 +517,41 @@ void PowerPanel::recompute()
 void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows, const PowerSettings &settings)
 {
     const int m = int(report.contrasts.size());
-    m_results->setRowCount(m + 1);
     auto powerCell = [&](double power) {
         const bool reached = power >= report.target;
         const look::State state = reached ? look::State::Good : look::State::Caution;
-        QTableWidgetItem *item = cell(look::mark(state) + u" "_s + QString::number(power, 'f', 3));
-        item->setForeground(look::ink(state));
-        item->setToolTip(reached ? tr("At or above the target power") : tr("Below the target power"));
-        return item;
+        TableCell c = cell(look::mark(state) + u" "_s + QString::number(power, 'f', 3));
+        c.ink = look::ink(state);
+        c.toolTip = reached ? tr("At or above the target power") : tr("Below the target power");
+        return c;
     };
     long long curveUpTo = 10;
-    std::vector<SmallChart::Line> lines;
+    TableRows table;
+    table.reserve(size_t(m) + 1);
     for (int i = 0; i < m; ++i) {
         const ContrastPower &c = report.contrasts[size_t(i)];
-        m_results->setItem(i, TestColumn, cell(c.name, false));
-        m_results->item(i, TestColumn)->setToolTip(c.notes.join(u"\n"_s));
-        m_results->setItem(i, EstimateColumn, cell(number(c.estimate)));
-        m_results->setItem(i, SeColumn, cell(number(c.se)));
-        m_results->setItem(i, EffectColumn, cell(number(c.effectSize, 3)));
-        m_results->setItem(i, DfColumn, cell(c.welch ? QString::number(c.df, 'f', 1) : number(c.df, 6)));
-        m_results->setItem(i, PowerColumn, powerCell(c.power));
-        m_results->setItem(i, NeededColumn, cell(c.zeroEstimate ? tr("\u2014 (\u03c8 = 0)") : sizesText(c.required)));
-        m_results->setItem(i, NeededTotalColumn, cell(c.required.reachable ? QString::number(c.required.total) : dash()));
-        m_results->setItem(i, VersusOmnibusColumn,
-                           cell(c.fewerThanOmnibus ? look::mark(look::State::Good) + tr(" needs fewer") : QString(), false));
+        TableCell test = cell(c.name, false);
+        test.toolTip = c.notes.join(u"\n"_s);
+        TableCell versus = cell(c.fewerThanOmnibus ? look::mark(look::State::Good) + tr(" needs fewer") : QString(), false);
         if (c.fewerThanOmnibus)
-            m_results->item(i, VersusOmnibusColumn)->setForeground(look::ink(look::State::Good));
+            versus.ink = look::ink(look::State::Good);
+        table.push_back({test, cell(number(c.estimate)), cell(number(c.se)), cell(number(c.effectSize, 3)),
+                         cell(c.welch ? QString::number(c.df, 'f', 1) : number(c.df, 6)), powerCell(c.power),
+                         cell(c.zeroEstimate ? tr("\u2014 (\u03c8 = 0)") : sizesText(c.required)),
+                         cell(c.required.reachable ? QString::number(c.required.total) : dash()), versus});
         if (c.required.reachable)
             curveUpTo = std::max(curveUpTo, *std::min_element(c.required.perLevel.begin(), c.required.perLevel.end()));
     }
     const OmnibusPower &o = report.omnibus;
-    m_results->setItem(m, TestColumn, cell(tr("All %1 means equal (F test)").arg(report.levelCount), false));
-    m_results->item(m, TestColumn)->setToolTip(o.notes.join(u"\n"_s));
-    m_results->setItem(m, EstimateColumn, cell(dash()));
-    m_results->setItem(m, SeColumn, cell(dash()));
-    m_results->setItem(m, EffectColumn, cell(u"f = "_s + number(o.effectSize, 3)));
-    m_results->setItem(m, DfColumn, cell(u"%1, %2"_s.arg(o.df1).arg(number(o.df2, 6))));
-    m_results->setItem(m, PowerColumn, powerCell(o.power));
-    m_results->setItem(m, NeededColumn, cell(sizesText(o.required)));
-    m_results->setItem(m, NeededTotalColumn, cell(o.required.reachable ? QString::number(o.required.total) : dash()));
-    m_results->setItem(m, VersusOmnibusColumn, cell({}, false));
-    for (int c = 0; c < ResultColumnCount; ++c) {
-        QFont f = m_results->item(m, c)->font();
-        f.setItalic(true);
-        m_results->item(m, c)->setFont(f);
-    }
+    TableCell test = cell(tr("All %1 means equal (F test)").arg(report.levelCount), false);
+    test.toolTip = o.notes.join(u"\n"_s);
+    std::vector<TableCell> omnibus{test, cell(dash()), cell(dash()), cell(u"f = "_s + number(o.effectSize, 3)),
+                                   cell(u"%1, %2"_s.arg(o.df1).arg(number(o.df2, 6))), powerCell(o.power), cell(sizesText(o.required)),
+                                   cell(o.required.reachable ? QString::number(o.required.total) : dash()), cell({}, false)};
+    for (TableCell &c : omnibus)
+        c.italic = true;
+    table.push_back(std::move(omnibus));
+    m_results->setRows(std::move(table));
     if (o.required.reachable)
         curveUpTo = std::max(curveUpTo, *std::min_element(o.required.perLevel.begin(), o.required.perLevel.end()));
 
@@ -527,6 +565,7 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
     m_notes->setText(notes.join(u"\n"_s));
 
     // Curves up to a little past the largest size needed among the tests.
+    std::vector<SmallChart::Line> lines;
     const std::vector<long long> sizes = powerCurveSizes(std::min<long long>(curveUpTo + curveUpTo / 4 + 2, 100'000));
     for (int i = -1; i < m; ++i) {
         const Result<std::vector<double>> curve = powerCurve(rows.rows, i, settings, sizes);

@@ -7,16 +7,19 @@
 #include <QHash>
 #include <QWidget>
 
+class QLayout;
+
 #include <optional>
 
 class QCheckBox;
 class QComboBox;
 class QLabel;
 class QLineEdit;
-class QTableWidget;
+class QTableView;
 
 namespace cb {
 
+class CellTableModel;
 class Document;
 class SmallChart;
 
@@ -53,8 +56,8 @@ public:
     QLineEdit *targetEdit() const { return m_target; }
     QComboBox *adjustmentBox() const { return m_adjustment; }
     QComboBox *sidedBox() const { return m_sided; }
-    QTableWidget *inputTable() const { return m_inputs; }
-    QTableWidget *resultTable() const { return m_results; }
+    QTableView *inputTable() const { return m_inputView; }
+    QTableView *resultTable() const { return m_resultView; }
     SmallChart *chart() const { return m_chart; }
 
     // The message shown next to an input ("sd", "total", "alpha", "target", "levels"), empty when none.
@@ -65,22 +68,44 @@ public:
     const std::optional<PowerReport> &report() const { return m_report; }
 
 public slots:
-    // Recomputes now (edits schedule this on the next turn of the event loop).
+    // Recomputes now (edits schedule this on the next turn of the event loop, or, while the
+    // window is shown with this panel out of sight, for when it is shown).
     void recompute();
 
+protected:
+    void showEvent(QShowEvent *event) override;
+
 private:
+    // What the analyst typed for one level (or cell), kept under its name.
+    struct LevelInput
+    {
+        QString expected;
+        QString sd;
+        QString ratio = QStringLiteral("1");
+    };
+
+    // The constructor's steps.
+    void buildTables();
+    QLayout *buildInputForm();
+    QLayout *buildResultColumn();
+    void connectInputs();
+
     void followDocument();
     const Factor &factor() const;     // the scheme's factor, or the design's cells
     const Analysis &analysis() const; // the scheme's analysis, or the design's over the cells
-    void rebuildInputRows();
+    bool differences() const;
+    void showInputs();
+    void inputEdited(int row, int column, const QString &text);
     void updateColumnVisibility();
     void schedule();
     void showMessages(const Problem &problem);
     void showReport(const PowerReport &report, const ContrastRows &rows, const PowerSettings &settings);
     QStringList columnTexts(int column) const;
+    void setColumnTexts(int column, const QStringList &texts);
 
     Document *m_document;
-    QTableWidget *m_inputs;
+    CellTableModel *m_inputs;
+    QTableView *m_inputView;
     QComboBox *m_expectedKind;
     QComboBox *m_baseline;
     QLineEdit *m_sd;
@@ -93,12 +118,14 @@ private:
     QComboBox *m_adjustment;
     QHash<QString, QLabel *> m_fieldNotes; // "sd", "total", "alpha", "target", "levels"
     QLabel *m_general;
-    QTableWidget *m_results;
+    CellTableModel *m_results;
+    QTableView *m_resultView;
     QLabel *m_notes;
     SmallChart *m_chart;
     QStringList m_levels;
-    bool m_building = false;
+    QHash<QString, LevelInput> m_typed; // by level name; a renamed level starts empty
     bool m_scheduled = false;
+    bool m_stale = false; // a computation waits until the panel is shown
     bool m_sizeSourceChosen = false;
     std::optional<PowerReport> m_report;
 };

@@ -12,6 +12,7 @@
 #include "ui/power/PowerPanel.h"
 #include "ui/common/Look.h"
 #include "ui/common/Prompter.h"
+#include "ui/common/Settings.h"
 #include "core/base/Version.h"
 #include "core/files/SchemeFile.h"
 #include "ui/coding/WeightGridView.h"
@@ -57,12 +58,6 @@ int bottomDockHeight(int windowHeight)
 const QString kGeometryKey = u"window/geometry"_s;
 const QString kStateKey = u"window/state"_s;
 
-// The application's settings, or the file a test gives.
-std::unique_ptr<QSettings> openSettings(const QString &file)
-{
-    return file.isEmpty() ? std::make_unique<QSettings>() : std::make_unique<QSettings>(file, QSettings::IniFormat);
-}
-
 // Panels below the grid sit in a scroll area: none can push the grid out of sight with its
 // minimum size, and a panel whose labels change on every edit lays out only itself, not the
 // whole window.
@@ -80,8 +75,7 @@ QScrollArea *scrolling(QWidget *panel, QWidget *parent)
 MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     : QMainWindow(parent)
     , m_options(options)
-    , m_ownPrompter(options.prompter ? nullptr : std::make_unique<DialogPrompter>())
-    , m_prompter(options.prompter ? options.prompter : m_ownPrompter.get())
+    , m_prompter(options.prompter ? options.prompter : &dialogPrompter())
     , m_document(new Document(this))
     , m_coding(new CodingPanel(m_document, this))
     , m_recent(options.settingsFile)
@@ -96,13 +90,35 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     buildDocks();
     buildMenus();
     addPanel(new PowerPanel(m_document, this), tr("Power"), u"powerDock"_s);
-    addPanel(new DataPanel(m_document, this), tr("Check on data"), u"dataDock"_s);
+    auto *data = new DataPanel(m_document, this);
+    data->setPrompter(m_prompter);
+    addPanel(data, tr("Check on data"), u"dataDock"_s);
+    buildStatusBar();
+    followDocument();
+    startRecovery();
+    updateTitle();
+    m_startState = saveState();
+    fitToScreen();
+    restoreLayout();
+}
 
+void MainWindow::buildStatusBar()
+{
     m_arithmetic = new QLabel(this);
     statusBar()->addPermanentWidget(m_arithmetic);
     connect(m_coding, &CodingPanel::message, this, &MainWindow::showMessage);
     connect(m_levels, &LevelsPanel::message, this, &MainWindow::showMessage);
     connect(m_design, &DesignPanel::message, this, &MainWindow::showMessage);
+    auto showArithmetic = [this] {
+        m_arithmetic->setText(m_document->analysis().exact ? tr("exact fractions") : tr("floating point"));
+    };
+    connect(m_document, &Document::changed, this, showArithmetic);
+    showArithmetic();
+}
+
+// What the window itself shows of the document: the docks' titles and places for a design, the title bar.
+void MainWindow::followDocument()
+{
     connect(m_document, &Document::changed, this, [this] {
         if (m_document->isDesign() != m_wasDesign) {
             // A design needs room for its cell picture and findings: the right-hand docks then
@@ -123,32 +139,32 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     connect(m_coding, &CodingPanel::currentCoefficientChanged, m_meaning, &MeaningPanel::showCoefficient);
     connect(m_document, &Document::modifiedChanged, this, &MainWindow::updateTitle);
     connect(m_document, &Document::filePathChanged, this, &MainWindow::updateTitle);
-    connect(m_document, &Document::changed, this, [this] {
-        m_arithmetic->setText(m_document->analysis().exact ? tr("exact fractions") : tr("floating point"));
-    });
+}
+
+// The recovery file follows the edits within about a second: a killed window loses at most
+// the edit being typed. A saved document needs none.
+void MainWindow::startRecovery()
+{
     connect(m_document->undoStack(), &QUndoStack::cleanChanged, this, [this](bool clean) {
         if (clean && m_options.useRecovery)
             m_recovery.discard();
     });
-
-    // The recovery file follows the edits within about a second: a killed window loses at most
-    // the edit being typed.
     m_recoveryTimer->setSingleShot(true);
-    m_recoveryTimer->setInterval(options.recoveryDelayMs);
+    m_recoveryTimer->setInterval(m_options.recoveryDelayMs);
     connect(m_recoveryTimer, &QTimer::timeout, this, &MainWindow::writeRecovery);
     connect(m_document, &Document::changed, this, &MainWindow::scheduleRecovery);
+}
 
-    m_arithmetic->setText(m_document->analysis().exact ? tr("exact fractions") : tr("floating point"));
-    updateTitle();
-    m_startState = saveState();
-    fitToScreen();
-    if (m_options.rememberLayout) {
-        const auto settings = openSettings(m_options.settingsFile);
-        const QByteArray geometry = settings->value(kGeometryKey).toByteArray();
-        // restoreGeometry keeps the window on a screen that is still there.
-        if (!geometry.isEmpty() && restoreGeometry(geometry) && restoreState(settings->value(kStateKey).toByteArray()))
-            m_docksSized = true; // the panels keep the widths they were left at
-    }
+// The size and panels the window was left with, when it is to remember them.
+void MainWindow::restoreLayout()
+{
+    if (!m_options.rememberLayout)
+        return;
+    const auto settings = openSettings(m_options.settingsFile);
+    const QByteArray geometry = settings->value(kGeometryKey).toByteArray();
+    // restoreGeometry keeps the window on a screen that is still there.
+    if (!geometry.isEmpty() && restoreGeometry(geometry) && restoreState(settings->value(kStateKey).toByteArray()))
+        m_docksSized = true; // the panels keep the widths they were left at
 }
 
 void MainWindow::fitToScreen()
@@ -269,7 +285,7 @@ void MainWindow::buildMenus()
         if (!maybeSave())
             return;
         const QString start = m_document->filePath().isEmpty() ? QString() : QFileInfo(m_document->filePath()).absolutePath();
-        const QString path = m_prompter->askOpenPath(this, start);
+        const QString path = m_prompter->askOpenPath(this, studyToOpen(start));
         if (!path.isEmpty())
             load(path);
     });
@@ -286,6 +302,7 @@ void MainWindow::buildMenus()
     saveAsAction->setShortcut(QKeySequence::SaveAs);
     file->addAction(tr("&Export\u2026"), this, [this] {
         auto *dialog = new ExportDialog(m_document, this);
+        dialog->setPrompter(m_prompter);
         dialog->setAttribute(Qt::WA_DeleteOnClose);
         dialog->open();
     })->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_E));
@@ -474,7 +491,7 @@ bool MainWindow::saveAs()
     if (name.isEmpty())
         name = u"scheme"_s;
     const QString suggestion = m_document->filePath().isEmpty() ? name + u".cbstudy"_s : m_document->filePath();
-    const QString path = m_prompter->askSavePath(this, suggestion);
+    const QString path = m_prompter->askSavePath(this, studyToSave(suggestion));
     return !path.isEmpty() && saveTo(path);
 }
 

@@ -92,8 +92,13 @@ protected:
 private:
     bool maybeSave();
     bool load(const QString &path);
+    // The constructor's steps.
     void buildDocks();
     void buildMenus();
+    void buildStatusBar();
+    void followDocument();
+    void startRecovery();
+    void restoreLayout();
     void rebuildRecentMenu();
     void updateTitle();
     void showMessage(const QString &text);
@@ -102,7 +107,6 @@ private:
     void fitToScreen();
 
     WindowOptions m_options;
-    std::unique_ptr<Prompter> m_ownPrompter;
     Prompter *m_prompter;
     Document *m_document;
     CodingPanel *m_coding;
