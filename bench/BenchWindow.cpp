@@ -6,10 +6,14 @@
 //   EditToPaint: the same, then the event loop runs once: pending layouts and the paint of
 //     every part of the window that the change made dirty (into the offscreen backing store).
 //   FullRepaint: for scale, a forced repaint of the whole window with no edit.
+//   OpenAtLimit: a new window opening a study at the stated limit (core/base/Limits.h) until it
+//     is painted: arg 0 one factor of kMaxLevels levels, arg 1 a two-factor design of close to
+//     kMaxCells cells. Target: under 2 s (and 1 GiB, measured with /usr/bin/time -v).
 //   UndoHistoryMemory: heap bytes that 500 undo steps hold at k = 50 (each step types a
 //     different cell, so none merge), per step (counter bytes_per_step).
 // Runs offscreen (QT_QPA_PLATFORM=offscreen unless set).
 #include "bench/BenchMain.h"
+#include "core/base/Limits.h"
 #include "ui/coding/CodingModel.h"
 #include "ui/coding/CodingPanel.h"
 #include "ui/document/Document.h"
@@ -89,6 +93,46 @@ void BM_FullRepaint(benchmark::State &state)
         w.window.repaint();
 }
 
+// A study at the stated limit: one polynomial factor of kMaxLevels levels, or two sum-coded
+// factors a x b <= kMaxCells, a and b as close as the limit allows, with every term.
+Study studyAtLimit(bool design)
+{
+    if (!design)
+        return studyOf(schemeOf(kMaxLevels, SchemeKind::Polynomial));
+    int a = 2;
+    while ((a + 1) * (a + 1) <= kMaxCells)
+        ++a;
+    Study study;
+    for (const int k : {a, kMaxCells / a}) {
+        Scheme s = schemeOf(k, SchemeKind::Sum);
+        s.factor.name = study.design.factors.empty() ? u"first"_s : u"second"_s;
+        s.factor.plannedN.clear();
+        study.design.factors.push_back(makeScheme(s.factor, SchemeKind::Sum).take());
+    }
+    study.design.terms = Design::fullFactorial(2);
+    const int cells = study.design.cellCount();
+    for (int c = 0; c < cells; ++c)
+        study.design.cellN.push_back(Rational(3 + c % 4));
+    return settled(std::move(study));
+}
+
+void BM_OpenAtLimit(benchmark::State &state)
+{
+    const Study study = studyAtLimit(state.range(0) == 1);
+    for (auto _ : state) {
+        MainWindow window([] {
+            WindowOptions o;
+            o.useRecovery = false;
+            return o;
+        }());
+        window.resize(1400, 900);
+        window.document()->reset(study, {});
+        window.show();
+        QApplication::processEvents();
+    }
+    state.counters["levels"] = study.design.cellCount();
+}
+
 void BM_UndoHistoryMemory(benchmark::State &state)
 {
     const int k = int(state.range(0));
@@ -121,6 +165,7 @@ void BM_EditToPaint_Polynomial(benchmark::State &s) { editToPaint(s, SchemeKind:
 // k = 4 and 10 are exact (fractions); 40 is the largest exact k; 50 runs in floating point.
 BENCHMARK(BM_EditToModels_Helmert)->Arg(4)->Arg(10)->Arg(40)->Arg(50)->Unit(benchmark::kMicrosecond);
 BENCHMARK(BM_EditToPaint_Helmert)->Arg(4)->Arg(10)->Arg(40)->Arg(50)->Unit(benchmark::kMicrosecond);
+BENCHMARK(BM_OpenAtLimit)->Arg(0)->Arg(1)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_UndoHistoryMemory)->Arg(50)->Iterations(1)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_FullRepaint)->Arg(10)->Arg(50)->Unit(benchmark::kMicrosecond);
 BENCHMARK(BM_EditToModels_Polynomial)->Arg(10)->Arg(50)->Unit(benchmark::kMicrosecond);

@@ -1,5 +1,7 @@
 #include "app/cli/SchemeArguments.h"
 
+#include "core/base/Limits.h"
+
 #include "core/files/SchemeFile.h"
 #include "core/model/SchemeEdits.h"
 #include "core/files/InputFile.h"
@@ -10,7 +12,8 @@ namespace cb::cli {
 
 void addFactorOptions(QCommandLineParser &p, SchemeOptionSet set)
 {
-    p.addOption({u"levels"_s, u"Level names, in order, separated by commas."_s, u"a,b,c"_s});
+    p.addOption({u"levels"_s, u"Level names, in order, separated by commas (%1 to %2 levels)."_s.arg(kMinLevels).arg(kMaxLevels),
+                 u"a,b,c"_s});
     if (set == SchemeOptionSet::All)
         p.addOption({u"factor"_s, u"The factor's name (with --levels)."_s, u"name"_s});
     p.addOption({u"n"_s, u"Planned group size of each level."_s, u"n1,n2,n3"_s});
@@ -51,7 +54,10 @@ Result<std::vector<Weight>> weightRowFromText(const QString &text, const Factor 
 
 void addSchemeOptions(QCommandLineParser &p, SchemeOptionSet set)
 {
-    p.addOption({u"file"_s, u"Read the scheme from a scheme file (JSON)."_s, u"scheme.json"_s});
+    p.addOption({u"file"_s,
+                 u"Read the scheme from a scheme file (JSON): at most %1 levels per factor, and at most %2 cells "
+                 "(the product of the level counts) in a design."_s.arg(kMaxLevels).arg(kMaxCells),
+                 u"scheme.json"_s});
     addFactorOptions(p, set);
     p.addOption({u"scheme"_s, u"A standard scheme: %1."_s.arg(schemeIdList()), u"NAME"_s});
     p.addOption({u"reference"_s, u"Reference level (treatment, simple) or base level coded -1 (sum, weighted-effect)."_s, u"LEVEL"_s});

@@ -577,14 +577,10 @@ void diagnosticFindings(Analysis &a, const Eigen::MatrixXd &columns)
                    u"VIF is undefined: the centred coding columns are linearly dependent (for example one-hot columns always sum to 1)"_s);
 }
 
-} // namespace
+// The steps of analyze(), in the order it takes them.
 
-QString coefficientLabel(bool intercept, int index, const QString &name)
-{
-    return u"b%1 %2"_s.arg(intercept ? index : index + 1).arg(name);
-}
-
-Analysis analyze(const Scheme &s)
+// Counts and names: levels, coding columns and coefficients (the intercept first).
+Analysis namesAndCounts(const Scheme &s)
 {
     Analysis a;
     a.levelCount = s.levelCount();
@@ -599,150 +595,238 @@ Analysis analyze(const Scheme &s)
     if (s.intercept)
         a.coefficientNames << kInterceptName.toString();
     a.coefficientNames << a.columnNames;
+    return a;
+}
 
-    if (QString e = s.validate(); !e.isEmpty()) {
-        addFinding(a, Finding::Severity::Problem, Finding::Topic::Rank, e);
-        return a;
-    }
-    const int k = a.levelCount, m = a.columnCount, p = a.coefficientCount;
+// Exact arithmetic when every weight is a fraction and k is small enough; says why not otherwise.
+void chooseArithmetic(Analysis &a, const Scheme &s)
+{
     const bool allExact = s.allExact();
-    a.exact = allExact && k <= kExactLevelLimit;
+    a.exact = allExact && a.levelCount <= kExactLevelLimit;
     if (!allExact)
         addFinding(a, Finding::Severity::Info, Finding::Topic::ExactPath,
                    u"some weights are not exact fractions (for example orthonormal trends), so results are computed in floating point"_s);
-    else if (k > kExactLevelLimit)
+    else if (a.levelCount > kExactLevelLimit)
         addFinding(a, Finding::Severity::Info, Finding::Topic::ExactPath,
                    u"%1 levels is above the exact-arithmetic limit of %2: results are computed in floating point and fractions are recognised from doubles"_s
-                       .arg(k).arg(kExactLevelLimit));
+                       .arg(a.levelCount).arg(kExactLevelLimit));
+}
 
-    const std::vector<Rational> nq = s.factor.sizes();
-    Eigen::VectorXd n(k);
+// The design X = [1 | C] (or C) in floating point, with what every later step shares.
+struct FloatingDesign
+{
+    Eigen::VectorXd n;      // planned n per level
+    Eigen::MatrixXd c;      // the coding columns, k x m
+    Eigen::VectorXd scale;  // a power of two per column of X (see columnScales)
+    Eigen::MatrixXd xs;     // X times scale
+    std::optional<Eigen::MatrixXd> xsInverse; // xs^-1 when X is square
+    Eigen::MatrixXd gram;   // xs' diag(n) xs
+};
+
+FloatingDesign floatingDesign(const Scheme &s, const std::vector<Rational> &nq, int p)
+{
+    const int k = s.levelCount(), m = s.columnCount();
+    FloatingDesign d;
+    d.n.resize(k);
     for (int i = 0; i < k; ++i)
-        n(i) = nq[size_t(i)].get_d();
-    Eigen::MatrixXd c(k, m);
+        d.n(i) = nq[size_t(i)].get_d();
+    d.c.resize(k, m);
     for (int j = 0; j < m; ++j)
         for (int i = 0; i < k; ++i)
-            c(i, j) = s.columns[size_t(j)].weights[size_t(i)].value();
+            d.c(i, j) = s.columns[size_t(j)].weights[size_t(i)].value();
     Eigen::MatrixXd x(k, p);
     if (s.intercept)
         x.col(0).setOnes();
-    x.rightCols(m) = c;
-
+    x.rightCols(m) = d.c;
     // Floating work uses columns scaled by powers of two (exact; see columnScales).
-    const Eigen::VectorXd scale = columnScales(x);
-    const Eigen::MatrixXd xs = x * scale.asDiagonal();
-
+    d.scale = columnScales(x);
+    d.xs = x * d.scale.asDiagonal();
     // A square design's inverse serves the floating hypotheses and the small singular values.
-    std::optional<Eigen::MatrixXd> xsInverse;
     if (p == k)
-        xsInverse = xs.partialPivLu().inverse();
-
+        d.xsInverse = d.xs.partialPivLu().inverse();
     // X' diag(n) X of the scaled columns: serves the singular values and the column diagnostics.
-    const Eigen::MatrixXd gram = symmetricProduct(n.cwiseSqrt().asDiagonal() * xs);
+    d.gram = symmetricProduct(d.n.cwiseSqrt().asDiagonal() * d.xs);
+    return d;
+}
 
-    // Collinearity (always floating: singular values are irrational).
-    Scaled sc;
-    scaledSingularValues(sc, xs, n.cwiseSqrt(), gram, xsInverse ? &*xsInverse : nullptr);
+// X with exact entries, for the exact path.
+RationalMatrix exactDesign(const Scheme &s, int p)
+{
+    const int k = s.levelCount(), m = s.columnCount();
+    const int first = s.intercept ? 1 : 0;
+    RationalMatrix xq(k, p);
+    for (int i = 0; i < k; ++i) {
+        if (s.intercept)
+            xq(i, 0) = 1;
+        for (int j = 0; j < m; ++j)
+            xq(i, j + first) = s.columns[size_t(j)].weights[size_t(i)].rational();
+    }
+    return xq;
+}
+
+// Rank and dependencies: exact elimination on the exact path (which also inverts a square X),
+// column-by-column Gram-Schmidt when the singular values say the design is near singular.
+std::optional<RationalMatrix> rankAndDependencies(Analysis &a, const FloatingDesign &d, const Scaled &sc,
+                                                  const RationalMatrix &xq)
+{
+    const int p = a.coefficientCount;
+    std::optional<RationalMatrix> xInverse;
+    if (a.exact)
+        xInverse = exactRankAndInverse(a, xq);
+    else if (sc.anyZeroColumn || sc.sv(p - 1) <= sc.sv(0) * 1e-10)
+        floatRank(a, d.xs, d.scale); // near-singular: find the dependencies column by column
+    else
+        a.rank = p; // well-conditioned: certainly full rank
+    a.fullRank = a.rank == p;
+    return xInverse;
+}
+
+// Condition number and condition indices from the singular values of the scaled design.
+void conditionFromSingularValues(Analysis &a, const Scaled &sc)
+{
+    const int k = a.levelCount, p = a.coefficientCount;
     const double smax = sc.sv(0);
     const double smin = sc.sv(p - 1);
-
-    RationalMatrix xq;
-    std::optional<RationalMatrix> xInverse;
-    if (a.exact) {
-        xq = RationalMatrix(k, p);
-        for (int i = 0; i < k; ++i) {
-            if (s.intercept)
-                xq(i, 0) = 1;
-            for (int j = 0; j < m; ++j)
-                xq(i, j + (s.intercept ? 1 : 0)) = s.columns[size_t(j)].weights[size_t(i)].rational();
-        }
-        xInverse = exactRankAndInverse(a, xq);
-    } else if (sc.anyZeroColumn || smin <= smax * 1e-10) {
-        floatRank(a, xs, scale); // near-singular: find the dependencies column by column
-    } else {
-        a.rank = p; // well-conditioned: certainly full rank
-    }
-    a.fullRank = a.rank == p;
-    const bool singular = !a.fullRank || sc.anyZeroColumn || smin <= smax * double(std::max(k, p)) * kEps;
+    const double negligible = smax * double(std::max(k, p)) * kEps;
+    const bool singular = !a.fullRank || sc.anyZeroColumn || smin <= negligible;
     if (!singular)
         a.conditionNumber = smax / smin;
     a.conditionIndices.resize(size_t(p));
     for (int i = 0; i < p; ++i) {
         const double sv = sc.sv(p - 1 - i);
-        a.conditionIndices[size_t(i)] = sv > smax * double(std::max(k, p)) * kEps ? smax / sv : std::numeric_limits<double>::infinity();
+        a.conditionIndices[size_t(i)] = sv > negligible ? smax / sv : std::numeric_limits<double>::infinity();
     }
     std::sort(a.conditionIndices.begin(), a.conditionIndices.end());
+}
 
-    // Hypotheses.
+// Exact hypotheses: X^-1 for a square X, else (X'WX)^-1 X'W.
+void exactHypotheses(Analysis &a, const RationalMatrix &xq, const std::optional<RationalMatrix> &xInverse,
+                     const std::vector<Rational> &nq)
+{
+    const int k = a.levelCount, p = a.coefficientCount;
+    RationalMatrix h;
+    if (p == k) {
+        h = *xInverse;
+    } else {
+        RationalMatrix xtw = xq.transposed();
+        for (int r = 0; r < p; ++r)
+            for (int i = 0; i < k; ++i)
+                xtw(r, i) *= nq[size_t(i)];
+        h = *(xtw * xq).inverse() * xtw;
+    }
+    a.hypotheses = toWeights(h);
+}
+
+// Floating hypotheses: LU inverse (square), LDLT of X'WX, or the SVD pseudo-inverse when the
+// scaled design is ill-conditioned. A result that is not finite is reported, not shown.
+void floatingHypotheses(Analysis &a, const FloatingDesign &d, const Scaled &sc)
+{
+    const int k = a.levelCount, p = a.coefficientCount;
+    // For X = Xs S^-1 the hypotheses are S (Xs' W Xs)^-1 Xs' W: rows scaled back below.
+    Eigen::MatrixXd h;
+    if (p == k) {
+        h = *d.xsInverse;
+    } else if (!sc.usedSvd) {
+        const Eigen::MatrixXd xtw = d.xs.transpose() * d.n.asDiagonal();
+        h = (xtw * d.xs).ldlt().solve(xtw);
+    } else {
+        // pinv(diag(sqrt n) X) diag(sqrt n) = D^-1 V S^-1 U' diag(sqrt n), with Z = diag(sqrt n) X D^-1.
+        const Eigen::MatrixXd vs = sc.svd.matrixV() * sc.sv.cwiseInverse().asDiagonal();
+        h = sc.colNorm.cwiseInverse().asDiagonal() * vs * sc.svd.matrixU().transpose() * d.n.cwiseSqrt().asDiagonal();
+    }
+    h = d.scale.asDiagonal() * h;
+    if (h.allFinite()) {
+        a.hypotheses = toWeights(h);
+        return;
+    }
+    // Planned sizes of wildly different magnitudes can make the weighted design singular
+    // to working precision although the coding has full rank: no number is shown.
+    a.fullRank = false;
+    addFinding(a, Finding::Severity::Problem, Finding::Topic::Rank,
+               u"the hypotheses cannot be computed in floating point: weighted by the planned n, the design is "
+               "singular to working precision; use planned sizes of less different magnitudes, or exact weights "
+               "(at most %1 levels)"_s.arg(kExactLevelLimit));
+}
+
+// Each coefficient's hypothesis in symbols, in words and as a combination of level means.
+void hypothesisTexts(Analysis &a, const std::vector<Rational> &nq)
+{
+    const int p = a.coefficientCount;
+    for (QStringList *texts : {&a.hypothesisSymbols, &a.hypothesisWords, &a.hypothesisCombinations})
+        texts->reserve(p);
+    for (int r = 0; r < p; ++r) {
+        const bool isIntercept = a.intercept && r == 0;
+        TextBuilder label;
+        (label << u"b").appendInt(a.intercept ? r : r + 1);
+        const HypothesisText t = describeHypothesis(a.hypotheses[size_t(r)], a.levels, nq, isIntercept, label.view());
+        a.hypothesisSymbols << t.symbols;
+        a.hypothesisWords << t.words;
+        a.hypothesisCombinations << t.combination;
+    }
+}
+
+// The hypotheses each coefficient tests, exactly or in floating point, and their texts;
+// a problem finding instead when the coefficients are not identifiable.
+void impliedHypotheses(Analysis &a, const FloatingDesign &d, const Scaled &sc, const RationalMatrix &xq,
+                       const std::optional<RationalMatrix> &xInverse, const std::vector<Rational> &nq)
+{
+    const int k = a.levelCount, m = a.columnCount, p = a.coefficientCount;
     a.dependsOnSizes = p < k;
     if (!a.fullRank) {
         addFinding(a, Finding::Severity::Problem, Finding::Topic::Rank,
                    u"rank %1 of %2: the coefficients are not identifiable, so no hypotheses can be given. Dependent: %3"_s
                        .arg(a.rank).arg(p).arg(a.dependencies.join(u"; "_s)));
-    } else if (a.exact) {
-        RationalMatrix h;
-        if (p == k) {
-            h = *xInverse;
-        } else {
-            RationalMatrix xtw = xq.transposed();
-            for (int r = 0; r < p; ++r)
-                for (int i = 0; i < k; ++i)
-                    xtw(r, i) *= nq[size_t(i)];
-            h = *(xtw * xq).inverse() * xtw;
-        }
-        a.hypotheses = toWeights(h);
-    } else {
-        // For X = Xs S^-1 the hypotheses are S (Xs' W Xs)^-1 Xs' W: rows scaled back below.
-        Eigen::MatrixXd h;
-        if (p == k) {
-            h = *xsInverse;
-        } else if (!sc.usedSvd) {
-            const Eigen::MatrixXd xtw = xs.transpose() * n.asDiagonal();
-            h = (xtw * xs).ldlt().solve(xtw);
-        } else {
-            // pinv(diag(sqrt n) X) diag(sqrt n) = D^-1 V S^-1 U' diag(sqrt n), with Z = diag(sqrt n) X D^-1.
-            const Eigen::MatrixXd vs = sc.svd.matrixV() * sc.sv.cwiseInverse().asDiagonal();
-            h = sc.colNorm.cwiseInverse().asDiagonal() * vs * sc.svd.matrixU().transpose() * n.cwiseSqrt().asDiagonal();
-        }
-        h = scale.asDiagonal() * h;
-        if (h.allFinite()) {
-            a.hypotheses = toWeights(h);
-        } else {
-            // Planned sizes of wildly different magnitudes can make the weighted design singular
-            // to working precision although the coding has full rank: no number is shown.
-            a.fullRank = false;
-            addFinding(a, Finding::Severity::Problem, Finding::Topic::Rank,
-                       u"the hypotheses cannot be computed in floating point: weighted by the planned n, the design is "
-                       "singular to working precision; use planned sizes of less different magnitudes, or exact weights "
-                       "(at most %1 levels)"_s.arg(kExactLevelLimit));
-        }
+        return;
     }
-    if (a.fullRank) {
-        a.hypothesisValues = toDouble(a.hypotheses);
-        if (a.dependsOnSizes)
-            addFinding(a, Finding::Severity::Caution, Finding::Topic::DependsOnSizes,
-                       u"%1 coding columns for %2 levels: the model is not saturated, so each coefficient is a least-squares "
-                       "combination that depends on the group sizes (here the planned n); with other sizes it tests something else"_s
-                           .arg(m).arg(k));
-        for (QStringList *texts : {&a.hypothesisSymbols, &a.hypothesisWords, &a.hypothesisCombinations})
-            texts->reserve(p);
-        for (int r = 0; r < p; ++r) {
-            const bool isIntercept = s.intercept && r == 0;
-            TextBuilder label;
-            (label << u"b").appendInt(s.intercept ? r : r + 1);
-            const HypothesisText t = describeHypothesis(a.hypotheses[size_t(r)], a.levels, nq, isIntercept, label.view());
-            a.hypothesisSymbols << t.symbols;
-            a.hypothesisWords << t.words;
-            a.hypothesisCombinations << t.combination;
-        }
+    if (a.exact)
+        exactHypotheses(a, xq, xInverse, nq);
+    else
+        floatingHypotheses(a, d, sc);
+    if (!a.fullRank)
+        return;
+    a.hypothesisValues = toDouble(a.hypotheses);
+    if (a.dependsOnSizes)
+        addFinding(a, Finding::Severity::Caution, Finding::Topic::DependsOnSizes,
+                   u"%1 coding columns for %2 levels: the model is not saturated, so each coefficient is a least-squares "
+                   "combination that depends on the group sizes (here the planned n); with other sizes it tests something else"_s
+                       .arg(m).arg(k));
+    hypothesisTexts(a, nq);
+}
+
+} // namespace
+
+QString coefficientLabel(bool intercept, int index, const QString &name)
+{
+    return u"b%1 %2"_s.arg(intercept ? index : index + 1).arg(name);
+}
+
+Analysis analyze(const Scheme &s)
+{
+    Analysis a = namesAndCounts(s);
+    if (QString e = s.validate(); !e.isEmpty()) {
+        addFinding(a, Finding::Severity::Problem, Finding::Topic::Rank, e);
+        return a;
     }
+    chooseArithmetic(a, s);
+    const int m = a.columnCount, p = a.coefficientCount;
+    const std::vector<Rational> nq = s.factor.sizes();
+    const FloatingDesign d = floatingDesign(s, nq, p);
+
+    // Collinearity (always floating: singular values are irrational).
+    Scaled sc;
+    scaledSingularValues(sc, d.xs, d.n.cwiseSqrt(), d.gram, d.xsInverse ? &*d.xsInverse : nullptr);
+
+    const RationalMatrix xq = a.exact ? exactDesign(s, p) : RationalMatrix();
+    const std::optional<RationalMatrix> xInverse = rankAndDependencies(a, d, sc, xq);
+    conditionFromSingularValues(a, sc);
+    impliedHypotheses(a, d, sc, xq, xInverse, nq);
 
     // The scaled inverse gives the VIFs of a square design with an intercept (floating path only).
-    const bool inverseForVif = !a.exact && a.fullRank && s.intercept && p == k && xsInverse && a.conditionNumber
+    const bool inverseForVif = !a.exact && a.fullRank && s.intercept && d.xsInverse && a.conditionNumber
                                && *a.conditionNumber < 1e6;
-    columnDiagnostics(a, s, a.exact, xs.rightCols(m), scale.tail(m), n, gram.bottomRightCorner(m, m),
-                      inverseForVif ? &*xsInverse : nullptr);
-    diagnosticFindings(a, c);
+    columnDiagnostics(a, s, a.exact, d.xs.rightCols(m), d.scale.tail(m), d.n, d.gram.bottomRightCorner(m, m),
+                      inverseForVif ? &*d.xsInverse : nullptr);
+    diagnosticFindings(a, d.c);
     return a;
 }
 

@@ -53,6 +53,9 @@ std::vector<Column> termColumns(const Design &d, const Term &t)
     std::vector<std::vector<int>> choice{{}};
     // Enumerate combinations, the term's first factor slowest.
     std::vector<size_t> idx(d.factors.size(), 0);
+    std::vector<std::vector<int>> levelsOfCells(static_cast<size_t>(cells));
+    for (int cell = 0; cell < cells; ++cell)
+        levelsOfCells[size_t(cell)] = cellLevels(d, cell);
     std::vector<Column> result;
     while (true) {
         Column c;
@@ -60,11 +63,11 @@ std::vector<Column> termColumns(const Design &d, const Term &t)
         QString withinPart;
         c.weights.assign(size_t(cells), Weight(1));
         for (int cell = 0; cell < cells; ++cell) {
-            const std::vector<int> lv = cellLevels(d, cell);
+            const std::vector<int> &lv = levelsOfCells[size_t(cell)];
             Weight w(1);
             for (size_t f = 0; f < d.factors.size(); ++f)
                 w = multiply(w, perFactor[f][idx[f]].weights[size_t(lv[f])]);
-            c.weights[size_t(cell)] = w;
+            c.weights[size_t(cell)] = std::move(w);
         }
         for (size_t f = 0; f < d.factors.size(); ++f) {
             if (int(f) == t.within)
@@ -215,12 +218,11 @@ QString Design::validate() const
             if (!factors[f].factor.name.isEmpty() && factors[f].factor.name == factors[g].factor.name)
                 return u"design.factors[%1]: the name '%2' is used twice; factor names must differ"_s.arg(f).arg(factors[f].factor.name);
     }
-    constexpr int kMaxCells = 4096;
     long long cells = 1;
     for (const Scheme &s : factors)
         cells *= s.levelCount();
     if (cells > kMaxCells)
-        return u"design: %1 cells; at most %2 are supported"_s.arg(cells).arg(kMaxCells);
+        return u"design.factors: %1 cells (the product of the factors' level counts); at most %2 are supported"_s.arg(cells).arg(kMaxCells);
     if (terms.empty())
         return u"design.terms: give at least one term"_s;
     for (size_t t = 0; t < terms.size(); ++t) {
@@ -306,8 +308,7 @@ DesignAnalysis analyzeDesign(const Design &d)
     }
     out.cellScheme = cs.take();
     for (size_t t = 0; t < d.terms.size(); ++t)
-        for (size_t j = 0; j < termColumns(d, d.terms[t]).size(); ++j)
-            out.columnTerm.push_back(int(t));
+        out.columnTerm.insert(out.columnTerm.end(), termColumns(d, d.terms[t]).size(), int(t));
     if (!out.emptyCells.isEmpty()) {
         // Refuse rather than guess: a cell mean with no observations cannot enter any hypothesis.
         out.analysis.levels = out.cells;

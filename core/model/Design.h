@@ -53,8 +53,6 @@ struct Design
     friend bool operator==(const Design &, const Design &) = default;
 };
 
-inline constexpr int kMaxDesignFactors = 3;
-
 // A cell's level index for each factor, and back (A-major: the first factor varies slowest).
 std::vector<int> cellLevels(const Design &design, int cell);
 int cellIndex(const Design &design, const std::vector<int> &levels);

@@ -1,6 +1,7 @@
 #pragma once
 
 #include "core/base/Result.h"
+#include "core/base/Limits.h"
 #include "core/base/Weight.h"
 
 #include <QString>
@@ -38,7 +39,6 @@ struct Factor
 };
 
 inline constexpr int kMinLevels = 2;
-inline constexpr int kMaxLevels = 2000;
 
 // Splits "a, b, c" into trimmed items (used for command-line and pasted lists).
 QStringList splitList(const QString &text, QChar separator = u',');

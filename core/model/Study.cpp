@@ -128,6 +128,10 @@ Result<Study> withFactorAdded(const Study &study)
 {
     if (study.factorCount() >= kMaxDesignFactors)
         return R::failure(QCoreApplication::translate("cb::Study", "Not added: a design crosses at most %1 factors.").arg(kMaxDesignFactors));
+    if (study.design.cellCount() * 2 > kMaxCells)
+        return R::failure(QCoreApplication::translate("cb::Study", "Not added: the design would have %1 cells; at most %2 are supported.")
+                              .arg(study.design.cellCount() * 2)
+                              .arg(kMaxCells));
     Study out = study;
     Design &d = out.design;
     if (!study.isDesign()) {

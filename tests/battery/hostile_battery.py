@@ -9,7 +9,8 @@ JSON type; every numeric option at its extremes; every kind of path (missing, fo
 Checks for every run: no signal (crash), no hang (timeout), exit 0 or 2 only, a message on
 stderr for exit 2 that names its place (the file, the option, the key or the line) and is of a
 readable length, no NaN or infinity in the output, and no silent acceptance: a key of the wrong
-type must be refused.
+type must be refused. At the limits that `analyze --help` states (levels per factor, cells in a
+design) the commands answer; one past each they refuse with exit 2, naming the option or field.
 
 Usage: hostile_battery.py CLI [--list] [--workers N]. Exit 0 when every case passes.
 Standard library only.
@@ -140,8 +141,9 @@ def generic(path):
 
 
 class Case:
-    def __init__(self, name, args, stdin=None, files=None, refuse=False, place=None, kind="option"):
+    def __init__(self, name, args, stdin=None, files=None, refuse=False, place=None, kind="option", accept=False):
         self.name = name
+        self.accept = accept  # must exit 0 (input at a stated limit)
         self.args = args
         self.stdin = stdin
         self.files = files or {}
@@ -219,6 +221,60 @@ def option_cases():
     # Sizes that overflow what the library can evaluate (a noncentrality above 4e9).
     cases.append(Case("power n 1e10", ["power", "--levels", "a,b", "--scheme", "treatment", "--means", "0,1", "--sd", "1", "-n", "1e10,1e10"]))
     cases.append(Case("power alpha 1e-300", ["power", "--levels", "a,b,c", "--scheme", "treatment", "--means", "0,1,2", "--sd", "1", "--total", "100", "--alpha", "1e-300"]))
+    return cases
+
+
+def stated_limits(cli):
+    """The limits as the help states them: (levels per factor, cells in a design)."""
+    text = subprocess.run([cli, "analyze", "--help"], capture_output=True, text=True, timeout=TIMEOUT).stdout
+    text = " ".join(text.split())
+    levels = re.search(r"at most (\d+) levels per factor", text)
+    cells = re.search(r"at most (\d+) cells", text)
+    if not levels or not cells:
+        sys.exit("analyze --help states no limits of levels and cells")
+    return int(levels.group(1)), int(cells.group(1))
+
+
+def limit_cases(tmp, cli):
+    """At each stated limit the commands answer; one past it they refuse, naming the place."""
+    max_levels, max_cells = stated_limits(cli)
+    cases = []
+    for count in (max_levels, max_levels + 1):
+        names = ",".join(f"L{i + 1}" for i in range(count))
+        over = count > max_levels
+        for command in (["analyze"], ["analyze", "--json"], ["export", "--format", "latex", "--matrix", "hypotheses"]):
+            cases.append(Case(f"limit {count} levels ({' '.join(command)})", command + ["--levels", names, "--scheme", "helmert"],
+                              refuse=over, place="--levels" if over else None, accept=not over))
+        if over:
+            cases.append(Case(f"limit {count} levels (design)", ["design", "--levels", names, "--hypotheses", "1,-1" + ",0" * (count - 2)],
+                              refuse=True, place="--levels"))
+            doc = copy.deepcopy(SCHEME)
+            doc["factor"] = {"name": "many", "levels": names.split(",")}
+            doc["scheme"] = {"kind": "treatment"}
+            doc["columns"] = [{"name": f"c{j}", "weights": ["1" if i == j else "0" for i in range(count)]} for j in range(1, count)]
+            path = os.path.join(tmp, "limit-levels.json")
+            cases.append(Case(f"limit {count} levels (scheme file)", ["analyze", "--file", path], files={path: json.dumps(doc)},
+                              refuse=True, place="factor.levels", kind="json"))
+    # Two factors a x b: the largest at the limit with a and b close, then one past the limit.
+    a = 2
+    while (a + 1) * (a + 1) <= max_cells:
+        a += 1
+    for first, second in ((a, max_cells // a), (2, max_cells // 2 + 1)):
+        doc = copy.deepcopy(DESIGN)
+        for f, k in enumerate((first, second)):
+            factor = doc["design"]["factors"][f]
+            factor["factor"]["levels"] = [f"{factor['factor']['name']}{i + 1}" for i in range(k)]
+            factor["scheme"] = {"kind": "sum"}
+            factor["columns"] = [{"name": f"c{j + 1}", "weights": ["1" if i == j else "-1" if i == k - 1 else "0" for i in range(k)]}
+                                 for j in range(k - 1)]
+        doc["design"]["cell_n"] = [str(3 + c % 4) for c in range(first * second)]
+        doc["design"]["terms"] = [{"factors": ["margin"]}, {"factors": ["mowing"]}, {"factors": ["margin", "mowing"]}]
+        over = first * second > max_cells
+        path = os.path.join(tmp, f"limit-cells-{first * second}.json")
+        for command in (["analyze", "--json"], ["export", "--format", "csv", "--matrix", "hypotheses"]):
+            cases.append(Case(f"limit {first * second} cells ({command[0]})", command + ["--file", path],
+                              files={path: json.dumps(doc)}, refuse=over, place="design.factors" if over else None,
+                              kind="json", accept=not over))
     return cases
 
 
@@ -328,6 +384,8 @@ def run(cli, case, tmp):
             return f"the message names no place: {err[:300]}"
     elif case.refuse:
         return "accepted in silence (expected a refusal with exit 2)"
+    if case.accept and p.returncode != 0:
+        return f"refused at a stated limit: {err[:300]}"
     return None
 
 
@@ -337,7 +395,7 @@ def main():
     if "--workers" in sys.argv:
         workers = int(sys.argv[sys.argv.index("--workers") + 1])
     with tempfile.TemporaryDirectory() as tmp:
-        cases = file_cases(tmp) + option_cases() + path_cases(tmp) + data_cases(tmp)
+        cases = file_cases(tmp) + option_cases() + path_cases(tmp) + data_cases(tmp) + limit_cases(tmp, cli)
         if "--list" in sys.argv:
             for c in cases:
                 print(c.name)

@@ -2,6 +2,7 @@
 // simple-effect warnings, term orthogonality, files and errors.
 #include "core/model/Design.h"
 #include "core/files/SchemeFile.h"
+#include "core/model/Study.h"
 
 #include "tests/support/NumpyReference.h"
 
@@ -68,6 +69,7 @@ private slots:
     void olderSingleFactorFilesStillLoad();
     void interactionReadsAsDifferenceOfDifferences();
     void randomDesignsAgreeWithNumpy();
+    void cellsAtAndBeyondTheLimit();
 };
 
 void TestDesign::interactionReadsAsDifferenceOfDifferences()
@@ -303,6 +305,40 @@ void TestDesign::olderSingleFactorFilesStillLoad()
     QVERIFY(!isDesignJson(v1));
     auto s = schemeFromJson(v1, u"old.json"_s);
     QVERIFY2(s.ok(), qPrintable(s.error()));
+}
+
+void TestDesign::cellsAtAndBeyondTheLimit()
+{
+    // core/base/Limits.h: 2 x (kMaxCells / 2) cells are analysed; one more level of the second
+    // factor is refused, naming the field and both numbers.
+    auto design = [](int second) {
+        Design d;
+        for (const int k : {2, second}) {
+            Factor f;
+            f.name = d.factors.empty() ? u"A"_s : u"B"_s;
+            for (int i = 0; i < k; ++i)
+                f.levels << u"%1%2"_s.arg(f.name).arg(i + 1);
+            d.factors.push_back(makeScheme(f, SchemeKind::Sum).take());
+        }
+        d.terms = Design::fullFactorial(2);
+        return d;
+    };
+    const Design at = design(kMaxCells / 2);
+    QCOMPARE(at.validate(), QString());
+    const DesignAnalysis da = analyzeDesign(at);
+    QVERIFY(da.analysis.fullRank);
+    QCOMPARE(da.analysis.levelCount, 2 * (kMaxCells / 2));
+    const Design over = design(kMaxCells / 2 + 1);
+    QCOMPARE(over.validate(), u"design.factors: %1 cells (the product of the factors' level counts); at most %2 are supported"_s
+                                  .arg(2 * (kMaxCells / 2 + 1)).arg(kMaxCells));
+    QVERIFY(!analyzeDesign(over).analysis.fullRank);
+    // The window's "add a factor" doubles the cells: refused when that passes the limit.
+    Study study;
+    study.design = at;
+    auto added = withFactorAdded(study);
+    QVERIFY(!added.ok());
+    QCOMPARE(added.error(), u"Not added: the design would have %1 cells; at most %2 are supported."_s
+                                .arg(2 * at.cellCount()).arg(kMaxCells));
 }
 
 QTEST_GUILESS_MAIN(TestDesign)

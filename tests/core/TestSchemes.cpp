@@ -109,6 +109,7 @@ private slots:
     void roundTripCodingHypothesesCoding();
     void referenceOutOfRange();
     void largeFactorsWork();
+    void levelsBeyondTheLimitAreRefused();
 };
 
 void TestSchemes::levelCounts_data()
@@ -367,16 +368,27 @@ void TestSchemes::referenceOutOfRange()
 
 void TestSchemes::largeFactorsWork()
 {
-    // k = 500 on the floating path: treatment hypotheses are still e_j - e_ref to rounding.
-    const Analysis a = analyzeKind(factorOf(500), SchemeKind::Treatment);
+    // k at the stated limit on the floating path: treatment hypotheses are still e_j - e_ref to rounding.
+    const Analysis a = analyzeKind(factorOf(kMaxLevels), SchemeKind::Treatment);
     QVERIFY(!a.exact);
     QVERIFY(a.fullRank);
-    QCOMPARE(a.hypotheses.size(), size_t(500));
+    QCOMPARE(a.hypotheses.size(), size_t(kMaxLevels));
     QCOMPARE(a.hypothesisSymbols[7], u"b7: mean(L8) - mean(L1) = 0"_s);
-    const Analysis p = analyzeKind(factorOf(500), SchemeKind::Polynomial);
+    const Analysis p = analyzeKind(factorOf(kMaxLevels), SchemeKind::Polynomial);
     QVERIFY(p.fullRank);
     QVERIFY(p.conditionNumber);
     QVERIFY(std::abs(*p.conditionNumber - 1.0) < 1e-8);
+}
+
+void TestSchemes::levelsBeyondTheLimitAreRefused()
+{
+    // One level past core/base/Limits.h: the factor names its field and the limit.
+    QVERIFY(factorOf(kMaxLevels).problem().message.isEmpty());
+    const Problem over = factorOf(kMaxLevels + 1).problem();
+    QCOMPARE(over.field, u"levels"_s);
+    QCOMPARE(over.message, u"at most %1 levels are supported, got %2"_s.arg(kMaxLevels).arg(kMaxLevels + 1));
+    // A standard scheme cannot be made for it either.
+    QVERIFY(!makeScheme(factorOf(kMaxLevels + 1), SchemeKind::Treatment).ok());
 }
 
 QTEST_GUILESS_MAIN(TestSchemes)
