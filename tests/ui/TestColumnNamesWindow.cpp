@@ -10,6 +10,7 @@
 #include "ui/export/ExportDialog.h"
 #include "ui/levels/LevelsModel.h"
 #include "ui/levels/LevelsPanel.h"
+#include "tests/support/ExportedCsv.h"
 #include "tests/support/WindowFixture.h"
 
 #include <QAction>
@@ -220,7 +221,7 @@ void TestColumnNamesWindow::theExportCarriesTheCurrentNames()
     dialog.setFormat(ExportFormat::Csv);
     for (ExportDialog::Matrix matrix : {ExportDialog::Matrix::Coding, ExportDialog::Matrix::Hypotheses}) {
         dialog.setMatrix(matrix);
-        auto table = readCsvTable(dialog.text());
+        auto table = cb::test::readExportedCsv(dialog.text());
         QVERIFY2(table.ok(), qPrintable(table.error()));
         const QStringList expected = matrix == ExportDialog::Matrix::Coding
                                          ? QStringList{u"1/2 (control, low vs mid)"_s, u"1/2 (control vs low)"_s, u"high vs mid"_s}
@@ -234,7 +235,7 @@ void TestColumnNamesWindow::theExportCarriesTheCurrentNames()
     QVERIFY(w.codingPanel()->codingModel()->setHeaderData(2, Qt::Horizontal, u"my top"_s));
     typeColumn(w, 2, {u"0"_s, u"0"_s, u"1"_s, u"1"_s});
     dialog.setMatrix(ExportDialog::Matrix::Coding);
-    QCOMPARE(readCsvTable(dialog.text())->columnNames.last(), u"my top"_s);
+    QCOMPARE(cb::test::readExportedCsv(dialog.text())->columnNames.last(), u"my top"_s);
 }
 
 QTEST_MAIN(TestColumnNamesWindow)

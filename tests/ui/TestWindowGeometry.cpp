@@ -3,6 +3,8 @@
 // screen of that size (tests/ui/screens/). The window is maximised, as a person on a laptop does.
 // With CB_SCREENSHOT_DIR set, each case also saves the window as a PNG there (docs/screenshots/).
 #include "ui/coding/WeightTableModel.h"
+#include "ui/data/DataPanel.h"
+#include "ui/power/PowerPanel.h"
 #include "ui/document/Document.h"
 #include "core/model/Scheme.h"
 #include "core/model/Study.h"
@@ -12,6 +14,8 @@
 #include <QHeaderView>
 #include <QScreen>
 #include <QScrollBar>
+#include <QLineEdit>
+#include <QSignalSpy>
 #include <QTableView>
 #include <QTest>
 
@@ -27,6 +31,7 @@ private slots:
     void gridAndIndicatorRowsVisibleWithoutScrolling_data();
     void gridAndIndicatorRowsVisibleWithoutScrolling();
     void indicatorRowsStayPinnedWhileALongGridScrolls();
+    void keyColumnsOfPowerAndCheckOnDataInView();
 
 private:
     QSize m_screen;
@@ -48,6 +53,30 @@ QString describe(const QTableView *view, const QModelIndex &index)
     return u"%1: row %2, column %3 at (%4,%5 %6x%7) outside the visible %8x%9"_s.arg(view->objectName())
         .arg(index.row()).arg(index.column()).arg(cell.x()).arg(cell.y()).arg(cell.width()).arg(cell.height())
         .arg(port.width()).arg(port.height());
+}
+
+// Is the cell wholly in sight: inside its view and inside every widget around it (a dock's
+// scroll area included), with no scrolling needed?
+bool cellInSight(const QTableView *view, const QModelIndex &index)
+{
+    if (!cellVisible(view, index))
+        return false;
+    const QRect cell = view->visualRect(index);
+    const QWidget *viewport = view->viewport();
+    for (const QWidget *w = viewport->parentWidget(); w; w = w->parentWidget()) {
+        const QRect inW(viewport->mapTo(w, cell.topLeft()), cell.size());
+        if (!w->rect().contains(inW))
+            return false;
+        if (w->isWindow())
+            break;
+    }
+    return true;
+}
+
+// The header text of a column, as a reader sees it.
+QString columnTitle(const QTableView *view, int column)
+{
+    return view->model()->headerData(column, Qt::Horizontal).toString().simplified();
 }
 
 void saveShot(QWidget *window, const QString &name)
@@ -172,6 +201,48 @@ void TestWindowGeometry::indicatorRowsStayPinnedWhileALongGridScrolls()
     QCOMPARE(grid->horizontalScrollBar()->value(), footer->horizontalScrollBar()->value());
     for (int c = 0; c < model->columnCount(); ++c)
         QCOMPARE(footer->columnViewportPosition(c), grid->columnViewportPosition(c));
+}
+
+void TestWindowGeometry::keyColumnsOfPowerAndCheckOnDataInView()
+{
+    // Power at plan (and the n needed), and the fit's p and confidence interval, without sideways scrolling.
+    WindowFixture f;
+    f.window.reset();
+    f.window = std::make_unique<MainWindow>(f.options(30'000));
+    MainWindow &w = *f.window;
+    QVERIFY(w.openDemo(u"irrigation"_s));
+    w.showMaximized();
+    QVERIFY(QTest::qWaitForWindowExposed(&w));
+
+    auto *power = w.findChild<PowerPanel *>();
+    QVERIFY(power);
+    w.findChild<QDockWidget *>(u"powerDock"_s)->raise();
+    power->setExpectedTexts({u"4.1"_s, u"4.9"_s, u"4.7"_s, u"4.5"_s, u"4.4"_s});
+    power->sdEdit()->setText(u"0.5"_s);
+    power->recompute();
+    QTest::qWait(100);
+    QVERIFY(power->report());
+    saveShot(&w, u"window-%1x%2-power"_s.arg(m_screen.width()).arg(m_screen.height()));
+    const QTableView *results = power->resultTable();
+    for (int c : {int(PowerPanel::TestColumn), int(PowerPanel::PowerColumn), int(PowerPanel::NeededColumn)})
+        QVERIFY2(cellInSight(results, results->model()->index(0, c)),
+                 qPrintable(u"Power: column '%1' needs scrolling"_s.arg(columnTitle(results, c))));
+
+    auto *data = w.findChild<DataPanel *>();
+    QVERIFY(data);
+    w.findChild<QDockWidget *>(u"dataDock"_s)->raise();
+    QVERIFY(data->openFile(QStringLiteral(CB_SOURCE_DIR "/docs/examples/irrigation-yields.csv")));
+    data->setColumns(u"schedule"_s, u"yield_kg"_s);
+    QSignalSpy finished(data, &DataPanel::finished);
+    data->readAndFit();
+    QVERIFY(finished.wait(10'000));
+    QVERIFY2(data->fit(), qPrintable(data->message()));
+    QTest::qWait(100);
+    saveShot(&w, u"window-%1x%2-check-on-data"_s.arg(m_screen.width()).arg(m_screen.height()));
+    const QTableView *fit = data->coefficientTable();
+    for (int c : {int(DataPanel::NameColumn), int(DataPanel::EstimateColumn), int(DataPanel::PColumn), int(DataPanel::CiColumn)})
+        QVERIFY2(cellInSight(fit, fit->model()->index(1, c)),
+                 qPrintable(u"Check on data: column '%1' needs scrolling"_s.arg(columnTitle(fit, c))));
 }
 
 QTEST_MAIN(TestWindowGeometry)

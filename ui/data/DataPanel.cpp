@@ -123,9 +123,7 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     , m_unmatched(new QLabel(this))
     , m_message(new QLabel(this))
     , m_summary(new QLabel(this))
-    , m_coefficients(new CellTableModel({tr("Coefficient"), tr("Tests"), tr("Estimate"), tr("From means"), tr("SE"), tr("t"), tr("p"),
-                                         tr("Adjusted p"), tr("Confidence interval")},
-                                        this))
+    , m_coefficients(new CellTableModel(coefficientHeaders(tr("Confidence interval")), this))
     , m_coefficientView(tableView(m_coefficients, this))
     , m_chart(new SmallChart(this))
     , m_problems(look::note({}, this))
@@ -142,6 +140,12 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     updateFactorRows();
 }
 
+// The coefficient table's titles, in CoefficientColumn order; the interval's title says its level.
+QStringList DataPanel::coefficientHeaders(const QString &interval)
+{
+    return {tr("Coefficient"), tr("Estimate"), interval, tr("p"), tr("Adjusted p"), tr("SE"), tr("t"), tr("From means"), tr("Tests")};
+}
+
 void DataPanel::buildTables()
 {
     m_previewView->setObjectName(u"dataPreview"_s);
@@ -152,7 +156,6 @@ void DataPanel::buildTables()
     m_coefficientView->setObjectName(u"fitCoefficients"_s);
     m_coefficientView->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
     m_coefficientView->horizontalHeader()->setStretchLastSection(true);
-    m_coefficientView->horizontalHeader()->setSectionResizeMode(HypothesisColumn, QHeaderView::Interactive);
     m_coefficientView->setTextElideMode(Qt::ElideMiddle);
     m_coefficients->setHeaderToolTip(
         FromMeansColumn,
@@ -530,8 +533,7 @@ void DataPanel::refit()
 void DataPanel::showFit(const FitResult &fit)
 {
     const QString level = QString::number((1.0 - fit.alpha) * 100.0, 'g', 4);
-    m_coefficients->setHeaders({tr("Coefficient"), tr("Tests"), tr("Estimate"), tr("From means"), tr("SE"), tr("t"), tr("p"),
-                                tr("Adjusted p"), tr("%1% interval").arg(level)});
+    m_coefficients->setHeaders(coefficientHeaders(tr("%1% interval").arg(level)));
     TableRows rows;
     for (int i = 0; i < int(fit.coefficients.size()); ++i) {
         const FitCoefficient &c = fit.coefficients[size_t(i)];
@@ -544,13 +546,12 @@ void DataPanel::showFit(const FitResult &fit)
             means.toolTip = tr("The estimate is not this hypothesis applied to the observed means: with these group sizes "
                                "the coefficient tests something else.");
         }
-        rows.push_back({cell(coefficientLabel(fit.intercept, i, c.name), false), hypothesis, cell(number(c.estimate)), means,
-                        cell(number(c.se)), cell(number(c.t, 3)), cell(pValueText(c.p)),
-                        cell(c.inFamily ? pValueText(c.pAdjusted) : tr("not in family")),
-                        cell(u"%1 to %2"_s.arg(number(c.ciLow), number(c.ciHigh)))});
+        rows.push_back({cell(coefficientLabel(fit.intercept, i, c.name), false), cell(number(c.estimate)),
+                        cell(u"%1 to %2"_s.arg(number(c.ciLow), number(c.ciHigh))), cell(pValueText(c.p)),
+                        cell(c.inFamily ? pValueText(c.pAdjusted) : tr("not in family")), cell(number(c.se)),
+                        cell(number(c.t, 3)), means, hypothesis});
     }
     m_coefficients->setRows(std::move(rows));
-    m_coefficientView->setColumnWidth(HypothesisColumn, 220);
 
     QStringList lines;
     for (const QString &line : fitSummaryLines(fit, m_document->isDesign()))

@@ -35,9 +35,11 @@ class DataPanel : public QWidget
     Q_OBJECT
 
 public:
+    // Columns of the coefficient table: the estimate, its interval and p first, so they are in view on a
+    // laptop screen; the hypothesis in words last, where it takes the remaining width.
     enum CoefficientColumn {
-        NameColumn, HypothesisColumn, EstimateColumn, FromMeansColumn, SeColumn, TColumn, PColumn, PAdjustedColumn,
-        CiColumn, CoefficientColumnCount
+        NameColumn, EstimateColumn, CiColumn, PColumn, PAdjustedColumn, SeColumn, TColumn, FromMeansColumn,
+        HypothesisColumn, CoefficientColumnCount
     };
     enum MappingColumn { DataLevelColumn, RowsColumn, SchemeLevelColumn, MappingColumnCount };
 
@@ -70,6 +72,8 @@ public:
 
     // Who answers "which data file?" (the window's prompter; the real dialog by default).
     void setPrompter(Prompter *prompter) { m_prompter = prompter; }
+
+    static QStringList coefficientHeaders(const QString &interval);
 
 signals:
     // A read (and fit) ended, with or without success.

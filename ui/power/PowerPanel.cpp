@@ -119,8 +119,8 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     , m_target(new QLineEdit(u"0.8"_s, this))
     , m_adjustment(new QComboBox(this))
     , m_general(fieldNote(this))
-    , m_results(new CellTableModel({tr("Test"), tr("Estimate \u03c8"), tr("SE"), tr("Std. eff."), tr("df"), tr("Power at plan"),
-                                    tr("n/level for target"), tr("Total N"), tr("vs F test")},
+    , m_results(new CellTableModel({tr("Test"), tr("Power at plan"), tr("n/level for target"), tr("Total N"), tr("Estimate \u03c8"),
+                                    tr("SE"), tr("Std. eff."), tr("df"), tr("vs F test")},
                                    this))
     , m_resultView(new QTableView(this))
     , m_notes(look::note({}, this))
@@ -535,19 +535,20 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
         TableCell versus = cell(c.fewerThanOmnibus ? look::mark(look::State::Good) + tr(" needs fewer") : QString(), false);
         if (c.fewerThanOmnibus)
             versus.ink = look::ink(look::State::Good);
-        table.push_back({test, cell(number(c.estimate)), cell(number(c.se)), cell(number(c.effectSize, 3)),
-                         cell(c.welch ? QString::number(c.df, 'f', 1) : number(c.df, 6)), powerCell(c.power),
-                         cell(c.zeroEstimate ? tr("\u2014 (\u03c8 = 0)") : sizesText(c.required)),
-                         cell(c.required.reachable ? QString::number(c.required.total) : dash()), versus});
+        table.push_back({test, powerCell(c.power), cell(c.zeroEstimate ? tr("\u2014 (\u03c8 = 0)") : sizesText(c.required)),
+                         cell(c.required.reachable ? QString::number(c.required.total) : dash()), cell(number(c.estimate)),
+                         cell(number(c.se)), cell(number(c.effectSize, 3)),
+                         cell(c.welch ? QString::number(c.df, 'f', 1) : number(c.df, 6)), versus});
         if (c.required.reachable)
             curveUpTo = std::max(curveUpTo, *std::min_element(c.required.perLevel.begin(), c.required.perLevel.end()));
     }
     const OmnibusPower &o = report.omnibus;
     TableCell test = cell(tr("All %1 means equal (F test)").arg(report.levelCount), false);
     test.toolTip = o.notes.join(u"\n"_s);
-    std::vector<TableCell> omnibus{test, cell(dash()), cell(dash()), cell(u"f = "_s + number(o.effectSize, 3)),
-                                   cell(u"%1, %2"_s.arg(o.df1).arg(number(o.df2, 6))), powerCell(o.power), cell(sizesText(o.required)),
-                                   cell(o.required.reachable ? QString::number(o.required.total) : dash()), cell({}, false)};
+    std::vector<TableCell> omnibus{test, powerCell(o.power), cell(sizesText(o.required)),
+                                   cell(o.required.reachable ? QString::number(o.required.total) : dash()), cell(dash()), cell(dash()),
+                                   cell(u"f = "_s + number(o.effectSize, 3)), cell(u"%1, %2"_s.arg(o.df1).arg(number(o.df2, 6))),
+                                   cell({}, false)};
     for (TableCell &c : omnibus)
         c.italic = true;
     table.push_back(std::move(omnibus));

@@ -35,8 +35,10 @@ public:
     // Columns of the per-level input table.
     enum InputColumn { LevelColumn, ExpectedColumn, SdColumn, PlannedNColumn, RatioColumn, InputColumnCount };
     // Columns of the result table.
+    // Columns of the result table: what the analyst came for (power, the n needed) first, so it is in
+    // view on a laptop screen; the estimate and its parts after.
     enum ResultColumn {
-        TestColumn, EstimateColumn, SeColumn, EffectColumn, DfColumn, PowerColumn, NeededColumn, NeededTotalColumn,
+        TestColumn, PowerColumn, NeededColumn, NeededTotalColumn, EstimateColumn, SeColumn, EffectColumn, DfColumn,
         VersusOmnibusColumn, ResultColumnCount
     };
     enum class SizeSource { PlannedN, RatiosAndTotal };
