@@ -31,6 +31,7 @@ private slots:
     void gridAndIndicatorRowsVisibleWithoutScrolling_data();
     void gridAndIndicatorRowsVisibleWithoutScrolling();
     void indicatorRowsStayPinnedWhileALongGridScrolls();
+    void titlesThatGrowToTwoLinesKeepEveryRowInView();
     void keyColumnsOfPowerAndCheckOnDataInView();
 
 private:
@@ -201,6 +202,31 @@ void TestWindowGeometry::indicatorRowsStayPinnedWhileALongGridScrolls()
     QCOMPARE(grid->horizontalScrollBar()->value(), footer->horizontalScrollBar()->value());
     for (int c = 0; c < model->columnCount(); ++c)
         QCOMPARE(footer->columnViewportPosition(c), grid->columnViewportPosition(c));
+}
+
+void TestWindowGeometry::titlesThatGrowToTwoLinesKeepEveryRowInView()
+{
+    // The scenario typed into a new study: the generated titles grow to two lines, and the
+    // grid's rows keep the room they need.
+    WindowFixture f;
+    f.window.reset();
+    f.window = std::make_unique<MainWindow>(f.options(30'000));
+    MainWindow &w = *f.window;
+    w.showMaximized();
+    QVERIFY(QTest::qWaitForWindowExposed(&w));
+    QTest::qWait(100);
+    auto *grid = w.findChild<QTableView *>(u"codingGrid"_s);
+    auto *model = qobject_cast<WeightTableModel *>(grid->model());
+    QVERIFY(grid && model && model->weightRowCount() == 4);
+    const QStringList typed[] = {{u"1"_s, u"1"_s, u"-1"_s, u"-1"_s}, {u"1"_s, u"-1"_s, u"0"_s, u"0"_s}};
+    for (int c = 0; c < 2; ++c)
+        for (int r = 0; r < 4; ++r)
+            QVERIFY(model->setData(model->index(r, c), typed[c][r]));
+    QTest::qWait(100);
+    QVERIFY2(model->headerData(0, Qt::Horizontal).toString().contains(u"vs"_s), "the title follows the weights");
+    for (int r = 0; r < 4; ++r)
+        for (int c = 0; c < model->columnCount(); ++c)
+            QVERIFY2(cellVisible(grid, model->index(r, c)), qPrintable(describe(grid, model->index(r, c))));
 }
 
 void TestWindowGeometry::keyColumnsOfPowerAndCheckOnDataInView()

@@ -151,6 +151,9 @@ QWidget *CodingPanel::buildCodingTab()
     connect(m_split, &QSplitter::splitterMoved, this, [this] { m_splitMoved = true; });
     connect(m_pairs, &QAbstractItemModel::modelReset, this, &CodingPanel::fitSplit);
     connect(m_coding, &QAbstractItemModel::modelReset, this, &CodingPanel::fitSplit);
+    // A column title that now takes two lines makes the header taller: the grid's rows keep their room.
+    connect(m_codingView->horizontalHeader(), &QHeaderView::geometriesChanged, this,
+            [this] { QTimer::singleShot(0, this, &CodingPanel::fitSplit); });
 
     auto *layout = new QVBoxLayout(tab);
     layout->setContentsMargins(0, 4, 0, 0);
