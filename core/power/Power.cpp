@@ -347,7 +347,10 @@ std::vector<long long> groupSizesFor(long long smallest, const std::vector<doubl
     for (double r : ratios) {
         // The relative tolerance keeps 3 * (1/3) / (1/3) from rounding up to 4.
         const double exact = double(smallest) * (r / least);
-        out.push_back(std::max(smallest, static_cast<long long>(std::ceil(exact * (1.0 - 1e-12)))));
+        // Ratios far apart (planned n of 1e100 and 1e10) would overflow the integer: such a group
+        // is as large as the search goes, and its power is computed at that size.
+        const double size = std::min(std::ceil(exact * (1.0 - 1e-12)), double(kMaxGroupSize));
+        out.push_back(std::max(smallest, static_cast<long long>(size)));
     }
     return out;
 }

@@ -43,6 +43,8 @@ struct PowerSettings
 
 // Largest group size the sample-size search tries.
 inline constexpr long long kPowerSearchCap = 10'000'000;
+// The largest group size a power computation uses (exactly representable as a double).
+inline constexpr long long kMaxGroupSize = 1'000'000'000'000'000;
 
 // Result of a sample-size search. The search variable is the size of the
 // smallest group; every group is that size times its ratio to the smallest

@@ -6,6 +6,7 @@
 #include "core/export/Export.h"
 #include "core/analysis/HypothesisText.h"
 #include "core/model/Scheme.h"
+#include "core/power/Power.h"
 #include "core/files/SchemeFile.h"
 
 #include "tests/fuzz/FuzzChecks.h"
@@ -55,6 +56,7 @@ private slots:
     void longExactWeightSurvivesSaveAndLoad();
     void wildlyUnequalSizesGiveNoInfiniteHypotheses();
     void exactHypothesisBeyondDoubleRangeIsWrittenInFull();
+    void powerWithPlannedSizesFarApartDoesNotOverflow();
 };
 
 // FuzzCliMatrix: with k coding columns and an intercept for k levels (the indicator coding
@@ -194,4 +196,18 @@ void TestRegression::exactHypothesisBeyondDoubleRangeIsWrittenInFull()
 }
 
 QTEST_GUILESS_MAIN(TestRegression)
+// FuzzCliMatrix (power): planned n of 1e100 and 1e10 made allocation ratios of 1e90, and the
+// sample-size search turned smallest * 1e90 into a long long (undefined behaviour under UBSan).
+// The group sizes now stop at kMaxGroupSize and the command answers.
+void TestRegression::powerWithPlannedSizesFarApartDoesNotOverflow()
+{
+    const std::vector<long long> sizes = groupSizesFor(2, {1e100, 1e10});
+    QCOMPARE(sizes.size(), size_t(2));
+    QCOMPARE(sizes[0], kMaxGroupSize);
+    QCOMPARE(sizes[1], 2LL);
+    const CliRun r = runCli({u"power"_s, u"--levels"_s, u"a,b"_s, u"--n"_s, u"1e100,1e10"_s, u"--means"_s, u"0,1"_s,
+                             u"--scheme"_s, u"treatment"_s, u"--sd"_s, u"1"_s});
+    QVERIFY2(r.code == 0 || r.code == 2, qPrintable(QString::fromUtf8(r.err)));
+}
+
 #include "TestRegression.moc"
