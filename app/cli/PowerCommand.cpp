@@ -190,7 +190,10 @@ QString number(double x)
 
 QString degrees(double df)
 {
-    return df == std::floor(df) ? QString::number(qint64(df)) : QString::number(df, 'f', 2);
+    // Whole degrees of freedom as an integer while one holds them (planned n of 1e100 give df beyond it).
+    if (df == std::floor(df) && std::abs(df) < 1e15)
+        return QString::number(qint64(df));
+    return std::abs(df) < 1e15 ? QString::number(df, 'f', 2) : numberText(df);
 }
 
 QString sizesText(const SampleSize &s)

@@ -198,7 +198,8 @@ void TestRegression::exactHypothesisBeyondDoubleRangeIsWrittenInFull()
 QTEST_GUILESS_MAIN(TestRegression)
 // FuzzCliMatrix (power): planned n of 1e100 and 1e10 made allocation ratios of 1e90, and the
 // sample-size search turned smallest * 1e90 into a long long (undefined behaviour under UBSan).
-// The group sizes now stop at kMaxGroupSize and the command answers.
+// The group sizes now stop at kMaxGroupSize, and the report writes degrees of freedom beyond an
+// integer's range as a number (the report cast them to qint64, found by the same fuzz run).
 void TestRegression::powerWithPlannedSizesFarApartDoesNotOverflow()
 {
     const std::vector<long long> sizes = groupSizesFor(2, {1e100, 1e10});
