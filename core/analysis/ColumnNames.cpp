@@ -51,26 +51,59 @@ Weight sumOf(const std::vector<Weight> &row, const Indices &which)
     return Weight::approx(d);
 }
 
+// The polynomial trends over the positions, unweighted and under the planned n, made once per
+// naming pass and only when a row needs them (they cost O(k^3) for k levels).
+class Trends
+{
+public:
+    explicit Trends(const Scheme &s)
+        : m_scheme(s)
+    {
+    }
+    const std::vector<double> &weights(bool weighted) { return fill(weighted).w; }
+    const std::vector<std::vector<double>> &basis(bool weighted) { return fill(weighted).basis; }
+
+private:
+    struct Set
+    {
+        std::vector<double> w;
+        std::vector<std::vector<double>> basis;
+    };
+    const Set &fill(bool weighted)
+    {
+        std::optional<Set> &set = m_sets[weighted ? 1 : 0];
+        if (!set) {
+            std::vector<double> x;
+            for (const Weight &p : m_scheme.factor.positions())
+                x.push_back(p.value());
+            Set made;
+            made.w = weighted ? m_scheme.factor.sizesAsDouble() : std::vector<double>(x.size(), 1.0);
+            made.basis = floatPolynomialTrends(x, made.w);
+            set = std::move(made);
+        }
+        return *set;
+    }
+    const Scheme &m_scheme;
+    std::optional<Set> m_sets[2];
+};
+
 // "linear", "quadratic", ... when the row is proportional to a polynomial trend over the
 // positions, unweighted or under the planned n (the hypotheses of the polynomial schemes).
-std::optional<QString> trendName(const Scheme &s, const std::vector<double> &r)
+std::optional<QString> trendName(Trends &trends, const std::vector<double> &r)
 {
     const size_t k = r.size();
     if (k < 3)
         return std::nullopt;
-    std::vector<double> x, n = s.factor.sizesAsDouble();
-    for (const Weight &p : s.factor.positions())
-        x.push_back(p.value());
     double rr = 0;
     for (double v : r)
         rr += v * v;
     for (bool weighted : {false, true}) {
-        const std::vector<double> w = weighted ? n : std::vector<double>(k, 1.0);
-        const auto trends = floatPolynomialTrends(x, w);
-        for (size_t d = 0; d < trends.size(); ++d) {
+        const std::vector<double> &w = trends.weights(weighted);
+        const auto &basis = trends.basis(weighted);
+        for (size_t d = 0; d < basis.size(); ++d) {
             double rt = 0, tt = 0;
             for (size_t i = 0; i < k; ++i) {
-                const double t = trends[d][i] * w[i];
+                const double t = basis[d][i] * w[i];
                 rt += r[i] * t;
                 tt += t * t;
             }
@@ -81,7 +114,7 @@ std::optional<QString> trendName(const Scheme &s, const std::vector<double> &r)
     return std::nullopt;
 }
 
-QString hypothesisName(const Scheme &s, const Analysis &a, const std::vector<Weight> &row, int column)
+QString hypothesisName(const Scheme &s, const Analysis &a, const std::vector<Weight> &row, int column, Trends &trends)
 {
     const QStringList &L = s.factor.levels;
     const int k = int(row.size());
@@ -134,7 +167,7 @@ QString hypothesisName(const Scheme &s, const Analysis &a, const std::vector<Wei
     // A polynomial trend before a difference of averages (k = 4: quadratic is ends vs middle),
     // but one level against another stays a difference (k = 3: linear is the last vs the first).
     if (same(total, 0) && !(pos.size() == 1 && neg.size() == 1))
-        if (auto trend = trendName(s, r))
+        if (auto trend = trendName(trends, r))
             return *trend;
     if (same(total, 0) && allEqual) {
         // The difference of two averages, scaled by the positive group's total weight.
@@ -186,16 +219,22 @@ bool sameRow(const std::vector<Weight> &a, const std::vector<Weight> &b)
     return true;
 }
 
-} // namespace
-
-QString generatedColumnName(const Scheme &scheme, const Analysis &analysis, int column)
+QString generatedName(const Scheme &scheme, const Analysis &analysis, int column, Trends &trends)
 {
     if (column < 0 || column >= scheme.columnCount())
         return {};
     if (scheme.kind != SchemeKind::Custom)
         return scheme.columns[size_t(column)].name;
     const std::vector<Weight> *row = hypothesisRow(analysis, column);
-    return row ? hypothesisName(scheme, analysis, *row, column) : u"column %1"_s.arg(column + 1);
+    return row ? hypothesisName(scheme, analysis, *row, column, trends) : u"column %1"_s.arg(column + 1);
+}
+
+} // namespace
+
+QString generatedColumnName(const Scheme &scheme, const Analysis &analysis, int column)
+{
+    Trends trends(scheme);
+    return generatedName(scheme, analysis, column, trends);
 }
 
 bool nameIsStale(const Scheme &scheme, const Analysis &analysis, int column)
@@ -216,6 +255,7 @@ Scheme withCurrentNames(Scheme scheme)
     if (!needed || !scheme.validate().isEmpty())
         return scheme;
     const Analysis a = analyze(scheme);
+    Trends trends(scheme);
     QStringList taken;
     for (const Column &c : scheme.columns)
         if (c.named)
@@ -228,7 +268,7 @@ Scheme withCurrentNames(Scheme scheme)
                     c.namedFor = *row;
             continue;
         }
-        QString name = generatedColumnName(scheme, a, j);
+        QString name = generatedName(scheme, a, j, trends);
         if (taken.contains(name))
             name = u"%1 (%2)"_s.arg(name).arg(j + 1);
         taken << name;

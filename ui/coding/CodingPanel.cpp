@@ -1,4 +1,5 @@
 #include "ui/coding/CodingPanel.h"
+#include "ui/common/WrapLabel.h"
 
 #include "ui/coding/CodingModel.h"
 #include "ui/coding/FooterStrip.h"
@@ -32,7 +33,6 @@ namespace {
 
 void styleNotice(QLabel *label, look::State state)
 {
-    label->setWordWrap(true);
     label->setTextInteractionFlags(Qt::TextSelectableByMouse);
     label->setStyleSheet(u"QLabel { background: %1; color: %2; border-left: 4px solid %2; padding: 5px 8px; }"_s
                              .arg(look::tint(state).name(), look::ink(state).name()));
@@ -49,7 +49,7 @@ CodingPanel::CodingPanel(Document *document, QWidget *parent)
     , m_pairs(new PairsModel(document, this))
     , m_picker(new SchemePicker(document, this))
     , m_tabs(new QTabWidget(this))
-    , m_notice(new QLabel(this))
+    , m_notice(new WrapLabel(this))
 {
     styleNotice(m_notice, look::State::Problem);
     m_tabs->addTab(buildCodingTab(), tr("Coding \u2192 hypotheses"));
@@ -174,7 +174,7 @@ QWidget *CodingPanel::buildHypothesisTab()
     m_hypothesisView->setWeightModel(m_hypotheses);
     m_hypothesisView->setObjectName(u"hypothesisGrid"_s);
     m_hypothesisView->horizontalHeader()->setDefaultSectionSize(150);
-    m_draftNotice = new QLabel(tab);
+    m_draftNotice = new WrapLabel(tab);
     styleNotice(m_draftNotice, look::State::Problem);
     auto *layout = new QVBoxLayout(tab);
     layout->setContentsMargins(0, 4, 0, 0);

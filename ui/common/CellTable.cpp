@@ -1,5 +1,7 @@
 #include "ui/common/CellTable.h"
 
+#include "ui/common/ChangedCells.h"
+
 #include <QComboBox>
 #include <QFont>
 #include <QHeaderView>
@@ -66,20 +68,11 @@ void CellTableModel::setRows(TableRows rows)
         endResetModel();
         return;
     }
-    // Same shape: one dataChanged per row, over the columns from its first to its last change.
-    for (size_t r = 0; r < rows.size(); ++r) {
-        int first = -1, last = -1;
-        for (int c = 0; c < m_columns; ++c)
-            if (!(rows[r][size_t(c)] == m_rows[r][size_t(c)])) {
-                if (first < 0)
-                    first = c;
-                last = c;
-            }
-        if (first < 0)
-            continue;
-        m_rows[r] = std::move(rows[r]);
-        emit dataChanged(index(int(r), first), index(int(r), last));
-    }
+    // Same shape: the views hear of the cells that changed (ui/common/ChangedCells.h).
+    TableRows before = std::exchange(m_rows, std::move(rows));
+    emitChangedCells(this, int(m_rows.size()), m_columns, [&](int r, int c) {
+        return !(m_rows[size_t(r)][size_t(c)] == before[size_t(r)][size_t(c)]);
+    });
 }
 
 int CellTableModel::rowCount(const QModelIndex &parent) const

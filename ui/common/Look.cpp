@@ -1,4 +1,5 @@
 #include "ui/common/Look.h"
+#include "ui/common/WrapLabel.h"
 
 #include <QLabel>
 
@@ -83,8 +84,7 @@ QLabel *caption(const QString &text, QWidget *parent)
 
 QLabel *note(const QString &text, QWidget *parent)
 {
-    auto *l = new QLabel(text, parent);
-    l->setWordWrap(true);
+    auto *l = new WrapLabel(text, parent);
     QPalette p = l->palette();
     p.setColor(QPalette::WindowText, ink(State::Neutral));
     l->setPalette(p);

@@ -1,4 +1,5 @@
 #include "ui/data/DataPanel.h"
+#include "ui/common/WrapLabel.h"
 
 #include "core/base/NumberText.h"
 #include "core/report/FitReport.h"
@@ -120,9 +121,9 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     , m_alpha(new QLineEdit(u"0.05"_s, this))
     , m_mapping(new CellTableModel({tr("Level in the data"), tr("Rows"), tr("Scheme level")}, this))
     , m_mappingView(tableView(m_mapping, this))
-    , m_unmatched(new QLabel(this))
-    , m_message(new QLabel(this))
-    , m_summary(new QLabel(this))
+    , m_unmatched(new WrapLabel(this))
+    , m_message(new WrapLabel(this))
+    , m_summary(new WrapLabel(this))
     , m_coefficients(new CellTableModel(coefficientHeaders(tr("Confidence interval")), this))
     , m_coefficientView(tableView(m_coefficients, this))
     , m_chart(new SmallChart(this))
@@ -207,10 +208,8 @@ QLayout *DataPanel::buildFileColumn()
 // The messages, the fit's summary, its coefficients and what was left out.
 QLayout *DataPanel::buildResultColumn()
 {
-    for (QLabel *l : {m_unmatched, m_message, m_summary}) {
-        l->setWordWrap(true);
+    for (QLabel *l : {m_unmatched, m_message, m_summary})
         l->setTextInteractionFlags(Qt::TextSelectableByMouse);
-    }
     m_message->setObjectName(u"dataMessage"_s);
     m_message->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Problem).name()));
     m_message->hide();

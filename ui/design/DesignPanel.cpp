@@ -1,4 +1,5 @@
 #include "ui/design/DesignPanel.h"
+#include "ui/common/WrapLabel.h"
 
 #include "ui/design/CellPicture.h"
 #include "ui/design/TermModel.h"
@@ -55,8 +56,8 @@ DesignPanel::DesignPanel(Document *document, QWidget *parent)
     , m_cellNote(look::note(QString(), m_designPart))
     , m_columnTitle(look::caption(QString(), m_designPart))
     , m_picture(new CellPicture(m_designPart))
-    , m_hypothesis(new QLabel(m_designPart))
-    , m_findings(new QLabel(m_designPart))
+    , m_hypothesis(new WrapLabel(m_designPart))
+    , m_findings(new WrapLabel(m_designPart))
 {
     setObjectName(u"designPanel"_s);
     buildFactorPart();
@@ -115,7 +116,6 @@ void DesignPanel::buildDesignPart()
 
     design->addWidget(m_columnTitle);
     design->addWidget(m_picture);
-    m_hypothesis->setWordWrap(true);
     m_hypothesis->setTextInteractionFlags(Qt::TextSelectableByMouse);
     design->addWidget(m_hypothesis);
 
@@ -136,7 +136,6 @@ void DesignPanel::buildDesignPart()
 
     design->addWidget(look::caption(tr("Design findings"), m_designPart));
     m_findings->setObjectName(u"designFindings"_s);
-    m_findings->setWordWrap(true);
     m_findings->setTextFormat(Qt::RichText);
     m_findings->setTextInteractionFlags(Qt::TextSelectableByMouse);
     design->addWidget(m_findings);

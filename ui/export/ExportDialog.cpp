@@ -1,4 +1,5 @@
 #include "ui/export/ExportDialog.h"
+#include "ui/common/WrapLabel.h"
 
 #include "ui/document/Document.h"
 #include "ui/common/Look.h"
@@ -37,7 +38,7 @@ ExportDialog::ExportDialog(Document *document, QWidget *parent)
     , m_exact(new QCheckBox(tr("&Exact fractions where the weights are exact"), this))
     , m_variable(new QLineEdit(this))
     , m_preview(new QPlainTextEdit(this))
-    , m_status(new QLabel(this))
+    , m_status(new WrapLabel(this))
     , m_copyButton(new QPushButton(tr("&Copy to clipboard"), this))
     , m_saveButton(new QPushButton(tr("&Save\u2026"), this))
 {
@@ -55,7 +56,6 @@ ExportDialog::ExportDialog(Document *document, QWidget *parent)
     m_preview->setObjectName(u"exportPreview"_s);
     m_preview->setLineWrapMode(QPlainTextEdit::NoWrap);
     m_preview->setFont(QFontDatabase::systemFont(QFontDatabase::FixedFont));
-    m_status->setWordWrap(true);
     m_status->setObjectName(u"exportStatus"_s);
 
     auto *matrixBox = new QVBoxLayout;

@@ -1,4 +1,5 @@
 #include "ui/health/HealthPanel.h"
+#include "ui/common/WrapLabel.h"
 
 #include "ui/common/ColumnStatus.h"
 #include "ui/document/Document.h"
@@ -26,8 +27,7 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
     , m_findingsView(new QListView(this))
 {
     for (QLabel *&l : m_lines) {
-        l = new QLabel(this);
-        l->setWordWrap(true);
+        l = new WrapLabel(this);
         l->setTextFormat(Qt::PlainText);
         l->setTextInteractionFlags(Qt::TextSelectableByMouse);
     }

@@ -1,4 +1,5 @@
 #include "ui/levels/LevelsPanel.h"
+#include "ui/common/WrapLabel.h"
 
 #include "ui/document/Document.h"
 #include "ui/levels/LevelsModel.h"
@@ -28,7 +29,7 @@ LevelsPanel::LevelsPanel(Document *document, QWidget *parent)
     , m_view(new LevelsView(this))
     , m_factorName(new QLineEdit(this))
     , m_notes(new QPlainTextEdit(this))
-    , m_notice(new QLabel(this))
+    , m_notice(new WrapLabel(this))
 {
     m_view->setLevelsModel(m_model);
     m_view->setObjectName(u"levelsTable"_s);
@@ -36,7 +37,6 @@ LevelsPanel::LevelsPanel(Document *document, QWidget *parent)
     m_factorName->setPlaceholderText(tr("name of the factor"));
     m_notes->setObjectName(u"notes"_s);
     m_notes->setPlaceholderText(tr("Notes about the study: what the levels are, why these comparisons\u2026"));
-    m_notice->setWordWrap(true);
     m_notice->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Problem).name()));
     m_notice->hide();
 

@@ -1,4 +1,5 @@
 #include "ui/meaning/MeaningPanel.h"
+#include "ui/common/WrapLabel.h"
 
 #include "ui/document/Document.h"
 #include "ui/common/Look.h"
@@ -17,8 +18,8 @@ MeaningPanel::MeaningPanel(Document *document, QWidget *parent)
     , m_document(document)
     , m_model(new MeaningModel(document, this))
     , m_view(new MeaningList(this))
-    , m_header(new QLabel(this))
-    , m_empty(new QLabel(this))
+    , m_header(new WrapLabel(this))
+    , m_empty(new WrapLabel(this))
 {
     m_view->setObjectName(u"meaningList"_s);
     m_view->setModel(m_model);
@@ -28,8 +29,6 @@ MeaningPanel::MeaningPanel(Document *document, QWidget *parent)
     m_view->setVerticalScrollMode(QAbstractItemView::ScrollPerPixel);
     m_view->setSelectionMode(QAbstractItemView::SingleSelection);
     m_view->setFrameShape(QFrame::NoFrame);
-    m_header->setWordWrap(true);
-    m_empty->setWordWrap(true);
     m_empty->setStyleSheet(u"QLabel { background: %1; color: %2; padding: 6px; }"_s
                                .arg(look::tint(look::State::Problem).name(), look::ink(look::State::Problem).name()));
 

@@ -1,4 +1,5 @@
 #include "ui/power/PowerPanel.h"
+#include "ui/common/WrapLabel.h"
 
 #include "core/base/NumberText.h"
 #include "ui/document/Document.h"
@@ -75,8 +76,7 @@ Result<double> parseScalar(const QLineEdit *edit, const QString &field)
 
 QLabel *fieldNote(QWidget *parent)
 {
-    auto *l = new QLabel(parent);
-    l->setWordWrap(true);
+    auto *l = new WrapLabel(parent);
     l->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Problem).name()));
     l->hide();
     return l;
