@@ -11,6 +11,9 @@
 //     kMaxCells cells. Target: under 2 s (and 1 GiB, measured with /usr/bin/time -v).
 //   UndoHistoryMemory: heap bytes that 500 undo steps hold at k = 50 (each step types a
 //     different cell, so none merge), per step (counter bytes_per_step).
+//   Instructions per edit (tools/edit-cost.sh): with CB_EDIT_COST=models or =paint, the first
+//     EditToPaint benchmark that runs types 20 edits under callgrind's instrumentation (after one
+//     edit to warm up) and exits; callgrind's count does not depend on the machine's load.
 // Runs offscreen (QT_QPA_PLATFORM=offscreen unless set).
 #include "bench/BenchMain.h"
 #include "core/base/Limits.h"
@@ -24,6 +27,11 @@
 #include <QApplication>
 
 #include <malloc.h>
+
+#if __has_include(<valgrind/callgrind.h>)
+#include <valgrind/callgrind.h>
+#define CB_HAVE_CALLGRIND 1
+#endif
 
 using namespace Qt::StringLiterals;
 using namespace cb;
@@ -76,9 +84,34 @@ void editToModels(benchmark::State &state, SchemeKind kind)
     state.counters["exact"] = w.window.document()->analysis().exact ? 1 : 0;
 }
 
+// tools/edit-cost.sh: 20 edits under callgrind's instrumentation, then exit.
+void countEdits(Window &w)
+{
+#ifdef CB_HAVE_CALLGRIND
+    const bool paint = qgetenv("CB_EDIT_COST") == "paint";
+    w.edit(true);
+    QApplication::processEvents();
+    CALLGRIND_ZERO_STATS;
+    CALLGRIND_START_INSTRUMENTATION;
+    for (int i = 0; i < 20; ++i) {
+        w.edit(i % 2 == 0);
+        if (paint)
+            QApplication::processEvents();
+    }
+    CALLGRIND_STOP_INSTRUMENTATION;
+    CALLGRIND_DUMP_STATS_AT("edits");
+#else
+    Q_UNUSED(w);
+    fprintf(stderr, "BenchWindow was built without valgrind/callgrind.h\n");
+#endif
+    std::exit(0);
+}
+
 void editToPaint(benchmark::State &state, SchemeKind kind)
 {
     Window w(int(state.range(0)), kind);
+    if (qEnvironmentVariableIsSet("CB_EDIT_COST"))
+        countEdits(w);
     bool odd = false;
     for (auto _ : state) {
         w.edit(odd = !odd);

@@ -20,7 +20,7 @@ PACKAGES=(
   libbenchmark-dev
   python3-numpy python3-scipy python3-pandas
   clang libclang-rt-14-dev llvm-14
-  xvfb xauth fonts-dejavu-core
+  xvfb xauth fonts-dejavu-core valgrind
   dpkg-dev desktop-file-utils appstream bash-completion shared-mime-info
 )
 
