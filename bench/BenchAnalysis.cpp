@@ -2,6 +2,7 @@
 // orthogonality, texts) per scheme and k. Targets (issue 2): floating path
 // k = 10 < 20 us, k = 50 < 0.5 ms, k = 200 < 10 ms; exact path k <= 20 < 5 ms.
 #include "core/analysis/Analysis.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "bench/BenchMain.h"
 #include "core/base/Limits.h"
 #include "core/export/Export.h"

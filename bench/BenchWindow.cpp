@@ -16,6 +16,7 @@
 //     edit to warm up) and exits; callgrind's count does not depend on the machine's load.
 // Runs offscreen (QT_QPA_PLATFORM=offscreen unless set).
 #include "bench/BenchMain.h"
+#include "core/analysis/Settled.h"
 #include "core/base/Limits.h"
 #include "ui/coding/CodingModel.h"
 #include "ui/coding/CodingPanel.h"

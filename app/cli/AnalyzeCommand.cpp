@@ -1,5 +1,6 @@
 // The analyze and design subcommands.
 #include "app/cli/Commands.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "app/cli/SchemeArguments.h"
 
 #include "core/analysis/Analysis.h"

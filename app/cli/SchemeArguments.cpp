@@ -1,5 +1,7 @@
 #include "app/cli/SchemeArguments.h"
 
+#include "core/files/StudyFile.h"
+#include "core/analysis/Settled.h"
 #include "core/base/Limits.h"
 
 #include "core/files/SchemeFile.h"

@@ -1,6 +1,7 @@
 #pragma once
 
 #include "core/model/Design.h"
+#include "core/files/StudyFile.h"
 #include "core/base/Result.h"
 #include "core/model/Scheme.h"
 #include "core/model/Study.h"

@@ -1,9 +1,8 @@
 #pragma once
 
-#include "core/analysis/Analysis.h"
+#include "core/base/Result.h"
 #include "core/model/Scheme.h"
 
-#include <QJsonObject>
 #include <QString>
 #include <QStringList>
 
@@ -59,30 +58,12 @@ int cellIndex(const Design &design, const std::vector<int> &levels);
 
 QString termName(const Design &design, const Term &term); // "A", "A x B", "A within B"
 
-// What a design implies over the cell means.
-struct DesignAnalysis
-{
-    QStringList cells;
-    QStringList termNames;
-    std::vector<int> columnTerm;  // term index of each coding column
-    Scheme cellScheme;            // the equivalent one-factor scheme over the cells
-    Analysis analysis;            // hypotheses, diagnostics and findings over the cells
-    // term x term: every column of one term orthogonal to every column of the other under the cell n
-    std::vector<std::vector<bool>> termsOrthogonalInDesign;
-    QStringList emptyCells;
-};
-
 // The design as one factor whose levels are the cells, columns the Kronecker products
 // of the factors' codings (C_A (x) C_B ...), with constant vectors for factors not in a term.
 Result<Scheme> cellScheme(const Design &design);
-DesignAnalysis analyzeDesign(const Design &design);
-
-QJsonObject designAnalysisToJson(const Design &design, const DesignAnalysis &analysis);
-
-// Files: version 2 of the scheme format holds designs ("design" object); version 1 files
-// still load (as one-factor schemes, through schemeFromJson).
-QByteArray designToJson(const Design &design);
-Result<Design> designFromJson(const QByteArray &data, const QString &where);
-bool isDesignJson(const QByteArray &data);
+// The columns one term contributes to cellScheme().
+std::vector<Column> termColumns(const Design &design, const Term &term);
+// A factor's name in messages and files, "A", "B", ... when it has none.
+QString factorLabel(const Design &design, int factor);
 
 } // namespace cb

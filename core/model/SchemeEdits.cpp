@@ -1,14 +1,10 @@
 #include "core/model/SchemeEdits.h"
 
-#include "core/analysis/Analysis.h"
-
 #include <algorithm>
 
 using namespace Qt::StringLiterals;
 
 namespace cb::edits {
-
-namespace {
 
 Scheme asCustom(Scheme s)
 {
@@ -16,6 +12,8 @@ Scheme asCustom(Scheme s)
     s.reference = -1;
     return s;
 }
+
+namespace {
 
 // A standard scheme is rebuilt from its definition; a custom one is kept as it is.
 Result<Scheme> settle(Scheme s)
@@ -246,32 +244,6 @@ Result<Scheme> withStandard(const Scheme &scheme, SchemeKind kind, const SchemeO
     // Indicator coding is meant without an intercept; the others keep the user's choice.
     s.intercept = kind == SchemeKind::Indicator ? false : (scheme.kind == SchemeKind::Indicator ? true : scheme.intercept);
     s.notes = scheme.notes;
-    return Result<Scheme>(std::move(s));
-}
-
-Result<Scheme> withHypotheses(const Scheme &scheme, const std::vector<std::vector<Weight>> &coefficientRows)
-{
-    std::optional<std::vector<Weight>> interceptRow;
-    std::vector<std::vector<Weight>> rows = coefficientRows;
-    if (scheme.intercept && !rows.empty()) {
-        interceptRow = rows.front();
-        rows.erase(rows.begin());
-    }
-    auto columns = codingFromHypotheses(scheme.factor, rows, scheme.intercept, interceptRow);
-    if (!columns)
-        return Result<Scheme>::failure(columns.error());
-    Scheme s = asCustom(scheme);
-    std::vector<Column> cols = columns.take();
-    QStringList names;
-    for (size_t j = 0; j < cols.size() && j < scheme.columns.size(); ++j) {
-        const Column &before = scheme.columns[j];
-        names << (cols[j].name = before.name);
-        cols[j].named = before.named;
-        cols[j].namedFor = before.namedFor;
-    }
-    for (size_t j = scheme.columns.size(); j < cols.size(); ++j)
-        names << (cols[j].name = freshName(names, u"comparison"_s));
-    s.columns = std::move(cols);
     return Result<Scheme>(std::move(s));
 }
 

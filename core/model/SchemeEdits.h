@@ -50,12 +50,11 @@ Scheme withNotes(const Scheme &scheme, const QString &notes);
 
 // Replaces the columns with a standard scheme's, keeping levels, sizes, intercept and notes.
 Result<Scheme> withStandard(const Scheme &scheme, SchemeKind kind, const SchemeOptions &options);
-// The coding that tests the given hypotheses (one row of level weights per
-// coefficient, the intercept's first when there is one). Column names (and whether the user
-// gave them) are kept.
-Result<Scheme> withHypotheses(const Scheme &scheme, const std::vector<std::vector<Weight>> &coefficientRows);
+// withHypotheses, the reverse direction's edit, is in core/analysis/HypothesisEdit.h.
 
 // "level 5", "level 6", ... not yet among `taken`.
 QString freshName(const QStringList &taken, const QString &stem);
+// The scheme as a custom one (its kind and reference dropped), weights unchanged.
+Scheme asCustom(Scheme scheme);
 
 } // namespace cb::edits

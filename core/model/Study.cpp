@@ -1,13 +1,8 @@
 #include "core/model/Study.h"
 
 #include "core/model/SchemeEdits.h"
-#include "core/analysis/ColumnNames.h"
-#include "core/files/InputFile.h"
-#include "core/files/SchemeFile.h"
 
 #include <QCoreApplication>
-#include <QJsonDocument>
-#include <QJsonObject>
 
 #include <algorithm>
 #include <map>
@@ -50,7 +45,7 @@ QString factorName(const Design &d, int f)
 
 } // namespace
 
-Study settled(Study study)
+Study consistent(Study study)
 {
     Design &d = study.design;
     if (study.isDesign()) {
@@ -72,9 +67,6 @@ Study settled(Study study)
                 s = next.take();
         }
     }
-    // Names after sizes: what a column tests can depend on the planned n.
-    for (Scheme &s : d.factors)
-        s = withCurrentNames(std::move(s));
     return study;
 }
 
@@ -298,74 +290,6 @@ Result<Study> withCellSize(const Study &study, int cell, const QString &text)
     out.design.cellN[size_t(cell)] = w->rational();
     out.cellSizeNote.clear();
     return R(std::move(out));
-}
-
-QByteArray studyToJson(const Study &study)
-{
-    return study.isDesign() ? designToJson(study.design) : schemeToJson(study.activeScheme());
-}
-
-namespace {
-
-// The rule for files (DEVELOPERS.md, "Columns that contradict their scheme"): a factor whose
-// scheme names a standard kind is coded as that kind says. Its columns are made again from the
-// definition (levels, reference, polynomial options, planned n); the columns written in the
-// file are not read for it. Its intercept and notes stay as written.
-Result<Scheme> codedAsDefined(const Scheme &s, const QString &where, const QString &field)
-{
-    if (s.kind == SchemeKind::Custom)
-        return Result<Scheme>(s);
-    auto made = makeScheme(s.factor, s.kind, schemeOptions(s));
-    if (!made)
-        return Result<Scheme>::failure(u"%1: field '%2': factor '%3' cannot be coded as %4: %5"_s
-                                           .arg(where, field, s.factor.name, schemeId(s.kind), made.error()));
-    Scheme out = made.take();
-    out.intercept = s.intercept;
-    out.notes = s.notes;
-    return Result<Scheme>(std::move(out));
-}
-
-} // namespace
-
-Result<Study> studyFromJson(const QByteArray &data, const QString &where)
-{
-    Study s;
-    if (!isDesignJson(data)) {
-        auto scheme = schemeFromJson(data, where);
-        if (!scheme)
-            return R::failure(scheme.error());
-        s = studyOf(scheme.take());
-    } else {
-        auto design = designFromJson(data, where);
-        if (!design)
-            return R::failure(design.error());
-        s.design = design.take();
-    }
-    for (size_t f = 0; f < s.design.factors.size(); ++f) {
-        const QString field = s.isDesign() ? u"design.factors[%1].scheme.kind"_s.arg(f) : u"scheme.kind"_s;
-        auto coded = codedAsDefined(s.design.factors[f], where, field);
-        if (!coded)
-            return R::failure(coded.error());
-        s.design.factors[f] = coded.take();
-    }
-    return R(settled(std::move(s)));
-}
-
-Result<Study> loadStudy(const QString &path)
-{
-    auto data = readInput(path);
-    if (!data)
-        return R::failure(data.error());
-    return studyFromJson(*data, inputLabel(path));
-}
-
-QString saveStudy(const Study &study, const QString &path)
-{
-    if (!study.isDesign())
-        return saveScheme(study.activeScheme(), path);
-    if (const QString e = study.design.validate(); !e.isEmpty())
-        return u"%1: not saved: %2"_s.arg(path, e);
-    return writeFileAtomically(path, designToJson(study.design));
 }
 
 } // namespace cb

@@ -4,7 +4,6 @@
 #include "core/base/Result.h"
 #include "core/model/Scheme.h"
 
-#include <QByteArray>
 #include <QString>
 
 namespace cb {
@@ -29,9 +28,8 @@ struct Study
 // shares the design's intercept and notes, and a factor's planned n are its levels' totals over
 // the cells (equal when the cells are, or when a level has no planned observations), so its
 // one-factor panels and its n-dependent codings (weighted-effect) read the design's sizes.
-// Every factor's columns that the user has not named take the names of what they test
-// (withCurrentNames, core/analysis/ColumnNames.h).
-Study settled(Study study);
+// settled() (core/analysis/Settled.h) does this and then names the columns.
+Study consistent(Study study);
 
 // Pure edits, like SchemeEdits: each returns the next study or says why not.
 Study studyOf(Scheme scheme);
@@ -52,15 +50,5 @@ Study withEqualCellSizes(const Study &study);
 // interactions, then each factor nested within each other one.
 std::vector<Term> candidateTerms(int factorCount);
 bool sameTerm(const Term &a, const Term &b);
-
-// Files: a design file (format version 2) for two or more factors, a scheme file otherwise.
-QByteArray studyToJson(const Study &study);
-// The one reader of study files, for the window, its recovery file and the command line alike:
-// a scheme file or a design file, every factor with a standard scheme coded as its definition
-// says (the columns written for it are not read; DEVELOPERS.md, "Columns that contradict their
-// scheme"), and settled(). `where` names the source in messages.
-Result<Study> studyFromJson(const QByteArray &data, const QString &where);
-Result<Study> loadStudy(const QString &path);
-QString saveStudy(const Study &study, const QString &path); // error message or empty
 
 } // namespace cb

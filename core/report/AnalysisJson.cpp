@@ -1,6 +1,9 @@
 #include "core/report/AnalysisJson.h"
 
+#include "core/analysis/DesignAnalysis.h"
 #include "core/base/JsonArray.h"
+
+#include <QJsonArray>
 
 using namespace Qt::StringLiterals;
 
@@ -106,6 +109,29 @@ QJsonObject analysisToJson(const Scheme &scheme, const Analysis &a)
     }
     o[u"warnings"_s] = warnings;
     o[u"findings"_s] = findings;
+    return o;
+}
+
+QJsonObject designAnalysisToJson(const Design &d, const DesignAnalysis &da)
+{
+    QJsonObject o = analysisToJson(da.cellScheme, da.analysis);
+    o[u"design"_s] = true;
+    o[u"cells"_s] = QJsonArray::fromStringList(da.cells);
+    QJsonArray factors;
+    for (const Scheme &s : d.factors)
+        factors.append(QJsonObject{{u"name"_s, s.factor.name}, {u"levels"_s, QJsonArray::fromStringList(s.factor.levels)}});
+    o[u"factors"_s] = factors;
+    o[u"terms"_s] = QJsonArray::fromStringList(da.termNames);
+    o[u"column_terms"_s] = jsonArray(da.columnTerm, [&](int t) { return da.termNames[t]; });
+    QJsonArray to;
+    for (const auto &r : da.termsOrthogonalInDesign) {
+        QJsonArray row;
+        for (bool b : r)
+            row.append(b);
+        to.append(row);
+    }
+    o[u"terms_orthogonal_in_design"_s] = to;
+    o[u"empty_cells"_s] = QJsonArray::fromStringList(da.emptyCells);
     return o;
 }
 

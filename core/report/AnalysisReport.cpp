@@ -1,5 +1,6 @@
 #include "core/report/AnalysisReport.h"
 
+#include "core/analysis/DesignAnalysis.h"
 #include "core/base/NumberText.h"
 #include "core/model/Design.h"
 #include "core/report/TextTable.h"

@@ -2,6 +2,8 @@
 // go out of date, and the flag in scheme and design files (old files without it included).
 // The hypothesis rows behind the expected names: tests/python/column_name_hypotheses.py (NumPy).
 #include "core/analysis/ColumnNames.h"
+#include "core/files/StudyFile.h"
+#include "core/analysis/Settled.h"
 #include "core/files/SchemeFile.h"
 #include "core/model/SchemeEdits.h"
 #include "core/model/Study.h"

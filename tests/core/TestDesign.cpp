@@ -1,6 +1,8 @@
 // Crossed and nested factors: Kronecker columns, hypotheses over the cell means,
 // simple-effect warnings, term orthogonality, files and errors.
 #include "core/model/Design.h"
+#include "core/files/StudyFile.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "core/files/SchemeFile.h"
 #include "core/model/Study.h"
 

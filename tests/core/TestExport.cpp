@@ -7,6 +7,7 @@
 // output is lexed by the rules of each language and checked for structure.
 // Golden files: tests/data/golden/ (see README.md there for regenerating).
 #include "core/model/Design.h"
+#include "core/files/StudyFile.h"
 #include "core/export/Export.h"
 #include "core/files/SchemeFile.h"
 #include "core/model/Study.h"

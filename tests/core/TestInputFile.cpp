@@ -1,6 +1,7 @@
 // Tests of the one whole-file reader (core/files/InputFile.h) and of the loaders that use it:
 // every input is read once, as a stream, with the limit kept whatever the file reports.
 #include "core/files/InputFile.h"
+#include "core/files/StudyFile.h"
 #include "core/files/SchemeFile.h"
 #include "core/model/Study.h"
 

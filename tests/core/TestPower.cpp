@@ -1,6 +1,7 @@
 // Tests of power and sample size for planned contrasts (core/Power.h), against
 // Cohen's (1988) tables, SciPy (tests/python/power_check.py) and the defining properties.
 #include "core/analysis/Analysis.h"
+#include "core/files/StudyFile.h"
 #include "core/model/Design.h"
 #include "core/power/Power.h"
 #include "core/model/Scheme.h"

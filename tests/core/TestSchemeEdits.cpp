@@ -1,4 +1,6 @@
 #include "core/analysis/Analysis.h"
+#include "core/analysis/HypothesisEdit.h"
+#include "core/analysis/Settled.h"
 #include "core/model/SchemeEdits.h"
 #include "core/model/Study.h"
 

@@ -1,5 +1,6 @@
 // The scheme file: round trips, every loading error with its message, atomic saving.
 #include "core/files/SchemeFile.h"
+#include "core/files/StudyFile.h"
 #include "core/model/Study.h"
 #include "core/analysis/Adjustment.h"
 #include "core/export/Export.h"

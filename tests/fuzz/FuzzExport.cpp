@@ -3,6 +3,8 @@
 // well formed for its language and show no non-finite number.
 #include "tests/fuzz/FuzzChecks.h"
 
+#include "core/files/StudyFile.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "core/analysis/Analysis.h"
 #include "core/report/AnalysisJson.h"
 #include "core/report/AnalysisReport.h"

@@ -2,6 +2,7 @@
 // crossed factors. Whatever loads must be valid and survive a save and reload.
 #include "tests/fuzz/FuzzChecks.h"
 
+#include "core/files/StudyFile.h"
 #include "core/model/Design.h"
 #include "core/files/SchemeFile.h"
 

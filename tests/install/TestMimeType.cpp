@@ -3,6 +3,7 @@
 // one-factor schemes and designs by their .cbstudy name and, without a known extension, by content,
 // while other JSON stays plain JSON.
 #include "core/files/SchemeFile.h"
+#include "core/files/StudyFile.h"
 #include "core/model/Scheme.h"
 #include "core/model/Study.h"
 

@@ -1,4 +1,5 @@
 #include "ui/design/CellPicture.h"
+#include "core/files/StudyFile.h"
 #include "ui/coding/CodingModel.h"
 #include "ui/coding/CodingPanel.h"
 #include "ui/window/Demos.h"

@@ -3,6 +3,7 @@
 // their scheme, `contrast-bench-cli analyze --json --file F` equals the analysis the window
 // shows after opening F.
 #include "core/model/Study.h"
+#include "core/files/StudyFile.h"
 #include "core/report/AnalysisJson.h"
 #include "ui/document/Document.h"
 #include "tests/support/ProcessRunner.h"

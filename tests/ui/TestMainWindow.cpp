@@ -1,4 +1,5 @@
 #include "ui/coding/CodingModel.h"
+#include "core/files/StudyFile.h"
 #include "ui/coding/CodingPanel.h"
 #include "ui/levels/LevelsModel.h"
 #include "ui/levels/LevelsPanel.h"

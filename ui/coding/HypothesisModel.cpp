@@ -1,5 +1,6 @@
 #include "ui/coding/HypothesisModel.h"
 
+#include "core/analysis/HypothesisEdit.h"
 #include "core/base/NumberText.h"
 #include "ui/common/ColumnStatus.h"
 #include "ui/document/Document.h"

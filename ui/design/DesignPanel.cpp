@@ -1,4 +1,5 @@
 #include "ui/design/DesignPanel.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "ui/common/WrapLabel.h"
 
 #include "ui/design/CellPicture.h"

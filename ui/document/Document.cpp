@@ -1,4 +1,6 @@
 #include "ui/document/Document.h"
+#include "core/analysis/Settled.h"
+#include "core/analysis/DesignAnalysis.h"
 
 #include <QFileInfo>
 

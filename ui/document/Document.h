@@ -1,6 +1,7 @@
 #pragma once
 
 #include "core/analysis/Analysis.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "core/model/Design.h"
 #include "core/model/Scheme.h"
 #include "ui/document/SchemeCommand.h"

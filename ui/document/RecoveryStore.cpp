@@ -1,5 +1,6 @@
 #include "ui/document/RecoveryStore.h"
 
+#include "core/files/StudyFile.h"
 #include "core/files/InputFile.h"
 #include "core/files/SchemeFile.h"
 

@@ -1,5 +1,6 @@
 #include "ui/window/Demos.h"
 
+#include "core/files/StudyFile.h"
 #include "core/model/Study.h"
 
 #include <QCoreApplication>

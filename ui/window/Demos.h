@@ -1,6 +1,7 @@
 #pragma once
 
 #include "core/base/Result.h"
+#include "core/files/StudyFile.h"
 #include "core/model/Study.h"
 
 #include <QList>

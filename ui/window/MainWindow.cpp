@@ -1,5 +1,6 @@
 #include "ui/window/MainWindow.h"
 
+#include "core/files/StudyFile.h"
 #include "ui/coding/CodingPanel.h"
 #include "ui/data/DataPanel.h"
 #include "ui/design/DesignPanel.h"
