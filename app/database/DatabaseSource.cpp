@@ -117,15 +117,17 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
     if (!spec.weightColumn.isEmpty())
         roles.push_back({u"weight"_s, spec.weightColumn, true});
     for (const Role &r : roles) {
-        const int i = columns.indexOf(r.name);
+        qsizetype i = columns.indexOf(r.name);
+        if (i < 0 && l.driver == u"QSQLITE"_s) // Qt's SQLite driver drops the double quotes from column names
+            i = columns.indexOf(QString(r.name).remove(u'"'));
         if (i < 0)
             return R::failure(u"%1: --%2: no column %3; the columns are %4"_s.arg(
                                   place, r.option, quoted(r.name),
                                   columns.isEmpty() ? u"(none)"_s : columns.join(u", "_s)),
                               r.option);
-        if (r.numeric && l.driver != u"QSQLITE"_s && isTextType(record.field(i).metaType()))
+        if (r.numeric && l.driver != u"QSQLITE"_s && isTextType(record.field(int(i)).metaType()))
             return R::failure(u"%1: --%2: column %3 holds %4 values, not numbers; expected a numeric column"_s.arg(
-                                  place, r.option, quoted(r.name), QString::fromLatin1(record.field(i).metaType().name())),
+                                  place, r.option, quoted(r.name), QString::fromLatin1(record.field(int(i)).metaType().name())),
                               r.option);
     }
     // SQLite keeps a value's own type whatever the column says: count the values that are not numbers.
@@ -136,7 +138,7 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
             QSqlQuery check(db);
             check.setForwardOnly(true);
             const QString c = quoteSqlIdentifier(r.name);
-            if (!check.exec(u"SELECT COUNT(*), MIN(%1) FROM %2 WHERE typeof(%1) NOT IN ('integer', 'real', 'null')"_s.arg(
+            if (!check.exec(u"SELECT COUNT(*), MAX(%1) FROM %2 WHERE typeof(%1) NOT IN ('integer', 'real', 'null')"_s.arg(
                     c, quoteSqlIdentifier(spec.table)))
                 || !check.next())
                 return R::failure(u"%1: cannot check column %2: %3"_s.arg(place, quoted(r.name), engineText(check.lastError())));
