@@ -126,8 +126,8 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
                                   columns.isEmpty() ? u"(none)"_s : columns.join(u", "_s)),
                               r.option);
         if (r.numeric && l.driver != u"QSQLITE"_s && isTextType(record.field(int(i)).metaType()))
-            return R::failure(u"%1: --%2: column %3 holds %4 values, not numbers; expected a numeric column"_s.arg(
-                                  place, r.option, quoted(r.name), QString::fromLatin1(record.field(int(i)).metaType().name())),
+            return R::failure(u"%1: --%2: column %3 holds text, not numbers; expected a numeric column"_s.arg(
+                                  place, r.option, quoted(r.name)),
                               r.option);
     }
     // SQLite keeps a value's own type whatever the column says: count the values that are not numbers.

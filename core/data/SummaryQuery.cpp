@@ -97,6 +97,14 @@ Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
             parts << u"CAST(%1 AS VARCHAR(1000))"_s.arg(col(alias, f));
         return parts.join(u" || '%1' || "_s.arg(cellJoiner()));
     };
+    // Rows are grouped and joined by the factor columns themselves; only each group's level is
+    // written as text (a cast per row would cost as much as the rest of the query).
+    QStringList keys, keyAliases, joins;
+    for (qsizetype i = 0; i < spec.factorColumns.size(); ++i) {
+        keys << col(u"d"_s, spec.factorColumns[i]);
+        keyAliases << u"%1 AS \"k%2\""_s.arg(keys.back(), QString::number(i + 1));
+        joins << u"p.\"k%1\" = %2"_s.arg(QString::number(i + 1), keys.back());
+    }
     QStringList conditions;
     for (const QString &f : spec.factorColumns)
         conditions << col(u"d"_s, f) + u" IS NOT NULL"_s;
@@ -118,7 +126,7 @@ Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
                "  VAR_SAMP(%2) AS \"variance\"\n"
                "FROM %3 AS d\n"
                "WHERE %4\n"
-               "GROUP BY %5"_s.arg(level(u"d"_s), y, table, where, level(u"d"_s));
+               "GROUP BY %5"_s.arg(level(u"d"_s), y, table, where, keys.join(u", "_s));
     } else {
         // n, the sum of the deviations from the centre and of their squares; then
         // mean = c + S1/n and variance = (S2 - S1^2/n)/(n - 1) (corrected two-pass form).
@@ -128,23 +136,25 @@ Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
         const QString s1 = weighted ? u"SUM(%1 * %2)"_s.arg(w, dev) : u"SUM(%1)"_s.arg(dev);
         const QString s2 = weighted ? u"SUM(%1 * %2 * %2)"_s.arg(w, dev) : u"SUM(%1 * %1)"_s.arg(dev);
         QString from = u"%1 AS d"_s.arg(table);
-        QString groupBy = level(u"d"_s);
+        QString groupBy = keys.join(u", "_s);
         if (!spec.centre) {
-            // The first pass: each level's mean, the centre of its second pass.
-            QString firstN = weighted ? u"SUM(%1)"_s.arg(w) : u"COUNT(*)"_s;
-            QString firstSum = weighted ? u"SUM(%1 * %2)"_s.arg(w, y) : u"SUM(%1)"_s.arg(y);
+            // The first pass: each level's midrange, half-way between its smallest and largest
+            // value, the centre of its second pass. Not the mean: a parallel engine may compute
+            // a sum in each worker in its own order, and a centre must be the same number in
+            // every row of a level; MIN and MAX are exact. The mean lies within half the range.
+            const QString firstValue = u"CAST(MIN(%1) AS DOUBLE PRECISION) / 2 + CAST(MAX(%1) AS DOUBLE PRECISION) / 2"_s.arg(y);
             // Named so as not to hide the table itself.
             const QString centres = quoteSqlIdentifier(spec.table == u"cb_level_centres"_s ? u"cb_level_centres_2"_s
                                                                                           : u"cb_level_centres"_s);
-            body = u"WITH %6 AS (\n"
-                   "  SELECT %1 AS \"level\", CAST(%2 AS DOUBLE PRECISION) / %3 AS \"centre\"\n"
-                   "  FROM %4 AS d\n"
-                   "  WHERE %5\n"
-                   "  GROUP BY %1\n"
-                   ")\n"_s.arg(level(u"d"_s), firstSum, firstN, table, where, centres);
-            from += u"\n  JOIN %1 AS p ON p.\"level\" = %2"_s.arg(centres, level(u"d"_s));
+            body = u"WITH %5 AS (\n"
+                   "  SELECT %1, %2 AS \"centre\"\n"
+                   "  FROM %3 AS d\n"
+                   "  WHERE %4\n"
+                   "  GROUP BY %6\n"
+                   ")\n"_s.arg(keyAliases.join(u", "_s), firstValue, table, where, centres, keys.join(u", "_s));
+            from += u"\n  JOIN %1 AS p ON %2"_s.arg(centres, joins.join(u" AND "_s));
             groupBy += u", p.\"centre\""_s;
-            q.formNote = u"variance: centred form, sums of squares about each level's mean from a first pass "
+            q.formNote = u"variance: centred form, sums of squares about each level's midrange from a first pass "
                          "(accurate when the mean is large relative to the SD)"_s;
         } else {
             q.formNote = u"variance: centred form, sums of squares about the constant %1 (accurate when the level "

@@ -20,8 +20,9 @@ namespace cb {
 
 // How the query computes the variance.
 enum class VarianceForm {
-    // Sums of squares about a centre subtracted first: each level's own mean from a first pass
-    // (a WITH clause) or a constant the user gives. Stays accurate when the mean is large
+    // Sums of squares about a centre subtracted first: each level's own midrange from a first
+    // pass (a WITH clause; MIN and MAX are exact, so every row of a level sees the same centre
+    // even when a parallel engine computes the pass in several workers) or a constant the user gives. Stays accurate when the mean is large
     // relative to the SD (the corrected two-pass formula, Chan, Golub & LeVeque 1983,
     // Am. Statistician 37:242-247). Standard SQL that every engine runs (SQLite included).
     Centred,

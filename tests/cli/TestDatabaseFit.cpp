@@ -119,7 +119,7 @@ private slots:
         const ProcessRun query = runCli({u"export"_s, u"--format"_s, u"sql-summary"_s, u"--table"_s, u"trial"_s,
                                          u"--factor"_s, u"arm"_s, u"--response"_s, u"score"_s});
         QVERIFY2(query.exitCode == 0, qPrintable(query.errText()));
-        QVERIFY(query.outText().contains(u"-- variance: centred form, sums of squares about each level's mean from a first pass"_s));
+        QVERIFY(query.outText().contains(u"-- variance: centred form, sums of squares about each level's midrange from a first pass"_s));
         QByteArray summary = "level,n,mean,variance\n";
         {
             QSqlDatabase db = QSqlDatabase::addDatabase(u"QSQLITE"_s, u"byhand"_s);
