@@ -72,4 +72,8 @@ using SummaryRowSource = std::function<Result<std::vector<SummaryRow>>(const Sum
 Result<DataSummary> summaryFromSource(const SummaryQuerySpec &spec, const SummaryRowSource &source,
                                       const QString &sourceName);
 
+// What the programs hand the window: reads the summary of a table in the database at url
+// (app/database's readDatabaseSummary). The window itself never links a database driver.
+using DatabaseReader = std::function<Result<DataSummary>(const QString &url, const SummaryQuerySpec &spec)>;
+
 } // namespace cb
