@@ -143,7 +143,8 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
                 || !check.next())
                 return R::failure(u"%1: cannot check column %2: %3"_s.arg(place, quoted(r.name), engineText(check.lastError())));
             if (const qint64 bad = check.value(0).toLongLong(); bad > 0)
-                return R::failure(u"%1: --%2: column %3 has %4 values that are not numbers (such as %5); expected numbers"_s.arg(
+                return R::failure(u"%1: --%2: column %3 holds %4 values as text, not numbers (such as %5); expected numbers (give the column "
+                                    "a numeric type, REAL or INTEGER, and load the values again)"_s.arg(
                                       place, r.option, quoted(r.name), QString::number(bad),
                                       quoted(check.value(1).toString())),
                                   r.option);

@@ -198,7 +198,7 @@ private slots:
         QTest::newRow("missing column") << good << QStringList{u"--table"_s, u"trial"_s, u"--factor"_s, u"arm"_s, u"--response"_s, u"Score"_s, u"--levels"_s, u"a,b"_s, u"--scheme"_s, u"treatment"_s}
                                         << u"%1, table 'trial': --response: no column 'Score'; the columns are arm, score, note"_s.arg(good);
         QTest::newRow("non-numeric response") << good << QStringList{u"--table"_s, u"trial"_s, u"--factor"_s, u"arm"_s, u"--response"_s, u"note"_s, u"--levels"_s, u"a,b"_s, u"--scheme"_s, u"treatment"_s}
-                                              << u"%1, table 'trial': --response: column 'note' has 3 values that are not numbers (such as 'fine'); expected numbers"_s.arg(good);
+                                              << u"%1, table 'trial': --response: column 'note' holds 3 values as text, not numbers (such as 'fine'); expected numbers"_s.arg(good);
         QTest::newRow("empty result") << good << QStringList{u"--table"_s, u"empty"_s} + cols
                                       << u"%1, table 'empty': the summary query returned no rows"_s.arg(good);
         QTest::newRow("level missing from the data") << good << QStringList{u"--table"_s, u"trial"_s, u"--factor"_s, u"arm"_s, u"--response"_s, u"score"_s, u"--levels"_s, u"a,b,c"_s, u"--scheme"_s, u"treatment"_s}
