@@ -2,6 +2,7 @@
 // same rows written as CSV; hostile names stay inert; the file is never written; every failure
 // gives a message naming the place; the centred form stays accurate far from zero (NumPy's
 // var with ddof=1 via tests/python/sample_variance.py is the reference).
+#include "app/database/DatabaseSource.h"
 #include "tests/support/DatabaseTestSupport.h"
 #include "tests/support/FitTestSupport.h"
 #include "tests/support/ProcessRunner.h"
@@ -12,6 +13,7 @@
 #include <QTest>
 
 using namespace Qt::StringLiterals;
+using namespace cb;
 using namespace cb::test;
 
 namespace {
@@ -174,6 +176,16 @@ private slots:
         db.close();
         db = QSqlDatabase();
         QSqlDatabase::removeDatabase(u"hostile-check"_s);
+        // The connection itself cannot write: a statement that tries is refused by the engine.
+        SummaryQuerySpec spec;
+        spec.table = u"keep"_s;
+        spec.responseColumn = u"a"_s; // the probe checks it; the statement below is what runs
+        const auto location = parseDatabaseUrl(u"sqlite://"_s + path);
+        QVERIFY(location.ok());
+        const auto refused = databaseRowSource(*location)(spec, SummaryQuery{u"INSERT INTO keep VALUES (4)"_s, {}});
+        QVERIFY(!refused.ok());
+        QVERIFY2(refused.error().contains(u"readonly"_s), qPrintable(refused.error()));
+        QCOMPARE(fileHash(path), before);
         // The printed query quotes each name as one identifier.
         const ProcessRun query = runCli({u"export"_s, u"--format"_s, u"sql-summary"_s, u"--table"_s, table, u"--factor"_s,
                                          columns[0], u"--response"_s, columns[1]});

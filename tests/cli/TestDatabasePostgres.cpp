@@ -4,6 +4,7 @@
 // The engine's summary of 10^6 rows, fitted, equals fit --data on the same rows copied out as CSV
 // to 1e-9 (both variance forms); the password comes from PGPASSWORD or a password file only;
 // hostile names stay inert; failures name the place. Missing server programs fail the test.
+#include "app/database/DatabaseSource.h"
 #include "tests/support/DatabaseTestSupport.h"
 #include "tests/support/FitTestSupport.h"
 #include "tests/support/ProcessRunner.h"
@@ -258,6 +259,17 @@ private slots:
                                                    u"--json"_s});
         QVERIFY2(run.exitCode == 0, qPrintable(run.errText()));
         QCOMPARE(jsonOf(run.out)[u"n"_s].toDouble(), 300.0);
+        // The session itself cannot write: a statement that tries is refused by the server.
+        qputenv("PGPASSWORD", kPassword.toUtf8());
+        cb::SummaryQuerySpec spec;
+        spec.table = u"keep"_s;
+        spec.responseColumn = u"a"_s; // the probe checks it; the statement below is what runs
+        const auto location = cb::parseDatabaseUrl(url());
+        QVERIFY(location.ok());
+        const auto refused = cb::databaseRowSource(*location)(spec, cb::SummaryQuery{u"INSERT INTO keep VALUES (4)"_s, {}});
+        qunsetenv("PGPASSWORD");
+        QVERIFY(!refused.ok());
+        QVERIFY2(refused.error().contains(u"read-only transaction"_s), qPrintable(refused.error()));
         QSqlQuery q(db);
         QVERIFY(q.exec(u"SELECT COUNT(*) FROM keep"_s) && q.next());
         QCOMPARE(q.value(0).toInt(), 3);
