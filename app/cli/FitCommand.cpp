@@ -1,6 +1,8 @@
 // The fit subcommand: a scheme fitted to a data file, estimates beside their hypotheses.
 #include "app/cli/Commands.h"
 #include "app/cli/SchemeArguments.h"
+#include "app/cli/SummaryQueryArguments.h"
+#include "app/database/DatabaseSource.h"
 
 #include "core/data/DataFit.h"
 #include "core/data/DataReader.h"
@@ -28,6 +30,10 @@ int badInput(Io &io, const QString &message)
 void addDataOptions(QCommandLineParser &p)
 {
     p.addOption({u"data"_s, u"The data file: CSV or TSV in long format, or '-' for standard input."_s, u"file"_s});
+    p.addOption({u"database"_s, u"Read the data from a database instead: sqlite:///path/to/file.db, "
+                               "postgresql://user@host:5432/dbname (the password from PGPASSWORD or ~/.pgpass) or odbc:DSN. "
+                               "The engine summarises the table (--table) per level in one SELECT, read-only."_s,
+                 u"URL"_s});
     p.addOption({u"factor"_s, u"The data column that holds the levels (name, or number from 1). For a design file, "
                              "once per factor in the design's order (default: columns named as the factors)."_s, u"COL"_s});
     p.addOption({u"response"_s, u"The data column that holds the measurements (name, or number from 1)."_s, u"COL"_s});
@@ -39,6 +45,7 @@ void addDataOptions(QCommandLineParser &p)
     p.addOption({u"alpha"_s, u"Confidence intervals at 1 - alpha (default 0.05)."_s, u"a"_s});
     p.addOption({u"adjust"_s, u"Adjust the contrasts' p-values: %1 (default none)."_s.arg(adjustmentIdList(false)), u"METHOD"_s});
     p.addOption({u"json"_s, u"Print one JSON object instead of the report."_s});
+    addSummaryQueryOptions(p);
 }
 
 struct DataArguments
@@ -53,8 +60,20 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
 {
     using R = Result<DataArguments>;
     DataArguments a;
-    if (!p.isSet(u"data"_s))
-        return R::failure(u"--data: no data file given; name a CSV or TSV file, or '-' for standard input"_s);
+    if (p.isSet(u"data"_s) && p.isSet(u"database"_s))
+        return R::failure(u"--data and --database: give one source of data"_s);
+    if (!p.isSet(u"data"_s) && !p.isSet(u"database"_s))
+        return R::failure(u"--data: no data file given; name a CSV or TSV file, or '-' for standard input (or give "
+                          "--database)"_s);
+    if (p.isSet(u"database"_s)) {
+        for (const QString &o : {u"summary"_s, u"delimiter"_s, u"header"_s})
+            if (p.isSet(o))
+                return R::failure(u"--%1 cannot be combined with --database; the engine returns the summary itself"_s.arg(o));
+    } else {
+        for (const QString &o : summaryQueryOnlyOptions())
+            if (p.isSet(o))
+                return R::failure(u"--%1 is read only with --database"_s.arg(o));
+    }
     if (!p.isSet(u"summary"_s)) {
         // --factor is checked with the scheme: a design's columns default to its factors' names.
         if (p.value(u"response"_s).trimmed().isEmpty())
@@ -103,6 +122,12 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
 // factorColumns: one per factor (a design's cells are the joined values, "grass·early").
 Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a, const QStringList &factorColumns)
 {
+    if (p.isSet(u"database"_s)) {
+        auto spec = summaryQuerySpec(p, factorColumns);
+        if (!spec)
+            return Result<DataSummary>::failure(spec.error(), spec.field());
+        return readDatabaseSummary(p.value(u"database"_s), *spec);
+    }
     if (p.isSet(u"summary"_s))
         return readSummaryTable(p.value(u"data"_s), SummaryReadOptions{a.delimiter, a.header});
     DataReadOptions o;

@@ -3,8 +3,10 @@
 //   contrast-bench --demo irrigation
 //   contrast-bench --screenshot out.png [--demo NAME] [--size WxH] [file]
 
+#include "app/database/DatabaseSource.h"
 #include "core/base/AllocatorTuning.h"
 #include "core/base/Version.h"
+#include "ui/data/DataPanel.h"
 #include "ui/window/Demos.h"
 #include "ui/window/MainWindow.h"
 
@@ -55,6 +57,8 @@ int main(int argc, char *argv[])
     QElapsedTimer clock;
     clock.start();
     cb::tuneAllocatorForRepeatedAnalyses(); // every edit reruns the analysis
+    // Check on data reads databases through app/database (Qt SQL); the window never links it.
+    cb::DataPanel::setDefaultDatabaseReader(cb::readDatabaseSummary);
 
     // A screenshot is rendered offscreen unless a platform was chosen explicitly; help and
     // version need no display either.

@@ -80,6 +80,49 @@ QString DataSummary::skippedReport() const
     return text;
 }
 
+QString addSummaryRow(DataSummary &summary, const SummaryRow &row)
+{
+    const QString what = row.spreadIsVariance ? u"variance"_s : u"sd"_s;
+    if (row.level.trimmed().isEmpty())
+        return u"%1: the level name is empty"_s.arg(row.place);
+    if (summary.levelIndex(row.level) >= 0)
+        return u"%1: level %2 appears twice; give one row per level"_s.arg(row.place, quoted(row.level));
+    if (!std::isfinite(row.n) || row.n <= 0)
+        return u"%1: n %2 is not positive; expected a positive number"_s.arg(row.place, quoted(QString::number(row.n, 'g', 17)));
+    if (!std::isfinite(row.mean))
+        return u"%1: mean %2 is not finite; expected a number"_s.arg(row.place, quoted(QString::number(row.mean, 'g', 17)));
+    if (!row.spread && row.n > 1.0)
+        return u"%1: %2 is missing; expected a number >= 0 (it may be left empty only when n is 1)"_s.arg(row.place, what);
+    const double spread = row.spread.value_or(0.0);
+    if (!std::isfinite(spread) || spread < 0)
+        return u"%1: %2 %3 is negative; expected a number >= 0 (it may be left empty only when n is 1)"_s.arg(
+            row.place, what, quoted(QString::number(spread, 'g', 17)));
+    RunningStats stats = RunningStats::fromSummary(row.n, row.mean, row.spreadIsVariance ? 0.0 : spread);
+    if (row.spreadIsVariance && row.n > 1.0)
+        stats.m2 = spread * (row.n - 1.0);
+    summary.levels.push_back({row.level, stats});
+    ++summary.usedRows;
+    return {};
+}
+
+Result<DataSummary> summaryFromRows(const std::vector<SummaryRow> &rows, const QString &sourceName)
+{
+    DataSummary summary;
+    summary.source = sourceName;
+    summary.fromSummaryTable = true;
+    summary.hasHeader = true;
+    summary.columns = {u"level"_s, u"n"_s, u"mean"_s, u"variance"_s};
+    summary.factorIndex = 0;
+    for (const SummaryRow &row : rows) {
+        ++summary.records;
+        if (QString e = addSummaryRow(summary, row); !e.isEmpty())
+            return Result<DataSummary>::failure(e);
+    }
+    if (summary.levels.empty())
+        return Result<DataSummary>::failure(u"%1 has no rows; expected one row per level"_s.arg(sourceName));
+    return summary;
+}
+
 int DataSummary::levelIndex(const QString &name) const
 {
     for (size_t i = 0; i < levels.size(); ++i)
@@ -1379,6 +1422,8 @@ private:
             QStringList{u"mean"_s, u"average"_s, u"avg"_s},
             QStringList{u"sd"_s, u"stdev"_s, u"std"_s, u"sdev"_s, u"std.dev"_s, u"standard deviation"_s, u"s"_s},
         };
+        // The spread may be given as a variance instead (what the summary query returns).
+        static const QStringList varianceNames = {u"variance"_s, u"var"_s};
         const SlowRecord &first = m_start.m_first;
         if (first.count < 4)
             return u"%1 line %2: %3 columns; a summary table needs four: level, n, mean, sd"_s
@@ -1398,9 +1443,14 @@ private:
                 for (int i = 0; i < m_out.columns.size() && m_index[role] < 0; ++i)
                     if (names[role].contains(m_out.columns[i].trimmed().toLower()))
                         m_index[role] = i;
+                for (int i = 0; role == 3 && i < m_out.columns.size() && m_index[role] < 0; ++i)
+                    if (varianceNames.contains(m_out.columns[i].trimmed().toLower())) {
+                        m_index[role] = i;
+                        m_variance = true;
+                    }
                 if (m_index[role] < 0)
                     return u"%1 line %2: no '%3' column in the header (%4); a summary table needs columns named "
-                           "level, n, mean and sd"_s.arg(m_start.m_label)
+                           "level, n, mean and sd (or variance)"_s.arg(m_start.m_label)
                         .arg(m_start.m_line)
                         .arg(names[role].first(), joinColumns(m_out.columns));
             }
@@ -1436,10 +1486,7 @@ private:
         const auto name = decodeUtf8(trimmed(m_record.field(m_index[0])));
         if (!name)
             return u"%1 line %2: the level name is not valid UTF-8; save the file as UTF-8"_s.arg(label).arg(line);
-        if (name->isEmpty())
-            return u"%1 line %2: the level name is empty"_s.arg(label).arg(line);
-        if (m_out.levelIndex(*name) >= 0)
-            return u"%1 line %2: level %3 appears twice; give one row per level"_s.arg(label).arg(line).arg(quoted(*name));
+        const QString place = u"%1 line %2"_s.arg(label).arg(line);
         const auto number = [&](size_t role) { return parseNumberField(m_record.field(m_index[role])); };
         const std::optional<double> n = number(1);
         if (!n || *n <= 0)
@@ -1451,19 +1498,15 @@ private:
             return u"%1 line %2: mean %3; expected a number"_s.arg(label).arg(line).arg(
                 numberProblem(m_record.field(m_index[2]), m_out.delimiter));
         const std::string_view sdText = m_record.field(m_index[3]);
-        std::optional<double> sd = parseNumberField(sdText);
-        if (!sd && isMissingToken(sdText) && *n <= 1.0)
-            sd = 0.0;
-        if (!sd || *sd < 0)
-            return u"%1 line %2: sd %3; expected a number >= 0 (it may be left empty only when n is 1)"_s.arg(label)
-                .arg(line)
-                .arg(sd ? quoteText(trimmed(sdText)) + u" is negative"_s : numberProblem(sdText, m_out.delimiter));
-        m_out.levels.push_back({*name, RunningStats::fromSummary(*n, *mean, *sd)});
-        ++m_out.usedRows;
-        return {};
+        const std::optional<double> sd = parseNumberField(sdText);
+        if (!sd && !isMissingToken(sdText))
+            return u"%1: %2 %3; expected a number >= 0 (it may be left empty only when n is 1)"_s.arg(
+                place, m_variance ? u"variance"_s : u"sd"_s, numberProblem(sdText, m_out.delimiter));
+        return addSummaryRow(m_out, SummaryRow{*name, *n, *mean, sd, m_variance, place});
     }
 
     const SummaryReadOptions &m_options;
+    bool m_variance = false; // the spread column is a variance
     SlowRecord m_record;
     std::array<int, 4> m_index = {0, 1, 2, 3};
 };

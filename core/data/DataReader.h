@@ -138,7 +138,8 @@ Result<DataSummary> readLevelDataFromBytes(const QByteArray &bytes, const QStrin
                                            const DataReadOptions &options);
 
 // A summary table: one row per level with its name, n, mean and SD. The header, when
-// there is one, names the columns (level/group/cell, n/count, mean, sd/stdev, any order;
+// there is one, names the columns (level/group/cell, n/count, mean, sd/stdev or
+// variance/var, any order;
 // a design's cells are named as Design::cellNames() names them, "grass·early");
 // without one the columns are taken in that order. SD may be empty only when n is 1.
 struct SummaryReadOptions
@@ -149,6 +150,26 @@ struct SummaryReadOptions
 Result<DataSummary> readSummaryTable(const QString &path, const SummaryReadOptions &options = {});
 Result<DataSummary> readSummaryTableFromBytes(const QByteArray &bytes, const QString &sourceName,
                                               const SummaryReadOptions &options = {});
+
+// One level of a summary table as values, from a file's row or a database's: the spread is
+// the SD (a file's sd column) or the variance (a variance column, what the summary query
+// returns); it may be missing only when n is 1.
+struct SummaryRow
+{
+    QString level;
+    double n = 0.0;
+    double mean = 0.0;
+    std::optional<double> spread;
+    bool spreadIsVariance = false;
+    QString place; // where the row came from, for messages: "x.csv line 4", "sqlite:///d.db row 2"
+};
+// Adds one row to a summary after the checks every summary table gets (a level name, given
+// once; n positive; mean finite; spread >= 0, missing only when n is 1). Returns a message that
+// starts with the row's place, or an empty string.
+QString addSummaryRow(DataSummary &summary, const SummaryRow &row);
+// A whole summary table from rows (a database's answer): each row through addSummaryRow; no
+// rows is an error. The summary is marked as a summary table from sourceName.
+Result<DataSummary> summaryFromRows(const std::vector<SummaryRow> &rows, const QString &sourceName);
 
 // A first look at a file, for choosing the columns: the detected delimiter, whether
 // the first row looks like a header, the column names and the first rows as text.

@@ -332,6 +332,44 @@ def data_cases(tmp):
     return cases
 
 
+def database_cases(tmp):
+    """fit --database and export --format sql-summary: every kind of place, and the query's options at their extremes."""
+    text_file = os.path.join(tmp, "not-a-database.db")
+    fit = ["fit", "--levels", "a,b", "--scheme", "treatment", "--table", "t", "--factor", "g", "--response", "y"]
+    places = {
+        "missing sqlite file": ("sqlite:///nonexistent/d.db", "/nonexistent/d.db", {}),
+        "sqlite folder": ("sqlite://" + tmp, tmp, {}),
+        "sqlite endless device": ("sqlite:///dev/zero", "/dev/zero", {}),
+        "sqlite empty device": ("sqlite:///dev/null", "/dev/null", {}),
+        "sqlite text file": ("sqlite://" + text_file, text_file, {text_file: "g,y\na,1\n"}),
+        "sqlite without a path": ("sqlite://", "--database", {}),
+        "postgresql without a database": ("postgresql://u@127.0.0.1:1", "--database", {}),
+        "postgresql with a password": ("postgresql://u:pw@127.0.0.1:1/d", "--database", {}),
+        "postgresql bad port": ("postgresql://u@127.0.0.1:99999999/d", "--database", {}),
+        "odbc without a source": ("odbc:", "--database", {}),
+        "odbc with a password": ("odbc:Driver=x;PWD=secret", "--database", {}),
+        "unknown scheme": ("mysql://h/d", "--database", {}),
+        "empty": ("", "--database", {}),
+    }
+    cases = []
+    for name, (url, place, files) in places.items():
+        cases.append(Case(f"fit database {name}", fit[:1] + ["--database", url] + fit[1:], files=files, refuse=True,
+                          place=place, kind="path"))
+    query = ["export", "--format", "sql-summary", "--table", "t", "--factor", "g", "--response", "y"]
+    for value in EXTREMES:
+        cases.append(Case(f"export sql-summary --centre {value!r}", query + ["--centre", value], kind="option"))
+        cases.append(Case(f"export sql-summary --variance {value!r}", query + ["--variance", value], refuse=True,
+                          place="--variance", kind="option"))
+    for value in ["", " ", 'x"; DROP TABLE t; --', "%1%2", "a" * 100_000]:
+        cases.append(Case(f"export sql-summary --table {value[:30]!r}", query[:3] + ["--table", value] + query[5:],
+                          refuse=value == "", place="--table" if value == "" else None, kind="option"))
+    cases.append(Case("export sql-summary --participant", query + ["--participant", "p"], refuse=True,
+                      place="--participant", kind="option"))
+    cases.append(Case("export sql-summary without --table", query[:3] + query[5:], refuse=True, place="--table",
+                      kind="option"))
+    return cases
+
+
 NON_FINITE = re.compile(rb"\b(nan|inf|infinity)\b", re.IGNORECASE)
 
 
@@ -395,7 +433,7 @@ def main():
     if "--workers" in sys.argv:
         workers = int(sys.argv[sys.argv.index("--workers") + 1])
     with tempfile.TemporaryDirectory() as tmp:
-        cases = file_cases(tmp) + option_cases() + path_cases(tmp) + data_cases(tmp) + limit_cases(tmp, cli)
+        cases = file_cases(tmp) + option_cases() + path_cases(tmp) + data_cases(tmp) + database_cases(tmp) + limit_cases(tmp, cli)
         if "--list" in sys.argv:
             for c in cases:
                 print(c.name)

@@ -549,6 +549,9 @@ void TestDataReader::readsSummaryTable_data()
         << QByteArray("Mean;Group;SD;Count\r\n5.032;g1;0.5831;10\r\n4.661;g2;0.7937;10\r\n5.526;g3;0.4426;10\r\n");
     QTest::newRow("no header") << QByteArray("g1\t10\t5.032\t0.5831\ng2\t10\t4.661\t0.7937\ng3\t10\t5.526\t0.4426");
     QTest::newRow("a design's cells") << QByteArray("cell,n,mean,sd\ng1,10,5.032,0.5831\ng2,10,4.661,0.7937\ng3,10,5.526,0.4426\n");
+    // The summary query's answer gives the variance (0.7937^2 = 0.62995969).
+    QTest::newRow("variance instead of sd")
+        << QByteArray("level,n,mean,variance\ng1,10,5.032,0.34000561\ng2,10,4.661,0.62995969\ng3,10,5.526,0.19589476\n");
 }
 
 void TestDataReader::readsSummaryTable()

@@ -19,12 +19,16 @@ struct ProcessRun
     QString errText() const { return QString::fromUtf8(err); }
 };
 
+// env: the program's whole environment when not empty (otherwise the test's own).
 inline ProcessRun runProcess(const QString &program, const QStringList &args, const QByteArray &input = {},
-                             int timeoutMs = 240000, const QString &workDir = {})
+                             int timeoutMs = 240000, const QString &workDir = {},
+                             const QProcessEnvironment &env = QProcessEnvironment())
 {
     QProcess p;
     if (!workDir.isEmpty())
         p.setWorkingDirectory(workDir);
+    if (!env.isEmpty())
+        p.setProcessEnvironment(env);
     p.start(program, args);
     ProcessRun r;
     r.started = p.waitForStarted(30000);

@@ -40,4 +40,27 @@ public:
         return restore;
     }
     void tell(QWidget *, const QString &title, const QString &message) override { told << title + QStringLiteral(": ") + message; }
+
+    // The summary-query form: the answers given (empty fields keep what the panel filled in);
+    // summaryCancel answers Cancel. Every question asked is kept.
+    cb::SummaryQuestion summaryAnswer;
+    bool summaryCancel = false;
+    QList<cb::SummaryQuestion> summaryQuestions;
+    bool askSummaryQuery(QWidget *, cb::SummaryQuestion &question) override
+    {
+        summaryQuestions << question;
+        if (summaryCancel)
+            return false;
+        const auto take = [](QString &field, const QString &answer) {
+            if (!answer.isEmpty())
+                field = answer;
+        };
+        take(question.url, summaryAnswer.url);
+        take(question.table, summaryAnswer.table);
+        take(question.response, summaryAnswer.response);
+        take(question.weight, summaryAnswer.weight);
+        if (!summaryAnswer.factorColumns.isEmpty())
+            question.factorColumns = summaryAnswer.factorColumns;
+        return true;
+    }
 };

@@ -2,6 +2,11 @@
 
 #include <QCoreApplication>
 #include <QAbstractButton>
+#include <QDialog>
+#include <QDialogButtonBox>
+#include <QFormLayout>
+#include <QLabel>
+#include <QLineEdit>
 #include <QFileDialog>
 #include <QMessageBox>
 
@@ -80,6 +85,49 @@ bool DialogPrompter::askRestoreRecovery(QWidget *parent, const QString &descript
 void DialogPrompter::tell(QWidget *parent, const QString &title, const QString &message)
 {
     QMessageBox::warning(parent, title, message);
+}
+
+bool DialogPrompter::askSummaryQuery(QWidget *parent, SummaryQuestion &question)
+{
+    QDialog dialog(parent);
+    dialog.setWindowTitle(question.title);
+    auto *form = new QFormLayout(&dialog);
+    const auto field = [&](const QString &label, const QString &text, const QString &placeholder = {}) {
+        auto *edit = new QLineEdit(text, &dialog);
+        edit->setPlaceholderText(placeholder);
+        edit->setMinimumWidth(320);
+        form->addRow(label, edit);
+        return edit;
+    };
+    QLineEdit *url = nullptr;
+    if (question.withDatabase) {
+        url = field(tr("Database:"), question.url, u"sqlite:///path/file.db, postgresql://user@host:5432/db, odbc:DSN"_s);
+        auto *note = new QLabel(tr("A password is never typed here: PostgreSQL reads PGPASSWORD or ~/.pgpass, ODBC its "
+                                   "data source. The connection only reads."), &dialog);
+        note->setWordWrap(true);
+        form->addRow(note);
+    }
+    QLineEdit *table = field(tr("Table:"), question.table);
+    QList<QLineEdit *> factors;
+    for (qsizetype i = 0; i < question.factorLabels.size(); ++i)
+        factors << field(question.factorLabels[i] + u":"_s, question.factorColumns.value(i));
+    QLineEdit *response = field(tr("Response column:"), question.response);
+    QLineEdit *weight = field(tr("Case weight column:"), question.weight, tr("none"));
+    auto *buttons = new QDialogButtonBox(QDialogButtonBox::Ok | QDialogButtonBox::Cancel, &dialog);
+    QObject::connect(buttons, &QDialogButtonBox::accepted, &dialog, &QDialog::accept);
+    QObject::connect(buttons, &QDialogButtonBox::rejected, &dialog, &QDialog::reject);
+    form->addRow(buttons);
+    if (dialog.exec() != QDialog::Accepted)
+        return false;
+    if (url)
+        question.url = url->text().trimmed();
+    question.table = table->text();
+    question.factorColumns.clear();
+    for (QLineEdit *f : factors)
+        question.factorColumns << f->text();
+    question.response = response->text();
+    question.weight = weight->text();
+    return true;
 }
 
 } // namespace cb

@@ -1,6 +1,7 @@
 #pragma once
 
 #include <QString>
+#include <QStringList>
 
 class QWidget;
 
@@ -21,6 +22,21 @@ struct FileQuestion
 FileQuestion studyToOpen(const QString &startDirectory);
 FileQuestion studyToSave(const QString &suggestedPath);
 
+// Where the data live and which columns hold what, for the summary query (Check on data):
+// filled in with what the panel knows, changed by the user. The database URL is asked for only
+// when the query is to be run (withDatabase).
+struct SummaryQuestion
+{
+    QString title;
+    bool withDatabase = false;
+    QString url;
+    QString table;
+    QStringList factorLabels;  // one per factor: "Level column", or the design's factor names
+    QStringList factorColumns; // one per factor
+    QString response;
+    QString weight;
+};
+
 // Every question the window asks the user goes through here, file dialogs included, so tests
 // can answer in advance instead of clicking dialogs.
 class Prompter
@@ -35,6 +51,8 @@ public:
     virtual QString askSavePath(QWidget *parent, const FileQuestion &question) = 0;
     virtual bool askRestoreRecovery(QWidget *parent, const QString &description) = 0;
     virtual void tell(QWidget *parent, const QString &title, const QString &message) = 0;
+    // False when the user cancelled; otherwise the question holds the answers.
+    virtual bool askSummaryQuery(QWidget *parent, SummaryQuestion &question) = 0;
 };
 
 // The real dialogs.
@@ -46,6 +64,7 @@ public:
     QString askSavePath(QWidget *parent, const FileQuestion &question) override;
     bool askRestoreRecovery(QWidget *parent, const QString &description) override;
     void tell(QWidget *parent, const QString &title, const QString &message) override;
+    bool askSummaryQuery(QWidget *parent, SummaryQuestion &question) override;
 };
 
 // The real dialogs, for panels that no window has given a prompter.

@@ -2,6 +2,7 @@
 #include "ui/common/WrapLabel.h"
 
 #include "core/base/NumberText.h"
+#include "core/base/Weight.h"
 #include "core/report/FitReport.h"
 
 #include "ui/document/Document.h"
@@ -10,7 +11,10 @@
 #include "ui/common/Prompter.h"
 #include "ui/common/SmallChart.h"
 
+#include <QAction>
+#include <QClipboard>
 #include <QComboBox>
+#include <QGuiApplication>
 #include <QCoreApplication>
 #include <QDir>
 #include <QFileInfo>
@@ -19,12 +23,14 @@
 #include <QHeaderView>
 #include <QLabel>
 #include <QLineEdit>
+#include <QMenu>
 #include <QProgressDialog>
 #include <QPushButton>
 #include <QSplitter>
 #include <QRegularExpression>
 #include <QTableView>
 #include <QThread>
+#include <QToolButton>
 #include <QTimer>
 #include <QVBoxLayout>
 
@@ -102,7 +108,24 @@ bool identifierColumn(const DataPreview &preview, int column)
     return counted >= 3;
 }
 
+DatabaseReader &defaultDatabaseReader()
+{
+    static DatabaseReader reader;
+    return reader;
+}
+
 } // namespace
+
+void DataPanel::setDefaultDatabaseReader(DatabaseReader reader)
+{
+    defaultDatabaseReader() = std::move(reader);
+}
+
+void DataPanel::setDatabaseReader(DatabaseReader reader)
+{
+    m_databaseReader = std::move(reader);
+    m_databaseAction->setEnabled(bool(m_databaseReader));
+}
 
 DataPanel::DataPanel(Document *document, QWidget *parent)
     : QWidget(parent)
@@ -117,6 +140,9 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     , m_response(new QComboBox(this))
     , m_weight(new QComboBox(this))
     , m_readButton(new QPushButton(tr("Read and fit"), this))
+    , m_copyQueryButton(new QPushButton(tr("Copy summary query"), this))
+    , m_databaseAction(new QAction(tr("Read from a database\u2026"), this))
+    , m_databaseReader(defaultDatabaseReader())
     , m_adjust(new QComboBox(this))
     , m_alpha(new QLineEdit(u"0.05"_s, this))
     , m_mapping(new CellTableModel({tr("Level in the data"), tr("Rows"), tr("Scheme level")}, this))
@@ -173,17 +199,36 @@ QLayout *DataPanel::buildFileColumn()
     m_readButton->setEnabled(false);
     for (Adjustment a : {Adjustment::Holm, Adjustment::Bonferroni, Adjustment::Sidak, Adjustment::None})
         m_adjust->addItem(adjustmentTitle(a), QVariant::fromValue(int(a)));
-    auto *open = new QPushButton(tr("Open data\u2026"), this);
+    // "Open data…" opens a file; its menu also offers data that live in a database, where the
+    // engine summarises the table per level and the summary is fitted.
+    auto *open = new QToolButton(this);
     open->setObjectName(u"openData"_s);
-    connect(open, &QPushButton::clicked, this, [this] {
+    open->setPopupMode(QToolButton::MenuButtonPopup);
+    auto *openFileAction = new QAction(tr("Open data\u2026"), this);
+    connect(openFileAction, &QAction::triggered, this, [this] {
         const QString path = m_prompter->askOpenPath(this, {tr("Open a data file"), QFileInfo(m_path).absolutePath(),
                                                             tr("Delimited text (*.csv *.tsv *.txt *.dat);;All files (*)"), {}});
         if (!path.isEmpty())
             openFile(path);
     });
+    open->setDefaultAction(openFileAction);
+    auto *openMenu = new QMenu(open);
+    openMenu->addAction(openFileAction);
+    m_databaseAction->setObjectName(u"readDatabase"_s);
+    m_databaseAction->setToolTip(tr("Let a database (SQLite, PostgreSQL, or any ODBC source) summarise a table per "
+                                    "level, read-only, and fit the summary."));
+    m_databaseAction->setEnabled(bool(m_databaseReader));
+    connect(m_databaseAction, &QAction::triggered, this, &DataPanel::readFromDatabase);
+    openMenu->addAction(m_databaseAction);
+    open->setMenu(openMenu);
+    m_copyQueryButton->setObjectName(u"copySummaryQuery"_s);
+    m_copyQueryButton->setToolTip(tr("Copy the SQL that summarises a table per level (count, mean, variance), to run in "
+                                     "any engine; fit its answer as a summary table."));
+    connect(m_copyQueryButton, &QPushButton::clicked, this, &DataPanel::copySummaryQuery);
     auto *fileRow = new QHBoxLayout;
     fileRow->addWidget(open);
     fileRow->addWidget(m_readButton);
+    fileRow->addWidget(m_copyQueryButton);
     fileRow->addStretch(1);
     auto *columns = new QFormLayout;
     m_columnsForm = columns;
@@ -374,12 +419,26 @@ void DataPanel::readAndFit()
         bytes->store(read);
         return !cancel->load();
     };
+    startRead([path = m_path, options] { return readLevelData(path, options); },
+              tr("Reading %1\u2026").arg(QFileInfo(m_path).fileName()), true);
+}
+
+void DataPanel::startRead(std::function<Result<DataSummary>()> job, const QString &what, bool measured)
+{
+    if (!m_cancel)
+        m_cancel = std::make_shared<std::atomic<bool>>(false);
+    if (!m_bytesRead)
+        m_bytesRead = std::make_shared<std::atomic<qint64>>(0);
+    m_readResult = std::make_shared<std::optional<Result<DataSummary>>>();
     m_readButton->setEnabled(false);
-    m_thread = QThread::create([path = m_path, options, out = m_readResult] { out->emplace(readLevelData(path, options)); });
+    m_databaseAction->setEnabled(false);
+    m_thread = QThread::create([job = std::move(job), out = m_readResult] { out->emplace(job()); });
     connect(m_thread, &QThread::finished, this, &DataPanel::readFinished);
 
     // Large files show their progress and can be cancelled; the window stays responsive.
-    m_progress = new QProgressDialog(tr("Reading %1\u2026").arg(QFileInfo(m_path).fileName()), tr("Cancel"), 0, 1000, this);
+    m_progress = new QProgressDialog(what, tr("Cancel"), 0, measured ? 1000 : 0, this);
+    if (!measured)
+        m_progress->setCancelButton(nullptr); // a query runs to its end in the engine
     m_progress->setWindowModality(Qt::WindowModal);
     m_progress->setMinimumDuration(500);
     m_progress->setAutoClose(false);
@@ -387,11 +446,96 @@ void DataPanel::readAndFit()
     connect(m_progress, &QProgressDialog::canceled, this, [cancel = m_cancel] { cancel->store(true); });
     auto *poll = new QTimer(m_progress);
     connect(poll, &QTimer::timeout, m_progress, [this] {
-        if (m_fileSize > 0)
+        if (m_fileSize > 0 && m_progress->maximum() > 0)
             m_progress->setValue(int(1000.0 * double(m_bytesRead->load()) / double(m_fileSize)));
     });
     poll->start(100);
     m_thread->start();
+}
+
+SummaryQuestion DataPanel::summaryQuestion(bool withDatabase) const
+{
+    SummaryQuestion q = m_lastSummaryQuestion;
+    q.title = withDatabase ? tr("Read from a database") : tr("Copy summary query");
+    q.withDatabase = withDatabase;
+    QStringList names;
+    if (m_document->isDesign())
+        for (const Scheme &f : m_document->design().factors)
+            names << f.factor.name;
+    q.factorLabels.clear();
+    if (names.isEmpty())
+        q.factorLabels << tr("Level column");
+    else
+        for (const QString &n : names)
+            q.factorLabels << tr("Column of %1").arg(n);
+    // The columns chosen for the open file, else the previous answers, else the factors' names.
+    QStringList columns;
+    if (!m_path.isEmpty()) {
+        columns << m_factor->currentText();
+        for (int i = 0; i + 1 < int(names.size()) && i < 2; ++i)
+            columns << m_moreFactors[i]->currentText();
+        q.response = m_response->currentText();
+        q.weight = m_weight->currentIndex() > 0 ? m_weight->currentText() : QString();
+    } else if (q.factorColumns.size() == q.factorLabels.size()) {
+        columns = q.factorColumns;
+    } else {
+        columns = names.isEmpty() ? QStringList{m_document->scheme().factor.name} : names;
+    }
+    q.factorColumns = columns;
+    return q;
+}
+
+Result<SummaryQuerySpec> DataPanel::specFromAnswer(const SummaryQuestion &answer) const
+{
+    SummaryQuerySpec spec;
+    spec.table = answer.table;
+    spec.factorColumns = answer.factorColumns;
+    spec.responseColumn = answer.response;
+    spec.weightColumn = answer.weight.trimmed();
+    if (auto query = summaryQuery(spec); !query)
+        return Result<SummaryQuerySpec>::failure(query.error(), query.field());
+    return spec;
+}
+
+bool DataPanel::copySummaryQuery()
+{
+    SummaryQuestion q = summaryQuestion(false);
+    if (!m_prompter->askSummaryQuery(this, q))
+        return false;
+    m_lastSummaryQuestion = q;
+    auto spec = specFromAnswer(q);
+    if (!spec) {
+        showMessage(spec.error());
+        return false;
+    }
+    const auto query = summaryQuery(*spec);
+    QGuiApplication::clipboard()->setText(query->sql + u";\n"_s);
+    showMessage({});
+    m_fileLabel->setText(tr("The summary query for table %1 is on the clipboard (%2). Run it in the database, save "
+                            "its answer as CSV and open that file, or read it here with \u201cRead from a database\u201d.")
+                             .arg(quoted(spec->table), query->formNote));
+    return true;
+}
+
+void DataPanel::readFromDatabase()
+{
+    if (m_thread || !m_databaseReader)
+        return;
+    SummaryQuestion q = summaryQuestion(true);
+    if (!m_prompter->askSummaryQuery(this, q))
+        return;
+    m_lastSummaryQuestion = q;
+    auto spec = specFromAnswer(q);
+    if (!spec) {
+        showMessage(spec.error());
+        emit finished();
+        return;
+    }
+    m_cancel = std::make_shared<std::atomic<bool>>(false);
+    const QString note = summaryQuery(*spec)->formNote;
+    m_fileLabel->setText(tr("%1, table %2: summarised per level by the database (%3).").arg(q.url, quoted(spec->table), note));
+    startRead([reader = m_databaseReader, url = q.url, s = *spec] { return reader(url, s); },
+              tr("Asking the database for the summary of %1\u2026").arg(quoted(spec->table)), false);
 }
 
 void DataPanel::readFinished()
@@ -400,7 +544,8 @@ void DataPanel::readFinished()
     m_thread = nullptr;
     m_progress->deleteLater();
     m_progress = nullptr;
-    m_readButton->setEnabled(true);
+    m_readButton->setEnabled(!m_path.isEmpty());
+    m_databaseAction->setEnabled(bool(m_databaseReader));
     Result<DataSummary> result = m_readResult->value();
     if (!result) {
         m_data.reset();

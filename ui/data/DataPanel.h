@@ -1,6 +1,8 @@
 #pragma once
 
 #include "core/data/DataFit.h"
+#include "core/data/SummaryQuery.h"
+#include "ui/common/Prompter.h"
 
 #include <QWidget>
 
@@ -8,6 +10,7 @@
 #include <memory>
 #include <optional>
 
+class QAction;
 class QComboBox;
 class QFormLayout;
 class QLabel;
@@ -73,6 +76,18 @@ public:
     // Who answers "which data file?" (the window's prompter; the real dialog by default).
     void setPrompter(Prompter *prompter) { m_prompter = prompter; }
 
+    // Data in a database: the program hands in the reader (app/gui/main.cpp gives every panel
+    // app/database's; a test may give one panel its own). Without one, "Read from a database…"
+    // (in the menu of "Open data…") is disabled.
+    static void setDefaultDatabaseReader(DatabaseReader reader);
+    void setDatabaseReader(DatabaseReader reader);
+    // Asks (through the prompter) for the table and columns, writes the summary query and puts
+    // it on the clipboard; false when cancelled or refused (the message is shown).
+    bool copySummaryQuery();
+    // Asks for the database, the table and the columns, reads the summary in the background and
+    // fits it as a summary table; finished() follows (also after a failure).
+    void readFromDatabase();
+
     static QStringList coefficientHeaders(const QString &interval);
 
 signals:
@@ -86,7 +101,13 @@ private:
     QLayout *buildResultColumn();
     void connectInputs();
 
+    // Runs job in the background behind a progress dialog; readFinished() takes its result.
+    // measured: the job reports bytes of the open file (otherwise the dialog only shows it is busy).
+    void startRead(std::function<Result<DataSummary>()> job, const QString &what, bool measured);
     void readFinished();
+    // The question for the summary query, filled in with what the panel knows.
+    SummaryQuestion summaryQuestion(bool withDatabase) const;
+    Result<SummaryQuerySpec> specFromAnswer(const SummaryQuestion &answer) const;
     // The level table from the data's levels, the scheme's and the choices made.
     void rebuildMapping();
     void levelChosen(int row, int choice);
@@ -117,6 +138,10 @@ private:
     QComboBox *m_response; // the numeric columns only
     QComboBox *m_weight;
     QPushButton *m_readButton;
+    QPushButton *m_copyQueryButton;
+    QAction *m_databaseAction; // in the "Open data…" button's menu
+    DatabaseReader m_databaseReader;
+    SummaryQuestion m_lastSummaryQuestion; // the previous answers, offered again
     QComboBox *m_adjust;
     QLineEdit *m_alpha;
     CellTableModel *m_mapping;

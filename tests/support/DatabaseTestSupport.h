@@ -1,0 +1,139 @@
+#pragma once
+// Helpers shared by the database tests (tests/cli/TestDatabaseFit.cpp on SQLite,
+// tests/cli/TestDatabasePostgres.cpp on a throwaway PostgreSQL cluster): generated rows written to
+// a table and to a CSV file, and the comparison of two fits' JSON.
+
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QJsonObject>
+#include <QSqlDatabase>
+#include <QSqlError>
+#include <QSqlQuery>
+#include <QString>
+#include <QStringList>
+#include <QVariant>
+
+#include <algorithm>
+#include <cmath>
+#include <random>
+#include <vector>
+
+namespace cb::test {
+
+// One generated row: factor values, response, weight.
+struct GeneratedRow
+{
+    QStringList factors;
+    double y = 0.0;
+    double w = 1.0;
+};
+
+// Rows over the levels of each factor (crossed), with level effects, normal noise and, when
+// weighted, weights 0.5 to 3 in steps of 0.5. Seeded: the same rows every run.
+inline std::vector<GeneratedRow> generateRows(const std::vector<QStringList> &factorLevels, int rows, double centre,
+                                              double sd, unsigned seed)
+{
+    std::mt19937_64 rng(seed);
+    std::normal_distribution<double> noise(0.0, sd);
+    std::uniform_int_distribution<int> weight(1, 6);
+    std::vector<GeneratedRow> out;
+    out.reserve(size_t(rows));
+    for (int i = 0; i < rows; ++i) {
+        GeneratedRow r;
+        double effect = 0.0;
+        for (size_t f = 0; f < factorLevels.size(); ++f) {
+            const int k = int(std::uniform_int_distribution<int>(0, int(factorLevels[f].size()) - 1)(rng));
+            r.factors << factorLevels[f][k];
+            effect += (k + 1) * (f + 1) * 0.37;
+        }
+        r.y = centre + effect + noise(rng);
+        r.w = weight(rng) * 0.5;
+        out.push_back(r);
+    }
+    return out;
+}
+
+// The CSV `fit --data` reads: the factor columns, the response and the weight, with a header.
+// Numbers with 17 significant digits, so the file holds exactly the values in the table.
+inline QByteArray rowsToCsv(const QStringList &header, const std::vector<GeneratedRow> &rows)
+{
+    QByteArray out = header.join(u',').toUtf8() + '\n';
+    for (const GeneratedRow &r : rows) {
+        QStringList cells = r.factors;
+        cells << QString::number(r.y, 'g', 17) << QString::number(r.w, 'g', 17);
+        out += cells.join(u',').toUtf8() + '\n';
+    }
+    return out;
+}
+
+// Creates the table (its name and columns quoted as the SQL standard says) and inserts the rows
+// in one transaction with bound values. Returns an empty string or the engine's message.
+inline QString fillTable(QSqlDatabase &db, const QString &table, const QStringList &columns,
+                         const std::vector<GeneratedRow> &rows, const QString &numberType = QStringLiteral("DOUBLE PRECISION"))
+{
+    const auto quote = [](QString s) { return QLatin1Char('"') + s.replace(QLatin1Char('"'), QStringLiteral("\"\"")) + QLatin1Char('"'); };
+    QStringList defs, marks;
+    const qsizetype factors = columns.size() - 2;
+    for (qsizetype i = 0; i < columns.size(); ++i) {
+        defs << quote(columns[i]) + (i < factors ? QStringLiteral(" VARCHAR(100)") : QLatin1Char(' ') + numberType);
+        marks << QStringLiteral("?");
+    }
+    QSqlQuery q(db);
+    if (!q.exec(QStringLiteral("CREATE TABLE %1 (%2)").arg(quote(table), defs.join(QStringLiteral(", ")))))
+        return q.lastError().text();
+    if (!db.transaction())
+        return db.lastError().text();
+    if (!q.prepare(QStringLiteral("INSERT INTO %1 VALUES (%2)").arg(quote(table), marks.join(QStringLiteral(", ")))))
+        return q.lastError().text();
+    for (const GeneratedRow &r : rows) {
+        for (qsizetype i = 0; i < r.factors.size(); ++i)
+            q.bindValue(int(i), r.factors[i]);
+        q.bindValue(int(factors), r.y);
+        q.bindValue(int(factors + 1), r.w);
+        if (!q.exec())
+            return q.lastError().text();
+    }
+    return db.commit() ? QString() : db.lastError().text();
+}
+
+// Empty when the two fits' numbers agree to tol (relative, or absolute below 1); otherwise
+// the first difference.
+inline QString compareFits(const QJsonObject &a, const QJsonObject &b, double tol)
+{
+    const auto close = [tol](const QJsonValue &x, const QJsonValue &y) {
+        if (x.isNull() || y.isNull())
+            return x.isNull() && y.isNull();
+        const double u = x.toDouble(), v = y.toDouble();
+        return std::abs(u - v) <= tol * std::max({1.0, std::abs(u), std::abs(v)});
+    };
+    for (const char *key : {"sigma", "df", "r_squared", "f", "f_df1", "f_df2", "f_p", "n"})
+        if (!close(a[QLatin1String(key)], b[QLatin1String(key)]))
+            return QStringLiteral("%1: %2 vs %3").arg(QLatin1String(key)).arg(a[QLatin1String(key)].toDouble(), 0, 'g', 17)
+                .arg(b[QLatin1String(key)].toDouble(), 0, 'g', 17);
+    const auto compareArray = [&](const char *name, std::initializer_list<const char *> keys) -> QString {
+        const QJsonArray x = a[QLatin1String(name)].toArray(), y = b[QLatin1String(name)].toArray();
+        if (x.size() != y.size() || x.isEmpty())
+            return QStringLiteral("%1: %2 vs %3 entries").arg(QLatin1String(name)).arg(x.size()).arg(y.size());
+        for (qsizetype i = 0; i < x.size(); ++i) {
+            const QJsonObject u = x[i].toObject(), v = y[i].toObject();
+            if (u[QStringLiteral("name")] != v[QStringLiteral("name")])
+                return QStringLiteral("%1[%2]: name %3 vs %4").arg(QLatin1String(name)).arg(i)
+                    .arg(u[QStringLiteral("name")].toString(), v[QStringLiteral("name")].toString());
+            for (const char *key : keys)
+                if (!close(u[QLatin1String(key)], v[QLatin1String(key)]))
+                    return QStringLiteral("%1[%2].%3: %4 vs %5").arg(QLatin1String(name)).arg(i).arg(QLatin1String(key))
+                        .arg(u[QLatin1String(key)].toDouble(), 0, 'g', 17).arg(v[QLatin1String(key)].toDouble(), 0, 'g', 17);
+        }
+        return QString();
+    };
+    if (QString e = compareArray("levels", {"n", "mean", "sd"}); !e.isEmpty())
+        return e;
+    return compareArray("coefficients", {"estimate", "se", "t", "p", "ci_low", "ci_high"});
+}
+
+inline QJsonObject jsonOf(const QByteArray &out)
+{
+    return QJsonDocument::fromJson(out).object();
+}
+
+} // namespace cb::test

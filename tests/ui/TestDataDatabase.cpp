@@ -1,0 +1,171 @@
+// Check on data with data in a database: "Copy summary query" puts core's query on the
+// clipboard, "Read from a database…" asks through the prompter and fits what the injected reader
+// returns, through the same summary-table path as a file (the window never links Qt SQL, so the
+// reader here is a stand-in; tests/cli/TestDatabaseFit runs the real one). Check values: the
+// fit of the same rows read from tests/data/fit_three_groups.csv (Dobson 1983 plant growth).
+
+#include "ui/data/DataPanel.h"
+#include "core/data/SummaryQuery.h"
+#include "tests/support/ScriptedPrompter.h"
+#include "ui/document/Document.h"
+
+#include <QAction>
+#include <QClipboard>
+#include <QGuiApplication>
+#include <QPushButton>
+#include <QSignalSpy>
+#include <QTest>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+namespace {
+
+const QString kThreeGroups = QStringLiteral(CB_TEST_DATA "/fit_three_groups.csv");
+
+void useLevels(Document &doc)
+{
+    Factor f;
+    f.name = u"group"_s;
+    f.levels = {u"g1"_s, u"g2"_s, u"g3"_s};
+    doc.reset(makeScheme(f, SchemeKind::Treatment).take(), {});
+}
+
+// The levels of the three-group file as the rows a database would return.
+std::vector<SummaryRow> threeGroupRows()
+{
+    DataReadOptions o;
+    o.factorColumn = u"group"_s;
+    o.responseColumn = u"y"_s;
+    auto data = readLevelData(kThreeGroups, o);
+    std::vector<SummaryRow> rows;
+    if (!data)
+        return rows;
+    for (const LevelStats &l : data->levels)
+        rows.push_back({l.name, l.stats.n, l.stats.mean, l.stats.variance(), true, u"test row"_s});
+    return rows;
+}
+
+QPushButton *button(DataPanel &panel, const QString &name)
+{
+    return panel.findChild<QPushButton *>(name);
+}
+
+// "Read from a database…", in the menu of "Open data…".
+QAction *databaseChoice(DataPanel &panel)
+{
+    return panel.findChild<QAction *>(u"readDatabase"_s);
+}
+
+} // namespace
+
+class TestDataDatabase : public QObject
+{
+    Q_OBJECT
+
+private slots:
+    void copySummaryQueryPutsCoresQueryOnTheClipboard()
+    {
+        Document doc;
+        useLevels(doc);
+        DataPanel panel(&doc);
+        ScriptedPrompter prompter;
+        panel.setPrompter(&prompter);
+        prompter.summaryAnswer.table = u"harvest"_s;
+        prompter.summaryAnswer.response = u"yield"_s;
+        QGuiApplication::clipboard()->setText(u"before"_s);
+        button(panel, u"copySummaryQuery"_s)->click();
+        QCOMPARE(prompter.summaryQuestions.size(), 1);
+        // Without a file, the level column is proposed from the factor's name; no database is asked for.
+        QCOMPARE(prompter.summaryQuestions[0].factorColumns, QStringList{u"group"_s});
+        QVERIFY(!prompter.summaryQuestions[0].withDatabase);
+        SummaryQuerySpec spec;
+        spec.table = u"harvest"_s;
+        spec.factorColumns = {u"group"_s};
+        spec.responseColumn = u"yield"_s;
+        QCOMPARE(QGuiApplication::clipboard()->text(), summaryQuery(spec)->sql + u";\n"_s);
+        QVERIFY(panel.message().isEmpty());
+        // Cancel leaves the clipboard alone; a refused name shows core's message.
+        prompter.summaryCancel = true;
+        QGuiApplication::clipboard()->setText(u"kept"_s);
+        QVERIFY(!panel.copySummaryQuery());
+        QCOMPARE(QGuiApplication::clipboard()->text(), u"kept"_s);
+        prompter.summaryCancel = false;
+        prompter.summaryAnswer.table = u" "_s;
+        prompter.summaryAnswer.response = u"group"_s;
+        QVERIFY(!panel.copySummaryQuery());
+        QVERIFY2(panel.message().contains(u"--response: column 'group' is already used"_s), qPrintable(panel.message()));
+        QCOMPARE(QGuiApplication::clipboard()->text(), u"kept"_s);
+    }
+
+    void readFromDatabaseFitsLikeTheFile()
+    {
+        Document doc;
+        useLevels(doc);
+        DataPanel fromFile(&doc);
+        QVERIFY(fromFile.openFile(kThreeGroups));
+        QSignalSpy fileDone(&fromFile, &DataPanel::finished);
+        fromFile.readAndFit();
+        QVERIFY(fileDone.wait(10'000));
+        QVERIFY(fromFile.fit().has_value());
+
+        DataPanel panel(&doc);
+        ScriptedPrompter prompter;
+        panel.setPrompter(&prompter);
+        QVERIFY(!databaseChoice(panel)->isEnabled()); // no reader handed in
+        QString askedUrl;
+        SummaryQuerySpec askedSpec;
+        panel.setDatabaseReader([&](const QString &url, const SummaryQuerySpec &spec) {
+            askedUrl = url;
+            askedSpec = spec;
+            return summaryFromRows(threeGroupRows(), url + u", table 'plants'"_s);
+        });
+        QVERIFY(databaseChoice(panel)->isEnabled());
+        prompter.summaryAnswer.url = u"sqlite:///srv/greenhouse.db"_s;
+        prompter.summaryAnswer.table = u"plants"_s;
+        prompter.summaryAnswer.response = u"weight"_s;
+        QSignalSpy done(&panel, &DataPanel::finished);
+        databaseChoice(panel)->trigger();
+        QVERIFY(done.wait(10'000));
+        QVERIFY(prompter.summaryQuestions.value(0).withDatabase);
+        QCOMPARE(askedUrl, u"sqlite:///srv/greenhouse.db"_s);
+        QCOMPARE(askedSpec.table, u"plants"_s);
+        QCOMPARE(askedSpec.factorColumns, QStringList{u"group"_s});
+        QCOMPARE(askedSpec.responseColumn, u"weight"_s);
+        QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+        QVERIFY(panel.data()->fromSummaryTable);
+        const FitResult &a = *panel.fit(), &b = *fromFile.fit();
+        QCOMPARE(a.coefficients.size(), b.coefficients.size());
+        for (size_t i = 0; i < a.coefficients.size(); ++i) {
+            QVERIFY(std::abs(a.coefficients[i].estimate - b.coefficients[i].estimate) < 1e-12);
+            QVERIFY(std::abs(a.coefficients[i].se - b.coefficients[i].se) < 1e-12);
+        }
+        QVERIFY(std::abs(a.sigma - b.sigma) < 1e-12);
+        QCOMPARE(qRound(a.coefficients[0].estimate * 1000), 5032); // Dobson's control mean
+    }
+
+    void readFailureShowsTheReadersMessage()
+    {
+        Document doc;
+        useLevels(doc);
+        DataPanel panel(&doc);
+        ScriptedPrompter prompter;
+        panel.setPrompter(&prompter);
+        panel.setDatabaseReader([](const QString &url, const SummaryQuerySpec &) {
+            return Result<DataSummary>::failure(url + u": cannot connect: the server did not answer"_s);
+        });
+        prompter.summaryAnswer.url = u"postgresql://ann@db.example:5432/field"_s;
+        prompter.summaryAnswer.table = u"plots"_s;
+        prompter.summaryAnswer.response = u"yield"_s;
+        QSignalSpy done(&panel, &DataPanel::finished);
+        panel.readFromDatabase();
+        QVERIFY(done.wait(10'000));
+        QVERIFY(!panel.fit().has_value());
+        QVERIFY2(panel.message().contains(u"postgresql://ann@db.example:5432/field: cannot connect: the server did not answer"_s),
+                 qPrintable(panel.message()));
+        QVERIFY(databaseChoice(panel)->isEnabled());
+    }
+};
+
+QTEST_MAIN(TestDataDatabase)
+#include "TestDataDatabase.moc"
