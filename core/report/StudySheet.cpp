@@ -1,6 +1,7 @@
 #include "core/report/StudySheet.h"
 
 #include "core/analysis/Analysis.h"
+#include "core/analysis/Compare.h"
 #include "core/base/NumberText.h"
 #include "core/base/Version.h"
 #include "core/model/Design.h"
@@ -26,9 +27,9 @@ constexpr QStringView kBaseline = u"#5a606b";
 constexpr QStringView kQuiet = u"#8a9099";
 
 // Bars on the sheet: the chart box's size; names and weights go above and below it.
-constexpr int kPictureWidthPerLevel = 64;
+constexpr int kPictureWidthPerLevel = 96;
 constexpr int kPictureMinWidth = 240;
-constexpr int kPictureMaxWidth = 720;
+constexpr int kPictureMaxWidth = 800;
 constexpr int kPictureHeight = 110;
 constexpr int kPictureText = 16; // a line of small text
 constexpr double kMaxBarWidth = 34.0;
@@ -60,13 +61,15 @@ p.meta, p.quiet, td.quiet { color: #5a606b; }
 table { border-collapse: collapse; margin: 0.5em 0; }
 th, td { border: 1px solid #d5d9df; padding: 0.15em 0.5em; text-align: right; vertical-align: top; }
 th { background: #f1f3f6; font-weight: bold; }
-th.name, td.name { text-align: left; }
+th.name, td.name, td p, td h3 { text-align: left; }
 tr.sum td { background: #f7f8fa; font-style: italic; }
 .coefficient { break-inside: avoid; page-break-inside: avoid; margin-bottom: 1em; }
 .symbols { font-family: "DejaVu Sans Mono", monospace; font-size: 9.5pt; color: #5a606b; }
 .problem { color: #b83b3b; font-weight: bold; }
 .caution { color: #a05a00; font-weight: bold; }
-.fine { color: #17663a; }
+.fine, .same { color: #17663a; }
+.rescaled { color: #2b6cb0; font-weight: bold; }
+.different { color: #8e3b8f; font-weight: bold; }
 .checksum { font-family: "DejaVu Sans Mono", monospace; font-size: 9pt; word-break: break-all; }
 @media print { h2 { break-after: avoid; page-break-after: avoid; } }
 )";
@@ -112,20 +115,26 @@ private:
     SheetPictures m_mode;
 };
 
-// A table whose first `names` columns hold text (left-aligned) and the others numbers.
-void tableStart(Writer &w, const QStringList &header, int names = 1)
+// Which columns of a table hold text (left-aligned) and which numbers: "tnnt" is text, two
+// numbers, text; columns past the end of the spec hold numbers.
+bool textColumn(QStringView spec, qsizetype i)
+{
+    return i < spec.size() && spec[i] == u't';
+}
+
+void tableStart(Writer &w, const QStringList &header, QStringView spec = u"t")
 {
     w << (w.forQt() ? u"<table width=\"100%\" cellspacing=\"0\">\n<tr>"_s : u"<table>\n<tr>"_s);
     for (qsizetype i = 0; i < header.size(); ++i)
-        w << (i < names ? u"<th class=\"name\">"_s : u"<th>"_s) << esc(header[i]) << u"</th>";
+        w << (textColumn(spec, i) ? u"<th class=\"name\">"_s : u"<th>"_s) << esc(header[i]) << u"</th>";
     w << u"</tr>\n";
 }
 
-void row(Writer &w, const QStringList &cells, const QString &rowClass = {}, int names = 1)
+void row(Writer &w, const QStringList &cells, const QString &rowClass = {}, QStringView spec = u"t")
 {
     w << (rowClass.isEmpty() ? u"<tr>"_s : u"<tr class=\"%1\">"_s.arg(rowClass));
     for (qsizetype i = 0; i < cells.size(); ++i)
-        w << (i < names ? u"<td class=\"name\">"_s : u"<td>"_s) << esc(cells[i]) << u"</td>";
+        w << (textColumn(spec, i) ? u"<td class=\"name\">"_s : u"<td>"_s) << esc(cells[i]) << u"</td>";
     w << u"</tr>\n";
 }
 
@@ -168,13 +177,13 @@ QString severityWord(Finding::Severity s)
 void factorsSection(Writer &w, const Study &study)
 {
     w << u"<h2>Factors</h2>\n";
-    tableStart(w, {u"factor"_s, u"levels"_s, u"planned n"_s, u"positions"_s, u"coding"_s, u"intercept"_s}, 6);
+    tableStart(w, {u"factor"_s, u"levels"_s, u"planned n"_s, u"positions"_s, u"coding"_s, u"intercept"_s}, u"tttttt");
     for (const Scheme &s : study.design.factors) {
         QStringList x;
         for (const Weight &p : s.factor.positions())
             x << p.display();
         row(w, {s.factor.name.isEmpty() ? u"(unnamed)"_s : s.factor.name, s.factor.levels.join(u", "_s), sizesText(s.factor),
-                x.join(u", "_s), codingText(s), s.intercept ? u"yes"_s : u"no"_s}, {}, 6);
+                x.join(u", "_s), codingText(s), s.intercept ? u"yes"_s : u"no"_s}, {}, u"tttttt");
     }
     w << u"</table>\n";
 }
@@ -271,7 +280,7 @@ void healthSection(Writer &w, const Analysis &a)
          !a.conditionNumber ? u"problem"_s : conditionFlag ? u"caution"_s : QString());
     w << u"</table>\n";
     if (a.columnCount > 0) {
-        tableStart(w, {u"column"_s, u"sum"_s, u"VIF"_s, u"orthogonal under the planned n to"_s}, 1);
+        tableStart(w, {u"column"_s, u"sum"_s, u"VIF"_s, u"orthogonal under the planned n to"_s}, u"tnnt");
         for (int j = 0; j < a.columnCount; ++j) {
             const auto &v = a.vif[size_t(j)];
             QStringList with;
@@ -284,7 +293,8 @@ void healthSection(Writer &w, const Analysis &a)
             else if (v && *v >= kVifCaution)
                 vifText += u" (caution)"_s;
             row(w, {a.columnNames[j], a.columnSums[size_t(j)].display(true), vifText,
-                    a.columnCount == 1 ? kMissingMark.toString() : with.isEmpty() ? u"none"_s : with.join(u", "_s)});
+                    a.columnCount == 1 ? kMissingMark.toString() : with.isEmpty() ? u"none"_s : with.join(u", "_s)},
+                {}, u"tnnt");
         }
         w << u"</table>\n";
         w << u"<p class=\"quiet\">Flags: a VIF of 5 or more is a caution and 10 or more a problem; a condition number of 30 or "
@@ -391,6 +401,33 @@ void powerSection(Writer &w, const Analysis &a, const PowerSettings &settings)
         w << u"<p class=\"quiet\">" << esc(c) << u"</p>\n";
 }
 
+void pageHead(Writer &w, const QString &title, const QString &heading)
+{
+    w << u"<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\" />\n<title>" << esc(title)
+      << u"</title>\n<style>" << kStyle << (w.forQt() ? u"" : kBrowserStyle) << u"</style>\n</head>\n<body>\n";
+    w << u"<h1>" << esc(heading) << u"</h1>\n";
+}
+
+// One coefficient as a cell of the comparison: label, symbols, words, picture.
+void coefficientCell(Writer &w, const Analysis &a, int index)
+{
+    w << u"<td class=\"name\">";
+    if (index < 0) {
+        w << u"<p class=\"quiet\">no such coefficient</p></td>";
+        return;
+    }
+    w << u"<h3>" << esc(coefficientLabel(a.intercept, index, a.coefficientNames[index])) << u"</h3>\n";
+    if (a.hypotheses.empty()) {
+        w << u"<p class=\"problem\">not identifiable (rank deficient)</p></td>";
+        return;
+    }
+    w << u"<p class=\"symbols\">" << esc(a.hypothesisSymbols.value(index)) << u"</p>\n<p>" << esc(a.hypothesisWords.value(index))
+      << u"</p>\n";
+    const int width = std::clamp(a.levelCount * kPictureWidthPerLevel / 2, kPictureMinWidth, kPictureMaxWidth / 2);
+    w.picture(levelBarsSvg(a.hypotheses[size_t(index)], a.levels, width, kPictureHeight), u"weights on the level means"_s, width, kPictureHeight);
+    w << u"</td>";
+}
+
 void cautionsSection(Writer &w, const Analysis &a)
 {
     w << u"<h2>Cautions</h2>\n";
@@ -483,9 +520,7 @@ StudySheet studySheet(const Study &study, const SheetOptions &o, SheetPictures m
     const QString notes = study.isDesign() ? study.design.notes : study.activeScheme().notes;
 
     Writer w(mode);
-    w << u"<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\" />\n<title>Study sheet: " << esc(title)
-      << u"</title>\n<style>" << kStyle << (w.forQt() ? u"" : kBrowserStyle) << u"</style>\n</head>\n<body>\n";
-    w << u"<h1>" << esc(title) << u"</h1>\n";
+    pageHead(w, u"Study sheet: "_s + title, title);
     w << u"<p class=\"meta\">Study sheet written by Contrast Bench " << QStringView(kVersion) << u" on " << esc(date) << u".</p>\n";
     if (!notes.trimmed().isEmpty()) {
         w << u"<h2>Notes</h2>\n";
@@ -516,6 +551,31 @@ StudySheet studySheet(const Study &study, const SheetOptions &o, SheetPictures m
     out.html = std::move(w.html);
     out.pictures = std::move(w.pictures);
     return out;
+}
+
+StudySheet comparisonPage(const CodingComparison &c, SheetPictures mode)
+{
+    Writer w(mode);
+    pageHead(w, u"Two codings compared"_s, u"Two codings compared"_s);
+    w << u"<p class=\"meta\">First: " << esc(c.leftTitle) << u". Second: " << esc(c.rightTitle) << u".</p>\n";
+    for (const QString &line : c.summary)
+        w << u"<p>" << esc(line) << u"</p>\n";
+    w << u"<h2>Coefficient by coefficient</h2>\n";
+    tableStart(w, {u"first: "_s + c.leftTitle, u"second: "_s + c.rightTitle}, u"tt");
+    for (const ComparedCoefficient &cc : c.coefficients) {
+        w << u"<tr>";
+        coefficientCell(w, c.left, cc.left);
+        coefficientCell(w, c.right, cc.right);
+        const QString state = cc.relation.kind == Correspondence::Same ? u"same"_s
+                            : cc.relation.kind == Correspondence::Rescaled ? u"rescaled"_s : u"different"_s;
+        w << u"</tr>\n<tr><td class=\"name\" colspan=\"2\"><span class=\"" << state << u"\">" << esc(cc.verdict) << u"</span></td></tr>\n";
+    }
+    w << u"</table>\n<h2>Design health</h2>\n";
+    tableStart(w, {QString(), u"first"_s, u"second"_s, QString()}, u"tnnt");
+    for (const HealthDifference &h : c.health)
+        row(w, {h.what, h.left, h.right, h.differs ? u"differs"_s : QString()}, {}, u"tnnt");
+    w << u"</table>\n</body>\n</html>\n";
+    return {std::move(w.html), std::move(w.pictures), QString()};
 }
 
 } // namespace cb

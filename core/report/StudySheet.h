@@ -45,6 +45,12 @@ struct StudySheet
 
 StudySheet studySheet(const Study &study, const SheetOptions &options, SheetPictures pictures = SheetPictures::InlineSvg);
 
+// Two codings side by side (core/analysis/Compare.h) as a page of the same kind: the summary, each
+// coefficient under both codings (label, hypothesis in symbols and words, picture) with the verdict
+// under it, and the design health with what differs marked. The window shows it.
+struct CodingComparison;
+StudySheet comparisonPage(const CodingComparison &comparison, SheetPictures pictures = SheetPictures::InlineSvg);
+
 // Text for HTML and XML content and attribute values: & < > " ' escaped.
 QString htmlEscaped(QStringView text);
 

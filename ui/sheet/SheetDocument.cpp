@@ -24,6 +24,13 @@ constexpr int kPictureScale = 4;
 std::unique_ptr<QTextDocument> sheetTextDocument(const StudySheet &sheet)
 {
     auto doc = std::make_unique<QTextDocument>();
+    loadSheet(*doc, sheet);
+    return doc;
+}
+
+void loadSheet(QTextDocument &document, const StudySheet &sheet)
+{
+    QTextDocument *doc = &document;
     for (size_t i = 0; i < sheet.pictures.size(); ++i) {
         QSvgRenderer renderer(sheet.pictures[i]);
         const QSize size = renderer.defaultSize();
@@ -38,7 +45,6 @@ std::unique_ptr<QTextDocument> sheetTextDocument(const StudySheet &sheet)
         doc->addResource(QTextDocument::ImageResource, QUrl(u"picture:%1"_s.arg(i)), image);
     }
     doc->setHtml(sheet.html);
-    return doc;
 }
 
 QString writeSheetPdf(const StudySheet &sheet, const QString &path)

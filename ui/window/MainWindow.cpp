@@ -5,6 +5,7 @@
 #include "ui/design/DesignPanel.h"
 #include "ui/window/Demos.h"
 #include "ui/export/ExportDialog.h"
+#include "ui/sheet/SheetWindow.h"
 #include "ui/document/Document.h"
 #include "ui/health/HealthPanel.h"
 #include "ui/levels/LevelsPanel.h"
@@ -306,6 +307,11 @@ void MainWindow::buildMenus()
         dialog->setAttribute(Qt::WA_DeleteOnClose);
         dialog->open();
     })->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_E));
+    QMenu *sheet = file->addMenu(tr("Study &sheet"));
+    sheet->setObjectName(u"studySheetMenu"_s);
+    sheet->addAction(tr("Save as &HTML\u2026"), this, [this] { saveSheetAs(this, *m_document, *m_prompter, false); });
+    sheet->addAction(tr("Save as &PDF\u2026"), this, [this] { saveSheetAs(this, *m_document, *m_prompter, true); });
+    sheet->addAction(tr("&Print\u2026"), this, [this] { previewSheet(this, *m_document); })->setShortcut(QKeySequence::Print);
     file->addSeparator();
     QAction *quit = file->addAction(tr("&Quit"), this, &QWidget::close);
     quit->setShortcut(QKeySequence::Quit);
@@ -363,6 +369,12 @@ void MainWindow::buildMenus()
     backward->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_2));
     QAction *reset = m_viewMenu->addAction(tr("Reset &layout"), this, &MainWindow::resetLayout);
     reset->setObjectName(u"resetLayoutAction"_s);
+    m_viewMenu->addAction(tr("Co&mpare with another coding\u2026"), this, [this] {
+        auto *dialog = new CompareDialog(m_document, m_prompter, this);
+        dialog->setObjectName(u"compareDialog"_s);
+        dialog->setAttribute(Qt::WA_DeleteOnClose);
+        dialog->open();
+    });
     m_viewMenu->addSeparator();
     const QList<QDockWidget *> docks = findChildren<QDockWidget *>();
     for (QDockWidget *d : docks)
