@@ -2,6 +2,8 @@
 // docs/ (the golden file, regenerated with CB_UPDATE_SHEETS=1), deterministic, well-formed for a
 // strict parser (tests/python/check_sheet_html.py, Python's standard library, which also holds
 // the checksum to hashlib's SHA-256), and inert with hostile names.
+#include "core/analysis/Analysis.h"
+#include "core/base/NumberText.h"
 #include "core/files/InputFile.h"
 #include "core/model/SchemeEdits.h"
 #include "core/model/Study.h"
@@ -159,6 +161,37 @@ private slots:
         QVERIFY(html.contains(u"a &amp; b &quot;quoted&quot; &#39;single&#39;"_s));
         QVERIFY(html.contains(u"%1 %2 \ufffdbell"_s)); // no placeholder filled in, the control character replaced
         QCOMPARE(strictCheck(html), u"ok"_s);
+    }
+
+    // With power settings the sheet has the power table (computePower's numbers, which TestPower
+    // holds to SciPy) and the curves. Means 10, 12, 12, 14, 14 (invented), SD 4, 8 per level.
+    void powerSettingsAddTheTableAndCurves()
+    {
+        SheetOptions o = demoOptions();
+        PowerSettings p;
+        p.means = {10, 12, 12, 14, 14};
+        p.sd = 4;
+        p.n = {8, 8, 8, 8, 8};
+        o.power = p;
+        const Study study = demoStudy();
+        const QString html = studySheet(study, o).html;
+        QVERIFY(html.contains(u"<h2>Power</h2>"_s));
+        const Analysis a = analyze(study.activeScheme());
+        const auto rows = contrastRowsOf(a);
+        QVERIFY(rows);
+        const auto report = computePower(rows->rows, rows->names, p);
+        QVERIFY(report);
+        // irrigated vs none: psi = 13 - 10 = 3, se = 4 sqrt(1/8 + 4/(16 * 8)) = 1.5811.
+        QCOMPARE(report->contrasts[0].estimate, 3.0);
+        QVERIFY(html.contains(u"<tr><td class=\"name\">irrigated vs none</td><td>3</td><td>"_s));
+        QVERIFY(html.contains(u"<td>"_s + numberText(report->contrasts[0].power, 3) + u"</td>"_s));
+        QCOMPARE(html.count(u"<polyline"_s), 5); // four contrasts and the F-test
+        QCOMPARE(strictCheck(html), u"ok"_s);
+        if (qEnvironmentVariableIsSet("CB_SCREENSHOT_DIR")) { // to look at
+            QFile out(qEnvironmentVariable("CB_SCREENSHOT_DIR") + u"/sheet-with-power.html"_s);
+            QVERIFY(out.open(QIODevice::WriteOnly));
+            out.write(html.toUtf8());
+        }
     }
 
     void escapingCoversTheFiveCharacters()

@@ -39,7 +39,7 @@ SheetOptions documentSheetOptions(const Document &document)
     return o;
 }
 
-void saveSheetAs(QWidget *parent, const Document &document, Prompter &prompter, bool pdf)
+void saveSheetAs(QWidget *parent, const Document &document, Prompter &prompter, const SheetOptions &options, bool pdf)
 {
     const QString base = document.filePath().isEmpty() ? u"study"_s : QFileInfo(document.filePath()).completeBaseName();
     FileQuestion q;
@@ -51,16 +51,15 @@ void saveSheetAs(QWidget *parent, const Document &document, Prompter &prompter, 
     const QString path = prompter.askSavePath(parent, q);
     if (path.isEmpty())
         return;
-    const SheetOptions options = documentSheetOptions(document);
     const QString error = pdf ? writeSheetPdf(studySheet(document.study(), options, SheetPictures::ImageReferences), path)
                               : writeFileAtomically(path, studySheet(document.study(), options).html.toUtf8());
     if (!error.isEmpty())
         prompter.tell(parent, QObject::tr("Study sheet"), error);
 }
 
-void previewSheet(QWidget *parent, const Document &document)
+void previewSheet(QWidget *parent, const Document &document, const SheetOptions &options)
 {
-    const auto doc = sheetTextDocument(studySheet(document.study(), documentSheetOptions(document), SheetPictures::ImageReferences));
+    const auto doc = sheetTextDocument(studySheet(document.study(), options, SheetPictures::ImageReferences));
     QPrinter printer(QPrinter::HighResolution);
     printer.setPageSize(QPageSize(QPageSize::A4));
     printer.setPageMargins(QMarginsF(18, 18, 18, 18), QPageLayout::Millimeter);

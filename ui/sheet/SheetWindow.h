@@ -18,8 +18,8 @@ class Prompter;
 // written), and the three ways out of File > Study sheet: HTML, PDF, print (with a preview).
 SheetOptions documentSheetOptions(const Document &document);
 // Asks for a file (through the prompter) and writes the sheet there; says what went wrong.
-void saveSheetAs(QWidget *parent, const Document &document, Prompter &prompter, bool pdf);
-void previewSheet(QWidget *parent, const Document &document);
+void saveSheetAs(QWidget *parent, const Document &document, Prompter &prompter, const SheetOptions &options, bool pdf);
+void previewSheet(QWidget *parent, const Document &document, const SheetOptions &options);
 
 // The window's study beside the same factor (or design) under a second coding: a standard scheme
 // chosen in the dialog, or a saved file. The page is core's (comparisonPage), shown as rich text.

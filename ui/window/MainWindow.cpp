@@ -90,7 +90,8 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     setDockNestingEnabled(true);
     buildDocks();
     buildMenus();
-    addPanel(new PowerPanel(m_document, this), tr("Power"), u"powerDock"_s);
+    m_power = new PowerPanel(m_document, this);
+    addPanel(m_power, tr("Power"), u"powerDock"_s);
     auto *data = new DataPanel(m_document, this);
     data->setPrompter(m_prompter);
     addPanel(data, tr("Check on data"), u"dataDock"_s);
@@ -277,6 +278,15 @@ QDockWidget *MainWindow::addPanel(QWidget *panel, const QString &title, const QS
     return d;
 }
 
+SheetOptions MainWindow::sheetOptions() const
+{
+    SheetOptions o = documentSheetOptions(*m_document);
+    if (m_power->report())
+        if (auto s = m_power->settings())
+            o.power = s.take();
+    return o;
+}
+
 void MainWindow::buildMenus()
 {
     QMenu *file = menuBar()->addMenu(tr("&File"));
@@ -309,9 +319,9 @@ void MainWindow::buildMenus()
     })->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_E));
     QMenu *sheet = file->addMenu(tr("Study &sheet"));
     sheet->setObjectName(u"studySheetMenu"_s);
-    sheet->addAction(tr("Save as &HTML\u2026"), this, [this] { saveSheetAs(this, *m_document, *m_prompter, false); });
-    sheet->addAction(tr("Save as &PDF\u2026"), this, [this] { saveSheetAs(this, *m_document, *m_prompter, true); });
-    sheet->addAction(tr("&Print\u2026"), this, [this] { previewSheet(this, *m_document); })->setShortcut(QKeySequence::Print);
+    sheet->addAction(tr("Save as &HTML\u2026"), this, [this] { saveSheetAs(this, *m_document, *m_prompter, sheetOptions(), false); });
+    sheet->addAction(tr("Save as &PDF\u2026"), this, [this] { saveSheetAs(this, *m_document, *m_prompter, sheetOptions(), true); });
+    sheet->addAction(tr("&Print\u2026"), this, [this] { previewSheet(this, *m_document, sheetOptions()); })->setShortcut(QKeySequence::Print);
     file->addSeparator();
     QAction *quit = file->addAction(tr("&Quit"), this, &QWidget::close);
     quit->setShortcut(QKeySequence::Quit);
