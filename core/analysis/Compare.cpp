@@ -324,6 +324,7 @@ Result<CodingComparison> compareStudies(const Study &left, const Study &right)
     if (c) {
         c.value().leftTitle = l->title;
         c.value().rightTitle = r->title;
+        c.value().overCells = left.isDesign();
         describe(c.value());
     }
     return c;

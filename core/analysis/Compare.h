@@ -66,6 +66,7 @@ struct CodingComparison
     QString interceptLeft;  // what the intercept is under each coding, in words ("the mean of a")
     QString interceptRight;
     QStringList summary; // a few sentences: how many same, rescaled, different; the intercept
+    bool overCells = false; // a design's codings, compared over its cells (the analyses' levels are cells)
 };
 
 // A coding's title for people: the scheme's title, with its reference level where it has one

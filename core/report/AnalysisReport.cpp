@@ -157,7 +157,7 @@ QString designReport(const Design &d, const DesignAnalysis &da)
 QString comparisonReport(const CodingComparison &c)
 {
     QString out;
-    out += u"Two codings of the levels %1\n"_s.arg(c.left.levels.join(u", "_s));
+    out += u"Two codings of the %1 %2\n"_s.arg(c.overCells ? u"cells"_s : u"levels"_s, c.left.levels.join(u", "_s));
     out += u"  first:  %1\n  second: %2\n\n"_s.arg(c.leftTitle, c.rightTitle);
     for (const QString &line : c.summary)
         out += line + u"\n"_s;

@@ -64,6 +64,10 @@ private slots:
         QTest::newRow("polynomial, equal vs actual spacing") << QStringList{u"--levels"_s, u"a,b,c"_s, u"--spacing"_s, u"0,1,3"_s, u"--scheme"_s, u"polynomial"_s,
                                                                             u"--with"_s, u"polynomial"_s, u"--with-spacing"_s, u"equal"_s}
                                                              << u"  second: Orthogonal polynomial, equal spacing"_s;
+        QTest::newRow("a design, its active factor recoded") << QStringList{u"--file"_s, kDemos + u"hedgerow.json"_s, u"--with"_s, u"sum"_s}
+                                                             << u"  second: margin: Sum (effect, deviation), base level wildflower"_s;
+        QTest::newRow("a design is compared over its cells") << QStringList{u"--file"_s, kDemos + u"hedgerow.json"_s, u"--with"_s, u"sum"_s}
+                                                             << u"Two codings of the cells bare\u00b7early, bare\u00b7late, grass\u00b7early, grass\u00b7late, wildflower\u00b7early, wildflower\u00b7late"_s;
         QTest::newRow("a saved file as the second") << QStringList{u"--file"_s, kDemos + u"irrigation.json"_s, u"--with-file"_s, kDemos + u"irrigation.json"_s}
                                                     << u"The intercept keeps its meaning: under both codings it is the unweighted mean of the 5 level means."_s;
     }
