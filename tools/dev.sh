@@ -22,6 +22,7 @@ PACKAGES=(
   python3-numpy python3-scipy python3-pandas
   clang libclang-rt-14-dev llvm-14
   xvfb xauth fonts-dejavu-core valgrind
+  poppler-utils chromium
   dpkg-dev desktop-file-utils appstream bash-completion shared-mime-info
 )
 

@@ -29,12 +29,6 @@ int report(const Scheme &scheme, bool json, Io &io)
     return kExitOk;
 }
 
-int badInput(Io &io, const QString &command, const QString &message)
-{
-    io.err << "contrast-bench-cli " << command << ": " << message << '\n';
-    return kExitBadInput;
-}
-
 } // namespace
 
 int runAnalyze(const QStringList &args, Io &io)

@@ -21,8 +21,7 @@ namespace {
 
 int badInput(Io &io, const QString &message)
 {
-    io.err << "contrast-bench-cli fit: " << message << '\n';
-    return kExitBadInput;
+    return cli::badInput(io, u"fit"_s, message);
 }
 
 // The data options, read before the scheme's so that --factor names the data column

@@ -120,6 +120,28 @@ Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QStri
     return cellScheme(d);
 }
 
+Result<SchemeChoice> schemeChoiceFromOptions(const QCommandLineParser &p, const QStringList &levels, const SchemeChoiceNames &names)
+{
+    using R = Result<SchemeChoice>;
+    SchemeChoice c;
+    const auto kind = schemeFromId(p.value(names.scheme));
+    if (!kind || *kind == SchemeKind::Custom)
+        return R::failure(u"--%1: unknown scheme %2; expected one of %3"_s.arg(names.scheme, quoted(p.value(names.scheme)), schemeIdList()));
+    c.kind = *kind;
+    if (p.isSet(names.reference)) {
+        if (!schemeUsesReference(*kind))
+            return R::failure(u"--%1: the %2 scheme has no reference level"_s.arg(names.reference, schemeId(*kind)));
+        c.options.reference = int(levels.indexOf(p.value(names.reference)));
+        if (c.options.reference < 0)
+            return R::failure(u"--%1: %2 is not one of the levels (%3)"_s.arg(names.reference, quoted(p.value(names.reference)),
+                                                                              shortenedInput(levels.join(u", "_s))));
+    }
+    if (p.isSet(names.integer))
+        c.options.polynomialForm = PolynomialForm::Integer;
+    c.options.polynomialWeighted = !names.weighted.isEmpty() && p.isSet(names.weighted);
+    return R(std::move(c));
+}
+
 Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
 {
     using R = Result<Scheme>;
@@ -144,21 +166,10 @@ Result<Scheme> schemeFromOptions(const QCommandLineParser &p)
     if (haveScheme == haveColumns)
         return R::failure(u"with --levels give either --scheme NAME or --columns \"w,w,w;w,w,w\""_s);
     if (haveScheme) {
-        const auto kind = schemeFromId(p.value(u"scheme"_s));
-        if (!kind || *kind == SchemeKind::Custom)
-            return R::failure(u"--scheme: unknown scheme %1; expected one of %2"_s.arg(quoted(p.value(u"scheme"_s)), schemeIdList()));
-        SchemeOptions opt;
-        if (p.isSet(u"reference"_s)) {
-            if (!schemeUsesReference(*kind))
-                return R::failure(u"--reference: the %1 scheme has no reference level"_s.arg(schemeId(*kind)));
-            opt.reference = int(f.levels.indexOf(p.value(u"reference"_s)));
-            if (opt.reference < 0)
-                return R::failure(u"--reference: %1 is not one of the levels (%2)"_s.arg(quoted(p.value(u"reference"_s)), shortenedInput(f.levels.join(u", "_s))));
-        }
-        if (p.isSet(u"integer"_s))
-            opt.polynomialForm = PolynomialForm::Integer;
-        opt.polynomialWeighted = p.isSet(u"poly-weighted"_s);
-        auto made = makeScheme(f, *kind, opt);
+        const auto choice = schemeChoiceFromOptions(p, f.levels);
+        if (!choice)
+            return R::failure(choice.error());
+        auto made = makeScheme(f, choice->kind, choice->options);
         if (!made)
             return R::failure(u"--scheme: "_s + made.error());
         s = made.take();

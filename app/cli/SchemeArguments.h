@@ -31,6 +31,24 @@ Result<Scheme> schemeFromOptions(const QCommandLineParser &parser);
 Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &parser, const QString &what,
                                         std::optional<Design> *design = nullptr);
 
+// The options that choose a standard scheme and its options: --scheme, --reference, --integer,
+// --poly-weighted for a study's coding; compare's second coding uses --with, --with-reference,
+// --with-integer (an empty name: no such option).
+struct SchemeChoiceNames
+{
+    QString scheme = QStringLiteral("scheme");
+    QString reference = QStringLiteral("reference");
+    QString integer = QStringLiteral("integer");
+    QString weighted = QStringLiteral("poly-weighted");
+};
+struct SchemeChoice
+{
+    SchemeKind kind = SchemeKind::Custom;
+    SchemeOptions options;
+};
+Result<SchemeChoice> schemeChoiceFromOptions(const QCommandLineParser &parser, const QStringList &levels,
+                                             const SchemeChoiceNames &names = {});
+
 // The factor alone: --levels, --factor (unless left out), --n.
 void addFactorOptions(QCommandLineParser &parser, SchemeOptionSet set = SchemeOptionSet::All);
 Result<Factor> factorFromOptions(const QCommandLineParser &parser);

@@ -3,9 +3,13 @@
 #include "core/base/Version.h"
 
 #include <QCoreApplication>
+#ifdef CB_SHEET_PDF
+#include <QGuiApplication>
+#endif
 #include <QTextStream>
 
 #include <cstdio>
+#include <memory>
 
 using namespace Qt::StringLiterals;
 using namespace cb::cli;
@@ -22,10 +26,12 @@ struct Subcommand
 // The dispatch table: one line per subcommand.
 const Subcommand kSubcommands[] = {
     {u"analyze", runAnalyze, u"what a coding implies: hypotheses, sums, orthogonality, collinearity"},
+    {u"compare", runCompare, u"one factor or design under two codings side by side: what each coefficient tests"},
     {u"design", runDesign, u"the coding that tests given hypotheses (weights on level means)"},
     {u"export", runExport, u"the coding or hypothesis matrix as CSV, C++, R, Python, Julia, MATLAB, LaTeX or Markdown"},
     {u"fit", runFit, u"fit a coding to a data file; estimates beside the comparisons they should be"},
     {u"power", runPower, u"power and sample size for each planned contrast and the omnibus F-test"},
+    {u"sheet", runSheet, u"the study sheet for the record: HTML (self-contained) or PDF"},
 };
 
 void usage(QTextStream &s)
@@ -41,7 +47,20 @@ void usage(QTextStream &s)
 
 int main(int argc, char **argv)
 {
-    QCoreApplication app(argc, argv);
+    // A PDF sheet is drawn with Qt Gui: that one command gets a GUI application on the offscreen
+    // platform, so it needs no display; every other command stays a core application.
+    std::unique_ptr<QCoreApplication> application;
+#ifdef CB_SHEET_PDF
+    QStringList raw;
+    for (int i = 1; i < argc; ++i)
+        raw << QString::fromLocal8Bit(argv[i]);
+    if (raw.value(0) == u"sheet"_s && sheetWritesPdf(raw.mid(1))) {
+        qputenv("QT_QPA_PLATFORM", "offscreen");
+        application = std::make_unique<QGuiApplication>(argc, argv);
+    }
+#endif
+    if (!application)
+        application = std::make_unique<QCoreApplication>(argc, argv);
     QCoreApplication::setApplicationName(u"contrast-bench-cli"_s);
     QCoreApplication::setApplicationVersion(QString::fromUtf16(cb::kVersion));
     QTextStream out(stdout);

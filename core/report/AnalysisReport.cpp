@@ -1,5 +1,6 @@
 #include "core/report/AnalysisReport.h"
 
+#include "core/analysis/Compare.h"
 #include "core/analysis/DesignAnalysis.h"
 #include "core/base/NumberText.h"
 #include "core/model/Design.h"
@@ -151,6 +152,37 @@ QString designReport(const Design &d, const DesignAnalysis &da)
         colTerms << u"  column %1 '%2' belongs to %3"_s.arg(j + 1).arg(da.cellScheme.columns[j].name, da.termNames[da.columnTerm[j]]);
     out += colTerms.join(u"\n"_s) + u"\n\n"_s;
     out += analysisReport(da.cellScheme, da.analysis);
+    return out;
+}
+
+QString comparisonReport(const CodingComparison &c)
+{
+    QString out;
+    out += u"Two codings of the %1 %2\n"_s.arg(c.overCells ? u"cells"_s : u"levels"_s, c.left.levels.join(u", "_s));
+    out += u"  first:  %1\n  second: %2\n\n"_s.arg(c.leftTitle, c.rightTitle);
+    for (const QString &line : c.summary)
+        out += line + u"\n"_s;
+    out += u"\nCoefficient by coefficient (weights on the level means)\n"_s;
+    auto side = [](const Analysis &a, int index, const QString &which) {
+        if (index < 0)
+            return u"  %1: no coefficient\n"_s.arg(which);
+        if (a.hypotheses.empty())
+            return u"  %1: %2 (not identifiable)\n"_s.arg(which, coefficientLabel(a.intercept, index, a.coefficientNames[index]));
+        QStringList w;
+        for (const Weight &x : a.hypotheses[size_t(index)])
+            w << x.display();
+        return u"  %1: %2\n      %3\n      weights: %4\n"_s.arg(which, labelledSymbols(a, index), a.hypothesisWords[index], w.join(u", "_s));
+    };
+    for (const ComparedCoefficient &cc : c.coefficients) {
+        out += side(c.left, cc.left, u"first "_s);
+        out += side(c.right, cc.right, u"second"_s);
+        out += u"  => %1\n\n"_s.arg(cc.verdict);
+    }
+    out += u"Design health\n"_s;
+    TextTable table({QString(), u"first"_s, u"second"_s, QString()});
+    for (const HealthDifference &h : c.health)
+        table.addRow({h.what, h.left, h.right, h.differs ? u"differs"_s : QString()});
+    out += table.text();
     return out;
 }
 

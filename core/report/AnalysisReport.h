@@ -18,4 +18,8 @@ struct Design;
 struct DesignAnalysis;
 QString designReport(const Design &design, const DesignAnalysis &analysis);
 
+// A plain-text report of two codings compared (core/analysis/Compare.h), for the terminal.
+struct CodingComparison;
+QString comparisonReport(const CodingComparison &comparison);
+
 } // namespace cb

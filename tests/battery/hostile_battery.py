@@ -175,7 +175,8 @@ def file_cases(tmp):
                 refuse = not accepted and not (own == "string" and wrong_type == "string")
                 # An array standing for all its items: an empty one may be fine (columns: no; n: count).
                 means = "0,1,2" if base is SCHEME else "0,1,2,3,4,5"
-                commands = (["analyze"], ["export", "--format", "csv"], ["power", "--means", means, "--sd", "1"])
+                commands = (["analyze"], ["export", "--format", "csv"], ["power", "--means", means, "--sd", "1"],
+                            ["compare", "--with", "sum"], ["sheet", "--date", "2026-01-01", "-o", "-"])
                 # The commands share one loader: each key and type goes to one of them in turn.
                 for command in [commands[len(seen) % len(commands)]]:
                     cases.append(Case(f"{base_name} {path} = {wrong_name} ({command[0]})",
@@ -299,7 +300,8 @@ def path_cases(tmp):
     }
     for name, (path, stdin, refuse) in kinds.items():
         means = "0,1,2" if stdin == scheme_text or path == unreadable else "0,1,2,3,4,5"
-        for command in (["analyze"], ["export", "--format", "csv"], ["power", "--means", means, "--sd", "1"]):
+        for command in (["analyze"], ["export", "--format", "csv"], ["power", "--means", means, "--sd", "1"],
+                        ["compare", "--with", "sum"], ["sheet", "--date", "2026-01-01", "-o", "-"]):
             if name == "stdin endless" and command[0] != "analyze":
                 continue
             files = {empty: ""} if path == empty else {}

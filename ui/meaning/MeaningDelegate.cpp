@@ -3,6 +3,8 @@
 #include "ui/common/Look.h"
 #include "ui/meaning/MeaningModel.h"
 
+#include "core/report/LevelBars.h"
+
 #include <QAbstractItemView>
 #include <QPainter>
 
@@ -129,30 +131,22 @@ void MeaningDelegate::paintBars(QPainter *painter, const QRect &area, const QLis
     const bool labelled = k <= kLabelledLevels;
     const int line = labelled ? QFontMetrics(smallFont).height() : 0;
     const QRect chart(area.left(), area.top() + line, area.width(), area.height() - 2 * line);
-    double largest = 0;
-    for (double w : weights)
-        largest = std::max(largest, std::abs(w));
-    bool anyNegative = false;
-    for (double w : weights)
-        anyNegative = anyNegative || w < -1e-12 * largest;
-    // Zero sits in the middle when some weights are negative, at the bottom otherwise.
-    const int zeroY = anyNegative ? chart.center().y() : chart.bottom() - 1;
-    const int reach = anyNegative ? chart.height() / 2 - 1 : chart.height() - 2;
-    const double slot = double(chart.width()) / k;
-    const int barWidth = std::max(1, std::min(kMaxBarWidth, int(slot * 0.7)));
+    const LevelBarsLayout bars = levelBarsLayout(std::vector<double>(weights.begin(), weights.end()), chart.left(), chart.top(),
+                                                 chart.width(), chart.height(), kMaxBarWidth);
+    const int zeroY = int(bars.zeroY);
+    const double slot = bars.slot;
     painter->setFont(smallFont);
     for (int i = 0; i < k; ++i) {
-        const double w = weights[i];
-        const int cx = chart.left() + int(slot * (i + 0.5));
-        const int h = largest > 0 ? int(std::lround(std::abs(w) / largest * reach)) : 0;
-        const QRect bar = w >= 0 ? QRect(cx - barWidth / 2, zeroY - h, barWidth, h) : QRect(cx - barWidth / 2, zeroY, barWidth, h);
-        if (h > 0)
-            painter->fillRect(bar, w >= 0 ? look::raisedBar() : look::loweredBar());
+        const LevelBar &b = bars.bars[size_t(i)];
+        const QRect bar(int(b.x), int(b.y), int(b.width), int(b.height));
+        if (b.sign != 0)
+            painter->fillRect(bar, b.sign > 0 ? look::raisedBar() : look::loweredBar());
         else {
             painter->setPen(look::quietText());
-            painter->drawLine(cx - barWidth / 2, zeroY, cx + barWidth / 2, zeroY);
+            painter->drawLine(int(b.center) - bar.width() / 2, zeroY, int(b.center) + bar.width() / 2, zeroY);
         }
         if (labelled) {
+            const double w = weights[i];
             const QRect top(int(chart.left() + slot * i), area.top(), int(slot), line);
             const QRect bottom(int(chart.left() + slot * i), chart.bottom() + 1, int(slot), line);
             painter->setPen(w > 0 ? look::raisedBar() : w < 0 ? look::loweredBar() : look::quietText());

@@ -6,6 +6,7 @@
 #include "ui/design/DesignPanel.h"
 #include "ui/window/Demos.h"
 #include "ui/export/ExportDialog.h"
+#include "ui/sheet/SheetWindow.h"
 #include "ui/document/Document.h"
 #include "ui/health/HealthPanel.h"
 #include "ui/levels/LevelsPanel.h"
@@ -90,7 +91,8 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     setDockNestingEnabled(true);
     buildDocks();
     buildMenus();
-    addPanel(new PowerPanel(m_document, this), tr("Power"), u"powerDock"_s);
+    m_power = new PowerPanel(m_document, this);
+    addPanel(m_power, tr("Power"), u"powerDock"_s);
     auto *data = new DataPanel(m_document, this);
     data->setPrompter(m_prompter);
     addPanel(data, tr("Check on data"), u"dataDock"_s);
@@ -277,6 +279,15 @@ QDockWidget *MainWindow::addPanel(QWidget *panel, const QString &title, const QS
     return d;
 }
 
+SheetOptions MainWindow::sheetOptions() const
+{
+    SheetOptions o = documentSheetOptions(*m_document);
+    if (m_power->report())
+        if (auto s = m_power->settings())
+            o.power = s.take();
+    return o;
+}
+
 void MainWindow::buildMenus()
 {
     QMenu *file = menuBar()->addMenu(tr("&File"));
@@ -307,6 +318,11 @@ void MainWindow::buildMenus()
         dialog->setAttribute(Qt::WA_DeleteOnClose);
         dialog->open();
     })->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_E));
+    QMenu *sheet = file->addMenu(tr("Study &sheet"));
+    sheet->setObjectName(u"studySheetMenu"_s);
+    sheet->addAction(tr("Save as &HTML\u2026"), this, [this] { saveSheetAs(this, *m_document, *m_prompter, sheetOptions(), false); });
+    sheet->addAction(tr("Save as &PDF\u2026"), this, [this] { saveSheetAs(this, *m_document, *m_prompter, sheetOptions(), true); });
+    sheet->addAction(tr("&Print\u2026"), this, [this] { previewSheet(this, *m_document, sheetOptions()); })->setShortcut(QKeySequence::Print);
     file->addSeparator();
     QAction *quit = file->addAction(tr("&Quit"), this, &QWidget::close);
     quit->setShortcut(QKeySequence::Quit);
@@ -364,6 +380,12 @@ void MainWindow::buildMenus()
     backward->setShortcut(QKeySequence(Qt::CTRL | Qt::Key_2));
     QAction *reset = m_viewMenu->addAction(tr("Reset &layout"), this, &MainWindow::resetLayout);
     reset->setObjectName(u"resetLayoutAction"_s);
+    m_viewMenu->addAction(tr("Co&mpare with another coding\u2026"), this, [this] {
+        auto *dialog = new CompareDialog(m_document, m_prompter, this);
+        dialog->setObjectName(u"compareDialog"_s);
+        dialog->setAttribute(Qt::WA_DeleteOnClose);
+        dialog->open();
+    });
     m_viewMenu->addSeparator();
     const QList<QDockWidget *> docks = findChildren<QDockWidget *>();
     for (QDockWidget *d : docks)

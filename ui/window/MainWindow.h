@@ -2,6 +2,7 @@
 
 #include "ui/document/RecentFiles.h"
 #include "ui/document/RecoveryStore.h"
+#include "core/report/StudySheet.h"
 
 #include <QElapsedTimer>
 #include <QMainWindow>
@@ -21,6 +22,7 @@ class Document;
 class HealthPanel;
 class LevelsPanel;
 class MeaningPanel;
+class PowerPanel;
 class Prompter;
 
 // What the window is given from outside; tests replace each part.
@@ -108,6 +110,9 @@ private:
 
     WindowOptions m_options;
     Prompter *m_prompter;
+    PowerPanel *m_power = nullptr;
+    // The sheet's options: the document's, with the Power panel's settings when they are complete.
+    SheetOptions sheetOptions() const;
     Document *m_document;
     CodingPanel *m_coding;
     MeaningPanel *m_meaning = nullptr;
