@@ -330,7 +330,7 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
                .arg(o.hotelling ? u"Hotelling's T\u00b2 as F"_s : u"F-test"_s)
                .arg(o.df1)
                .arg(degrees(o.df2), number(o.alpha), number(o.effectSize), number(o.noncentrality), number(o.power),
-                    r.within ? u"participants"_s : u"n"_s,
+                    r.within ? u"needed"_s : u"n"_s,
                     o.noncentrality == 0.0 ? u"none (all means equal)"_s : sizesText(o.required, r.within));
 
     QStringList contrastNotes;
