@@ -18,14 +18,20 @@ Written from the textbook definitions, apart from the C++ code:
   contrasts (numpy.linalg.qr of the centred identity; a different C from the C++ code, so the
   test also shows lambda does not depend on the choice), F(k - 1, P - k + 1).
 """
+import importlib.util
 import json
+import pathlib
 import sys
 import warnings
 
 import numpy as np
 from scipy import stats
 
-from power_check import per_test_alpha, t_power  # the same reference definitions as TestPower's
+# The same reference definitions as TestPower's (power_check.py beside this file), loaded by path.
+_spec = importlib.util.spec_from_file_location("power_check", pathlib.Path(__file__).with_name("power_check.py"))
+_power_check = importlib.util.module_from_spec(_spec)
+_spec.loader.exec_module(_power_check)
+per_test_alpha, t_power = _power_check.per_test_alpha, _power_check.t_power
 
 warnings.simplefilter("ignore")
 

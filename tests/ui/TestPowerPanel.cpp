@@ -7,6 +7,7 @@
 #include "tests/support/PanelShot.h"
 #include "ui/power/PowerPanel.h"
 #include "core/model/SchemeEdits.h"
+#include "core/model/Study.h"
 #include "tests/support/TableText.h"
 #include "ui/common/SmallChart.h"
 
@@ -276,6 +277,14 @@ void TestPowerPanel::withinFactorAsksForACorrelationAndCountsParticipants()
     QVERIFY2(why->text().contains(u"64 per group (128 people)"_s), qPrintable(why->text()));
     QVERIFY(panel.findChild<QLabel *>(u"powerCautions"_s)->text().contains(u"correlation between a participant's values"_s));
     QCOMPARE(panel.chart()->xTitle(), u"participants"_s);
+
+    // A design with a within factor is not planned as separate groups: refused with the reason.
+    Study study = withFactorAdded(doc.study()).take();
+    doc.editStudy(settled(study), u"add a factor"_s);
+    QVERIFY(doc.isDesign());
+    panel.recompute();
+    QVERIFY(!panel.report());
+    QVERIFY(panel.findChild<QLabel *>(u"powerMessage"_s)->text().contains(u"measured within participants is not computed yet"_s));
 }
 
 QTEST_MAIN(TestPowerPanel)

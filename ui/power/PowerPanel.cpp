@@ -553,6 +553,12 @@ void PowerPanel::recompute()
         m_withinWhy->hide();
         m_chart->clear(tr("The power curves appear once every input is valid."));
     };
+    const auto &factors = m_document->design().factors;
+    if (m_document->isDesign()
+        && std::any_of(factors.begin(), factors.end(), [](const Scheme &f) { return f.factor.isWithin(); }))
+        return fail(Problem{tr("power for a design with factors measured within participants is not computed yet; plan a "
+                               "within factor on its own (a one-factor study)"),
+                            {}});
     const Result<ContrastRows> rows = contrastRowsOf(analysis());
     if (!rows)
         return fail(rows.problem());
