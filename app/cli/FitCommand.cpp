@@ -37,6 +37,10 @@ void addDataOptions(QCommandLineParser &p)
                              "once per factor in the design's order (default: columns named as the factors)."_s, u"COL"_s});
     p.addOption({u"response"_s, u"The data column that holds the measurements (name, or number from 1)."_s, u"COL"_s});
     p.addOption({u"weight"_s, u"A column of case weights (a row of weight w counts as w rows)."_s, u"COL"_s});
+    p.addOption({u"participant"_s, u"The data column naming each row's participant, for a factor measured within participants: "
+                                  u"the by-participant analysis (each contrast on the participants' contrast scores, Hotelling's "
+                                  u"T\u00b2 for all levels). It is not a mixed-effects model."_s,
+                 u"COL"_s});
     p.addOption({u"summary"_s, u"The data file is a summary table with columns level, n, mean, sd."_s});
     p.addOption({u"delimiter"_s, u"comma, tab, semicolon, bar, or one character (default: detected)."_s, u"NAME"_s});
     p.addOption({u"header"_s, u"Whether the first row is a header: auto, yes or no (default auto)."_s, u"auto|yes|no"_s});
@@ -77,9 +81,9 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
         // --factor is checked with the scheme: a design's columns default to its factors' names.
         if (p.value(u"response"_s).trimmed().isEmpty())
             return R::failure(u"--response: missing; name the data column (or give --summary for a summary table)"_s);
-    } else if (p.isSet(u"weight"_s) || p.isSet(u"response"_s)) {
+    } else if (p.isSet(u"weight"_s) || p.isSet(u"response"_s) || p.isSet(u"participant"_s)) {
         return R::failure(u"--%1 cannot be combined with --summary; a summary table has its own columns"_s.arg(
-            p.isSet(u"weight"_s) ? u"weight"_s : u"response"_s));
+            p.isSet(u"weight"_s) ? u"weight"_s : p.isSet(u"response"_s) ? u"response"_s : u"participant"_s));
     }
     if (p.isSet(u"delimiter"_s)) {
         const auto d = delimiterFromName(p.value(u"delimiter"_s));
@@ -134,6 +138,7 @@ Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a
     o.moreFactorColumns = factorColumns.mid(1);
     o.responseColumn = p.value(u"response"_s);
     o.weightColumn = p.value(u"weight"_s);
+    o.participantColumn = p.value(u"participant"_s);
     o.delimiter = a.delimiter;
     o.header = a.header;
     return readLevelData(p.value(u"data"_s), o);
@@ -184,7 +189,11 @@ int runFit(const QStringList &args, Io &io)
     auto data = readData(p, *arguments, factorColumns);
     if (!data)
         return badInput(io, data.error());
-    auto fit = fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
+    if (design && p.isSet(u"participant"_s))
+        return badInput(io, u"--participant: the by-participant analysis of a design is not computed yet; give a one-factor "
+                            u"scheme measured within participants"_s);
+    auto fit = p.isSet(u"participant"_s) ? fitParticipants(*scheme, *data, arguments->fit, arguments->mapping)
+                                         : fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
     if (!fit) // named by the data it could not fit
         return badInput(io, data->source + u": "_s + fit.error());
     if (p.isSet(u"json"_s))

@@ -4,6 +4,7 @@
 
 #include "core/analysis/Analysis.h"
 #include "core/base/NumberText.h"
+#include "core/files/InputFile.h"
 #include "core/model/Design.h"
 #include "core/power/Power.h"
 #include "core/report/TextTable.h"
@@ -42,6 +43,12 @@ void addPowerOptions(QCommandLineParser &p)
     p.addOption({u"one-sided"_s, u"One-sided tests of psi > 0, in the direction each contrast is written."_s});
     p.addOption({u"target"_s, u"Target power for the sample-size search (default 0.8)."_s, u"P"_s, u"0.8"_s});
     p.addOption({u"adjust"_s, u"Adjustment across the contrasts: %1 (default none)."_s.arg(adjustmentIdList(true)), u"METHOD"_s, u"none"_s});
+    p.addOption({u"correlation"_s, u"With --within (or a within factor in --file): the expected correlation between a "
+                                   u"participant's values at any two levels."_s,
+                 u"R"_s});
+    p.addOption({u"correlations"_s, u"Instead of --correlation: a file with the full correlation matrix of the levels, one row per "
+                                    u"line, numbers separated by commas or spaces."_s,
+                 u"FILE"_s});
     p.addOption({u"json"_s, u"Print one JSON object instead of the report."_s});
 }
 
@@ -127,8 +134,9 @@ QString readSizes(const QCommandLineParser &p, const Scheme &scheme, PowerSettin
         return {};
     }
     if (!haveTotal)
-        return haveRatios ? u"--ratios: give the total N with --total"_s
-                          : u"give planned sizes per level with --n, or a total N with --total (and --ratios)"_s;
+        return haveRatios            ? u"--ratios: give the total N with --total"_s
+               : scheme.factor.isWithin() ? u"give the number of participants with -n P"_s
+                                          : u"give planned sizes per level with --n, or a total N with --total (and --ratios)"_s;
     auto total = singleNumber(p, u"total"_s);
     if (!total)
         return total.error();
@@ -139,6 +147,39 @@ QString readSizes(const QCommandLineParser &p, const Scheme &scheme, PowerSettin
             return ratios.error();
         s.ratios = ratios.take();
     }
+    return {};
+}
+
+// Within participants: the correlation between a participant's values, one or a matrix.
+QString readCorrelation(const QCommandLineParser &p, const Scheme &scheme, PowerSettings &s)
+{
+    const bool haveOne = p.isSet(u"correlation"_s);
+    const bool haveMatrix = p.isSet(u"correlations"_s);
+    if (!scheme.factor.isWithin()) {
+        if (haveOne || haveMatrix)
+            return u"--%1: a correlation is used only when the factor is measured within participants (--within, or "
+                   u"\"measured\": \"within\" in the file)"_s.arg(haveOne ? u"correlation"_s : u"correlations"_s);
+        return {};
+    }
+    s.measure = Measure::Within;
+    if (haveOne == haveMatrix)
+        return u"within participants, give the expected correlation between a participant's values at two levels with "
+               u"--correlation, or the full matrix with --correlations FILE"_s;
+    if (haveOne) {
+        auto r = singleNumber(p, u"correlation"_s);
+        if (!r)
+            return r.error();
+        s.correlation = *r;
+        return {};
+    }
+    const QString path = p.value(u"correlations"_s);
+    auto bytes = readInput(path);
+    if (!bytes)
+        return u"--correlations: "_s + bytes.error();
+    auto matrix = parseCorrelationMatrix(QString::fromUtf8(*bytes), u"--correlations: "_s + inputLabel(path));
+    if (!matrix)
+        return matrix.error();
+    s.correlations = matrix.take();
     return {};
 }
 
@@ -196,10 +237,12 @@ QString degrees(double df)
     return std::abs(df) < 1e15 ? QString::number(df, 'f', 2) : numberText(df);
 }
 
-QString sizesText(const SampleSize &s)
+QString sizesText(const SampleSize &s, bool within)
 {
     if (!s.reachable)
         return u"not reached"_s;
+    if (within)
+        return u"%1 participants"_s.arg(s.total);
     const bool equal = std::adjacent_find(s.perLevel.begin(), s.perLevel.end(), std::not_equal_to<>()) == s.perLevel.end();
     QStringList items;
     for (long long v : s.perLevel)
@@ -208,13 +251,13 @@ QString sizesText(const SampleSize &s)
     return u"%1 (N = %2)"_s.arg(per).arg(s.total);
 }
 
-QString neededText(const ContrastPower &c, bool oneSided)
+QString neededText(const ContrastPower &c, bool oneSided, bool within)
 {
     if (c.zeroEstimate)
         return u"none (estimate 0)"_s;
     if (oneSided && c.estimate < 0.0)
         return u"none (estimate < 0, one-sided)"_s;
-    return sizesText(c.required);
+    return sizesText(c.required, within);
 }
 
 QString sizesLine(const std::vector<double> &n)
@@ -248,7 +291,12 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
     for (int i = 0; i < r.levelCount; ++i)
         means << u"%1 %2"_s.arg(scheme.factor.levels[i], number(s.means[size_t(i)]));
     out += u"Expected means: %1\n"_s.arg(means.join(u", "_s));
-    if (s.perLevelSds()) {
+    if (s.perLevelSds() && r.within) {
+        QStringList sds;
+        for (double v : s.sds)
+            sds << number(v);
+        out += u"SD per level: %1\n"_s.arg(sds.join(u", "_s));
+    } else if (s.perLevelSds()) {
         QStringList sds;
         for (double v : s.sds)
             sds << number(v);
@@ -256,7 +304,13 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
     } else {
         out += u"Common SD: %1\n"_s.arg(number(s.sd));
     }
-    out += u"Planned n: %1\n"_s.arg(sizesLine(r.plannedN));
+    if (r.within) {
+        out += r.correlation ? u"Correlation between a participant's values at two levels: %1\n"_s.arg(number(*r.correlation))
+                             : u"Correlations between levels: the matrix given\n"_s;
+        out += u"Participants (each at every level): %1\n"_s.arg(number(r.plannedTotal));
+    } else {
+        out += u"Planned n: %1\n"_s.arg(sizesLine(r.plannedN));
+    }
     out += u"Alpha %1 %2-sided, adjustment %3: %4 per contrast; target power %5\n"_s.arg(number(r.alpha))
                .arg(r.oneSided ? u"one"_s : u"two"_s)
                .arg(adjustmentTitle(r.adjustment))
@@ -264,18 +318,20 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
                .arg(number(r.target));
 
     TextTable table({u"contrast"_s, u"estimate"_s, u"SE"_s, u"effect"_s, u"noncentrality"_s, u"df"_s, u"power"_s,
-                     u"n for target"_s});
+                     r.within ? u"participants for target"_s : u"n for target"_s});
     table.setAlign(7, TextTable::Align::Left);
     for (const ContrastPower &c : r.contrasts)
         table.addRow({c.name, number(c.estimate), number(c.se), number(c.effectSize), number(c.noncentrality),
-                      degrees(c.df), number(c.power), neededText(c, r.oneSided)});
+                      degrees(c.df), number(c.power), neededText(c, r.oneSided, r.within)});
     out += u'\n' + table.text();
 
     const OmnibusPower &o = r.omnibus;
-    out += u"\nOmnibus F-test (df %1 and %2, alpha %3): f = %4, lambda = %5, power %6, n for target %7\n"_s
+    out += u"\nOmnibus %1 (df %2 and %3, alpha %4): f = %5, lambda = %6, power %7, %8 for target %9\n"_s
+               .arg(o.hotelling ? u"Hotelling's T\u00b2 as F"_s : u"F-test"_s)
                .arg(o.df1)
                .arg(degrees(o.df2), number(o.alpha), number(o.effectSize), number(o.noncentrality), number(o.power),
-                    o.noncentrality == 0.0 ? u"none (all means equal)"_s : sizesText(o.required));
+                    r.within ? u"needed"_s : u"n"_s,
+                    o.noncentrality == 0.0 ? u"none (all means equal)"_s : sizesText(o.required, r.within));
 
     QStringList contrastNotes;
     for (const ContrastPower &c : r.contrasts)
@@ -283,6 +339,8 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
             contrastNotes << c.name + u": "_s + n;
     for (const QString &n : o.notes)
         contrastNotes << u"omnibus: "_s + n;
+    if (const QString why = withinExplanation(r); !why.isEmpty())
+        out += u'\n' + why + u'\n';
     bullets(out, u"Notes"_s, r.notes + contrastNotes);
     bullets(out, u"Cautions"_s, r.cautions);
     return out;
@@ -314,7 +372,11 @@ int runPower(const QStringList &args, Io &io)
                            .arg(scheme.levelCount()).arg(scheme.factor.levels.join(u", "_s));
 
     PowerSettings s;
-    for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, s), readTest(p, s)})
+    if (design && std::any_of(design->factors.begin(), design->factors.end(), [](const Scheme &f) { return f.factor.isWithin(); }))
+        return badInput(io, u"%1: power for a design with factors measured within participants is not computed yet; plan "
+                            u"a within factor on its own (one factor, --within)"_s.arg(inputLabel(p.value(u"file"_s))));
+    for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, s), readCorrelation(p, scheme, s),
+                             readTest(p, s)})
         if (!e.isEmpty())
             return badInput(io, e);
     if (Problem e = validatePowerSettings(s, scheme.levelCount(), u"--"_s); !e.isEmpty())

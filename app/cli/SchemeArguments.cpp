@@ -18,7 +18,10 @@ void addFactorOptions(QCommandLineParser &p, SchemeOptionSet set)
                  u"a,b,c"_s});
     if (set == SchemeOptionSet::All)
         p.addOption({u"factor"_s, u"The factor's name (with --levels)."_s, u"name"_s});
-    p.addOption({u"n"_s, u"Planned group size of each level."_s, u"n1,n2,n3"_s});
+    p.addOption({u"n"_s, u"Planned group size of each level; with --within, the number of participants (one number)."_s,
+                 u"n1,n2,n3"_s});
+    p.addOption({u"within"_s, u"The factor is measured within participants: every participant gives a value at every level "
+                              u"(repeated measures). Without it, each level is a separate group."_s});
 }
 
 Result<Factor> factorFromOptions(const QCommandLineParser &p)
@@ -29,8 +32,13 @@ Result<Factor> factorFromOptions(const QCommandLineParser &p)
     f.levels = splitList(p.value(u"levels"_s));
     if (QString e = f.validate(); !e.isEmpty())
         return R::failure(u"--"_s + e);
+    if (p.isSet(u"within"_s))
+        f.measure = Measure::Within;
     if (p.isSet(u"n"_s)) {
-        auto n = parseSizes(splitList(p.value(u"n"_s)), f.levelCount(), u"--n"_s);
+        QStringList items = splitList(p.value(u"n"_s));
+        if (f.isWithin() && items.size() == 1) // one number of participants, at every level
+            items = QStringList(f.levelCount(), items.front());
+        auto n = parseSizes(items, f.levelCount(), u"--n"_s);
         if (!n)
             return R::failure(n.error());
         f.plannedN = n.take();
@@ -97,9 +105,20 @@ Result<Study> studyFromOptions(const QCommandLineParser &p)
             return R::failure(u"--%1 cannot be combined with --file; edit the scheme file instead"_s.arg(QString::fromUtf16(opt)));
     // The window's own reader: the same study, coded and settled the same way.
     auto loaded = loadStudy(p.value(u"file"_s));
-    if (!loaded || !p.isSet(u"no-intercept"_s))
+    if (!loaded)
         return loaded;
-    const Study &study = loaded.value();
+    Study study = loaded.take();
+    if (p.isSet(u"within"_s)) {
+        if (study.isDesign())
+            return R::failure(u"--within: %1 is a design; each of its factors says in the file whether it is measured "
+                              u"within participants (\"measured\": \"within\")"_s.arg(inputLabel(p.value(u"file"_s))));
+        auto within = edits::withMeasure(study.activeScheme(), Measure::Within);
+        if (!within)
+            return R::failure(u"--within: %1: %2"_s.arg(inputLabel(p.value(u"file"_s)), within.error()));
+        study = settled(withActiveScheme(study, within.take()));
+    }
+    if (!p.isSet(u"no-intercept"_s))
+        return R(std::move(study));
     return R(settled(withActiveScheme(study, edits::withIntercept(study.activeScheme(), false))));
 }
 

@@ -4,6 +4,8 @@
 #include "core/base/NumberText.h"
 #include "core/model/Scheme.h"
 
+#include <Eigen/Cholesky>
+
 #include <QJsonArray>
 
 #include <boost/math/distributions/fisher_f.hpp>
@@ -381,6 +383,128 @@ Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const
 }
 
 // ---------------------------------------------------------------------------
+// By participant
+
+Result<FitResult> fitParticipants(const Scheme &scheme, const DataSummary &data, const FitOptions &options, const LevelMapping &mapping)
+{
+    using R = Result<FitResult>;
+    if (data.participantIndex < 0)
+        return R::failure(u"no participant column was read; name the column that says whose each row is"_s);
+    // The between-groups fit of the pooled data gives the levels, their order and the checks.
+    auto fit = fitScheme(scheme, data, options, mapping);
+    if (!fit)
+        return fit;
+    const Analysis analysis = analyze(scheme);
+    auto matched = matchLevels(scheme.factor.levels, data.levels, mapping);
+    const int k = scheme.levelCount();
+    // Data level -> scheme level.
+    std::vector<int> levelOf(data.levels.size(), -1);
+    for (int j = 0; j < k; ++j)
+        for (const QString &source : matched->sources[size_t(j)])
+            levelOf[size_t(data.levelIndex(source))] = j;
+
+    const int participants = int(data.participants.size());
+    Eigen::MatrixXd y = Eigen::MatrixXd::Constant(participants, k, kNaN); // cell means
+    FitResult &f = fit.value();
+    f.byParticipant = true;
+    f.participants = participants;
+    std::vector<bool> complete(size_t(participants), true);
+    for (int p = 0; p < participants; ++p) {
+        std::vector<RunningStats> cells(static_cast<size_t>(k));
+        for (size_t d = 0; d < data.levels.size(); ++d)
+            if (levelOf[d] >= 0 && data.participantCells[size_t(p)][d].n > 0)
+                cells[size_t(levelOf[d])].merge(data.participantCells[size_t(p)][d]);
+        QStringList lacks;
+        for (int j = 0; j < k; ++j) {
+            if (cells[size_t(j)].n > 0)
+                y(p, j) = cells[size_t(j)].mean;
+            else
+                lacks << quoted(scheme.factor.levels[j]);
+        }
+        if (lacks.size() >= k - 1)
+            return R::failure(u"participant %1 has values at one level only; measured within participants, each gives a value "
+                              u"at every level (is the factor measured between participants?)"_s.arg(quoted(data.participants[p])));
+        if (!lacks.isEmpty()) {
+            complete[size_t(p)] = false;
+            f.incompleteParticipants << u"%1 (no %2)"_s.arg(data.participants[p], lacks.join(u", "_s));
+        }
+    }
+    f.completeParticipants = int(std::count(complete.begin(), complete.end(), true));
+
+    // Each coefficient on the participants' contrast scores.
+    const Eigen::MatrixXd &h = analysis.hypothesisValues;
+    const double tailArea = options.alpha / 2.0;
+    std::vector<double> pFamily;
+    for (size_t c = 0; c < f.coefficients.size(); ++c) {
+        FitCoefficient &coef = f.coefficients[c];
+        RunningStats scores;
+        for (int p = 0; p < participants; ++p) {
+            double score = 0.0;
+            bool usable = true;
+            for (int j = 0; j < k && usable; ++j) {
+                const double w = h(Eigen::Index(c), j);
+                if (w == 0.0)
+                    continue;
+                usable = !std::isnan(y(p, j));
+                score += w * y(p, j);
+            }
+            if (usable)
+                scores.add(score);
+        }
+        coef.participants = int(scores.n);
+        coef.df = scores.n - 1.0;
+        coef.estimate = scores.n > 0 ? scores.mean : kNaN;
+        coef.se = scores.sd() / std::sqrt(scores.n);
+        coef.t = coef.estimate / coef.se;
+        coef.p = tTwoSidedP(coef.t, coef.df);
+        const double tCrit = tQuantileUpper(tailArea, coef.df);
+        coef.ciLow = coef.estimate - tCrit * coef.se;
+        coef.ciHigh = coef.estimate + tCrit * coef.se;
+        pFamily.push_back(coef.inFamily ? coef.p : kNaN);
+    }
+    const std::vector<double> adjusted = adjustPValues(pFamily, options.adjust);
+    for (size_t c = 0; c < f.coefficients.size(); ++c)
+        f.coefficients[c].pAdjusted = adjusted[c];
+
+    // Hotelling's T^2 on the differences from the first level, over the complete participants.
+    const int n = f.completeParticipants;
+    f.omnibusHypothesis = u"Hotelling's T\u00b2: all %1 level means are equal (over the %2 participants with every level)"_s.arg(k).arg(n);
+    f.fDf1 = k - 1;
+    f.fDf2 = n - k + 1;
+    f.f = f.fP = kNaN;
+    if (n >= k) {
+        Eigen::MatrixXd d(n, k - 1);
+        for (int p = 0, row = 0; p < participants; ++p) {
+            if (!complete[size_t(p)])
+                continue;
+            for (int j = 1; j < k; ++j)
+                d(row, j - 1) = y(p, j) - y(p, 0);
+            ++row;
+        }
+        const Eigen::VectorXd mean = d.colwise().mean();
+        const Eigen::MatrixXd centred = d.rowwise() - mean.transpose();
+        const Eigen::MatrixXd cov = centred.transpose() * centred / double(n - 1);
+        const Eigen::LDLT<Eigen::MatrixXd> ldlt(cov);
+        if (ldlt.info() == Eigen::Success && ldlt.isPositive() && ldlt.vectorD().minCoeff() > 1e-14 * cov.diagonal().maxCoeff()) {
+            const double t2 = n * mean.dot(ldlt.solve(mean));
+            f.f = t2 * (n - k + 1) / (double(n - 1) * (k - 1));
+            f.fP = fUpperP(f.f, f.fDf1, f.fDf2);
+        } else {
+            f.notes << u"the participants' differences between levels do not vary in every direction, so Hotelling's test "
+                       u"cannot be computed"_s;
+        }
+    } else {
+        f.notes << u"Hotelling's test needs at least as many participants with every level as levels (%1); %2 have every level"_s.arg(k).arg(n);
+    }
+    f.notes.prepend(u"by participant: %1 participants; each coefficient is tested on the participants' own contrast scores "
+                    u"(one-sample t with P - 1 df, its own error term, no sphericity assumed)"_s.arg(participants));
+    if (!f.incompleteParticipants.isEmpty())
+        f.notes << u"%1 participants lack a level and are left out of the tests that need it: %2"_s.arg(f.incompleteParticipants.size())
+                       .arg(f.incompleteParticipants.join(u"; "_s));
+    return fit;
+}
+
+// ---------------------------------------------------------------------------
 // JSON
 
 QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data)
@@ -408,12 +532,16 @@ QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data)
                       {u"agrees"_s, c.agrees}};
         if (!c.hypothesis.isEmpty())
             o.insert(u"hypothesis"_s, c.hypothesis);
+        if (fit.byParticipant) {
+            o.insert(u"df"_s, jsonNumber(c.df));
+            o.insert(u"participants"_s, c.participants);
+        }
         coefficients.append(o);
     }
     QJsonArray first;
     for (const RowProblem &r : data.skipped)
         first.append(QJsonObject{{u"line"_s, double(r.line)}, {u"reason"_s, r.message}});
-    return QJsonObject{
+    QJsonObject out{
         {u"levels"_s, levels},
         {u"coefficients"_s, coefficients},
         {u"sigma"_s, jsonNumber(fit.sigma)},
@@ -435,6 +563,16 @@ QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data)
                                 {u"rows"_s, double(data.records)},
                                 {u"used_rows"_s, double(data.usedRows)}}},
     };
+    if (fit.byParticipant) {
+        out[u"omnibus"_s] = QJsonObject{{u"test"_s, u"hotelling"_s},      {u"hypothesis"_s, fit.omnibusHypothesis},
+                                        {u"f"_s, jsonNumber(fit.f)},        {u"df1"_s, jsonNumber(fit.fDf1)},
+                                        {u"df2"_s, jsonNumber(fit.fDf2)},   {u"p"_s, jsonNumber(fit.fP)},
+                                        {u"participants"_s, fit.completeParticipants}};
+        out[u"participants"_s] = QJsonObject{{u"count"_s, fit.participants},
+                                             {u"complete"_s, fit.completeParticipants},
+                                             {u"incomplete"_s, QJsonArray::fromStringList(fit.incompleteParticipants)}};
+    }
+    return out;
 }
 
 } // namespace cb

@@ -63,6 +63,11 @@ struct FitCoefficient
     bool agrees = true;     // estimate and hypothesisEstimate agree to rounding
     bool inFamily = true;   // counted in the p-value adjustment
     QString hypothesis;     // e.g. "(2 weekly + twice)/3 - none", when known
+    // By participant (fitParticipants): the t test's df (participants - 1) and the participants
+    // with every level the hypothesis weighs; 0 for a between-groups fit.
+    double df = kNoDf;
+    int participants = 0;
+    static constexpr double kNoDf = -1.0;
 };
 
 // A linear model y = X b + e with one design row per level, fitted from per-level
@@ -102,6 +107,13 @@ struct FitResult
     Eigen::MatrixXd observedHypotheses;
     bool hypothesesAgree = true;
     QStringList notes;
+
+    // By participant (fitParticipants): f, fDf1, fDf2 and fP are Hotelling's T^2 as F over the
+    // participants with every level.
+    bool byParticipant = false;
+    int participants = 0;             // participants in the data
+    int completeParticipants = 0;     // with a value at every level (the omnibus test's)
+    QStringList incompleteParticipants; // "p7 (no 'invalid')", each with the levels it lacks
 };
 
 // Fits from levels in the design's order. X: k x p design rows ([1 | C] or C);
@@ -119,10 +131,24 @@ Eigen::MatrixXd designRows(const Scheme &scheme);
 Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const FitOptions &options = {},
                             const LevelMapping &mapping = {});
 
+// The by-participant analysis of a factor measured within participants, from data read with a
+// participant column: each participant's cell means (replicates averaged) in the scheme's level
+// order; each coefficient's hypothesis row h applied to every participant with the levels h
+// weighs gives contrast scores, tested by a one-sample t (mean, SE = SD / sqrt(P), P - 1 df, CI,
+// adjusted p; no sphericity assumed); the omnibus test is Hotelling's (1931) T^2 on the k - 1
+// differences from the first level over the participants with every level, as F(k - 1, P - k + 1).
+// Participants missing a level are named and left out of the tests that need it. Refused with the
+// participant named: one with values at one level only (is the factor between participants?).
+Result<FitResult> fitParticipants(const Scheme &scheme, const DataSummary &data, const FitOptions &options = {},
+                                  const LevelMapping &mapping = {});
+
 // {levels: [{name, n, mean, sd}], coefficients: [{name, estimate, se, t, p, p_adjusted,
 //  ci_low, ci_high, hypothesis_estimate, hypothesis}], sigma, df, r_squared, f, f_df1,
 //  f_df2, f_p, omnibus, alpha, adjust, n, notes, skipped_rows: {count, first: [{line, reason}]},
 //  data: {source, summary_table, weighted, rows, used_rows}}.
+// By participant, each coefficient gains df and participants, "omnibus" is an object {test:
+// "hotelling", hypothesis, f, df1, df2, p, participants} and "participants" {count, complete,
+// incomplete: [names with what they lack]}.
 // Non-finite numbers are written as null.
 QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data);
 

@@ -1063,6 +1063,8 @@ private:
         }
         if (!m_options.weightColumn.trimmed().isEmpty())
             specs.push_back({m_options.weightColumn, u"weight"_s, &m_out.weightIndex});
+        if (!m_options.participantColumn.trimmed().isEmpty())
+            specs.push_back({m_options.participantColumn, u"participant"_s, &m_out.participantIndex});
 
         bool hasHeader = m_options.header == HeaderMode::Present;
         if (m_options.header == HeaderMode::Detect) {
@@ -1121,6 +1123,10 @@ private:
             && (std::find(factors.begin(), factors.end(), m_out.weightIndex) != factors.end() || m_out.weightIndex == m_out.responseIndex))
             return u"%1: the weight column (%2) is also the factor or the response; choose another column"_s.arg(
                 label, quoted(m_out.columns[m_out.weightIndex]));
+        if (const int pi = m_out.participantIndex;
+            pi >= 0 && (std::find(factors.begin(), factors.end(), pi) != factors.end() || pi == m_out.responseIndex || pi == m_out.weightIndex))
+            return u"%1: the participant column (%2) is also the factor, the response or the weight; choose the column that "
+                   u"names the participants"_s.arg(label, quoted(m_out.columns[pi]));
         m_out.delimiter = m_start.m_delimiter;
         m_out.weighted = m_out.weightIndex >= 0;
         m_fieldCount = m_start.m_first.count;
@@ -1175,6 +1181,7 @@ private:
         const int fi = m_out.factorIndex;
         const int ri = m_out.responseIndex;
         const int wi = m_out.weightIndex;
+        const int pi = m_out.participantIndex;
         // Further factor columns of a design (at most two: resolveColumns refuses more); -1, never
         // a field number, when not given.
         int mi[2] = {-1, -1};
@@ -1188,7 +1195,7 @@ private:
                 continue;
             }
             const char *rec = p;
-            std::string_view level, response, weight;
+            std::string_view level, response, weight, participant;
             std::string_view more[2];
             double y = 0.0;
             bool yParsed = false;
@@ -1223,6 +1230,8 @@ private:
                     response = std::string_view(s, size_t(p - s));
                 else if (f == wi)
                     weight = std::string_view(s, size_t(p - s));
+                else if (f == pi)
+                    participant = std::string_view(s, size_t(p - s));
                 else if (f == mi[0])
                     more[0] = std::string_view(s, size_t(p - s));
                 else if (f == mi[1])
@@ -1263,6 +1272,8 @@ private:
                     response = m_slow.field(ri);
                     if (wi >= 0)
                         weight = m_slow.field(wi);
+                    if (pi >= 0)
+                        participant = m_slow.field(pi);
                     for (int i = 0; i < 2; ++i)
                         if (mi[i] >= 0)
                             more[i] = m_slow.field(mi[i]);
@@ -1291,9 +1302,15 @@ private:
                 level = m_cell;
                 slow = true; // the joined name lives outside the block buffer
             }
+            const qint64 used = m_out.usedRows;
             addRow(line, level, !slow, yParsed, y, response, weight, error);
             if (!error.isEmpty())
                 return true;
+            if (pi >= 0 && m_out.usedRows > used) [[unlikely]] {
+                addToParticipant(line, participant, error);
+                if (!error.isEmpty())
+                    return true;
+            }
             line += newlines;
         }
         return true;
@@ -1356,6 +1373,34 @@ private:
         }
         m_levels.stats[size_t(index)].add(y, w);
         ++m_out.usedRows;
+        m_lastLevel = index;
+        m_lastY = y;
+        m_lastWeight = w;
+    }
+
+    // The row just added (m_lastLevel, m_lastY, m_lastWeight), into its participant's cell.
+    void addToParticipant(qint64 line, std::string_view participant, QString &error)
+    {
+        participant = trimmed(participant);
+        if (participant.empty()) {
+            error = fail(line, u"the participant (column %1) is empty; every row needs the participant it belongs to"_s.arg(
+                                   quoted(m_out.columns[m_out.participantIndex])));
+            return;
+        }
+        const LevelKey key = makeKey(participant, false);
+        int index = m_participants.find(key);
+        if (index < 0) {
+            if (!decodeUtf8(key.text)) {
+                error = fail(line, u"the participant is not valid UTF-8; save the file as UTF-8"_s);
+                return;
+            }
+            index = m_participants.insert(key);
+            m_cells.emplace_back();
+        }
+        std::vector<RunningStats> &cells = m_cells[size_t(index)];
+        if (cells.size() <= size_t(m_lastLevel))
+            cells.resize(size_t(m_lastLevel) + 1);
+        cells[size_t(m_lastLevel)].add(m_lastY, m_lastWeight);
     }
 
     int newLevel(qint64 line, const LevelKey &key, QString &error)
@@ -1387,12 +1432,23 @@ private:
             m_levels.stats[i].flush();
             m_out.levels.push_back({QString::fromUtf8(k.data(), qsizetype(k.size())), m_levels.stats[i].result()});
         }
+        for (size_t i = 0; i < m_participants.size(); ++i) {
+            const std::string &k = m_participants.key(i);
+            m_out.participants << QString::fromUtf8(k.data(), qsizetype(k.size()));
+            m_cells[i].resize(m_levels.size());
+        }
+        m_out.participantCells = std::move(m_cells);
     }
 
     const DataReadOptions &m_options;
     LevelTable m_levels;
     SlowRecord m_slow;
     std::string m_cell; // a design row's joined cell name
+    LevelTable m_participants; // with a participant column
+    std::vector<std::vector<RunningStats>> m_cells; // [participant][level]
+    int m_lastLevel = -1;
+    double m_lastY = 0.0;
+    double m_lastWeight = 1.0;
     int m_fieldCount = 0;
     unsigned char m_class[256] = {};
 };

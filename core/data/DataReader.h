@@ -87,6 +87,10 @@ struct DataReadOptions
     QStringList moreFactorColumns;
     QString responseColumn;
     QString weightColumn; // empty: every row has weight 1
+    // The column naming each row's participant, for a factor measured within participants: the
+    // same pass then keeps every participant's cell statistics (DataSummary::participantCells).
+    // A row without a participant stops the read with the line named.
+    QString participantColumn;
     // 0: detect among tab, comma, semicolon and vertical bar.
     char delimiter = 0;
     HeaderMode header = HeaderMode::Detect;
@@ -107,10 +111,16 @@ struct DataSummary
     std::vector<int> moreFactorIndices; // the further factor columns, when given
     int responseIndex = -1;
     int weightIndex = -1;
+    int participantIndex = -1;
     bool weighted = false;
     bool fromSummaryTable = false;
 
     std::vector<LevelStats> levels; // in order of first appearance
+    // With a participant column: the participants in order of first appearance, and each one's
+    // statistics per level ([participant][level], levels as in `levels`; n 0 where it has no row;
+    // replicate rows of a cell are pooled, so their mean is the participant's cell mean).
+    QStringList participants;
+    std::vector<std::vector<RunningStats>> participantCells;
     qint64 bytes = 0;       // bytes read
     qint64 lines = 0;       // physical lines
     qint64 records = 0;     // data rows (header and blank lines excluded)

@@ -92,6 +92,7 @@ QJsonObject schemeToObject(const Scheme &s)
     }
     if (!s.factor.spacing.empty())
         factor[u"spacing"_s] = weightsToJson(s.factor.spacing);
+    factor[u"measured"_s] = measureId(s.factor.measure);
 
     QJsonObject origin;
     origin[u"kind"_s] = schemeId(s.kind);
@@ -202,6 +203,14 @@ Result<Scheme> schemeFromObject(const QJsonObject &root, const QString &where, c
     if (factor.contains(u"spacing"_s) && !factor.value(u"spacing"_s).isNull())
         if (!rd.weights(factor.value(u"spacing"_s), u"factor.spacing"_s, s.factor.spacing, err))
             return R::failure(err);
+    // Files written before the field existed hold independent groups.
+    if (const QJsonValue mv = factor.value(u"measured"_s); !mv.isUndefined()) {
+        const std::optional<Measure> measure = mv.isString() ? measureFromId(mv.toString()) : std::nullopt;
+        if (!measure)
+            return R::failure(rd.fail(u"factor.measured"_s, u"expected \"between\" (separate groups) or \"within\" "
+                                                             u"(every participant at every level)"_s));
+        s.factor.measure = *measure;
+    }
     if (const Problem p = s.factor.problem(); !p.isEmpty())
         return R::failure(rd.fail(u"factor."_s + p.field, p.message));
 

@@ -1,5 +1,7 @@
 #include "core/model/Factor.h"
 
+#include "core/base/NameTable.h"
+
 #include <algorithm>
 #include <vector>
 
@@ -8,6 +10,42 @@
 using namespace Qt::StringLiterals;
 
 namespace cb {
+
+namespace {
+
+struct MeasureRow
+{
+    Measure value;
+    const char16_t *id;
+    const char16_t *title;
+};
+
+constexpr MeasureRow kMeasures[] = {
+    {Measure::Between, u"between", u"between participants"},
+    {Measure::Within, u"within", u"within participants"},
+};
+
+} // namespace
+
+QString measureId(Measure measure)
+{
+    return QString::fromUtf16(rowOf(kMeasures, measure).id);
+}
+
+std::optional<Measure> measureFromId(const QString &id)
+{
+    return valueFromId(kMeasures, id);
+}
+
+QString measureIdList()
+{
+    return idList(kMeasures, u" or "_s);
+}
+
+QString measureTitle(Measure measure)
+{
+    return QString::fromUtf16(rowOf(kMeasures, measure).title);
+}
 
 std::vector<Rational> Factor::sizes() const
 {
@@ -73,6 +111,14 @@ Problem Factor::problem() const
                                        .arg(quoted(levels[qsizetype(j)]), quoted(levels[qsizetype(i)]), spacing[i].display()),
                                    u"spacing"_s};
     }
+    if (isWithin() && !plannedN.empty())
+        for (size_t i = 1; i < plannedN.size(); ++i)
+            if (plannedN[i] != plannedN[0])
+                return Problem{u"a factor measured within participants has the same participants at every level, but level %1 "
+                               u"plans %2 and level %3 plans %4; give one number of participants"_s
+                                   .arg(quoted(levels[0]), rationalToString(plannedN[0]), quoted(levels[qsizetype(i)]),
+                                        rationalToString(plannedN[i])),
+                               u"n"_s};
     return {};
 }
 

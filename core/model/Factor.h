@@ -7,9 +7,25 @@
 #include <QString>
 #include <QStringList>
 
+#include <optional>
 #include <vector>
 
 namespace cb {
+
+// How a factor's levels are observed: each participant in one level (separate groups, the
+// default and what files written before the field existed mean), or each participant at every
+// level (repeated measures). Coding and hypotheses do not depend on it; power and the data
+// check do (core/power, core/data).
+enum class Measure {
+    Between, // independent groups: planned n is participants per level
+    Within,  // repeated measures: planned n is the number of participants, the same at every level
+};
+// Stable ids for files and the command line: "between", "within".
+QString measureId(Measure measure);
+std::optional<Measure> measureFromId(const QString &id);
+QString measureIdList(); // "between or within"
+// For people: "between participants", "within participants".
+QString measureTitle(Measure measure);
 
 // A categorical predictor: a name and its ordered, unique, non-empty levels,
 // with optional planned group sizes and numeric spacing (for trends).
@@ -21,7 +37,9 @@ struct Factor
     std::vector<Rational> plannedN;
     // Numeric position per level for trends. Empty means 1, 2, ..., k.
     std::vector<Weight> spacing;
+    Measure measure = Measure::Between;
 
+    bool isWithin() const { return measure == Measure::Within; }
     int levelCount() const { return int(levels.size()); }
     bool hasPlannedN() const { return !plannedN.empty(); }
     // Planned sizes, all 1 when none were given.

@@ -194,7 +194,10 @@ Result<Scheme> withPlannedSize(const Scheme &scheme, int level, const QString &t
         return Result<Scheme>::failure(u"'%1' is not a positive group size; expected a number above 0"_s.arg(text.trimmed()));
     Scheme s = scheme;
     s.factor.plannedN = s.factor.sizes();
-    s.factor.plannedN[size_t(level)] = w->rational();
+    if (s.factor.isWithin()) // the same participants at every level
+        std::fill(s.factor.plannedN.begin(), s.factor.plannedN.end(), w->rational());
+    else
+        s.factor.plannedN[size_t(level)] = w->rational();
     return settle(std::move(s));
 }
 
@@ -233,6 +236,15 @@ Scheme withNotes(const Scheme &scheme, const QString &notes)
     Scheme s = scheme;
     s.notes = notes;
     return s;
+}
+
+Result<Scheme> withMeasure(const Scheme &scheme, Measure measure)
+{
+    Scheme s = scheme;
+    s.factor.measure = measure;
+    if (QString e = s.factor.validate(); !e.isEmpty())
+        return Result<Scheme>::failure(e);
+    return Result<Scheme>(std::move(s));
 }
 
 Result<Scheme> withStandard(const Scheme &scheme, SchemeKind kind, const SchemeOptions &options)

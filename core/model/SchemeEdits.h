@@ -47,6 +47,9 @@ Result<Scheme> withSizes(const Scheme &scheme, std::vector<Rational> sizes);
 Result<Scheme> withPosition(const Scheme &scheme, int level, const QString &text);
 Result<Scheme> withDefaultPositions(const Scheme &scheme);
 Scheme withNotes(const Scheme &scheme, const QString &notes);
+// Between or within participants. A within factor has one number of participants: its planned
+// sizes must be equal (the edit is refused, naming the levels, when they are not).
+Result<Scheme> withMeasure(const Scheme &scheme, Measure measure);
 
 // Replaces the columns with a standard scheme's, keeping levels, sizes, intercept and notes.
 Result<Scheme> withStandard(const Scheme &scheme, SchemeKind kind, const SchemeOptions &options);

@@ -15,7 +15,11 @@
 #include <boost/math/distributions/students_t.hpp>
 #pragma GCC diagnostic pop
 
+#include <Eigen/Cholesky>
+#include <Eigen/Eigenvalues>
+
 #include <QJsonArray>
+#include <QRegularExpression>
 
 #include <algorithm>
 #include <cmath>
@@ -92,12 +96,35 @@ QString checkSpread(const PowerSettings &s, const QString &field)
     return {};
 }
 
-// The level sizes for the power at `n` (doubles).
+// What the power at any sizes needs, worked out once: within participants the covariance and
+// the Hotelling quadratic form of the means.
 struct Design
 {
+    Design(const PowerSettings &s, int levels) : means(s.means), settings(s), k(levels)
+    {
+        if (!s.within())
+            return;
+        sigma = withinCovariance(s, k);
+        // delta' (C Sigma C')^-1 delta with C the differences of levels 2..k from level 1: any
+        // k - 1 independent contrasts give the same value.
+        Eigen::MatrixXd c = Eigen::MatrixXd::Zero(k - 1, k);
+        Eigen::VectorXd mu(k);
+        for (int i = 0; i < k; ++i)
+            mu[i] = means[size_t(i)];
+        for (int i = 1; i < k; ++i) {
+            c(i - 1, 0) = -1.0;
+            c(i - 1, i) = 1.0;
+        }
+        const Eigen::VectorXd delta = c * mu;
+        const Eigen::LDLT<Eigen::MatrixXd> ldlt(c * sigma * c.transpose());
+        hotelling = ldlt.info() == Eigen::Success ? delta.dot(ldlt.solve(delta)) : kNaN;
+    }
+
     const std::vector<double> &means;
     const PowerSettings &settings;
     int k = 0;
+    Eigen::MatrixXd sigma;   // within: covariance of a participant's values
+    double hotelling = 0.0;  // within: delta' (C Sigma C')^-1 delta
 
     double sdOf(int i) const { return settings.perLevelSds() ? settings.sds[size_t(i)] : settings.sd; }
 };
@@ -127,6 +154,15 @@ ContrastValues contrastAt(const Design &d, const Eigen::VectorXd &h, const std::
 {
     ContrastValues v;
     v.estimate = expectedEstimate(h, d.means);
+    if (d.settings.within()) {
+        // The participants' contrast scores h'y have variance h' Sigma h; one-sample t, P - 1 df.
+        const double participants = n.front();
+        v.se = std::sqrt(h.dot(d.sigma * h) / participants);
+        v.df = participants - 1.0;
+        v.noncentrality = v.estimate == 0.0 ? 0.0 : v.estimate / v.se;
+        v.power = tTestPower(v.noncentrality, v.df, alpha, d.settings.oneSided);
+        return v;
+    }
     double var = 0.0;
     double welchDen = 0.0;
     double total = 0.0;
@@ -158,6 +194,18 @@ struct OmnibusValues
 OmnibusValues omnibusAt(const Design &d, const std::vector<double> &n, double alpha)
 {
     OmnibusValues v;
+    const bool allEqual = std::adjacent_find(d.means.begin(), d.means.end(), std::not_equal_to<>()) == d.means.end();
+    if (d.settings.within()) {
+        // Hotelling's T^2 = P delta_hat' S^-1 delta_hat; (P - k + 1) / ((P - 1)(k - 1)) T^2 follows the
+        // noncentral F(k - 1, P - k + 1, lambda = P delta' (C Sigma C')^-1 delta).
+        const double participants = n.front();
+        v.df2 = participants - d.k + 1.0;
+        v.effectSize = allEqual ? 0.0 : std::sqrt(d.hotelling);
+        v.noncentrality = allEqual ? 0.0 : participants * d.hotelling;
+        v.sd = std::sqrt(d.sigma.diagonal().mean());
+        v.power = fTestPower(v.noncentrality, d.k - 1, v.df2, alpha);
+        return v;
+    }
     double total = 0.0;
     double weighted = 0.0;
     for (int i = 0; i < d.k; ++i) {
@@ -179,7 +227,6 @@ OmnibusValues omnibusAt(const Design &d, const std::vector<double> &n, double al
         var /= v.df2;
     }
     v.sd = std::sqrt(var);
-    const bool allEqual = std::adjacent_find(d.means.begin(), d.means.end(), std::not_equal_to<>()) == d.means.end();
     v.noncentrality = allEqual ? 0.0 : ss / var;
     v.effectSize = std::sqrt(v.noncentrality / total);
     v.power = fTestPower(v.noncentrality, d.k - 1, v.df2, alpha);
@@ -194,7 +241,7 @@ std::vector<double> toDouble(const std::vector<long long> &sizes)
 // Smallest smallest-group size t (2 <= t <= cap) with powerAt(sizes(t)) >= target:
 // doubling, then bisection. Power grows with t, so the bisection finds the smallest.
 SampleSize searchSampleSize(const std::function<double(const std::vector<double> &)> &powerAt,
-                            const std::vector<double> &ratios, double target)
+                            const std::vector<double> &ratios, double target, long long least = 2)
 {
     auto meets = [&](long long t, double *power) {
         *power = powerAt(toDouble(groupSizesFor(t, ratios)));
@@ -202,8 +249,8 @@ SampleSize searchSampleSize(const std::function<double(const std::vector<double>
     };
     SampleSize out;
     double power = kNaN;
-    long long failing = 1; // below the smallest size allowed
-    long long passing = 2;
+    long long failing = least - 1; // below the smallest size allowed
+    long long passing = least;
     double passingPower = kNaN;
     while (!meets(passing, &power)) {
         if (std::isnan(power) || passing >= kPowerSearchCap) {
@@ -230,17 +277,29 @@ SampleSize searchSampleSize(const std::function<double(const std::vector<double>
     return out;
 }
 
-QString unreachableNote(const SampleSize &s, double target)
+QString unreachableNote(const SampleSize &s, double target, bool within)
 {
     if (std::isnan(s.power))
         return u"the power could not be evaluated at some sizes; no sample size is given"_s;
-    return u"power %1 is not reached with up to %2 in the smallest group (power there: %3)"_s
-        .arg(shortNum(target), QString::number(kPowerSearchCap), shortNum(s.power));
+    return u"power %1 is not reached with up to %2 %3 (power there: %4)"_s
+        .arg(shortNum(target), QString::number(kPowerSearchCap), within ? u"participants"_s : u"in the smallest group"_s,
+             shortNum(s.power));
 }
 
-void putSampleSize(QJsonObject &o, const SampleSize &s)
+// The ratios the search keeps: within participants one number, P (so a SampleSize holds {P}
+// and its total is P).
+std::vector<double> searchRatios(const PowerSettings &s, int levelCount)
 {
-    if (s.reachable) {
+    return s.within() ? std::vector<double>{1.0} : allocationRatios(s, levelCount);
+}
+
+void putSampleSize(QJsonObject &o, const SampleSize &s, bool within)
+{
+    if (s.reachable && within) {
+        o[u"n_required"_s] = double(s.total);
+        o[u"n_required_total"_s] = double(s.total);
+        o[u"power_at_n_required"_s] = jsonNumber(s.power);
+    } else if (s.reachable) {
         QJsonArray a;
         for (long long v : s.perLevel)
             a.append(double(v));
@@ -262,11 +321,139 @@ void putNumbers(QJsonObject &o, std::initializer_list<std::pair<const char16_t *
 }
 
 
+// A correlation matrix for levelCount levels: square, finite, 1 on the diagonal, -1 to 1
+// elsewhere, symmetric, positive definite. Messages name the cell (row and column from 1).
+QString checkCorrelationMatrix(const Eigen::MatrixXd &r, int levelCount, const QString &field)
+{
+    if (r.rows() != levelCount || r.cols() != levelCount)
+        return u"%1: a %2 x %3 matrix for %4 levels; give one row and one column per level"_s.arg(field)
+            .arg(r.rows())
+            .arg(r.cols())
+            .arg(levelCount);
+    const auto cell = [&](Eigen::Index i, Eigen::Index j) { return u"%1, row %2, column %3"_s.arg(field).arg(i + 1).arg(j + 1); };
+    for (Eigen::Index i = 0; i < r.rows(); ++i)
+        for (Eigen::Index j = 0; j < r.cols(); ++j) {
+            const double v = r(i, j);
+            if (!std::isfinite(v))
+                return u"%1: not a finite number"_s.arg(cell(i, j));
+            if (i == j && std::abs(v - 1.0) > 1e-12)
+                return u"%1: %2 on the diagonal; a level's correlation with itself is 1"_s.arg(cell(i, j), num(v));
+            if (std::abs(v) > 1.0)
+                return u"%1: %2 is not a correlation; expected a number from -1 to 1"_s.arg(cell(i, j), num(v));
+            if (j > i && std::abs(v - r(j, i)) > 1e-12)
+                return u"%1: %2, but row %3, column %4 is %5; the matrix must be symmetric"_s.arg(cell(i, j), num(v))
+                    .arg(j + 1)
+                    .arg(i + 1)
+                    .arg(num(r(j, i)));
+        }
+    // Positive definite: the smallest eigenvalue of each leading block; the first block that
+    // fails names the row that makes the correlations impossible together.
+    constexpr double kSmallest = 1e-10;
+    if (Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd>(r, Eigen::EigenvaluesOnly).eigenvalues().minCoeff() > kSmallest)
+        return {};
+    Eigen::Index row = r.rows() - 1;
+    for (Eigen::Index j = 2; j <= r.rows(); ++j)
+        if (Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd>(r.topLeftCorner(j, j), Eigen::EigenvaluesOnly).eigenvalues().minCoeff()
+            <= kSmallest) {
+            row = j - 1;
+            break;
+        }
+    return u"%1, row %2: with this row the correlations of the first %2 levels are not positive definite; no participants' "
+           u"values can have these correlations together (lower the largest ones, or make them agree with each other)"_s
+        .arg(field)
+        .arg(row + 1);
+}
+
+// Within participants: one number of participants, no ratios, and correlations that a covariance
+// can have. Between groups: no correlation.
+Problem checkWithin(const PowerSettings &s, int levelCount, const std::function<QString(const char16_t *)> &field)
+{
+    const auto problem = [](const char16_t *key, QString message) { return Problem{std::move(message), QString::fromUtf16(key)}; };
+    if (!s.within()) {
+        if (s.correlation != 0.0 || s.correlations.size() != 0)
+            return problem(s.correlations.size() != 0 ? u"correlations" : u"correlation",
+                           u"%1: a correlation is used only when the factor is measured within participants"_s.arg(
+                               field(s.correlations.size() != 0 ? u"correlations" : u"correlation")));
+        return {};
+    }
+    if (!s.ratios.empty())
+        return problem(u"ratios", u"%1: within participants every participant gives a value at every level, so there are no groups "
+                                  u"to split; give the number of participants"_s.arg(field(u"ratios")));
+    for (size_t i = 1; i < s.n.size(); ++i)
+        if (s.n[i] != s.n[0])
+            return problem(u"n", u"%1: within participants the same participants are at every level; give one number of "
+                                 u"participants, not %2 and %3"_s.arg(field(u"n"), num(s.n[0]), num(s.n[i])));
+    if (s.correlations.size() != 0) {
+        if (QString e = checkCorrelationMatrix(s.correlations, levelCount, field(u"correlations")); !e.isEmpty())
+            return problem(u"correlations", e);
+        return {};
+    }
+    // A common correlation r gives eigenvalues 1 + (k - 1) r and 1 - r: positive for -1/(k - 1) < r < 1.
+    const double lowest = -1.0 / (levelCount - 1);
+    if (!std::isfinite(s.correlation) || s.correlation >= 1.0 || s.correlation <= lowest)
+        return problem(u"correlation", u"%1: %2 is not a correlation %3 levels can share; expected a number above %4 and below 1"_s.arg(
+                                           field(u"correlation"), num(s.correlation))
+                                           .arg(levelCount)
+                                           .arg(shortNum(lowest)));
+    return {};
+}
+
 } // namespace
+
+Eigen::MatrixXd withinCovariance(const PowerSettings &s, int levelCount)
+{
+    Eigen::MatrixXd r = s.correlations;
+    if (r.size() == 0) {
+        r = Eigen::MatrixXd::Constant(levelCount, levelCount, s.correlation);
+        r.diagonal().setOnes();
+    }
+    Eigen::VectorXd sd(levelCount);
+    for (int i = 0; i < levelCount; ++i)
+        sd[i] = s.perLevelSds() ? s.sds[size_t(i)] : s.sd;
+    return sd.asDiagonal() * r * sd.asDiagonal();
+}
+
+Result<Eigen::MatrixXd> parseCorrelationMatrix(const QString &text, const QString &where)
+{
+    using R = Result<Eigen::MatrixXd>;
+    static const QRegularExpression separators(u"[,;\\t ]+"_s);
+    std::vector<std::vector<double>> rows;
+    const QStringList lines = text.split(u'\n');
+    for (qsizetype l = 0; l < lines.size(); ++l) {
+        const QString line = lines[l].trimmed();
+        if (line.isEmpty())
+            continue;
+        const QStringList items = line.split(separators, Qt::SkipEmptyParts);
+        std::vector<double> row;
+        for (qsizetype i = 0; i < items.size(); ++i) {
+            const Result<Weight> w = parseWeight(items[i]);
+            if (!w)
+                return R::failure(u"%1, line %2, item %3: %4"_s.arg(where).arg(l + 1).arg(i + 1).arg(w.error()));
+            row.push_back(w->value());
+        }
+        if (!rows.empty() && row.size() != rows.front().size())
+            return R::failure(u"%1, line %2: %3 values, but the first row has %4; give a square matrix, one row per line"_s.arg(where)
+                                  .arg(l + 1)
+                                  .arg(row.size())
+                                  .arg(rows.front().size()));
+        rows.push_back(std::move(row));
+        if (rows.size() > size_t(kMaxLevels))
+            return R::failure(u"%1: more than %2 rows; a factor has at most %2 levels"_s.arg(where).arg(kMaxLevels));
+    }
+    if (rows.empty())
+        return R::failure(u"%1: no values; expected a correlation matrix, one row per line"_s.arg(where));
+    if (rows.size() != rows.front().size())
+        return R::failure(u"%1: %2 rows of %3 values; a correlation matrix is square"_s.arg(where).arg(rows.size()).arg(rows.front().size()));
+    Eigen::MatrixXd m(Eigen::Index(rows.size()), Eigen::Index(rows.size()));
+    for (size_t i = 0; i < rows.size(); ++i)
+        for (size_t j = 0; j < rows.size(); ++j)
+            m(Eigen::Index(i), Eigen::Index(j)) = rows[i][j];
+    return R(std::move(m));
+}
 
 Problem validatePowerSettings(const PowerSettings &s, int levelCount, const QString &fieldPrefix)
 {
-    const auto field = [&](const char16_t *name) { return fieldPrefix + QString::fromUtf16(name); };
+    const std::function<QString(const char16_t *)> field = [&](const char16_t *name) { return fieldPrefix + QString::fromUtf16(name); };
     // A list of one value per level, each finite (and above 0 when positive is set).
     const auto levelList = [&](const std::vector<double> &values, const char16_t *key, bool positive, const QString &what) {
         QString e = checkCount(values, levelCount, field(key));
@@ -291,6 +478,8 @@ Problem validatePowerSettings(const PowerSettings &s, int levelCount, const QStr
     }
     if (QString e = checkSpread(s, field(u"means")); !e.isEmpty())
         return problem(u"means", e);
+    if (Problem p = checkWithin(s, levelCount, field); !p.isEmpty())
+        return p;
     if (!s.n.empty()) {
         if (!s.ratios.empty())
             return problem(u"n", u"%1 and %2: give planned sizes per level, or ratios with a total, not both"_s.arg(field(u"n"), field(u"ratios")));
@@ -323,6 +512,8 @@ std::vector<double> plannedSizes(const PowerSettings &s, int levelCount)
 {
     if (!s.n.empty())
         return s.n;
+    if (s.within())
+        return std::vector<double>(size_t(levelCount), s.total);
     std::vector<double> r = s.ratios.empty() ? std::vector<double>(size_t(levelCount), 1.0) : s.ratios;
     const double sum = std::accumulate(r.begin(), r.end(), 0.0);
     for (double &v : r)
@@ -470,7 +661,30 @@ void describeContrast(ContrastPower &c, const PowerSettings &s, double target)
         return;
     }
     if (!c.required.reachable)
-        c.notes << unreachableNote(c.required, target);
+        c.notes << unreachableNote(c.required, target, s.within());
+}
+
+// The first contrast with a sample size, planned again as separate equal groups with the same
+// means and SDs (for withinExplanation).
+void compareWithGroups(PowerReport &report, const Eigen::MatrixXd &rows, const PowerSettings &settings)
+{
+    PowerSettings groups = settings;
+    groups.measure = Measure::Between;
+    groups.correlation = 0.0;
+    groups.correlations.resize(0, 0);
+    groups.n.assign(size_t(report.levelCount), std::max(2.0, report.plannedTotal));
+    groups.total = 0.0;
+    const Design design(groups, report.levelCount);
+    for (size_t r = 0; r < report.contrasts.size(); ++r) {
+        if (!report.contrasts[r].required.reachable)
+            continue;
+        const Eigen::VectorXd h = rows.row(Eigen::Index(r)).transpose();
+        const double alpha = report.contrasts[r].alpha;
+        report.comparedContrast = int(r);
+        report.asGroups = searchSampleSize([&](const std::vector<double> &nn) { return contrastAt(design, h, nn, alpha).power; },
+                                           std::vector<double>(size_t(report.levelCount), 1.0), settings.target);
+        return;
+    }
 }
 
 } // namespace
@@ -484,25 +698,32 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
 
     const int k = int(contrastRows.cols());
     const int m = int(contrastRows.rows());
-    const Design design{settings.means, settings, k};
+    const Design design(settings, k);
     const std::vector<double> n = plannedSizes(settings, k);
-    const std::vector<double> ratios = allocationRatios(settings, k);
+    const std::vector<double> ratios = searchRatios(settings, k);
+    const bool within = settings.within();
+    // Hotelling's test needs P - k + 1 >= 1 error df.
+    const long long leastForOmnibus = within ? k : 2;
 
     PowerReport report;
     report.levelCount = k;
+    report.within = within;
+    if (within && settings.correlations.size() == 0)
+        report.correlation = settings.correlation;
     report.plannedN = n;
-    report.plannedTotal = std::accumulate(n.begin(), n.end(), 0.0);
+    report.plannedTotal = within ? n.front() : std::accumulate(n.begin(), n.end(), 0.0);
     report.alpha = settings.alpha;
     report.perTestAlpha = perTestAlpha(settings.alpha, settings.adjustment, m);
     report.adjustment = settings.adjustment;
     report.oneSided = settings.oneSided;
     report.target = settings.target;
-    report.welch = settings.perLevelSds();
-    report.cautions = powerCautions();
+    report.welch = settings.perLevelSds() && !within;
+    report.cautions = powerCautions(within);
 
     // Omnibus F-test, at the unadjusted alpha.
     OmnibusPower &o = report.omnibus;
     const OmnibusValues ov = omnibusAt(design, n, settings.alpha);
+    o.hotelling = within;
     o.df1 = k - 1;
     o.df2 = ov.df2;
     o.effectSize = ov.effectSize;
@@ -510,11 +731,14 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
     o.alpha = settings.alpha;
     o.power = ov.power;
     o.sd = ov.sd;
-    o.pooledFromLevelSds = settings.perLevelSds();
+    o.pooledFromLevelSds = settings.perLevelSds() && !within;
     const bool allEqual = ov.noncentrality == 0.0;
     if (!allEqual)
         o.required = searchSampleSize([&](const std::vector<double> &nn) { return omnibusAt(design, nn, settings.alpha).power; },
-                                      ratios, settings.target);
+                                      ratios, settings.target, leastForOmnibus);
+    if (within && n.front() < k)
+        o.notes << u"Hotelling's test needs at least as many participants as levels (%1); with %2 it cannot be computed"_s.arg(k).arg(
+            shortNum(n.front()));
     if (o.pooledFromLevelSds)
         o.notes << u"with per-level SDs the F-test's power uses their pooled SD (%1, weighted by n - 1); the "
                    u"F-test assumes equal SDs, so this is an approximation"_s.arg(shortNum(o.sd));
@@ -523,7 +747,7 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
     if (allEqual)
         o.notes << u"all expected means are equal: the F-test's power equals alpha at every n"_s;
     else if (!o.required.reachable)
-        o.notes << unreachableNote(o.required, settings.target);
+        o.notes << unreachableNote(o.required, settings.target, within);
 
     for (int r = 0; r < m; ++r) {
         ContrastPower c;
@@ -531,7 +755,7 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
         const Eigen::VectorXd h = contrastRows.row(r).transpose();
         c.weights.assign(h.data(), h.data() + h.size());
         c.alpha = report.perTestAlpha;
-        c.welch = settings.perLevelSds();
+        c.welch = settings.perLevelSds() && !within;
         const ContrastValues v = contrastAt(design, h, n, c.alpha);
         c.estimate = v.estimate;
         c.se = v.se;
@@ -560,17 +784,29 @@ Result<PowerReport> computePower(const Eigen::MatrixXd &contrastRows, const QStr
         c.fewerThanOmnibus = c.required.reachable && o.required.reachable && c.required.total < o.required.total;
         describeContrast(c, settings, settings.target);
         if (c.fewerThanOmnibus)
-            c.notes << u"reaches the target with N = %1, fewer than the omnibus F-test needs (N = %2)"_s
+            c.notes << u"reaches the target with %1 = %2, fewer than the omnibus %3 needs (%1 = %4)"_s
+                           .arg(within ? u"P"_s : u"N"_s)
                            .arg(c.required.total)
+                           .arg(within ? u"Hotelling test"_s : u"F-test"_s)
                            .arg(o.required.total);
         report.contrasts.push_back(std::move(c));
     }
+
+    if (within)
+        compareWithGroups(report, contrastRows, settings);
 
     // Notes about the inputs as a whole.
     if (allEqual)
         report.notes << u"all expected means are equal, so every contrast whose weights sum to 0 has an expected "
                         u"estimate of 0 and power equal to alpha; enter the means you expect"_s;
-    if (settings.perLevelSds())
+    if (within)
+        report.notes << u"within participants: each contrast is tested on the participants' own contrast scores (one-sample t "
+                        u"with P - 1 df, its own error term, no sphericity assumed); the omnibus test is Hotelling's T\u00b2 on "
+                        u"the %1 differences of the levels (F with %1 and P - %1 df)"_s.arg(k - 1);
+    if (within && settings.correlations.size() == 0)
+        report.notes << u"the covariance comes from one correlation (%1) between every two levels and the SDs"_s.arg(
+            shortNum(settings.correlation));
+    if (settings.perLevelSds() && !within)
         report.notes << u"per-level SDs: the contrasts use Welch\u2013Satterthwaite degrees of freedom (Welch 1947; "
                         u"Satterthwaite 1946) with the noncentral t, the usual approximation for unequal SDs"_s;
     if (settings.oneSided)
@@ -604,8 +840,8 @@ Result<std::vector<double>> powerCurve(const Eigen::MatrixXd &contrastRows, int 
     if (contrast < -1 || contrast >= contrastRows.rows())
         return R::failure(u"contrast: %1 is not a contrast index; expected -1 (omnibus) to %2"_s.arg(contrast).arg(contrastRows.rows() - 1));
     const int k = int(contrastRows.cols());
-    const Design design{settings.means, settings, k};
-    const std::vector<double> ratios = allocationRatios(settings, k);
+    const Design design(settings, k);
+    const std::vector<double> ratios = searchRatios(settings, k);
     const double alpha = perTestAlpha(settings.alpha, settings.adjustment, int(contrastRows.rows()));
     std::vector<double> out;
     out.reserve(smallestGroupSizes.size());
@@ -671,9 +907,9 @@ Result<std::vector<double>> parseNumberList(const QString &text, const QString &
     return R(std::move(out));
 }
 
-QStringList powerCautions()
+QStringList powerCautions(bool within)
 {
-    return {
+    QStringList out{
         u"Power rests on the expected means and SDs entered here: if the true differences are smaller or the "
         u"spread larger, the real power is lower than shown."_s,
         u"Contrasts are planned before the data are seen; comparisons picked after looking at the means do not "
@@ -682,6 +918,24 @@ QStringList powerCautions()
         u"(Bonferroni or \u0160id\u00e1k here, Holm in the data check) when several will be tested."_s,
         u"These figures support the analyst's judgement and a statistician's review; they do not replace them."_s,
     };
+    if (within)
+        out.insert(1, u"Within participants the power rests on the correlation between a participant's values, which is "
+                      u"usually a guess: if the true correlation is lower than entered, more participants are needed than "
+                      u"shown; try a few values, or take it from earlier data."_s);
+    return out;
+}
+
+QString withinExplanation(const PowerReport &r)
+{
+    if (!r.within || r.comparedContrast < 0 || !r.asGroups.reachable)
+        return {};
+    const ContrastPower &c = r.contrasts[size_t(r.comparedContrast)];
+    return u"Within participants each contrast is tested on the participants' own contrast scores, which vary less the more a "
+           u"participant's values go together: '%1' needs %2 participants here, while as separate groups with the same means "
+           u"and SDs it would need %3 per group (%4 people)."_s.arg(c.name)
+        .arg(c.required.total)
+        .arg(r.asGroups.perLevel.front())
+        .arg(r.asGroups.total);
 }
 
 QJsonObject powerReportToJson(const PowerReport &report)
@@ -696,6 +950,8 @@ QJsonObject powerReportToJson(const PowerReport &report)
     root[u"sided"_s] = report.oneSided ? u"one"_s : u"two"_s;
     root[u"target"_s] = report.target;
     root[u"welch"_s] = report.welch;
+    root[u"measured"_s] = measureId(report.within ? Measure::Within : Measure::Between);
+    root[u"correlation"_s] = report.correlation ? QJsonValue(*report.correlation) : QJsonValue(QJsonValue::Null);
 
     QJsonArray contrasts;
     for (const ContrastPower &c : report.contrasts) {
@@ -705,7 +961,7 @@ QJsonObject powerReportToJson(const PowerReport &report)
         putNumbers(o, {{u"estimate", c.estimate}, {u"se", c.se}, {u"effect_size", c.effectSize},
                        {u"noncentrality", c.noncentrality}, {u"df", c.df}, {u"alpha", c.alpha}, {u"power", c.power}});
         o[u"welch"_s] = c.welch;
-        putSampleSize(o, c.required);
+        putSampleSize(o, c.required, report.within);
         o[u"fewer_than_omnibus"_s] = c.fewerThanOmnibus;
         o[u"notes"_s] = QJsonArray::fromStringList(c.notes);
         contrasts.append(o);
@@ -714,11 +970,12 @@ QJsonObject powerReportToJson(const PowerReport &report)
 
     const OmnibusPower &om = report.omnibus;
     QJsonObject o;
+    o[u"test"_s] = om.hotelling ? u"hotelling"_s : u"anova"_s;
     o[u"df1"_s] = om.df1;
     putNumbers(o, {{u"df2", om.df2}, {u"effect_size", om.effectSize}, {u"noncentrality", om.noncentrality},
                    {u"alpha", om.alpha}, {u"power", om.power}, {u"sd", om.sd}});
     o[u"pooled_from_level_sds"_s] = om.pooledFromLevelSds;
-    putSampleSize(o, om.required);
+    putSampleSize(o, om.required, report.within);
     o[u"notes"_s] = QJsonArray::fromStringList(om.notes);
     root[u"omnibus"_s] = o;
 

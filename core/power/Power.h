@@ -2,6 +2,7 @@
 
 #include "core/analysis/Adjustment.h"
 #include "core/base/Result.h"
+#include "core/model/Factor.h"
 
 #include <Eigen/Dense>
 
@@ -37,9 +38,28 @@ struct PowerSettings
     bool oneSided = false;     // one-sided contrasts test psi > 0, in the direction each row is written
     double target = 0.8;       // target power for the sample-size search
     Adjustment adjustment = Adjustment::None;
+    // Within participants (repeated measures): every participant gives a value at every level.
+    // n then holds the number of participants P at every level (or total is P), ratios are not
+    // used, and the covariance of a participant's values is Sigma = D R D, D the SDs (sd or sds)
+    // on the diagonal and R the correlations: `correlation` between any two levels, or the full
+    // k x k `correlations` when given.
+    Measure measure = Measure::Between;
+    double correlation = 0.0;
+    Eigen::MatrixXd correlations;
 
     bool perLevelSds() const { return !sds.empty(); }
+    bool within() const { return measure == Measure::Within; }
 };
+
+// Within participants: the covariance of a participant's k values, D R D (see PowerSettings).
+// Assumes settings that validatePowerSettings accepts.
+Eigen::MatrixXd withinCovariance(const PowerSettings &settings, int levelCount);
+
+// A correlation matrix from text: one row per line, numbers separated by commas, semicolons,
+// tabs or spaces (a CSV or a pasted block); blank lines are skipped. where names the source
+// in messages ("corr.csv, line 2, item 3: ..."). The matrix is checked against the levels by
+// validatePowerSettings (square, symmetric, 1 on the diagonal, positive definite).
+Result<Eigen::MatrixXd> parseCorrelationMatrix(const QString &text, const QString &where);
 
 // Largest group size the sample-size search tries.
 inline constexpr long long kPowerSearchCap = 10'000'000;
@@ -63,13 +83,13 @@ struct ContrastPower
     QString name;
     std::vector<double> weights;   // h, k values
     double estimate = 0.0;         // psi = h . mean
-    double se = 0.0;               // sqrt(sum h_i^2 sigma_i^2 / n_i)
+    double se = 0.0;               // sqrt(sum h_i^2 sigma_i^2 / n_i); within: sqrt(h' Sigma h / P)
     // psi over the SD, with h rescaled so its positive (or negative, whichever is
     // larger) weights sum to 1 (Kline 2013, "standardized contrast"); with per-level
     // SDs the SD is sqrt(sum h_i^2 s_i^2 / sum h_i^2).
     double effectSize = 0.0;
     double noncentrality = 0.0;    // psi / se
-    double df = 0.0;               // N - k, or Welch–Satterthwaite
+    double df = 0.0;               // N - k, or Welch–Satterthwaite; within: P - 1
     bool welch = false;
     double alpha = 0.0;            // per-test alpha after the adjustment
     double power = 0.0;            // at the planned sizes
@@ -79,16 +99,21 @@ struct ContrastPower
     QStringList notes;
 };
 
-// The power of the one-way ANOVA F-test that all k means are equal.
+// The power of the test that all k means are equal: between groups the one-way ANOVA F-test;
+// within participants Hotelling's (1931) T^2 on k - 1 differences of the levels, as an F with
+// k - 1 and P - k + 1 df (it needs P >= k and assumes no sphericity).
 struct OmnibusPower
 {
+    bool hotelling = false;     // within participants
     int df1 = 0;                // k - 1
-    double df2 = 0.0;           // N - k
-    double effectSize = 0.0;    // Cohen's f = sqrt(sum n_i (mu_i - mu_w)^2 / N) / sigma
-    double noncentrality = 0.0; // lambda = N f^2
+    double df2 = 0.0;           // N - k; within: P - k + 1
+    // Cohen's f = sqrt(sum n_i (mu_i - mu_w)^2 / N) / sigma; within: sqrt(delta' (C Sigma C')^-1 delta),
+    // delta = C mu, C any k - 1 independent contrasts (the result does not depend on which)
+    double effectSize = 0.0;
+    double noncentrality = 0.0; // lambda = N f^2; within: P f^2
     double alpha = 0.0;         // the unadjusted alpha (one test)
     double power = 0.0;
-    double sd = 0.0;            // the common SD, or the pooled SD from per-level SDs
+    double sd = 0.0;            // the common SD, or the pooled SD from per-level SDs (within: the root mean variance)
     bool pooledFromLevelSds = false;
     SampleSize required;
     QStringList notes;
@@ -97,7 +122,9 @@ struct OmnibusPower
 struct PowerReport
 {
     int levelCount = 0;
-    std::vector<double> plannedN; // the planned sizes used, k values
+    bool within = false;          // sizes count participants (every one at every level)
+    std::optional<double> correlation; // within: the common correlation (none with a full matrix)
+    std::vector<double> plannedN; // the planned sizes used, k values (within: P at each level)
     double plannedTotal = 0.0;
     double alpha = 0.05;
     double perTestAlpha = 0.05;
@@ -107,13 +134,18 @@ struct PowerReport
     bool welch = false;
     std::vector<ContrastPower> contrasts;
     OmnibusPower omnibus;
+    // Within participants: the first contrast with a sample size, planned as separate groups
+    // with the same means and SDs (equal groups), for withinExplanation; -1 when none.
+    int comparedContrast = -1;
+    SampleSize asGroups;
     QStringList notes;    // about these inputs
     QStringList cautions; // powerCautions()
 };
 
 // Empty when the settings fit a factor with levelCount levels; otherwise a message naming the
 // field ("means: 3 values for 4 levels; give one per level") and that field's key ("means", "sds",
-// "sd", "n", "ratios", "total", "alpha", "target", "adjust", "levels").
+// "sd", "n", "ratios", "total", "alpha", "target", "adjust", "levels",
+// "correlation", "correlations").
 // fieldPrefix goes before each field name in the message ("--" gives "--means: ...").
 Problem validatePowerSettings(const PowerSettings &settings, int levelCount, const QString &fieldPrefix = {});
 
@@ -165,15 +197,21 @@ std::vector<double> meansFromDifferences(const std::vector<double> &differences,
 // Numbers separated by commas; each may be written as a fraction ("1/3"). where names the field.
 Result<std::vector<double>> parseNumberList(const QString &text, const QString &where);
 
-// Cautions to show beside every power result.
-QStringList powerCautions();
+// Cautions to show beside every power result; within participants also the one about the
+// correlation, which is usually a guess.
+QStringList powerCautions(bool within = false);
+// Why the same means need far fewer participants within than between participants, in one
+// sentence with the figures of a report (shown in the window beside a within factor's power).
+QString withinExplanation(const PowerReport &report);
 
 // {"levels", "planned_n", "alpha", "alpha_per_test", "adjustment", "sided", "target", "welch",
 //  "contrasts": [{"name", "weights", "estimate", "se", "effect_size", "noncentrality", "df", "welch",
-//                 "alpha", "power", "n_required" (per level, or null), "n_required_total", "reachable",
+//                 "alpha", "power", "n_required" (per level, or null; within: the number of
+//                 participants), "n_required_total", "reachable",
 //                 "notes"}],
-//  "omnibus": {"df1", "df2", "effect_size", "noncentrality", "alpha", "power", "sd", "n_required",
+//  "omnibus": {"test" ("anova"; within: "hotelling"), "df1", "df2", "effect_size", "noncentrality", "alpha", "power", "sd", "n_required",
 //              "n_required_total", "reachable", "notes"},
+//  "measured" ("between" or "within"), "correlation" (within: the common one; null with a full matrix),
 //  "notes", "cautions"}
 QJsonObject powerReportToJson(const PowerReport &report);
 

@@ -21,6 +21,10 @@ QString percent(double share)
 
 QStringList fitSummaryLines(const FitResult &fit, bool cells)
 {
+    if (fit.byParticipant)
+        return {u"Do the level means differ? F(%1, %2) = %3, %4; tests %5"_s.arg(numberText(fit.fDf1, 10), numberText(fit.fDf2, 10),
+                                                                              numberText(fit.f), pClause(fit.fP), fit.omnibusHypothesis),
+                u"%1 participants, %2 with every level"_s.arg(fit.participants).arg(fit.completeParticipants)};
     const QString unit = cells ? u"cell"_s : u"level"_s;
     const QString question = fit.centred ? u"Do the %1 means differ?"_s.arg(unit) : u"Does any coefficient differ from 0?"_s;
     const QString test = u"%1 F(%2, %3) = %4, %5; tests that %6"_s.arg(question, numberText(fit.fDf1, 10), numberText(fit.fDf2, 10),
@@ -49,6 +53,9 @@ QString fitReport(const Scheme &scheme, bool design, const DataSummary &data, co
         out += u"%1%2', response '%3'%4)\n"_s.arg(columns.size() > 1 ? u" (cells from columns '"_s : u" (levels from column '"_s,
                                                   columns.join(u"', '"_s), data.columns.value(data.responseIndex),
                                                   data.weighted ? u", weighted"_s : QString());
+        if (data.participantIndex >= 0)
+            out += u"By participant (column '%1'): the participants' cell means, each contrast on their contrast scores.\n"_s.arg(
+                data.columns.value(data.participantIndex));
         out += u"%1 rows read, %2 used, %3 left out.\n"_s.arg(data.records).arg(data.usedRows).arg(data.skippedRows);
     }
     out += u'\n';
@@ -65,6 +72,8 @@ QString fitReport(const Scheme &scheme, bool design, const DataSummary &data, co
     if (adjusted)
         header << u"adjusted p (%1)"_s.arg(adjustmentId(fit.adjust));
     header << u"%1% interval"_s.arg(numberText(100.0 * (1.0 - fit.alpha), 4));
+    if (fit.byParticipant)
+        header << u"df"_s << u"participants"_s;
     TextTable table(header, 0);
     for (size_t i = 0; i < fit.coefficients.size(); ++i) {
         const FitCoefficient &c = fit.coefficients[i];
@@ -74,6 +83,8 @@ QString fitReport(const Scheme &scheme, bool design, const DataSummary &data, co
         if (adjusted)
             row << (c.inFamily ? pValueText(c.pAdjusted) : u"not in family"_s);
         row << u"%1 to %2"_s.arg(numberText(c.ciLow, 5), numberText(c.ciHigh, 5));
+        if (fit.byParticipant)
+            row << numberText(c.df, 10) << QString::number(c.participants);
         table.addRow(row);
         if (!c.hypothesis.isEmpty())
             table.addNote(u"tests "_s + c.hypothesis);

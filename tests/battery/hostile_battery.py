@@ -32,7 +32,8 @@ MAX_MESSAGE = 2000  # characters; longer messages swamp the terminal
 SCHEME = {
     "format": "contrast-bench-scheme",
     "version": 1,
-    "factor": {"name": "dose", "levels": ["low", "mid", "high"], "n": ["10", "12", "8"], "spacing": ["0", "1", "3"]},
+    "factor": {"name": "dose", "levels": ["low", "mid", "high"], "n": ["10", "12", "8"], "spacing": ["0", "1", "3"],
+               "measured": "between"},
     "scheme": {"kind": "polynomial", "polynomial_form": "integer", "polynomial_weighted": False},
     "intercept": True,
     "columns": [
@@ -216,6 +217,8 @@ def option_cases():
         runs.append((["power"] + power + ["--means", "0,1,2,3", "--sds", mixed, "--n", "10,10,10,10"], "--sds"))
         runs.append((["power"] + power + ["--means", "0,1,2,3", "--sd", "1", "--ratios", mixed, "--total", "40"], "--ratios"))
         runs.append((["power"] + power + ["--means", "0,1,2,3", "--sd", "1", "--total", value], "--total"))
+        runs.append((["power"] + power + ["--means", "0,1,2,3", "--sd", "1", "--within", "--correlation", value, "-n", "10"],
+                     "--correlation"))
         runs.append((["power"] + power + ["--differences", f"1,2,{value}", "--sd", "1", "--n", "10,10,10,10"], "--differences"))
         for args, option in runs:
             cases.append(Case(f"{' '.join(args[:1])} {option} {value!r}", args, place=None, kind="option"))

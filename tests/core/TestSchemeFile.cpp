@@ -2,6 +2,7 @@
 #include "core/files/SchemeFile.h"
 #include "core/files/StudyFile.h"
 #include "core/model/Study.h"
+#include "core/model/SchemeEdits.h"
 #include "core/analysis/Adjustment.h"
 #include "core/export/Export.h"
 
@@ -69,6 +70,8 @@ private slots:
     void saveToUnwritablePlace();
     void idsAreReadByOneRule();
     void factorProblemsNameTheirField();
+    void measureRoundTripsAndOldFilesAreBetween();
+    void withinFactorKeepsOneParticipantCount();
 };
 
 void TestSchemeFile::roundTripStandardSchemes()
@@ -164,6 +167,13 @@ void TestSchemeFile::loadErrors_data()
                                         << u"roast.json: field 'scheme.reference': expected a string"_s;
     QTest::newRow("long unknown scheme is cut") << QByteArray("\"kind\": \"custom\"") << QByteArray("\"kind\": \"") + QByteArray(100000, 'x') + "\""
                                                 << u"roast.json: field 'scheme.kind': unknown scheme '"_s + QString(59, u'x') + u"\u2026'; expected"_s;
+    QTest::newRow("measured unknown") << QByteArray("\"name\": \"roast\",") << QByteArray("\"name\": \"roast\", \"measured\": \"inside\",")
+                                      << u"roast.json: field 'factor.measured': expected \"between\" (separate groups) or \"within\""_s;
+    QTest::newRow("measured not a string") << QByteArray("\"name\": \"roast\",") << QByteArray("\"name\": \"roast\", \"measured\": true,")
+                                           << u"roast.json: field 'factor.measured': expected \"between\""_s;
+    QTest::newRow("within with unequal n") << QByteArray("\"name\": \"roast\",") << QByteArray("\"name\": \"roast\", \"measured\": \"within\",")
+                                           << u"roast.json: field 'factor.n': a factor measured within participants has the same "
+                                              u"participants at every level, but level 'light' plans 12 and level 'medium' plans 10"_s;
     QTest::newRow("top level array") << validFile() << QByteArray("[1, 2]") << u"roast.json: expected a JSON object at the top level"_s;
 }
 
@@ -261,6 +271,62 @@ void TestSchemeFile::factorProblemsNameTheirField()
     QCOMPARE(f.problem().field, u"spacing"_s);
     f.spacing.clear();
     QVERIFY(f.problem().isEmpty());
+}
+
+void TestSchemeFile::measureRoundTripsAndOldFilesAreBetween()
+{
+    // A file without the field (every file written before it existed) holds separate groups.
+    auto old = schemeFromJson(validFile(), u"roast.json"_s);
+    QVERIFY2(old.ok(), qPrintable(old.error()));
+    QCOMPARE(old->factor.measure, Measure::Between);
+    QVERIFY(schemeToJson(*old).contains("\"measured\": \"between\""));
+
+    Factor f;
+    f.name = u"cue"_s;
+    f.levels = {u"none"_s, u"valid"_s, u"invalid"_s};
+    f.plannedN = {Rational(24), Rational(24), Rational(24)};
+    f.measure = Measure::Within;
+    const Scheme s = makeScheme(f, SchemeKind::Helmert).take();
+    const QByteArray json = schemeToJson(s);
+    QVERIFY(json.contains("\"measured\": \"within\""));
+    auto back = schemeFromJson(json, u"memory"_s);
+    QVERIFY2(back.ok(), qPrintable(back.error()));
+    QCOMPARE(back->factor.measure, Measure::Within);
+    QVERIFY(*back == s);
+
+    // In a design each factor keeps its own: 2 groups (between) x 3 cues (within).
+    Factor group;
+    group.name = u"group"_s;
+    group.levels = {u"young"_s, u"older"_s};
+    Design d;
+    d.factors = {makeScheme(group, SchemeKind::Sum).take(), s};
+    d.factors[1].factor.plannedN.clear();
+    d.terms = Design::fullFactorial(2);
+    auto loaded = studyFromJson(designToJson(d), u"mixed.json"_s);
+    QVERIFY2(loaded.ok(), qPrintable(loaded.error()));
+    QCOMPARE(loaded->design.factors[0].factor.measure, Measure::Between);
+    QCOMPARE(loaded->design.factors[1].factor.measure, Measure::Within);
+}
+
+void TestSchemeFile::withinFactorKeepsOneParticipantCount()
+{
+    Factor f;
+    f.levels = {u"a"_s, u"b"_s, u"c"_s};
+    f.plannedN = {Rational(10), Rational(12), Rational(10)};
+    Scheme s = makeScheme(f, SchemeKind::Treatment).take();
+    // Unequal group sizes cannot be one set of participants: the edit says which levels differ.
+    auto refused = edits::withMeasure(s, Measure::Within);
+    QVERIFY(!refused.ok());
+    QVERIFY2(refused.error().startsWith(u"n: a factor measured within participants has the same participants at every level, "
+                                        u"but level 'a' plans 10 and level 'b' plans 12"_s),
+             qPrintable(refused.error()));
+    s = edits::withEqualSizes(s).take();
+    s = edits::withMeasure(s, Measure::Within).take();
+    // Typing one level's n sets the number of participants, so every level follows.
+    s = edits::withPlannedSize(s, 1, u"30"_s).take();
+    QVERIFY(s.factor.plannedN == std::vector<Rational>(3, Rational(30)));
+    QCOMPARE(measureIdList(), u"between or within"_s);
+    QCOMPARE(measureFromId(u" Within "_s), Measure::Within);
 }
 
 QTEST_GUILESS_MAIN(TestSchemeFile)

@@ -42,6 +42,7 @@ private slots:
     void fitsADesignFromOneColumnPerFactor();
     void responseIsAMeasurementNeverText_data();
     void responseIsAMeasurementNeverText();
+    void participantColumnGivesTheByParticipantCheck();
 
 private:
     static void useLevels(Document &doc, const QStringList &levels);
@@ -269,6 +270,33 @@ void TestDataPanel::responseIsAMeasurementNeverText()
     for (int i = 0; i < panel.responseBox()->count(); ++i)
         items << panel.responseBox()->itemText(i);
     QCOMPARE(items, offered);
+}
+
+// A participant column chosen: the check is by participant (core's fitParticipants, which
+// TestParticipantFit holds against SciPy), said plainly, with what it does not fit.
+void TestDataPanel::participantColumnGivesTheByParticipantCheck()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"rt.csv"_s);
+    QFile out(path);
+    QVERIFY(out.open(QIODevice::WriteOnly));
+    out.write("subject,cue,rt\ns1,a,500\ns1,b,480\ns1,c,530\ns2,a,610\ns2,b,600\ns2,c,650\ns3,a,450\ns3,b,440\ns3,c,470\n"
+              "s4,a,520\ns4,b,490\ns4,c,560\ns5,a,580\ns5,b,575\n");
+    out.close();
+    Document doc;
+    useLevels(doc, {u"a"_s, u"b"_s, u"c"_s});
+    DataPanel panel(&doc);
+    QVERIFY(panel.openFile(path));
+    panel.setColumns(u"cue"_s, u"rt"_s, {});
+    panel.participantBox()->setCurrentText(u"subject"_s);
+    QVERIFY(readAndWait(panel));
+    QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+    QVERIFY(panel.fit()->byParticipant);
+    QCOMPARE(panel.fit()->completeParticipants, 4);
+    QCOMPARE(panel.fit()->coefficients[1].participants, 5); // b - a: s5 has both
+    QCOMPARE(panel.fit()->coefficients[2].participants, 4); // c - a: s5 lacks c
+    QVERIFY2(panel.summaryText().contains(u"5 participants, 4 with every level"_s), qPrintable(panel.summaryText()));
+    QVERIFY(panel.summaryText().contains(u"not a mixed-effects model"_s));
 }
 
 QTEST_MAIN(TestDataPanel)

@@ -9,6 +9,8 @@
 #include "tests/support/WindowFixture.h"
 
 #include <QAbstractItemModelTester>
+#include <QComboBox>
+#include <QLabel>
 #include <QLineEdit>
 #include <QMimeData>
 #include <QSignalSpy>
@@ -31,6 +33,7 @@ private slots:
     void droppingARowMovesTheLevel();
     void plannedSizesAndPositions();
     void addAndRemoveLevelsAreUndoable();
+    void measureIsChosenAndUndoable();
 };
 
 namespace {
@@ -203,6 +206,43 @@ void TestLevelsModel::addAndRemoveLevelsAreUndoable()
     d->undoStack()->undo();
     QCOMPARE(d->scheme().factor.levels, (QStringList{u"A"_s, u"B"_s, u"C"_s, u"D"_s}));
     QVERIFY(!d->isModified());
+}
+
+
+// The factor's kind: a choice beside its name, one undo step; a choice the sizes do not allow is
+// refused with the reason and the control goes back to what the factor is.
+void TestLevelsModel::measureIsChosenAndUndoable()
+{
+    WindowFixture f;
+    Document *d = f.window->document();
+    auto *measure = f.window->levelsPanel()->findChild<QComboBox *>(u"factorMeasure"_s);
+    QVERIFY(measure);
+    QCOMPARE(d->scheme().factor.measure, Measure::Between);
+    QCOMPARE(measure->currentText(), u"between participants"_s);
+    const int steps = d->undoStack()->count();
+    measure->setCurrentIndex(1);
+    emit measure->activated(1);
+    QCOMPARE(d->scheme().factor.measure, Measure::Within);
+    QCOMPARE(d->undoStack()->count(), steps + 1);
+    QVERIFY(d->undoStack()->undoText().contains(u"within participants"_s));
+    d->undoStack()->undo();
+    QCOMPARE(d->scheme().factor.measure, Measure::Between);
+    QCOMPARE(measure->currentIndex(), 0);
+    d->undoStack()->redo();
+    QCOMPARE(measure->currentIndex(), 1);
+    d->undoStack()->undo();
+
+    // Unequal planned sizes are separate groups: within is refused, naming the levels.
+    QVERIFY(f.window->levelsPanel()->model()->setData(f.window->levelsPanel()->model()->index(1, LevelsModel::SizeColumn), u"30"_s));
+    measure->setCurrentIndex(1);
+    emit measure->activated(1);
+    QCOMPARE(d->scheme().factor.measure, Measure::Between);
+    QCOMPARE(measure->currentIndex(), 0);
+    const QList<QLabel *> notice = f.window->levelsPanel()->findChildren<QLabel *>();
+    bool said = false;
+    for (QLabel *label : notice)
+        said = said || label->text().contains(u"same participants at every level"_s);
+    QVERIFY(said);
 }
 
 QTEST_MAIN(TestLevelsModel)

@@ -6,9 +6,12 @@
 #include "ui/document/Document.h"
 #include "tests/support/PanelShot.h"
 #include "ui/power/PowerPanel.h"
+#include "core/model/SchemeEdits.h"
+#include "core/model/Study.h"
 #include "tests/support/TableText.h"
 #include "ui/common/SmallChart.h"
 
+#include <QLabel>
 #include <QLineEdit>
 #include <QComboBox>
 #include <QTableView>
@@ -43,6 +46,7 @@ private slots:
     void plannedSizesComeFromTheLevels();
     void typingChangesOnlyItsCell();
     void rendersTheIrrigationDemo();
+    void withinFactorAsksForACorrelationAndCountsParticipants();
 };
 
 void TestPowerPanel::tableShowsCorePower_data()
@@ -234,6 +238,53 @@ void TestPowerPanel::rendersTheIrrigationDemo()
     QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
     QCOMPARE(rowCount(panel.resultTable()), 5);
     QVERIFY(renderPanel(panel, QSize(1500, 430), u"power"_s));
+}
+
+// A factor measured within participants: the panel asks for the correlation (with its caution),
+// counts participants, names Hotelling's test, and says why the number is so much smaller than
+// for separate groups. The figures are core's (TestPowerWithin holds them against SciPy: 21
+// participants, 64 per group).
+void TestPowerPanel::withinFactorAsksForACorrelationAndCountsParticipants()
+{
+    Document doc;
+    Factor f;
+    f.levels = {u"plain"_s, u"cued"_s};
+    PowerPanel panel(&doc);
+    const auto *correlationCaution = panel.findChild<QLabel *>(u"correlationCaution"_s);
+    QVERIFY(correlationCaution);
+    QVERIFY(correlationCaution->isHidden());
+    Scheme s = makeScheme(f, SchemeKind::Treatment).take();
+    s = edits::withMeasure(s, Measure::Within).take();
+    doc.edit(s, u"within"_s);
+    QVERIFY(!correlationCaution->isHidden());
+    panel.setExpectedTexts({u"0"_s, u"0.5"_s});
+    panel.sdEdit()->setText(u"1"_s);
+    panel.totalEdit()->setText(u"20"_s);
+    panel.recompute();
+    QVERIFY(!panel.report());
+    QVERIFY2(panel.fieldMessage(u"correlation"_s).contains(u"correlation"_s), qPrintable(panel.fieldMessage(u"correlation"_s)));
+    panel.correlationEdit()->setText(u"0.7"_s);
+    panel.recompute();
+    QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
+    QVERIFY(panel.report()->within);
+    QCOMPARE(panel.report()->contrasts[0].required.total, 21LL);
+    const QAbstractItemModel *results = panel.resultTable()->model();
+    QCOMPARE(results->headerData(PowerPanel::NeededColumn, Qt::Horizontal).toString(), u"Participants for target"_s);
+    QCOMPARE(results->index(0, PowerPanel::NeededColumn).data().toString(), u"21 participants"_s);
+    QVERIFY(results->index(1, PowerPanel::TestColumn).data().toString().contains(u"Hotelling"_s));
+    const auto *why = panel.findChild<QLabel *>(u"withinExplanation"_s);
+    QVERIFY(why && !why->isHidden());
+    QVERIFY2(why->text().contains(u"64 per group (128 people)"_s), qPrintable(why->text()));
+    QVERIFY(panel.findChild<QLabel *>(u"powerCautions"_s)->text().contains(u"correlation between a participant's values"_s));
+    QCOMPARE(panel.chart()->xTitle(), u"participants"_s);
+
+    // A design with a within factor is not planned as separate groups: refused with the reason.
+    Study study = withFactorAdded(doc.study()).take();
+    doc.editStudy(settled(study), u"add a factor"_s);
+    QVERIFY(doc.isDesign());
+    panel.recompute();
+    QVERIFY(!panel.report());
+    QVERIFY(panel.findChild<QLabel *>(u"powerMessage"_s)->text().contains(u"measured within participants is not computed yet"_s));
 }
 
 QTEST_MAIN(TestPowerPanel)

@@ -46,6 +46,7 @@ public:
 
     const std::vector<Line> &lines() const { return m_lines; }
     const std::vector<Interval> &intervals() const { return m_intervals; }
+    const QString &xTitle() const { return m_xTitle; }
 
     QSize sizeHint() const override { return {420, 260}; }
     QSize minimumSizeHint() const override { return {240, 160}; }

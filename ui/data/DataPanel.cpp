@@ -139,6 +139,7 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     , m_moreFactors{new QComboBox(this), new QComboBox(this)}
     , m_response(new QComboBox(this))
     , m_weight(new QComboBox(this))
+    , m_participant(new QComboBox(this))
     , m_readButton(new QPushButton(tr("Read and fit"), this))
     , m_copyQueryButton(new QPushButton(tr("Copy summary query"), this))
     , m_databaseAction(new QAction(tr("Read from a database\u2026"), this))
@@ -237,6 +238,10 @@ QLayout *DataPanel::buildFileColumn()
         columns->addRow(new QLabel(this), more); // named and shown for a design (updateFactorRows)
     columns->addRow(tr("Response:"), m_response);
     columns->addRow(tr("Case weight:"), m_weight);
+    m_participant->setObjectName(u"participantColumn"_s);
+    m_participant->setToolTip(tr("For a factor measured within participants: the column naming whose each row is. The "
+                                 "check is then by participant: each contrast on the participants' own contrast scores."));
+    columns->addRow(tr("Participant:"), m_participant);
     columns->addRow(tr("Adjust p for:"), m_adjust);
     columns->addRow(tr("Alpha (CI):"), m_alpha);
     auto *left = new QVBoxLayout;
@@ -371,6 +376,9 @@ bool DataPanel::openFile(const QString &path)
     m_factor->clear();
     m_response->clear();
     m_weight->clear();
+    m_participant->clear();
+    m_participant->addItem(tr("(none: separate groups)"));
+    m_participant->addItems(preview->columns);
     m_factor->addItems(preview->columns);
     for (QComboBox *more : m_moreFactors) {
         more->clear();
@@ -410,6 +418,7 @@ void DataPanel::readAndFit()
         options.moreFactorColumns << m_moreFactors[i]->currentText();
     options.responseColumn = m_response->currentText();
     options.weightColumn = m_weight->currentIndex() > 0 ? m_weight->currentText() : QString();
+    options.participantColumn = m_participant->currentIndex() > 0 ? m_participant->currentText() : QString();
     options.delimiter = m_delimiter;
     options.header = m_hasHeader ? HeaderMode::Present : HeaderMode::Absent;
     m_bytesRead = std::make_shared<std::atomic<qint64>>(0);
@@ -661,7 +670,11 @@ void DataPanel::refit()
     Result<FitResult> fit = m_document->isDesign() && fitTarget().levelCount() == 0
         ? Result<FitResult>::failure(tr("the design cannot be fitted: %1")
                                          .arg(designFindings.empty() ? tr("it has no cells") : designFindings.front().message))
-        : fitScheme(fitTarget(), *m_data, options, mapping);
+        : m_data->participantIndex >= 0 && m_document->isDesign()
+        ? Result<FitResult>::failure(tr("the by-participant check of a design is not computed yet; choose no participant "
+                                        "column, or open a single factor measured within participants"))
+        : m_data->participantIndex >= 0 ? fitParticipants(fitTarget(), *m_data, options, mapping)
+                                        : fitScheme(fitTarget(), *m_data, options, mapping);
     if (!fit) {
         showMessage(fit.error());
         m_coefficients->setRows({});
@@ -703,6 +716,11 @@ void DataPanel::showFit(const FitResult &fit)
     if (!fit.hypothesesAgree)
         lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
                                                              tr("Some coefficients do not estimate the scheme\u2019s hypotheses at these group sizes (marked below)."));
+    if (fit.byParticipant)
+        lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
+                                                             tr("This is the by-participant analysis: each contrast on the participants' own "
+                                                                "contrast scores. It is not a mixed-effects model with participants (and items) "
+                                                                "as random effects; fit that with the exported coding in a statistics package."));
     m_summary->setText(lines.join(u"<br>"_s));
 
     // Means with intervals: core's fit of the cell-means coding (one coefficient per level, pooled SD).

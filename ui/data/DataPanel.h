@@ -71,6 +71,7 @@ public:
     QTableView *mappingTable() const { return m_mappingView; }
     QTableView *previewTable() const { return m_previewView; }
     QComboBox *responseBox() const { return m_response; }
+    QComboBox *participantBox() const { return m_participant; }
     SmallChart *meansChart() const { return m_chart; }
 
     // Who answers "which data file?" (the window's prompter; the real dialog by default).
@@ -137,6 +138,7 @@ private:
     QStringList m_factorNames; // the design's factor names the choosers were last set up for
     QComboBox *m_response; // the numeric columns only
     QComboBox *m_weight;
+    QComboBox *m_participant; // "(none)" first, then the columns
     QPushButton *m_readButton;
     QPushButton *m_copyQueryButton;
     QAction *m_databaseAction; // in the "Open data…" button's menu

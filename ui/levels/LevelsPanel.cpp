@@ -7,6 +7,7 @@
 #include "ui/common/Look.h"
 #include "core/model/SchemeEdits.h"
 
+#include <QComboBox>
 #include <QFormLayout>
 #include <QHBoxLayout>
 #include <QLabel>
@@ -28,6 +29,7 @@ LevelsPanel::LevelsPanel(Document *document, QWidget *parent)
     , m_model(new LevelsModel(document, this))
     , m_view(new LevelsView(this))
     , m_factorName(new QLineEdit(this))
+    , m_measure(new QComboBox(this))
     , m_notes(new QPlainTextEdit(this))
     , m_notice(new WrapLabel(this))
 {
@@ -35,6 +37,13 @@ LevelsPanel::LevelsPanel(Document *document, QWidget *parent)
     m_view->setObjectName(u"levelsTable"_s);
     m_factorName->setObjectName(u"factorName"_s);
     m_factorName->setPlaceholderText(tr("name of the factor"));
+    m_measure->setObjectName(u"factorMeasure"_s);
+    for (Measure m : {Measure::Between, Measure::Within})
+        m_measure->addItem(measureTitle(m), QVariant::fromValue(int(m)));
+    m_measure->setItemData(0, tr("Each participant is in one level: the levels are separate groups"), Qt::ToolTipRole);
+    m_measure->setItemData(1, tr("Each participant gives a value at every level (repeated measures): power and the "
+                                 "data check work on participants' contrast scores"),
+                           Qt::ToolTipRole);
     m_notes->setObjectName(u"notes"_s);
     m_notes->setPlaceholderText(tr("Notes about the study: what the levels are, why these comparisons\u2026"));
     m_notice->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Problem).name()));
@@ -70,6 +79,7 @@ LevelsPanel::LevelsPanel(Document *document, QWidget *parent)
 
     auto *form = new QFormLayout;
     form->addRow(tr("Factor:"), m_factorName);
+    form->addRow(tr("Measured:"), m_measure);
     auto *layout = new QVBoxLayout(this);
     layout->setContentsMargins(6, 6, 6, 6);
     layout->addLayout(form);
@@ -92,6 +102,21 @@ LevelsPanel::LevelsPanel(Document *document, QWidget *parent)
         if (next)
             m_document->edit(next.take(), tr("Rename the factor to \u2018%1\u2019").arg(m_factorName->text().trimmed()), MergeId::FactorName);
     });
+    connect(m_measure, &QComboBox::activated, this, [this](int index) {
+        const auto measure = Measure(m_measure->itemData(index).toInt());
+        if (measure == m_document->scheme().factor.measure)
+            return;
+        auto next = edits::withMeasure(m_document->scheme(), measure);
+        if (!next) {
+            m_notice->setText(next.error());
+            m_notice->show();
+            emit message(next.error());
+            follow(); // the choice goes back to what the factor is
+            return;
+        }
+        m_notice->hide();
+        m_document->edit(next.take(), tr("Measure \u2018%1\u2019 %2").arg(m_document->scheme().factor.name, measureTitle(measure)));
+    });
     connect(m_notes, &QPlainTextEdit::textChanged, this, [this] {
         if (m_notes->toPlainText() == m_document->scheme().notes)
             return;
@@ -112,6 +137,8 @@ void LevelsPanel::follow()
     }
     if (m_factorName->text() != s.factor.name && !m_factorName->hasFocus())
         m_factorName->setText(s.factor.name);
+    if (const int index = m_measure->findData(int(s.factor.measure)); index != m_measure->currentIndex())
+        m_measure->setCurrentIndex(index);
     if (m_notes->toPlainText() != s.notes) {
         const QSignalBlocker block(m_notes);
         m_notes->setPlainText(s.notes);

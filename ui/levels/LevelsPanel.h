@@ -2,6 +2,7 @@
 
 #include <QWidget>
 
+class QComboBox;
 class QLabel;
 class QLineEdit;
 class QPlainTextEdit;
@@ -12,7 +13,7 @@ class Document;
 class LevelsModel;
 class LevelsView;
 
-// The factor: its name, its levels (name, planned n, position) with buttons to
+// The factor: its name, whether it is measured between or within participants, its levels (name, planned n, position) with buttons to
 // add, remove and reorder them, and free notes about the study.
 class LevelsPanel : public QWidget
 {
@@ -39,6 +40,7 @@ private:
     LevelsModel *m_model;
     LevelsView *m_view;
     QLineEdit *m_factorName;
+    QComboBox *m_measure; // between or within participants
     QPlainTextEdit *m_notes;
     QLabel *m_notice;
 };

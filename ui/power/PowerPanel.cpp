@@ -40,10 +40,12 @@ QString number(double v, int digits = 4)
     return std::isfinite(v) ? numberText(v, digits) : dash();
 }
 
-QString sizesText(const SampleSize &size)
+QString sizesText(const SampleSize &size, bool within)
 {
     if (!size.reachable || size.perLevel.empty())
         return dash();
+    if (within)
+        return QCoreApplication::translate("cb::PowerPanel", "%1 participants").arg(size.total);
     const bool equal = std::all_of(size.perLevel.begin(), size.perLevel.end(), [&](long long n) { return n == size.perLevel.front(); });
     if (equal)
         return QCoreApplication::translate("cb::PowerPanel", "%1 each").arg(size.perLevel.front());
@@ -56,7 +58,7 @@ QString sizesText(const SampleSize &size)
 // The note under which a problem of a field shows: the per-level fields share the table's.
 QString noteOf(const QString &field)
 {
-    if (field == u"sd"_s || field == u"total"_s || field == u"alpha"_s || field == u"target"_s)
+    if (field == u"sd"_s || field == u"total"_s || field == u"alpha"_s || field == u"target"_s || field == u"correlation"_s)
         return field;
     if (field == u"means"_s || field == u"sds"_s || field == u"n"_s || field == u"ratios"_s || field == u"levels"_s)
         return u"levels"_s;
@@ -114,6 +116,7 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     , m_perLevelSd(new QCheckBox(tr("per level (Welch df)"), this))
     , m_sizeSource(new QComboBox(this))
     , m_total(new QLineEdit(this))
+    , m_correlation(new QLineEdit(this))
     , m_alpha(new QLineEdit(u"0.05"_s, this))
     , m_sided(new QComboBox(this))
     , m_target(new QLineEdit(u"0.8"_s, this))
@@ -167,10 +170,15 @@ QLayout *PowerPanel::buildInputForm()
     for (Adjustment a : {Adjustment::None, Adjustment::Bonferroni, Adjustment::Sidak})
         m_adjustment->addItem(adjustmentTitle(a), QVariant::fromValue(int(a)));
     m_total->setPlaceholderText(tr("e.g. 120"));
+    m_correlation->setObjectName(u"powerCorrelation"_s);
+    m_correlation->setPlaceholderText(tr("e.g. 0.5"));
+    m_correlation->setToolTip(tr("How strongly a participant's values at two levels go together (from -1 to 1): the same "
+                                 "correlation for every two levels"));
 
     auto *form = new QFormLayout;
     form->setFieldGrowthPolicy(QFormLayout::AllNonFixedFieldsGrow);
-    auto addField = [&](const QString &label, QWidget *field, const QString &key) {
+    auto addField = [&](const QString &text, QWidget *field, const QString &key) {
+        auto *label = new QLabel(text, this);
         auto *box = new QVBoxLayout;
         box->setSpacing(1);
         box->addWidget(field);
@@ -181,6 +189,7 @@ QLayout *PowerPanel::buildInputForm()
             box->addWidget(note);
         }
         form->addRow(label, box);
+        return label;
     };
     auto row = [this](QWidget *a, QWidget *b, int bStretch) {
         auto *w = new QWidget(this);
@@ -192,8 +201,18 @@ QLayout *PowerPanel::buildInputForm()
     };
     addField(tr("Expected values:"), row(m_expectedKind, m_baseline, 1), {});
     addField(tr("Common SD:"), row(m_sd, m_perLevelSd, 0), u"sd"_s);
-    addField(tr("Group sizes:"), m_sizeSource, {});
-    addField(tr("Total N:"), m_total, u"total"_s);
+    m_sizeSourceLabel = addField(tr("Group sizes:"), m_sizeSource, {});
+    m_totalLabel = addField(tr("Total N:"), m_total, u"total"_s);
+    m_correlationLabel = addField(tr("Correlation:"), m_correlation, u"correlation"_s);
+    // Within participants the correlation is usually a guess: said beside it, always.
+    m_correlationCaution = look::note(look::mark(look::State::Caution) + u" "_s
+                                          + tr("Usually a guess: power changes much with it. Try a few values, or take it from "
+                                               "earlier data."),
+                                      this);
+    m_correlationCaution->setObjectName(u"correlationCaution"_s);
+    m_correlationCaution->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Caution).name()));
+    form->addRow(QString(), m_correlationCaution);
+    m_form = form;
     addField(tr("Alpha (family):"), m_alpha, u"alpha"_s);
     addField(tr("Direction:"), m_sided, {});
     addField(tr("Target power:"), m_target, u"target"_s);
@@ -212,16 +231,17 @@ QLayout *PowerPanel::buildInputForm()
 // The message, the results, their notes and the cautions.
 QLayout *PowerPanel::buildResultColumn()
 {
-    auto *cautionBox = look::note(u"<b>%1</b><ul style='margin-left:-20px'><li>%2</li></ul>"_s.arg(
-                                      tr("Read with care"), powerCautions().join(u"</li><li>"_s)),
-                                  this);
-    cautionBox->setObjectName(u"powerCautions"_s);
-    cautionBox->setTextFormat(Qt::RichText);
+    m_cautions = look::note({}, this);
+    m_cautions->setObjectName(u"powerCautions"_s);
+    m_cautions->setTextFormat(Qt::RichText);
+    m_withinWhy = look::note({}, this);
+    m_withinWhy->setObjectName(u"withinExplanation"_s);
     auto *middle = new QVBoxLayout;
     middle->addWidget(m_general);
     middle->addWidget(m_resultView, 2);
+    middle->addWidget(m_withinWhy);
     middle->addWidget(m_notes);
-    middle->addWidget(cautionBox);
+    middle->addWidget(m_cautions);
     return middle;
 }
 
@@ -229,7 +249,7 @@ void PowerPanel::connectInputs()
 {
     connect(m_inputs, &CellTableModel::edited, this,
             [this](int row, int column, const QVariant &value) { inputEdited(row, column, value.toString()); });
-    for (QLineEdit *e : {m_sd, m_total, m_alpha, m_target})
+    for (QLineEdit *e : {m_sd, m_total, m_alpha, m_target, m_correlation})
         connect(e, &QLineEdit::textChanged, this, &PowerPanel::schedule);
     for (QComboBox *c : {m_sided, m_adjustment, m_baseline})
         connect(c, &QComboBox::currentIndexChanged, this, &PowerPanel::schedule);
@@ -262,9 +282,26 @@ const Analysis &PowerPanel::analysis() const
     return m_document->isDesign() ? m_document->designAnalysis().analysis : m_document->analysis();
 }
 
+bool PowerPanel::within() const
+{
+    return factor().isWithin();
+}
+
 void PowerPanel::followDocument()
 {
     const Factor &f = factor();
+    // Within participants: one number of participants, a correlation, and its caution.
+    const bool isWithin = within();
+    m_form->setRowVisible(m_sizeSourceLabel, !isWithin);
+    m_form->setRowVisible(m_correlationLabel, isWithin);
+    m_form->setRowVisible(m_correlationCaution, isWithin);
+    m_totalLabel->setText(isWithin ? tr("Participants:") : tr("Total N:"));
+    m_chart->setAxisTitles(isWithin ? tr("participants") : tr("size of the smallest group"), tr("power"));
+    m_cautions->setText(u"<b>%1</b><ul style='margin-left:-20px'><li>%2</li></ul>"_s.arg(
+        tr("Read with care"), powerCautions(isWithin).join(u"</li><li>"_s)));
+    m_results->setHeaders({tr("Test"), tr("Power at plan"), isWithin ? tr("Participants for target") : tr("n/level for target"),
+                           isWithin ? tr("Participants") : tr("Total N"), tr("Estimate \u03c8"), tr("SE"), tr("Std. eff."), tr("df"),
+                           isWithin ? tr("vs Hotelling") : tr("vs F test")});
     if (!m_sizeSourceChosen) {
         const QSignalBlocker block(m_sizeSource);
         m_sizeSource->setCurrentIndex(f.hasPlannedN() ? 0 : 1);
@@ -309,7 +346,7 @@ void PowerPanel::showInputs()
     }
     m_inputs->setRows(std::move(rows));
     m_inputs->setHeaders({tr("Level"), diff ? tr("Difference from %1").arg(m_baseline->currentText()) : tr("Expected mean"), tr("SD"),
-                          tr("Planned n"), tr("Ratio")});
+                          within() ? tr("Participants") : tr("Planned n"), tr("Ratio")});
     m_baseline->setVisible(diff);
     updateColumnVisibility();
 }
@@ -326,10 +363,11 @@ void PowerPanel::inputEdited(int row, int column, const QString &text)
 
 void PowerPanel::updateColumnVisibility()
 {
-    const bool ratios = m_sizeSource->currentIndex() == 1;
+    // Within participants the participants come from the factor's planned n or, without it, the field.
+    const bool ratios = within() ? !factor().hasPlannedN() : m_sizeSource->currentIndex() == 1;
     m_inputView->setColumnHidden(SdColumn, !m_perLevelSd->isChecked());
     m_inputView->setColumnHidden(PlannedNColumn, ratios);
-    m_inputView->setColumnHidden(RatioColumn, !ratios);
+    m_inputView->setColumnHidden(RatioColumn, !ratios || within());
     m_sd->setEnabled(!m_perLevelSd->isChecked());
     m_total->setEnabled(ratios);
 }
@@ -446,7 +484,21 @@ Result<PowerSettings> PowerPanel::settings() const
             return R::failure(sd.problem());
         s.sd = *sd;
     }
-    if (m_sizeSource->currentIndex() == 0) {
+    if (within()) {
+        s.measure = Measure::Within;
+        if (factor().hasPlannedN()) {
+            s.n = factor().sizesAsDouble();
+        } else {
+            auto participants = parseScalar(m_total, u"total"_s);
+            if (!participants)
+                return R::failure(participants.problem());
+            s.total = *participants;
+        }
+        auto correlation = parseScalar(m_correlation, u"correlation"_s);
+        if (!correlation)
+            return R::failure(correlation.problem());
+        s.correlation = *correlation;
+    } else if (m_sizeSource->currentIndex() == 0) {
         const Factor &f = factor();
         if (!f.hasPlannedN())
             return R::failure(u"n: the levels have no planned group sizes yet; enter them in the levels panel, "
@@ -498,8 +550,15 @@ void PowerPanel::recompute()
         showMessages(problem);
         m_results->setRows({});
         m_notes->clear();
+        m_withinWhy->hide();
         m_chart->clear(tr("The power curves appear once every input is valid."));
     };
+    const auto &factors = m_document->design().factors;
+    if (m_document->isDesign()
+        && std::any_of(factors.begin(), factors.end(), [](const Scheme &f) { return f.factor.isWithin(); }))
+        return fail(Problem{tr("power for a design with factors measured within participants is not computed yet; plan a "
+                               "within factor on its own (a one-factor study)"),
+                            {}});
     const Result<ContrastRows> rows = contrastRowsOf(analysis());
     if (!rows)
         return fail(rows.problem());
@@ -535,7 +594,7 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
         TableCell versus = cell(c.fewerThanOmnibus ? look::mark(look::State::Good) + tr(" needs fewer") : QString(), false);
         if (c.fewerThanOmnibus)
             versus.ink = look::ink(look::State::Good);
-        table.push_back({test, powerCell(c.power), cell(c.zeroEstimate ? tr("\u2014 (\u03c8 = 0)") : sizesText(c.required)),
+        table.push_back({test, powerCell(c.power), cell(c.zeroEstimate ? tr("\u2014 (\u03c8 = 0)") : sizesText(c.required, report.within)),
                          cell(c.required.reachable ? QString::number(c.required.total) : dash()), cell(number(c.estimate)),
                          cell(number(c.se)), cell(number(c.effectSize, 3)),
                          cell(c.welch ? QString::number(c.df, 'f', 1) : number(c.df, 6)), versus});
@@ -543,9 +602,10 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
             curveUpTo = std::max(curveUpTo, *std::min_element(c.required.perLevel.begin(), c.required.perLevel.end()));
     }
     const OmnibusPower &o = report.omnibus;
-    TableCell test = cell(tr("All %1 means equal (F test)").arg(report.levelCount), false);
+    TableCell test = cell((report.within ? tr("All %1 means equal (Hotelling T\u00b2)") : tr("All %1 means equal (F test)")).arg(report.levelCount),
+                          false);
     test.toolTip = o.notes.join(u"\n"_s);
-    std::vector<TableCell> omnibus{test, powerCell(o.power), cell(sizesText(o.required)),
+    std::vector<TableCell> omnibus{test, powerCell(o.power), cell(sizesText(o.required, report.within)),
                                    cell(o.required.reachable ? QString::number(o.required.total) : dash()), cell(dash()), cell(dash()),
                                    cell(u"f = "_s + number(o.effectSize, 3)), cell(u"%1, %2"_s.arg(o.df1).arg(number(o.df2, 6))),
                                    cell({}, false)};
@@ -562,8 +622,11 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
         for (const QString &n : c.notes)
             notes << c.name + u": "_s + n;
     for (const QString &n : o.notes)
-        notes << tr("F test: ") + n;
+        notes << (report.within ? tr("Hotelling test: ") : tr("F test: ")) + n;
     m_notes->setText(notes.join(u"\n"_s));
+    const QString why = withinExplanation(report);
+    m_withinWhy->setText(why);
+    m_withinWhy->setVisible(!why.isEmpty());
 
     // Curves up to a little past the largest size needed among the tests.
     std::vector<SmallChart::Line> lines;
@@ -573,7 +636,7 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
         if (!curve)
             continue;
         SmallChart::Line line;
-        line.label = i < 0 ? tr("F test (all equal)") : report.contrasts[size_t(i)].name;
+        line.label = i < 0 ? (report.within ? tr("Hotelling (all equal)") : tr("F test (all equal)")) : report.contrasts[size_t(i)].name;
         line.color = i < 0 ? look::baseline() : SmallChart::seriesColor(i);
         line.dashed = i < 0;
         for (size_t j = 0; j < sizes.size(); ++j)

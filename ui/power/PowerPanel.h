@@ -12,6 +12,7 @@ class QLayout;
 #include <optional>
 
 class QCheckBox;
+class QFormLayout;
 class QComboBox;
 class QLabel;
 class QLineEdit;
@@ -54,6 +55,7 @@ public:
 
     QLineEdit *sdEdit() const { return m_sd; }
     QLineEdit *totalEdit() const { return m_total; }
+    QLineEdit *correlationEdit() const { return m_correlation; }
     QLineEdit *alphaEdit() const { return m_alpha; }
     QLineEdit *targetEdit() const { return m_target; }
     QComboBox *adjustmentBox() const { return m_adjustment; }
@@ -95,6 +97,7 @@ private:
     void followDocument();
     const Factor &factor() const;     // the scheme's factor, or the design's cells
     const Analysis &analysis() const; // the scheme's analysis, or the design's over the cells
+    bool within() const;              // the factor is measured within participants
     bool differences() const;
     void showInputs();
     void inputEdited(int row, int column, const QString &text);
@@ -113,7 +116,15 @@ private:
     QLineEdit *m_sd;
     QCheckBox *m_perLevelSd;
     QComboBox *m_sizeSource;
-    QLineEdit *m_total;
+    QLineEdit *m_total;               // total N, or within participants the number of participants
+    QLineEdit *m_correlation;         // within participants
+    QFormLayout *m_form = nullptr;
+    QLabel *m_sizeSourceLabel = nullptr;
+    QLabel *m_totalLabel = nullptr;
+    QLabel *m_correlationLabel = nullptr;
+    QLabel *m_correlationCaution = nullptr;
+    QLabel *m_cautions = nullptr;
+    QLabel *m_withinWhy = nullptr;    // why within needs fewer participants (withinExplanation)
     QLineEdit *m_alpha;
     QComboBox *m_sided;
     QLineEdit *m_target;

@@ -1,0 +1,227 @@
+// The by-participant data check of a factor measured within participants (core/data:
+// readLevelData with a participant column, fitParticipants), against pandas/SciPy
+// (tests/python/participant_fit_check.py): one-sample t on the participants' contrast scores,
+// Hotelling's T^2 through its F; missing cells; the errors.
+#include "core/analysis/Analysis.h"
+#include "core/data/DataFit.h"
+#include "core/data/DataReader.h"
+#include "core/model/Scheme.h"
+#include "core/model/SchemeEdits.h"
+
+#include "tests/support/FitTestSupport.h"
+#include "tests/support/ProcessRunner.h"
+
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QTemporaryDir>
+#include <QTest>
+
+#include <cmath>
+#include <random>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+namespace {
+
+// Generated reaction times: each participant has a speed of their own (so their values go
+// together), three cue levels with replicate trials; some participants miss a level.
+QByteArray generatedData(int participants, unsigned seed)
+{
+    std::mt19937 rng(seed);
+    std::normal_distribution<double> person(500.0, 60.0), noise(0.0, 25.0);
+    const char *levels[] = {"none", "valid", "invalid"};
+    const double effect[] = {0.0, -18.0, 12.0};
+    QByteArray out = "participant,level,y\n";
+    for (int p = 0; p < participants; ++p) {
+        const double base = person(rng);
+        for (int j = 0; j < 3; ++j) {
+            if ((p == 4 && j == 2) || (p == 9 && j == 1))
+                continue; // missing cells
+            const int trials = 1 + (p + j) % 3;
+            for (int t = 0; t < trials; ++t)
+                out += "p" + QByteArray::number(p) + ',' + levels[j] + ',' + QByteArray::number(base + effect[j] + noise(rng), 'g', 17) + '\n';
+        }
+    }
+    return out;
+}
+
+Scheme cueScheme(SchemeKind kind)
+{
+    Factor f;
+    f.name = u"cue"_s;
+    f.levels = {u"none"_s, u"valid"_s, u"invalid"_s};
+    f.measure = Measure::Within;
+    return makeScheme(f, kind).take();
+}
+
+Result<DataSummary> read(const QByteArray &bytes)
+{
+    DataReadOptions o;
+    o.factorColumn = u"level"_s;
+    o.responseColumn = u"y"_s;
+    o.participantColumn = u"participant"_s;
+    o.blockBytes = 4096; // several blocks
+    return readLevelDataFromBytes(bytes, u"rt.csv"_s, o);
+}
+
+bool near(double a, double b, double tolerance)
+{
+    return std::abs(a - b) <= tolerance * std::max(1.0, std::abs(b));
+}
+
+} // namespace
+
+class TestParticipantFit : public QObject
+{
+    Q_OBJECT
+private slots:
+    void agreesWithScipy_data();
+    void agreesWithScipy();
+    void readerKeepsEachParticipantsCells();
+    void errorsNameTheParticipantOrLine_data();
+    void errorsNameTheParticipantOrLine();
+    void commandLine();
+};
+
+void TestParticipantFit::agreesWithScipy_data()
+{
+    QTest::addColumn<int>("kind");
+    QTest::addColumn<int>("participants");
+    QTest::newRow("treatment, 24 participants") << int(SchemeKind::Treatment) << 24;
+    QTest::newRow("helmert, 40 participants") << int(SchemeKind::Helmert) << 40;
+    QTest::newRow("polynomial, 12 participants") << int(SchemeKind::Polynomial) << 12;
+}
+
+void TestParticipantFit::agreesWithScipy()
+{
+    QFETCH(int, kind);
+    QFETCH(int, participants);
+    const QByteArray bytes = generatedData(participants, 7u + unsigned(participants));
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"rt.csv"_s);
+    QVERIFY(test::writeFile(path, bytes));
+    const Scheme scheme = cueScheme(SchemeKind(kind));
+    auto data = read(bytes);
+    QVERIFY2(data.ok(), qPrintable(data.error()));
+    FitOptions options;
+    options.adjust = Adjustment::Holm;
+    auto fit = fitParticipants(scheme, *data, options);
+    QVERIFY2(fit.ok(), qPrintable(fit.error()));
+    QCOMPARE(fit->participants, participants);
+    QCOMPARE(fit->completeParticipants, participants - 2);
+    QCOMPARE(fit->incompleteParticipants, (QStringList{u"p4 (no 'invalid')"_s, u"p9 (no 'valid')"_s}));
+
+    QJsonArray rows;
+    const Analysis analysis = analyze(scheme);
+    for (Eigen::Index r = 0; r < analysis.hypothesisValues.rows(); ++r) {
+        QJsonArray row;
+        for (Eigen::Index j = 0; j < analysis.hypothesisValues.cols(); ++j)
+            row.append(analysis.hypothesisValues(r, j));
+        rows.append(row);
+    }
+    const QJsonObject request{{u"data"_s, path}, {u"levels"_s, QJsonArray{u"none"_s, u"valid"_s, u"invalid"_s}}, {u"rows"_s, rows},
+                              {u"alpha"_s, 0.05}};
+    const QJsonObject py = test::runPython(u"participant_fit_check.py"_s, {}, QJsonDocument(request).toJson());
+    QVERIFY2(!py.contains(u"error"_s), qPrintable(py[u"error"_s].toString()));
+    const QJsonArray coefficients = py[u"coefficients"_s].toArray();
+    QCOMPARE(coefficients.size(), qsizetype(fit->coefficients.size()));
+    std::vector<double> family;
+    for (size_t c = 0; c < fit->coefficients.size(); ++c) {
+        const FitCoefficient &mine = fit->coefficients[c];
+        const QJsonObject ref = coefficients[qsizetype(c)].toObject();
+        QVERIFY(near(mine.estimate, ref[u"estimate"_s].toDouble(), 1e-12));
+        QVERIFY(near(mine.se, ref[u"se"_s].toDouble(), 1e-10));
+        QVERIFY(near(mine.t, ref[u"t"_s].toDouble(), 1e-9));
+        QVERIFY(near(mine.p, ref[u"p"_s].toDouble(), 1e-9));
+        QVERIFY(near(mine.ciLow, ref[u"ci_low"_s].toDouble(), 1e-10));
+        QVERIFY(near(mine.ciHigh, ref[u"ci_high"_s].toDouble(), 1e-10));
+        QCOMPARE(mine.df, ref[u"df"_s].toDouble());
+        QCOMPARE(mine.participants, ref[u"participants"_s].toInt());
+        family.push_back(mine.inFamily ? mine.p : std::nan(""));
+    }
+    // The adjustment is the fit's own, over the contrasts (the intercept is not in the family).
+    const std::vector<double> adjusted = adjustPValues(family, Adjustment::Holm);
+    for (size_t c = 1; c < fit->coefficients.size(); ++c)
+        QCOMPARE(fit->coefficients[c].pAdjusted, adjusted[c]);
+    const QJsonObject h = py[u"hotelling"_s].toObject();
+    QVERIFY(near(fit->f, h[u"f"_s].toDouble(), 1e-9));
+    QCOMPARE(fit->fDf1, h[u"df1"_s].toDouble());
+    QCOMPARE(fit->fDf2, h[u"df2"_s].toDouble());
+    QVERIFY(near(fit->fP, h[u"p"_s].toDouble(), 1e-9));
+
+    // JSON: today's keys, and df, participants and Hotelling's test.
+    const QJsonObject json = fitResultToJson(*fit, *data);
+    const QJsonObject first = json[u"coefficients"_s].toArray()[1].toObject();
+    QCOMPARE(first[u"participants"_s].toInt(), fit->coefficients[1].participants);
+    QCOMPARE(first[u"df"_s].toDouble(), fit->coefficients[1].df);
+    const QJsonObject omnibus = json[u"omnibus"_s].toObject();
+    QCOMPARE(omnibus[u"test"_s].toString(), u"hotelling"_s);
+    QCOMPARE(omnibus[u"df1"_s].toDouble(), 2.0);
+    QCOMPARE(omnibus[u"df2"_s].toDouble(), double((participants - 2) - 3 + 1)); // complete participants - k + 1
+    QVERIFY(near(omnibus[u"p"_s].toDouble(), h[u"p"_s].toDouble(), 1e-9));
+    QCOMPARE(json[u"participants"_s].toObject()[u"incomplete"_s].toArray().size(), 2);
+    for (const char16_t *key : {u"levels", u"coefficients", u"sigma", u"df", u"f", u"f_df1", u"f_df2", u"f_p", u"notes"})
+        QVERIFY(json.contains(QString::fromUtf16(key)));
+}
+
+void TestParticipantFit::readerKeepsEachParticipantsCells()
+{
+    auto data = read("participant,level,y\na,x,1\na,x,3\nb,x,5\na,z,10\nb,z,20\n");
+    QVERIFY2(data.ok(), qPrintable(data.error()));
+    QCOMPARE(data->participants, (QStringList{u"a"_s, u"b"_s}));
+    QCOMPARE(data->participantCells[0][0].mean, 2.0); // replicates averaged
+    QCOMPARE(data->participantCells[0][0].n, 2.0);
+    QCOMPARE(data->participantCells[1][1].mean, 20.0);
+}
+
+void TestParticipantFit::errorsNameTheParticipantOrLine_data()
+{
+    QTest::addColumn<QByteArray>("bytes");
+    QTest::addColumn<QString>("message");
+    QTest::newRow("one level only") << QByteArray("participant,level,y\na,none,1\na,valid,2\na,invalid,3\nb,none,4\nb,none,5\n")
+                                    << u"participant 'b' has values at one level only"_s;
+    QTest::newRow("missing participant") << QByteArray("participant,level,y\na,none,1\n,valid,2\n")
+                                         << u"rt.csv line 3: the participant (column 'participant') is empty"_s;
+}
+
+void TestParticipantFit::errorsNameTheParticipantOrLine()
+{
+    QFETCH(QByteArray, bytes);
+    QFETCH(QString, message);
+    auto data = read(bytes);
+    QString error = data ? QString() : data.error();
+    if (data) {
+        auto fit = fitParticipants(cueScheme(SchemeKind::Treatment), *data);
+        QVERIFY(!fit.ok());
+        error = fit.error();
+    }
+    QVERIFY2(error.startsWith(message), qPrintable(error));
+}
+
+// fit --participant: today's keys, df and participants per coefficient, Hotelling's omnibus.
+void TestParticipantFit::commandLine()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"rt.csv"_s);
+    QVERIFY(test::writeFile(path, generatedData(24, 31u)));
+    const QStringList base{u"fit"_s, u"--data"_s, path, u"--factor"_s, u"level"_s, u"--response"_s, u"y"_s,
+                           u"--levels"_s, u"none,valid,invalid"_s, u"--scheme"_s, u"treatment"_s, u"--within"_s};
+    const test::ProcessRun run = test::runCli(base + QStringList{u"--participant"_s, u"participant"_s, u"--json"_s});
+    QVERIFY2(run.exitCode == 0, run.err.constData());
+    const QJsonObject o = QJsonDocument::fromJson(run.out).object();
+    const QJsonObject valid = o[u"coefficients"_s].toArray()[1].toObject();
+    QCOMPARE(valid[u"participants"_s].toInt(), 23); // p9 has no 'valid'
+    QCOMPARE(valid[u"df"_s].toDouble(), 22.0);
+    QCOMPARE(o[u"omnibus"_s].toObject()[u"test"_s].toString(), u"hotelling"_s);
+    QCOMPARE(o[u"omnibus"_s].toObject()[u"participants"_s].toInt(), 22);
+    const test::ProcessRun text = test::runCli(base + QStringList{u"--participant"_s, u"participant"_s});
+    QVERIFY(text.outText().contains(u"By participant (column 'participant')"_s));
+    QVERIFY(text.outText().contains(u"p4 (no 'invalid')"_s));
+    const test::ProcessRun wrong = test::runCli(base + QStringList{u"--participant"_s, u"level"_s});
+    QCOMPARE(wrong.exitCode, 2);
+    QVERIFY2(wrong.errText().contains(u"the participant column ('level') is also the factor"_s), wrong.err.constData());
+}
+
+QTEST_GUILESS_MAIN(TestParticipantFit)
+#include "TestParticipantFit.moc"
