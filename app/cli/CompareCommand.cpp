@@ -1,5 +1,6 @@
 // The compare subcommand: one factor (or design) under two codings side by side.
 #include "app/cli/Commands.h"
+#include "core/files/StudyFile.h"
 #include "app/cli/SchemeArguments.h"
 
 #include "core/analysis/Compare.h"

@@ -48,7 +48,7 @@ void addDataOptions(QCommandLineParser &p)
     p.addOption({u"alpha"_s, u"Confidence intervals at 1 - alpha (default 0.05)."_s, u"a"_s});
     p.addOption({u"adjust"_s, u"Adjust the contrasts' p-values: %1 (default none)."_s.arg(adjustmentIdList(false)), u"METHOD"_s});
     p.addOption({u"json"_s, u"Print one JSON object instead of the report."_s});
-    addSummaryQueryOptions(p);
+    addSummaryQueryOptions(p, false);
 }
 
 struct DataArguments

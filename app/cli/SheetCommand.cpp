@@ -1,6 +1,7 @@
 // The sheet subcommand: the study sheet as self-contained HTML or, in a build with the window's
 // libraries, as PDF.
 #include "app/cli/Commands.h"
+#include "core/files/StudyFile.h"
 #include "app/cli/SchemeArguments.h"
 
 #include "core/files/InputFile.h"

@@ -6,7 +6,7 @@ using namespace Qt::StringLiterals;
 
 namespace cb::cli {
 
-void addSummaryQueryOptions(QCommandLineParser &p)
+void addSummaryQueryOptions(QCommandLineParser &p, bool participantOption)
 {
     p.addOption({u"table"_s, u"The database table that holds the rows (matched exactly, case included)."_s, u"T"_s});
     p.addOption({u"variance"_s, u"How the query computes the variance: centred (sums of squares about each level's mean "
@@ -16,14 +16,15 @@ void addSummaryQueryOptions(QCommandLineParser &p)
     p.addOption({u"centre"_s, u"With the centred form, subtract this constant (such as a known typical value) instead of "
                              "running a first pass."_s,
                  u"VALUE"_s});
-    p.addOption({u"participant"_s, u"Not available yet: the two-level form (each participant's cell means first) waits for "
-                                  "within-participant factors; the option is refused with a message."_s,
+    if (participantOption)
+        p.addOption({u"participant"_s, u"Not available yet: the two-level form (each participant's cell means first) is not "
+                                  "written yet; the option is refused with a message."_s,
                  u"COL"_s});
 }
 
 QStringList summaryQueryOnlyOptions()
 {
-    return {u"table"_s, u"variance"_s, u"centre"_s, u"participant"_s};
+    return {u"table"_s, u"variance"_s, u"centre"_s};
 }
 
 Result<SummaryQuerySpec> summaryQuerySpec(const QCommandLineParser &p, const QStringList &factorColumns)

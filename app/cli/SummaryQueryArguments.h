@@ -10,10 +10,13 @@
 
 namespace cb::cli {
 
-void addSummaryQueryOptions(QCommandLineParser &parser);
+// participantOption: whether to add --participant here (fit has its own, for the by-participant
+// analysis of a data file; with --database the query refuses it).
+void addSummaryQueryOptions(QCommandLineParser &parser, bool participantOption = true);
 // factorColumns: one per factor (the command decides the default for a design).
 Result<SummaryQuerySpec> summaryQuerySpec(const QCommandLineParser &parser, const QStringList &factorColumns);
-// The options that only the summary query reads, for a command to refuse them elsewhere.
+// The options that only the summary query reads, for a command to refuse them elsewhere
+// (--participant is not among them: fit reads it for data files too).
 QStringList summaryQueryOnlyOptions();
 
 } // namespace cb::cli

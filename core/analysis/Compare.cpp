@@ -1,5 +1,7 @@
 #include "core/analysis/Compare.h"
 
+#include "core/analysis/Settled.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "core/base/NumberText.h"
 
 #include <algorithm>

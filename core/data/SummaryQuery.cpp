@@ -49,8 +49,9 @@ Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
 {
     using R = Result<SummaryQuery>;
     if (!spec.participantColumn.isEmpty())
-        return R::failure(u"--participant: the two-level form (each participant's cell means first) is not available: it "
-                          "needs within-participant factors, which this version does not fit yet; leave --participant "
+        return R::failure(u"--participant: the two-level form (each participant's cell means first) is not available: "
+                          "the query does not yet write each participant's cell means. For a factor measured within "
+                          "participants, export the rows and use fit --data with --participant; leave --participant "
                           "out to summarise every row as independent"_s,
                           u"participant"_s);
     if (QString e = checkName(u"--table"_s, spec.table); !e.isEmpty())

@@ -36,7 +36,7 @@ struct SummaryQuerySpec
     QStringList factorColumns; // one per factor; a design's cells are joined with kCellJoiner
     QString responseColumn;
     QString weightColumn;      // empty: every row counts once
-    QString participantColumn; // refused for now: the two-level form needs within-participant factors
+    QString participantColumn; // refused for now: the two-level form (participants' cell means) is not written yet
     VarianceForm form = VarianceForm::Centred;
     std::optional<double> centre; // Centred only: subtract this constant instead of a first pass
 };

@@ -1,5 +1,7 @@
 #include "core/report/StudySheet.h"
 
+#include "core/files/StudyFile.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "core/analysis/Analysis.h"
 #include "core/analysis/Compare.h"
 #include "core/base/NumberText.h"

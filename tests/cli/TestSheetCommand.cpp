@@ -2,6 +2,8 @@
 // same bytes as the example in docs/) and as PDF (pdftotext, from poppler-utils, finds every level
 // name and every hypothesis text; pdffonts says every font is embedded), and bad input.
 #include "core/analysis/Analysis.h"
+#include "core/files/StudyFile.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "core/model/Study.h"
 
 #include "tests/support/ProcessRunner.h"

@@ -3,6 +3,7 @@
 // strict parser (tests/python/check_sheet_html.py, Python's standard library, which also holds
 // the checksum to hashlib's SHA-256), and inert with hostile names.
 #include "core/analysis/Analysis.h"
+#include "core/files/StudyFile.h"
 #include "core/base/NumberText.h"
 #include "core/files/InputFile.h"
 #include "core/model/SchemeEdits.h"

@@ -3,6 +3,7 @@
 // checked against SciPy's noncentral t and F in TestPower.
 
 #include "ui/window/Demos.h"
+#include "core/analysis/Settled.h"
 #include "ui/document/Document.h"
 #include "tests/support/PanelShot.h"
 #include "ui/power/PowerPanel.h"

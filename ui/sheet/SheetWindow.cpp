@@ -1,5 +1,6 @@
 #include "ui/sheet/SheetWindow.h"
 
+#include "core/files/StudyFile.h"
 #include "core/analysis/Compare.h"
 #include "core/files/InputFile.h"
 #include "core/files/SchemeFile.h"
