@@ -32,6 +32,18 @@ void FindingsModel::aboutToFollow()
     });
 }
 
+bool FindingsModel::showsChange()
+{
+    const auto &findings = document()->analysis().findings;
+    QList<QPair<int, QString>> shown;
+    shown.reserve(qsizetype(m_order.size()));
+    for (const int i : m_order)
+        shown.append({int(findings[size_t(i)].severity), findings[size_t(i)].message});
+    const bool same = shown == m_shown;
+    m_shown = std::move(shown);
+    return !same;
+}
+
 QVariant FindingsModel::data(const QModelIndex &index, int role) const
 {
     const auto &findings = document()->analysis().findings;

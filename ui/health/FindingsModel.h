@@ -17,9 +17,13 @@ public:
 protected:
     Shape currentShape() const override;
     void aboutToFollow() override;
+    bool showsChange() override;
 
 private:
     std::vector<int> m_order; // indices into the analysis' findings, problems first
+    // What the list shows (severity and words, in order), so an edit that leaves the findings as
+    // they were does not repaint them: wrapped findings are the costliest rows of the window to lay out.
+    QList<QPair<int, QString>> m_shown;
 };
 
 } // namespace cb

@@ -1,5 +1,6 @@
 #include "ui/meaning/MeaningDelegate.h"
 
+#include "ui/common/CachedText.h"
 #include "ui/common/Look.h"
 #include "ui/meaning/MeaningModel.h"
 
@@ -108,13 +109,13 @@ void MeaningDelegate::paint(QPainter *painter, const QStyleOptionViewItem &optio
     const Parts p = layout(option.rect, option, index);
     painter->setPen(option.palette.color(QPalette::Text));
     painter->setFont(titleFont(option));
-    painter->drawText(p.title, Qt::TextWordWrap, index.data(MeaningModel::TitleRole).toString());
+    drawCachedText(painter, p.title, Qt::TextWordWrap, index.data(MeaningModel::TitleRole).toString());
     painter->setFont(smallFont(option));
     painter->setPen(look::ink(look::State::Neutral));
-    painter->drawText(p.symbols, Qt::TextWordWrap, index.data(MeaningModel::SymbolsRole).toString());
+    drawCachedText(painter, p.symbols, Qt::TextWordWrap, index.data(MeaningModel::SymbolsRole).toString());
     painter->setFont(option.font);
     painter->setPen(option.palette.color(QPalette::Text));
-    painter->drawText(p.words, Qt::TextWordWrap, index.data(MeaningModel::WordsRole).toString());
+    drawCachedText(painter, p.words, Qt::TextWordWrap, index.data(MeaningModel::WordsRole).toString());
     paintBars(painter, p.bars, index.data(MeaningModel::WeightsRole).value<QList<double>>(),
               index.data(MeaningModel::LevelsRole).toStringList(), index.data(MeaningModel::WeightTextsRole).toStringList(),
               smallFont(option));
@@ -150,9 +151,9 @@ void MeaningDelegate::paintBars(QPainter *painter, const QRect &area, const QLis
             const QRect top(int(chart.left() + slot * i), area.top(), int(slot), line);
             const QRect bottom(int(chart.left() + slot * i), chart.bottom() + 1, int(slot), line);
             painter->setPen(w > 0 ? look::raisedBar() : w < 0 ? look::loweredBar() : look::quietText());
-            painter->drawText(top, Qt::AlignCenter, valueTexts.value(i));
+            drawCachedText(painter, top, Qt::AlignCenter, valueTexts.value(i));
             painter->setPen(look::ink(look::State::Neutral));
-            painter->drawText(bottom, Qt::AlignCenter, QFontMetrics(smallFont).elidedText(labels.value(i), Qt::ElideRight, int(slot) - 2));
+            drawCachedText(painter, bottom, Qt::AlignCenter, QFontMetrics(smallFont).elidedText(labels.value(i), Qt::ElideRight, int(slot) - 2));
         }
     }
     painter->setPen(QPen(look::baseline(), 1));

@@ -2,6 +2,7 @@
 
 #include "core/files/StudyFile.h"
 #include "ui/coding/CodingPanel.h"
+#include "ui/common/CachedText.h"
 #include "ui/data/DataPanel.h"
 #include "ui/design/DesignPanel.h"
 #include "ui/window/Demos.h"
@@ -97,6 +98,7 @@ MainWindow::MainWindow(const WindowOptions &options, QWidget *parent)
     data->setPrompter(m_prompter);
     addPanel(data, tr("Check on data"), u"dataDock"_s);
     buildStatusBar();
+    useCachedText(this);
     followDocument();
     startRecovery();
     updateTitle();

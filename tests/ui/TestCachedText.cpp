@@ -1,0 +1,238 @@
+// The cached text path (ui/common/CachedText) draws what the style and QPainter::drawText draw,
+// pixel for pixel where it takes over, and leaves elided text to the style; the findings list does
+// not repaint when an edit leaves the findings as they were.
+#include "ui/common/CachedText.h"
+#include "ui/document/Document.h"
+#include "ui/health/FindingsModel.h"
+#include "core/model/Scheme.h"
+
+#include <QImage>
+#include <QListView>
+#include <QPainter>
+#include <QSignalSpy>
+#include <QStandardItemModel>
+#include <QTableView>
+#include <QTest>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+
+class TestCachedText : public QObject
+{
+    Q_OBJECT
+
+private slots:
+    void tableCellsLookTheSame();
+    void wrappedListRowsLookTheSame();
+    void drawTextLooksTheSame_data();
+    void drawTextLooksTheSame();
+    void onlyDefaultDelegatesAreReplaced();
+    void unchangedFindingsDoNotRepaint();
+};
+
+namespace {
+
+// The rectangle holding every pixel that differs from the background.
+QRect inkOf(const QImage &image)
+{
+    const QRgb background = image.pixel(0, 0);
+    QRect ink;
+    for (int y = 0; y < image.height(); ++y)
+        for (int x = 0; x < image.width(); ++x)
+            if (image.pixel(x, y) != background)
+                ink |= QRect(x, y, 1, 1);
+    return ink;
+}
+
+// Pixels that differ between two images of the same size, and the largest channel difference.
+std::pair<int, int> differenceOf(const QImage &a, const QImage &b)
+{
+    int count = 0, largest = 0;
+    for (int y = 0; y < a.height(); ++y)
+        for (int x = 0; x < a.width(); ++x) {
+            const QRgb p = a.pixel(x, y), q = b.pixel(x, y);
+            const int d = std::max({std::abs(qRed(p) - qRed(q)), std::abs(qGreen(p) - qGreen(q)), std::abs(qBlue(p) - qBlue(q))});
+            count += d > 0;
+            largest = std::max(largest, d);
+        }
+    return {count, largest};
+}
+
+QStandardItemModel *sampleTable(QObject *parent)
+{
+    auto *model = new QStandardItemModel(4, 3, parent);
+    const QStringList texts = {u"1/3"_s, u"\u22122/7"_s, u"level 1"_s, u"0"_s, u"C vs A"_s, u"1/2 (A, B vs C)"_s,
+                               u"linear"_s, u"\u2713 yes"_s, u"a name far too long to fit in the narrow cell here"_s,
+                               u"7"_s, u"\u2717 no"_s, u"b2 low vs control"_s};
+    for (int i = 0; i < texts.size(); ++i) {
+        auto *item = new QStandardItem(texts[i]);
+        if (i % 3 == 1)
+            item->setTextAlignment(Qt::AlignRight | Qt::AlignVCenter);
+        if (i == 4)
+            item->setForeground(QColor(0xb0, 0x30, 0x30));
+        if (i == 6)
+            item->setCheckable(true);
+        model->setItem(i / 3, i % 3, item);
+    }
+    return model;
+}
+
+QImage shotOf(QAbstractItemView &view)
+{
+    view.show();
+    if (!QTest::qWaitForWindowExposed(&view))
+        return {};
+    return view.viewport()->grab().toImage();
+}
+
+} // namespace
+
+// One view, shot with the style's delegate and then with the cached one, so that focus and
+// window state are the same for both.
+void TestCachedText::tableCellsLookTheSame()
+{
+    QStandardItemModel *model = sampleTable(this);
+    QTableView view;
+    view.setModel(model);
+    view.resize(420, 200);
+    view.setWordWrap(false);
+    view.setCurrentIndex(model->index(1, 1)); // one selected cell: highlighted text colour
+    const QImage a = shotOf(view);
+    useCachedText(&view);
+    QVERIFY(dynamic_cast<CachedTextDelegate *>(view.itemDelegate()));
+    const QImage b = shotOf(view);
+    QVERIFY(!a.isNull() && a.size() == b.size());
+    // Every cell but the selected one is the same to the pixel. Light text on the highlight is
+    // blended a shade differently on the cached path (white on blue, edges only): its glyphs must
+    // cover the same box.
+    const QRect selected = view.visualRect(model->index(1, 1));
+    QImage a0 = a, b0 = b;
+    QPainter(&a0).fillRect(selected, Qt::black);
+    QPainter(&b0).fillRect(selected, Qt::black);
+    const auto [count, largest] = differenceOf(a0, b0);
+    qInfo("table: %d of %lld pixels differ outside the selected cell, by at most %d", count, qint64(a.width()) * a.height(), largest);
+    QCOMPARE(count, 0);
+    auto textInk = [&](const QImage &image) {
+        QImage cell = image.copy(selected.adjusted(2, 2, -2, -2));
+        // The highlight is the background: keep the pixels much lighter than it.
+        for (int y = 0; y < cell.height(); ++y)
+            for (int x = 0; x < cell.width(); ++x)
+                cell.setPixel(x, y, qGray(cell.pixel(x, y)) > 200 ? qRgb(255, 255, 255) : qRgb(0, 0, 0));
+        cell.setPixel(0, 0, qRgb(0, 0, 0));
+        return inkOf(cell);
+    };
+    const QRect inkA = textInk(a), inkB = textInk(b);
+    QVERIFY(inkA.width() > 10);
+    QVERIFY(std::abs(inkA.left() - inkB.left()) <= 1 && std::abs(inkA.right() - inkB.right()) <= 1);
+    QVERIFY(std::abs(inkA.top() - inkB.top()) <= 1 && std::abs(inkA.bottom() - inkB.bottom()) <= 1);
+}
+
+// Rows that fit on one line take the cached path; longer ones are wrapped by the style.
+void TestCachedText::wrappedListRowsLookTheSame()
+{
+    auto *model = new QStandardItemModel(this);
+    for (const QString &t : {u"\u2713  Nothing to flag: the columns are identifiable, well conditioned and orthogonal."_s,
+                             u"i  Short."_s, u"\u26a0  Columns 1 and 2 are not orthogonal under the planned group sizes."_s})
+        model->appendRow(new QStandardItem(t));
+    QListView view;
+    view.setModel(model);
+    view.setWordWrap(true);
+    view.setSpacing(2);
+    view.resize(220, 200);
+    const QImage a = shotOf(view);
+    useCachedText(&view);
+    const QImage b = shotOf(view);
+    QVERIFY(!a.isNull() && a.size() == b.size());
+    const auto [count, largest] = differenceOf(a, b);
+    qInfo("list: %d of %lld pixels differ, by at most %d", count, qint64(a.width()) * a.height(), largest);
+    QCOMPARE(count, 0);
+}
+
+void TestCachedText::drawTextLooksTheSame_data()
+{
+    QTest::addColumn<int>("flags");
+    QTest::addColumn<QString>("text");
+    QTest::newRow("centred value") << int(Qt::AlignCenter) << u"\u22121/2"_s;
+    QTest::newRow("top left") << int(Qt::AlignLeft | Qt::AlignTop) << u"b1 level 2 vs level 1"_s;
+    QTest::newRow("wrapped words") << int(Qt::TextWordWrap)
+                                   << u"The mean of level 2 minus the mean of level 1, with the other levels left out."_s;
+}
+
+void TestCachedText::drawTextLooksTheSame()
+{
+    QFETCH(int, flags);
+    QFETCH(QString, text);
+    const QRect rect(10, 8, 180, 70);
+    auto render = [&](bool cached) {
+        QImage image(220, 100, QImage::Format_RGB32);
+        image.fill(Qt::white);
+        QPainter p(&image);
+        p.setPen(Qt::black);
+        if (cached)
+            drawCachedText(&p, rect, flags, text);
+        else
+            p.drawText(rect, flags, text);
+        return image;
+    };
+    const QImage a = render(false), b = render(true);
+    // The same glyphs: the ink lies in the same box, give or take a pixel of rounding, and every
+    // pixel is within a shade of the other.
+    const QRect inkA = inkOf(a), inkB = inkOf(b);
+    QVERIFY(!inkA.isEmpty());
+    QVERIFY2(std::abs(inkA.left() - inkB.left()) <= 1 && std::abs(inkA.top() - inkB.top()) <= 1
+                 && std::abs(inkA.right() - inkB.right()) <= 1 && std::abs(inkA.bottom() - inkB.bottom()) <= 1,
+             qPrintable(u"ink %1,%2 %3x%4 vs %5,%6 %7x%8"_s.arg(inkA.x()).arg(inkA.y()).arg(inkA.width()).arg(inkA.height())
+                            .arg(inkB.x()).arg(inkB.y()).arg(inkB.width()).arg(inkB.height())));
+    const auto [count, largest] = differenceOf(a, b);
+    qInfo("drawText: %d pixels differ, by at most %d", count, largest);
+}
+
+void TestCachedText::onlyDefaultDelegatesAreReplaced()
+{
+    QWidget root;
+    auto *plain = new QTableView(&root);
+    auto *own = new QTableView(&root);
+    auto *mine = new QStyledItemDelegate(own);
+    own->setItemDelegate(new CachedTextDelegate(own));
+    auto *custom = new QListView(&root);
+    class Other : public QStyledItemDelegate
+    {
+    public:
+        using QStyledItemDelegate::QStyledItemDelegate;
+    };
+    // A delegate of another class (its metaObject is QStyledItemDelegate's too) is kept.
+    auto *other = new Other(custom);
+    custom->setItemDelegate(other);
+    Q_UNUSED(mine);
+    useCachedText(&root);
+    QVERIFY(dynamic_cast<CachedTextDelegate *>(plain->itemDelegate()));
+    QVERIFY(dynamic_cast<CachedTextDelegate *>(own->itemDelegate()));
+    QCOMPARE(custom->itemDelegate(), other);
+}
+
+void TestCachedText::unchangedFindingsDoNotRepaint()
+{
+    Document document;
+    Factor f;
+    f.name = u"dose"_s;
+    f.levels = {u"none"_s, u"low"_s, u"high"_s};
+    document.reset(makeScheme(f, SchemeKind::Treatment).take(), {});
+    FindingsModel findings(&document);
+    QSignalSpy spy(&findings, &QAbstractItemModel::dataChanged);
+
+    // Renaming the factor changes no finding.
+    Scheme renamed = document.scheme();
+    renamed.factor.name = u"dosage"_s;
+    document.edit(renamed, u"rename"_s);
+    QCOMPARE(spy.count(), 0);
+
+    // Weights that break the sums to zero do.
+    Scheme typed = document.scheme();
+    typed.kind = SchemeKind::Custom;
+    typed.columns[0].weights[0] = Weight::exact(Rational(5));
+    document.edit(typed, u"type"_s);
+    QVERIFY(spy.count() > 0);
+}
+
+QTEST_MAIN(TestCachedText)
+#include "TestCachedText.moc"

@@ -1,0 +1,38 @@
+#pragma once
+
+#include <QStyledItemDelegate>
+
+class QPainter;
+class QRect;
+class QString;
+class QWidget;
+
+namespace cb {
+
+// Most of the time the window spends repainting after an edit goes into shaping text (HarfBuzz
+// through QTextLayout), and the texts are the same short strings every time: fractions, level
+// names, column names, card titles. QPainter::drawText and the style's item text lay the string
+// out anew on every paint; these functions keep each laid-out text (QStaticText) per string,
+// font, width and alignment, so a text is shaped once and then only drawn.
+
+// Draws text as QPainter::drawText(rect, flags, text) does for the flags the window uses:
+// alignment, and Qt::TextWordWrap (lines broken at words to the rect's width). The painter's
+// font and pen are used.
+void drawCachedText(QPainter *painter, const QRect &rect, int flags, const QString &text);
+
+// The item delegate of the window's views: a cell is drawn by the style as usual (background,
+// check box, icon, focus), and its text comes from the cache when it fits on one line. Text that
+// would be elided or wrapped, and a cell being edited, are drawn by QStyledItemDelegate itself
+// (the style lays wrapped item text out its own way, without the lines' leading).
+class CachedTextDelegate : public QStyledItemDelegate
+{
+public:
+    using QStyledItemDelegate::QStyledItemDelegate;
+    void paint(QPainter *painter, const QStyleOptionViewItem &option, const QModelIndex &index) const override;
+};
+
+// Gives root and every item view under it that has the default delegate a CachedTextDelegate (views
+// with a delegate of their own keep it). The window calls this once, after building its panels.
+void useCachedText(QWidget *root);
+
+} // namespace cb
