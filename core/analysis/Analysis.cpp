@@ -800,7 +800,7 @@ QString coefficientLabel(bool intercept, int index, const QString &name)
     return u"b%1 %2"_s.arg(intercept ? index : index + 1).arg(name);
 }
 
-Analysis analyze(const Scheme &s)
+Analysis analyze(const Scheme &s, AnalysisScope scope)
 {
     Analysis a = namesAndCounts(s);
     if (QString e = s.validate(); !e.isEmpty()) {
@@ -820,6 +820,8 @@ Analysis analyze(const Scheme &s)
     const std::optional<RationalMatrix> xInverse = rankAndDependencies(a, d, sc, xq);
     conditionFromSingularValues(a, sc);
     impliedHypotheses(a, d, sc, xq, xInverse, nq);
+    if (scope == AnalysisScope::Hypotheses)
+        return a;
 
     // The scaled inverse gives the VIFs of a square design with an intercept (floating path only).
     const bool inverseForVif = !a.exact && a.fullRank && s.intercept && d.xsInverse && a.conditionNumber

@@ -130,7 +130,10 @@ inline constexpr double kVifProblem = 10.0;
 // Largest k for which hypotheses are computed in exact rational arithmetic.
 inline constexpr int kExactLevelLimit = 40;
 
-Analysis analyze(const Scheme &scheme);
+// How much analyze() computes: everything, or only the rank, dependencies and hypotheses (the
+// naming pass needs no VIFs, column checks or findings about them, about half the work).
+enum class AnalysisScope { Full, Hypotheses };
+Analysis analyze(const Scheme &scheme, AnalysisScope scope = AnalysisScope::Full);
 
 // The reverse direction: the coding whose coefficients test exactly the given
 // hypotheses. rows: weights on the k level means, one row per coefficient.

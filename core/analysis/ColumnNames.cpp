@@ -254,7 +254,7 @@ Scheme withCurrentNames(Scheme scheme)
                                     [](const Column &c) { return !c.named || c.namedFor.empty(); });
     if (!needed || !scheme.validate().isEmpty())
         return scheme;
-    const Analysis a = analyze(scheme);
+    const Analysis a = analyze(scheme, AnalysisScope::Hypotheses);
     Trends trends(scheme);
     QStringList taken;
     for (const Column &c : scheme.columns)
