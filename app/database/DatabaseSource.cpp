@@ -116,6 +116,9 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
     roles.push_back({u"response"_s, spec.responseColumn, true});
     if (!spec.weightColumn.isEmpty())
         roles.push_back({u"weight"_s, spec.weightColumn, true});
+    const bool twoLevel = !spec.participantColumn.isEmpty();
+    if (twoLevel)
+        roles.push_back({u"participant"_s, spec.participantColumn, false});
     for (const Role &r : roles) {
         qsizetype i = columns.indexOf(r.name);
         if (i < 0 && l.driver == u"QSQLITE"_s) // Qt's SQLite driver drops the double quotes from column names
@@ -151,6 +154,24 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
         }
     }
 
+    // The two-level form leaves rows without a participant out; as with a data file, such a row
+    // is an error here rather than a silent loss.
+    if (twoLevel) {
+        QSqlQuery check(db);
+        check.setForwardOnly(true);
+        if (!check.exec(u"SELECT COUNT(*) FROM %1 WHERE %2 IS NULL AND %3 IS NOT NULL"_s.arg(
+                quoteSqlIdentifier(spec.table), quoteSqlIdentifier(spec.participantColumn),
+                quoteSqlIdentifier(spec.responseColumn)))
+            || !check.next())
+            return R::failure(u"%1: cannot check column %2: %3"_s.arg(place, quoted(spec.participantColumn),
+                                                                     engineText(check.lastError())));
+        if (const qint64 missing = check.value(0).toLongLong(); missing > 0)
+            return R::failure(u"%1: --participant: %2 rows with a response have no participant (column %3 is NULL); every "
+                              "row needs the participant it belongs to"_s.arg(place, QString::number(missing),
+                                                                               quoted(spec.participantColumn)),
+                              u"participant"_s);
+    }
+
     QSqlQuery q(db);
     q.setForwardOnly(true);
     if (!q.exec(query.sql))
@@ -172,6 +193,11 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
         SummaryRow row;
         row.level = q.value(0).toString();
         row.place = u"%1 row %2 (level %3)"_s.arg(place, QString::number(index), quoted(row.level));
+        if (twoLevel) {
+            row.participant = q.value(4).toString();
+            row.place = u"%1 row %2 (participant %3, level %4)"_s.arg(place, QString::number(index), quoted(row.participant),
+                                                                      quoted(row.level));
+        }
         row.spreadIsVariance = true;
         std::optional<double> n, mean;
         for (const QString &e : {number(1, u"n"_s, index, n), number(2, u"mean"_s, index, mean),

@@ -53,6 +53,34 @@ inline std::vector<GeneratedRow> generateRows(const std::vector<QStringList> &fa
     return out;
 }
 
+// Rows of a factor measured within participants: factors = {participant, level}. Participants
+// "p0001", "p0002", ... (text order is their order), each with its own offset (SD 3 sd), 1 to
+// `replicates` trials per level in a shuffled order; every 7th participant lacks the last level.
+// Written participant by participant, so a data file's first-appearance order is the text order.
+inline std::vector<GeneratedRow> generateWithinRows(int participants, const QStringList &levels, int replicates,
+                                                    double centre, double sd, unsigned seed)
+{
+    std::mt19937_64 rng(seed);
+    std::normal_distribution<double> noise(0.0, sd);
+    std::uniform_int_distribution<int> count(1, replicates);
+    std::uniform_int_distribution<int> weight(1, 6);
+    std::vector<GeneratedRow> out;
+    for (int p = 1; p <= participants; ++p) {
+        const QString who = QStringLiteral("p%1").arg(p, 4, 10, QLatin1Char('0'));
+        const double offset = 3.0 * noise(rng);
+        std::vector<GeneratedRow> mine;
+        for (qsizetype k = 0; k < levels.size(); ++k) {
+            if (p % 7 == 0 && k + 1 == levels.size())
+                continue;
+            for (int r = count(rng); r > 0; --r)
+                mine.push_back({{who, levels[k]}, centre + offset + 0.6 * double(k) * sd + noise(rng), weight(rng) * 0.5});
+        }
+        std::shuffle(mine.begin(), mine.end(), rng);
+        out.insert(out.end(), mine.begin(), mine.end());
+    }
+    return out;
+}
+
 // The CSV `fit --data` reads: the factor columns, the response and the weight, with a header.
 // Numbers with 17 significant digits, so the file holds exactly the values in the table.
 inline QByteArray rowsToCsv(const QStringList &header, const std::vector<GeneratedRow> &rows)
@@ -97,7 +125,8 @@ inline QString fillTable(QSqlDatabase &db, const QString &table, const QStringLi
 }
 
 // Empty when the two fits' numbers agree to tol (relative, or absolute below 1); otherwise
-// the first difference.
+// the first difference. By-participant fits also compare Hotelling's omnibus, each coefficient's df
+// and participants, and the participants left out (by name, in order).
 inline QString compareFits(const QJsonObject &a, const QJsonObject &b, double tol)
 {
     const auto close = [tol](const QJsonValue &x, const QJsonValue &y) {
@@ -128,7 +157,17 @@ inline QString compareFits(const QJsonObject &a, const QJsonObject &b, double to
     };
     if (QString e = compareArray("levels", {"n", "mean", "sd"}); !e.isEmpty())
         return e;
-    return compareArray("coefficients", {"estimate", "se", "t", "p", "ci_low", "ci_high"});
+    // By participant: each coefficient's df and participants, Hotelling's test and who was left out.
+    const QJsonObject ox = a[QStringLiteral("omnibus")].toObject(), oy = b[QStringLiteral("omnibus")].toObject();
+    for (const char *key : {"f", "df1", "df2", "p", "participants"})
+        if (!close(ox[QLatin1String(key)], oy[QLatin1String(key)]))
+            return QStringLiteral("omnibus.%1: %2 vs %3").arg(QLatin1String(key)).arg(ox[QLatin1String(key)].toDouble(), 0, 'g', 17)
+                .arg(oy[QLatin1String(key)].toDouble(), 0, 'g', 17);
+    if (a[QStringLiteral("participants")] != b[QStringLiteral("participants")])
+        return QStringLiteral("participants: %1 vs %2")
+            .arg(QString::fromUtf8(QJsonDocument(a[QStringLiteral("participants")].toObject()).toJson(QJsonDocument::Compact)),
+                 QString::fromUtf8(QJsonDocument(b[QStringLiteral("participants")].toObject()).toJson(QJsonDocument::Compact)));
+    return compareArray("coefficients", {"estimate", "se", "t", "p", "p_adjusted", "ci_low", "ci_high", "df", "participants"});
 }
 
 inline QJsonObject jsonOf(const QByteArray &out)
