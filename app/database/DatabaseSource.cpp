@@ -42,6 +42,21 @@ bool isTextType(const QMetaType &type)
         || id == QMetaType::QDate || id == QMetaType::QDateTime || id == QMetaType::QTime;
 }
 
+// The statement without the comment lines that head it: some ODBC drivers (SQLite's among them)
+// take a comment for a second statement and refuse the query. Only the leading lines go, up to
+// the first line that is not a comment, so nothing inside the statement (a quoted name) is touched.
+QString withoutLeadingComments(const QString &sql)
+{
+    qsizetype start = 0;
+    while (sql.mid(start, 2) == u"--"_s) {
+        const qsizetype end = sql.indexOf(u'\n', start);
+        if (end < 0)
+            return {};
+        start = end + 1;
+    }
+    return sql.mid(start);
+}
+
 // One connection, removed when it goes out of scope (after every QSqlDatabase copy is gone).
 class Connection
 {
@@ -174,7 +189,7 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
 
     QSqlQuery q(db);
     q.setForwardOnly(true);
-    if (!q.exec(query.sql))
+    if (!q.exec(withoutLeadingComments(query.sql)))
         return R::failure(u"%1: the summary query failed: %2"_s.arg(place, engineText(q.lastError())));
     std::vector<SummaryRow> rows;
     const auto number = [&](int column, const QString &what, qint64 row, std::optional<double> &out) -> QString {

@@ -7,7 +7,6 @@
 #include "tests/support/FitTestSupport.h"
 #include "tests/support/ProcessRunner.h"
 
-#include <QCryptographicHash>
 #include <QFile>
 #include <QTemporaryDir>
 #include <QTest>
@@ -16,38 +15,16 @@ using namespace Qt::StringLiterals;
 using namespace cb;
 using namespace cb::test;
 
-namespace {
-
-QByteArray fileHash(const QString &path)
-{
-    QFile f(path);
-    if (!f.open(QIODevice::ReadOnly))
-        return {};
-    return QCryptographicHash::hash(f.readAll(), QCryptographicHash::Sha256);
-}
-
-} // namespace
-
 class TestDatabaseFit : public QObject
 {
     Q_OBJECT
 
     QTemporaryDir m_dir;
 
-    // A writable connection of the test's own (the program opens its own, read-only).
     QString makeDatabase(const QString &name, const std::function<void(QSqlDatabase &)> &fill)
     {
         const QString path = m_dir.filePath(name);
-        {
-            QSqlDatabase db = QSqlDatabase::addDatabase(u"QSQLITE"_s, name);
-            db.setDatabaseName(path);
-            if (!db.open())
-                return {};
-            fill(db);
-            db.close();
-        }
-        QSqlDatabase::removeDatabase(name);
-        return path;
+        return makeSqliteFile(path, name, fill) ? path : QString();
     }
 
     // The rows left in the table "keep" that the hostile names try to drop or empty; -1 if unreadable.
@@ -267,14 +244,9 @@ private slots:
     // the other table keeps its rows, and the file's bytes do not change (read-only).
     void hostileNamesStayInert()
     {
-        const QString table = u"x\"; DROP TABLE keep; --"_s;
-        const QStringList columns = {u"lvl\" FROM keep; DELETE FROM keep; --"_s, u"y'); DROP TABLE keep; --"_s, u"w"_s};
-        const auto rows = generateRows({{u"p"_s, u"q"_s}}, 200, 5.0, 1.0, 3);
-        const QString path = makeDatabase(u"hostile.db"_s, [&](QSqlDatabase &d) {
-            QCOMPARE(fillTable(d, table, columns, rows), QString());
-            QSqlQuery q(d);
-            QVERIFY(q.exec(u"CREATE TABLE keep (a INTEGER)"_s) && q.exec(u"INSERT INTO keep VALUES (1), (2), (3)"_s));
-        });
+        const QString &table = kHostileTable;
+        const QStringList &columns = kHostileColumns;
+        const QString path = makeDatabase(u"hostile.db"_s, [&](QSqlDatabase &d) { QCOMPARE(fillHostileTables(d, 200), QString()); });
         const QByteArray before = fileHash(path);
         const ProcessRun run = runCli({u"fit"_s, u"--database"_s, u"sqlite://"_s + path, u"--table"_s, table, u"--factor"_s,
                                        columns[0], u"--response"_s, columns[1], u"--levels"_s, u"p,q"_s, u"--scheme"_s, u"sum"_s, u"--json"_s});

@@ -3,6 +3,8 @@
 // tests/cli/TestDatabasePostgres.cpp on a throwaway PostgreSQL cluster): generated rows written to
 // a table and to a CSV file, and the comparison of two fits' JSON.
 
+#include <QCryptographicHash>
+#include <QFile>
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QJsonObject>
@@ -14,6 +16,7 @@
 #include <QVariant>
 
 #include <algorithm>
+#include <functional>
 #include <cmath>
 #include <random>
 #include <vector>
@@ -51,6 +54,32 @@ inline std::vector<GeneratedRow> generateRows(const std::vector<QStringList> &fa
         out.push_back(r);
     }
     return out;
+}
+
+// A file's SHA-256, to show that reading a database left its bytes alone; empty if unreadable.
+inline QByteArray fileHash(const QString &path)
+{
+    QFile f(path);
+    if (!f.open(QIODevice::ReadOnly))
+        return {};
+    return QCryptographicHash::hash(f.readAll(), QCryptographicHash::Sha256);
+}
+
+// A SQLite file at path, filled through a writable connection of the test's own (the programs
+// open their own, read-only). Returns false when it cannot be opened.
+inline bool makeSqliteFile(const QString &path, const QString &connectionName, const std::function<void(QSqlDatabase &)> &fill)
+{
+    bool opened = false;
+    {
+        QSqlDatabase db = QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), connectionName);
+        db.setDatabaseName(path);
+        opened = db.open();
+        if (opened)
+            fill(db);
+        db.close();
+    }
+    QSqlDatabase::removeDatabase(connectionName);
+    return opened;
 }
 
 // Rows of a factor measured within participants: factors = {participant, level}. Participants
@@ -122,6 +151,23 @@ inline QString fillTable(QSqlDatabase &db, const QString &table, const QStringLi
             return q.lastError().text();
     }
     return db.commit() ? QString() : db.lastError().text();
+}
+
+// A table and columns named to break out of an identifier, filled with rows over the levels p and
+// q, beside a table "keep" of three rows that the names try to drop or empty. Returns an empty
+// string or the engine's message.
+inline const QString kHostileTable = QStringLiteral("x\"; DROP TABLE keep; --");
+inline const QStringList kHostileColumns = {QStringLiteral("lvl\" FROM keep; DELETE FROM keep; --"),
+                                            QStringLiteral("y'); DROP TABLE keep; --"), QStringLiteral("w")};
+inline QString fillHostileTables(QSqlDatabase &db, int rows)
+{
+    if (QString e = fillTable(db, kHostileTable, kHostileColumns, generateRows({{QStringLiteral("p"), QStringLiteral("q")}}, rows, 5.0, 1.0, 3));
+        !e.isEmpty())
+        return e;
+    QSqlQuery q(db);
+    if (!q.exec(QStringLiteral("CREATE TABLE keep (a INTEGER)")) || !q.exec(QStringLiteral("INSERT INTO keep VALUES (1), (2), (3)")))
+        return q.lastError().text();
+    return {};
 }
 
 // Empty when the two fits' numbers agree to tol (relative, or absolute below 1); otherwise
