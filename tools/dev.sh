@@ -17,6 +17,7 @@ PACKAGES=(
   build-essential cmake ninja-build pkg-config git
   qt6-base-dev libqt6svg6 qt6-svg-dev
   libqt6sql6-sqlite libqt6sql6-psql libqt6sql6-odbc postgresql
+  unixodbc libsqliteodbc
   libeigen3-dev libboost-dev libboost-math-dev libgmp-dev
   libbenchmark-dev
   python3-numpy python3-scipy python3-pandas

@@ -17,8 +17,9 @@ void addSummaryQueryOptions(QCommandLineParser &p, bool participantOption)
                              "running a first pass."_s,
                  u"VALUE"_s});
     if (participantOption)
-        p.addOption({u"participant"_s, u"Not available yet: the two-level form (each participant's cell means first) is not "
-                                  "written yet; the option is refused with a message."_s,
+        p.addOption({u"participant"_s, u"The column naming each row's participant, for factors measured within participants: "
+                                  "the two-level form, one row per participant and level (each participant's cell mean over "
+                                  "its replicate rows), which fit --participant analyses by participant."_s,
                  u"COL"_s});
 }
 
@@ -39,8 +40,11 @@ Result<SummaryQuerySpec> summaryQuerySpec(const QCommandLineParser &p, const QSt
         return R::failure(u"--response: missing; name the column that holds the measurements"_s, u"response"_s);
     spec.responseColumn = p.value(u"response"_s);
     spec.weightColumn = p.value(u"weight"_s);
-    if (p.isSet(u"participant"_s))
-        spec.participantColumn = p.value(u"participant"_s).isEmpty() ? u" "_s : p.value(u"participant"_s);
+    if (p.isSet(u"participant"_s)) {
+        spec.participantColumn = p.value(u"participant"_s);
+        if (spec.participantColumn.isEmpty())
+            return R::failure(u"--participant: empty name; expected the column that names the participants"_s, u"participant"_s);
+    }
     if (p.isSet(u"variance"_s)) {
         const QString v = p.value(u"variance"_s).trimmed().toLower();
         if (v == u"engine"_s)

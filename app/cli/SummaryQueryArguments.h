@@ -11,7 +11,7 @@
 namespace cb::cli {
 
 // participantOption: whether to add --participant here (fit has its own, for the by-participant
-// analysis of a data file; with --database the query refuses it).
+// analysis; with --database it asks for the two-level form).
 void addSummaryQueryOptions(QCommandLineParser &parser, bool participantOption = true);
 // factorColumns: one per factor (the command decides the default for a design).
 Result<SummaryQuerySpec> summaryQuerySpec(const QCommandLineParser &parser, const QStringList &factorColumns);

@@ -42,6 +42,21 @@ bool isTextType(const QMetaType &type)
         || id == QMetaType::QDate || id == QMetaType::QDateTime || id == QMetaType::QTime;
 }
 
+// The statement without the comment lines that head it: some ODBC drivers (SQLite's among them)
+// take a comment for a second statement and refuse the query. Only the leading lines go, up to
+// the first line that is not a comment, so nothing inside the statement (a quoted name) is touched.
+QString withoutLeadingComments(const QString &sql)
+{
+    qsizetype start = 0;
+    while (sql.mid(start, 2) == u"--"_s) {
+        const qsizetype end = sql.indexOf(u'\n', start);
+        if (end < 0)
+            return {};
+        start = end + 1;
+    }
+    return sql.mid(start);
+}
+
 // One connection, removed when it goes out of scope (after every QSqlDatabase copy is gone).
 class Connection
 {
@@ -116,6 +131,9 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
     roles.push_back({u"response"_s, spec.responseColumn, true});
     if (!spec.weightColumn.isEmpty())
         roles.push_back({u"weight"_s, spec.weightColumn, true});
+    const bool twoLevel = !spec.participantColumn.isEmpty();
+    if (twoLevel)
+        roles.push_back({u"participant"_s, spec.participantColumn, false});
     for (const Role &r : roles) {
         qsizetype i = columns.indexOf(r.name);
         if (i < 0 && l.driver == u"QSQLITE"_s) // Qt's SQLite driver drops the double quotes from column names
@@ -151,9 +169,27 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
         }
     }
 
+    // The two-level form leaves rows without a participant out; as with a data file, such a row
+    // is an error here rather than a silent loss.
+    if (twoLevel) {
+        QSqlQuery check(db);
+        check.setForwardOnly(true);
+        if (!check.exec(u"SELECT COUNT(*) FROM %1 WHERE %2 IS NULL AND %3 IS NOT NULL"_s.arg(
+                quoteSqlIdentifier(spec.table), quoteSqlIdentifier(spec.participantColumn),
+                quoteSqlIdentifier(spec.responseColumn)))
+            || !check.next())
+            return R::failure(u"%1: cannot check column %2: %3"_s.arg(place, quoted(spec.participantColumn),
+                                                                     engineText(check.lastError())));
+        if (const qint64 missing = check.value(0).toLongLong(); missing > 0)
+            return R::failure(u"%1: --participant: %2 rows with a response have no participant (column %3 is NULL); every "
+                              "row needs the participant it belongs to"_s.arg(place, QString::number(missing),
+                                                                               quoted(spec.participantColumn)),
+                              u"participant"_s);
+    }
+
     QSqlQuery q(db);
     q.setForwardOnly(true);
-    if (!q.exec(query.sql))
+    if (!q.exec(withoutLeadingComments(query.sql)))
         return R::failure(u"%1: the summary query failed: %2"_s.arg(place, engineText(q.lastError())));
     std::vector<SummaryRow> rows;
     const auto number = [&](int column, const QString &what, qint64 row, std::optional<double> &out) -> QString {
@@ -172,6 +208,11 @@ Result<std::vector<SummaryRow>> runSummary(const DatabaseLocation &l, const Summ
         SummaryRow row;
         row.level = q.value(0).toString();
         row.place = u"%1 row %2 (level %3)"_s.arg(place, QString::number(index), quoted(row.level));
+        if (twoLevel) {
+            row.participant = q.value(4).toString();
+            row.place = u"%1 row %2 (participant %3, level %4)"_s.arg(place, QString::number(index), quoted(row.participant),
+                                                                      quoted(row.level));
+        }
         row.spreadIsVariance = true;
         std::optional<double> n, mean;
         for (const QString &e : {number(1, u"n"_s, index, n), number(2, u"mean"_s, index, mean),

@@ -1558,7 +1558,7 @@ private:
         if (!sd && !isMissingToken(sdText))
             return u"%1: %2 %3; expected a number >= 0 (it may be left empty only when n is 1)"_s.arg(
                 place, m_variance ? u"variance"_s : u"sd"_s, numberProblem(sdText, m_out.delimiter));
-        return addSummaryRow(m_out, SummaryRow{*name, *n, *mean, sd, m_variance, place});
+        return addSummaryRow(m_out, SummaryRow{*name, *n, *mean, sd, m_variance, place, {}});
     }
 
     const SummaryReadOptions &m_options;

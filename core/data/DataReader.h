@@ -172,6 +172,7 @@ struct SummaryRow
     std::optional<double> spread;
     bool spreadIsVariance = false;
     QString place; // where the row came from, for messages: "x.csv line 4", "sqlite:///d.db row 2"
+    QString participant; // the summary query's two-level form: whose cell the row is (core/data/SummaryQuery.h)
 };
 // Adds one row to a summary after the checks every summary table gets (a level name, given
 // once; n positive; mean finite; spread >= 0, missing only when n is 1). Returns a message that

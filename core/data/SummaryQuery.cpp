@@ -2,6 +2,9 @@
 
 #include "core/model/Design.h"
 
+#include <QHash>
+
+#include <algorithm>
 #include <cmath>
 
 using namespace Qt::StringLiterals;
@@ -48,12 +51,6 @@ QString commentText(QString text)
 Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
 {
     using R = Result<SummaryQuery>;
-    if (!spec.participantColumn.isEmpty())
-        return R::failure(u"--participant: the two-level form (each participant's cell means first) is not available: "
-                          "the query does not yet write each participant's cell means. For a factor measured within "
-                          "participants, export the rows and use fit --data with --participant; leave --participant "
-                          "out to summarise every row as independent"_s,
-                          u"participant"_s);
     if (QString e = checkName(u"--table"_s, spec.table); !e.isEmpty())
         return R::failure(e, u"table"_s);
     if (spec.factorColumns.isEmpty())
@@ -75,6 +72,10 @@ Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
             return R::failure(e, u"factor"_s);
     if (QString e = checkColumn(u"--response"_s, spec.responseColumn); !e.isEmpty())
         return R::failure(e, u"response"_s);
+    const bool twoLevel = !spec.participantColumn.isEmpty();
+    if (twoLevel)
+        if (QString e = checkColumn(u"--participant"_s, spec.participantColumn); !e.isEmpty())
+            return R::failure(e, u"participant"_s);
     const bool weighted = !spec.weightColumn.isEmpty();
     if (weighted)
         if (QString e = checkColumn(u"--weight"_s, spec.weightColumn); !e.isEmpty())
@@ -98,22 +99,31 @@ Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
             parts << u"CAST(%1 AS VARCHAR(1000))"_s.arg(col(alias, f));
         return parts.join(u" || '%1' || "_s.arg(cellJoiner()));
     };
-    // Rows are grouped and joined by the factor columns themselves; only each group's level is
+    // Rows are grouped and joined by the factor columns themselves (and, in the two-level form,
+    // the participant column: one group per participant's cell); only each group's level is
     // written as text (a cast per row would cost as much as the rest of the query).
+    QStringList groupColumns = spec.factorColumns;
+    if (twoLevel)
+        groupColumns << spec.participantColumn;
     QStringList keys, keyAliases, joins;
-    for (qsizetype i = 0; i < spec.factorColumns.size(); ++i) {
-        keys << col(u"d"_s, spec.factorColumns[i]);
+    for (qsizetype i = 0; i < groupColumns.size(); ++i) {
+        keys << col(u"d"_s, groupColumns[i]);
         keyAliases << u"%1 AS \"k%2\""_s.arg(keys.back(), QString::number(i + 1));
         joins << u"p.\"k%1\" = %2"_s.arg(QString::number(i + 1), keys.back());
     }
     QStringList conditions;
-    for (const QString &f : spec.factorColumns)
+    for (const QString &f : groupColumns)
         conditions << col(u"d"_s, f) + u" IS NOT NULL"_s;
     conditions << col(u"d"_s, spec.responseColumn) + u" IS NOT NULL"_s;
     if (weighted)
         conditions << col(u"d"_s, spec.weightColumn) + u" > 0"_s;
     const QString where = conditions.join(u"\n  AND "_s);
     const QString y = col(u"d"_s, spec.responseColumn);
+    // The two-level form: whose cell each row is, last, and the rows in a fixed order.
+    const QString participantSelect = twoLevel
+        ? u",\n  CAST(%1 AS VARCHAR(1000)) AS \"participant\""_s.arg(col(u"d"_s, spec.participantColumn))
+        : QString();
+    const QString orderBy = twoLevel ? u"\nORDER BY \"participant\", \"level\""_s : QString();
     const QString w = weighted ? col(u"d"_s, spec.weightColumn) : QString();
 
     SummaryQuery q;
@@ -124,10 +134,12 @@ Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
         body = u"SELECT %1 AS \"level\",\n"
                "  COUNT(*) AS \"n\",\n"
                "  AVG(%2) AS \"mean\",\n"
-               "  VAR_SAMP(%2) AS \"variance\"\n"
+               "  %8%6\n"
                "FROM %3 AS d\n"
                "WHERE %4\n"
-               "GROUP BY %5"_s.arg(level(u"d"_s), y, table, where, keys.join(u", "_s));
+               "GROUP BY %5%7"_s.arg(level(u"d"_s), y, table, where, keys.join(u", "_s), participantSelect, orderBy,
+                                     twoLevel ? u"COALESCE(VAR_SAMP(%1) * (COUNT(*) - 1), 0) AS \"ss\""_s.arg(y)
+                                              : u"VAR_SAMP(%1) AS \"variance\""_s.arg(y));
     } else {
         // n, the sum of the deviations from the centre and of their squares; then
         // mean = c + S1/n and variance = (S2 - S1^2/n)/(n - 1) (corrected two-pass form).
@@ -136,6 +148,11 @@ Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
         const QString dev = u"(%1 - %2)"_s.arg(y, c);
         const QString s1 = weighted ? u"SUM(%1 * %2)"_s.arg(w, dev) : u"SUM(%1)"_s.arg(dev);
         const QString s2 = weighted ? u"SUM(%1 * %2 * %2)"_s.arg(w, dev) : u"SUM(%1 * %1)"_s.arg(dev);
+        // The variance, or in the two-level form the sum of squared deviations itself: a cell's
+        // weights may add up to 1 or less, where the variance's n - 1 is no divisor.
+        const QString ss = u"CAST(%1 AS DOUBLE PRECISION) - CAST(%2 AS DOUBLE PRECISION) * %2 / %3"_s.arg(s2, s1, n);
+        const QString spread = twoLevel ? u"%1 AS \"ss\""_s.arg(ss)
+                                        : u"(%1) / NULLIF(%2 - 1, 0) AS \"variance\""_s.arg(ss, n);
         QString from = u"%1 AS d"_s.arg(table);
         QString groupBy = keys.join(u", "_s);
         if (!spec.centre) {
@@ -164,18 +181,80 @@ Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec)
         body += u"SELECT %1 AS \"level\",\n"
                 "  %2 AS \"n\",\n"
                 "  %3 + CAST(%4 AS DOUBLE PRECISION) / %2 AS \"mean\",\n"
-                "  (CAST(%5 AS DOUBLE PRECISION) - CAST(%4 AS DOUBLE PRECISION) * %4 / %2) / NULLIF(%2 - 1, 0) AS \"variance\"\n"
+                "  %5%9\n"
                 "FROM %6\n"
                 "WHERE %7\n"
-                "GROUP BY %8"_s.arg(level(u"d"_s), n, c, s1, s2, from, where, groupBy);
+                "GROUP BY %8%10"_s.arg(level(u"d"_s), n, c, s1, spread, from, where, groupBy, participantSelect, orderBy);
     }
-    QString header = u"-- Contrast Bench summary query: one row per level (level, n, mean, variance), the summary\n"
-                     "-- table that contrast-bench-cli fit --summary reads. One SELECT; nothing is written.\n"
-                     "-- Rows with a missing factor or response%1 are left out.\n"
-                     "-- %2\n"_s.arg(weighted ? u", or a weight that is missing or not above 0,"_s : QString(),
-                                     commentText(q.formNote));
+    const QString what = twoLevel
+        ? u"-- Contrast Bench summary query, two-level form: one row per participant and level (level, n, mean,\n"
+          "-- ss: the sum of squared deviations, participant), each participant's cell mean over its replicate rows, the rows that\n"
+          "-- contrast-bench-cli fit --participant analyses by participant. One SELECT; nothing is written.\n"_s
+        : u"-- Contrast Bench summary query: one row per level (level, n, mean, variance), the summary\n"
+          "-- table that contrast-bench-cli fit --summary reads. One SELECT; nothing is written.\n"_s;
+    QString header = what
+        + u"-- Rows with a missing factor%1 or response%2 are left out.\n"
+          "-- %3\n"_s.arg(twoLevel ? u", participant"_s : QString(),
+                          weighted ? u", or a weight that is missing or not above 0,"_s : QString(), commentText(q.formNote));
     q.sql = header + body;
     return q;
+}
+
+Result<DataSummary> participantSummaryFromRows(const std::vector<SummaryRow> &rows, const QString &sourceName,
+                                               const QString &participantColumn)
+{
+    using R = Result<DataSummary>;
+    DataSummary out;
+    out.source = sourceName;
+    out.fromSummaryTable = true;
+    out.hasHeader = true;
+    out.columns = summaryQueryColumns(true);
+    out.columns[4] = participantColumn;
+    out.factorIndex = 0;
+    out.responseIndex = 2;
+    out.participantIndex = 4;
+    // Each participant's rows as a small summary table of its own: the checks of a summary file's
+    // row (a level given once, n positive, mean finite, variance >= 0) and the cell's statistics.
+    std::vector<DataSummary> cells;
+    QHash<QString, int> participantIndex;
+    for (const SummaryRow &row : rows) {
+        ++out.records;
+        if (row.participant.trimmed().isEmpty())
+            return R::failure(u"%1: the participant (column %2) is missing; every row needs the participant it belongs to"_s.arg(
+                row.place, quoted(participantColumn)));
+        int p = participantIndex.value(row.participant, -1);
+        if (p < 0) {
+            p = int(cells.size());
+            participantIndex.insert(row.participant, p);
+            out.participants << row.participant;
+            cells.emplace_back();
+        }
+        // The checks as a variance; the sum of squares itself kept (n may be 1 or less with weights).
+        SummaryRow checked = row;
+        checked.spreadIsVariance = true;
+        if (!row.spread)
+            return R::failure(u"%1: ss is missing; expected a number >= 0"_s.arg(row.place));
+        const double ss = std::max(*row.spread, 0.0); // a tiny negative is rounding
+        checked.spread = row.n > 1.0 ? ss / (row.n - 1.0) : 0.0;
+        DataSummary &mine = cells[size_t(p)];
+        if (QString e = addSummaryRow(mine, checked); !e.isEmpty())
+            return R::failure(e);
+        mine.levels.back().stats.m2 = ss;
+        if (out.levelIndex(row.level) < 0)
+            out.levels.push_back({row.level, {}});
+        ++out.usedRows;
+    }
+    if (rows.empty())
+        return R::failure(u"%1 has no rows; expected one row per participant and level"_s.arg(sourceName));
+    // [participant][level] in the order of out.levels; each level's pooled statistics merged from its cells.
+    out.participantCells.assign(cells.size(), std::vector<RunningStats>(out.levels.size()));
+    for (size_t p = 0; p < cells.size(); ++p)
+        for (const LevelStats &cell : cells[p].levels) {
+            const int l = out.levelIndex(cell.name);
+            out.participantCells[p][size_t(l)] = cell.stats;
+            out.levels[size_t(l)].stats.merge(cell.stats);
+        }
+    return out;
 }
 
 Result<DataSummary> summaryFromSource(const SummaryQuerySpec &spec, const SummaryRowSource &source,
@@ -187,6 +266,8 @@ Result<DataSummary> summaryFromSource(const SummaryQuerySpec &spec, const Summar
     auto rows = source(spec, *query);
     if (!rows)
         return Result<DataSummary>::failure(rows.error(), rows.field());
+    if (!spec.participantColumn.isEmpty())
+        return participantSummaryFromRows(*rows, sourceName, spec.participantColumn);
     return summaryFromRows(*rows, sourceName);
 }
 

@@ -36,7 +36,9 @@ struct SummaryQuerySpec
     QStringList factorColumns; // one per factor; a design's cells are joined with kCellJoiner
     QString responseColumn;
     QString weightColumn;      // empty: every row counts once
-    QString participantColumn; // refused for now: the two-level form (participants' cell means) is not written yet
+    // The two-level form, for factors measured within participants: GROUP BY this column too, so
+    // each row is one participant's cell (replicate trials averaged); empty: the one-level form.
+    QString participantColumn;
     VarianceForm form = VarianceForm::Centred;
     std::optional<double> centre; // Centred only: subtract this constant instead of a first pass
 };
@@ -52,14 +54,19 @@ struct SummaryQuery
 QString quoteSqlIdentifier(const QString &name);
 
 // Writes the query. Fails, naming the option, on an empty name, a name with a NUL character,
-// a column used twice, a participant column, a non-finite centre, or the engine form with weights.
+// a column used twice, a non-finite centre, or the engine form with weights.
 Result<SummaryQuery> summaryQuery(const SummaryQuerySpec &spec);
 
-// The names of the columns the query returns, in order.
-inline const QStringList &summaryQueryColumns()
+// The names of the columns the query returns, in order; the two-level form returns the sum of
+// squared deviations "ss" instead of the variance (a cell's case weights may add up to 1 or less)
+// and adds "participant".
+inline QStringList summaryQueryColumns(bool twoLevel = false)
 {
-    static const QStringList names = {QStringLiteral("level"), QStringLiteral("n"), QStringLiteral("mean"),
-                                      QStringLiteral("variance")};
+    QStringList names = {QStringLiteral("level"), QStringLiteral("n"), QStringLiteral("mean"), QStringLiteral("variance")};
+    if (twoLevel) {
+        names[3] = QStringLiteral("ss");
+        names << QStringLiteral("participant");
+    }
     return names;
 }
 
@@ -67,8 +74,18 @@ inline const QStringList &summaryQueryColumns()
 // place (the database, the table, the column) and what was expected.
 using SummaryRowSource = std::function<Result<std::vector<SummaryRow>>(const SummaryQuerySpec &, const SummaryQuery &)>;
 
+// The two-level form's rows (each participant's cell: SummaryRow::participant set, spread the sum
+// of squared deviations) as the data the
+// by-participant analysis reads (fitParticipants, core/data/DataFit.h): participantCells from the
+// rows, each level's pooled statistics merged from its cells. Each row gets the checks of a
+// summary file's row (addSummaryRow); a row without a participant, a participant's level given
+// twice, or no rows is an error naming the row. participantColumn names the column in reports.
+Result<DataSummary> participantSummaryFromRows(const std::vector<SummaryRow> &rows, const QString &sourceName,
+                                               const QString &participantColumn);
+
 // Writes the query, runs it through the source and reads the rows as a summary table (the same
-// checks as a summary file); sourceName names the data in messages and in the fit's JSON.
+// checks as a summary file), or, with a participant column, through participantSummaryFromRows;
+// sourceName names the data in messages and in the fit's JSON.
 Result<DataSummary> summaryFromSource(const SummaryQuerySpec &spec, const SummaryRowSource &source,
                                       const QString &sourceName);
 

@@ -53,11 +53,11 @@ QString fitReport(const Scheme &scheme, bool design, const DataSummary &data, co
         out += u"%1%2', response '%3'%4)\n"_s.arg(columns.size() > 1 ? u" (cells from columns '"_s : u" (levels from column '"_s,
                                                   columns.join(u"', '"_s), data.columns.value(data.responseIndex),
                                                   data.weighted ? u", weighted"_s : QString());
-        if (data.participantIndex >= 0)
-            out += u"By participant (column '%1'): the participants' cell means, each contrast on their contrast scores.\n"_s.arg(
-                data.columns.value(data.participantIndex));
         out += u"%1 rows read, %2 used, %3 left out.\n"_s.arg(data.records).arg(data.usedRows).arg(data.skippedRows);
     }
+    if (data.participantIndex >= 0)
+        out += u"By participant (column '%1'): the participants' cell means, each contrast on their contrast scores.\n"_s.arg(
+            data.columns.value(data.participantIndex));
     out += u'\n';
 
     TextTable levels({design ? u"cell"_s : u"level"_s, u"n"_s, u"mean"_s, u"SD"_s}, 0);

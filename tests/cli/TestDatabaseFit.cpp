@@ -7,7 +7,6 @@
 #include "tests/support/FitTestSupport.h"
 #include "tests/support/ProcessRunner.h"
 
-#include <QCryptographicHash>
 #include <QFile>
 #include <QTemporaryDir>
 #include <QTest>
@@ -16,38 +15,31 @@ using namespace Qt::StringLiterals;
 using namespace cb;
 using namespace cb::test;
 
-namespace {
-
-QByteArray fileHash(const QString &path)
-{
-    QFile f(path);
-    if (!f.open(QIODevice::ReadOnly))
-        return {};
-    return QCryptographicHash::hash(f.readAll(), QCryptographicHash::Sha256);
-}
-
-} // namespace
-
 class TestDatabaseFit : public QObject
 {
     Q_OBJECT
 
     QTemporaryDir m_dir;
 
-    // A writable connection of the test's own (the program opens its own, read-only).
     QString makeDatabase(const QString &name, const std::function<void(QSqlDatabase &)> &fill)
     {
         const QString path = m_dir.filePath(name);
+        return makeSqliteFile(path, name, fill) ? path : QString();
+    }
+
+    // The rows left in the table "keep" that the hostile names try to drop or empty; -1 if unreadable.
+    static int keptRows(const QString &path)
+    {
+        int rows = -1;
         {
-            QSqlDatabase db = QSqlDatabase::addDatabase(u"QSQLITE"_s, name);
+            QSqlDatabase db = QSqlDatabase::addDatabase(u"QSQLITE"_s, u"hostile-check"_s);
             db.setDatabaseName(path);
-            if (!db.open())
-                return {};
-            fill(db);
-            db.close();
+            QSqlQuery q(db);
+            if (db.open() && q.exec(u"SELECT COUNT(*) FROM keep"_s) && q.next())
+                rows = q.value(0).toInt();
         }
-        QSqlDatabase::removeDatabase(name);
-        return path;
+        QSqlDatabase::removeDatabase(u"hostile-check"_s);
+        return rows;
     }
 
 private slots:
@@ -111,6 +103,106 @@ private slots:
         QVERIFY2(difference.isEmpty(), qPrintable(difference));
     }
 
+    // The two-level form: each participant's cell means from the engine, analysed by participant,
+    // equal the by-participant fit of the same rows as CSV (participants lacking a level included).
+    void byParticipantFromSqliteEqualsFitFromCsv_data()
+    {
+        QTest::addColumn<bool>("weighted");
+        QTest::addColumn<QStringList>("extraArgs");
+        QTest::newRow("helmert") << false << QStringList{u"--scheme"_s, u"helmert"_s};
+        QTest::newRow("weighted, treatment, holm") << true << QStringList{u"--scheme"_s, u"treatment"_s, u"--adjust"_s, u"holm"_s};
+        QTest::newRow("centred on a constant") << false << QStringList{u"--scheme"_s, u"sum"_s, u"--centre"_s, u"480"_s};
+    }
+
+    void byParticipantFromSqliteEqualsFitFromCsv()
+    {
+        QFETCH(bool, weighted);
+        QFETCH(QStringList, extraArgs);
+        const QStringList levels = {u"plain"_s, u"arrow"_s, u"word"_s, u"tone"_s};
+        const QStringList columns = {u"who"_s, u"cue"_s, u"rt"_s, u"w"_s};
+        const auto rows = generateWithinRows(60, levels, 4, 480.0, 25.0, 41 + (weighted ? 1u : 0u));
+        const QString tag = QString::fromLatin1(QTest::currentDataTag()).replace(u' ', u'_').remove(u',');
+        const QString db = makeDatabase(u"within_"_s + tag + u".db"_s,
+                                        [&](QSqlDatabase &d) { QCOMPARE(fillTable(d, u"trials"_s, columns, rows), QString()); });
+        QVERIFY(!db.isEmpty());
+        const QString csv = m_dir.filePath(u"within_"_s + tag + u".csv"_s);
+        QVERIFY(writeFile(csv, rowsToCsv(columns, rows)));
+        QStringList common = {u"--levels"_s, levels.join(u','), u"--factor"_s, u"cue"_s, u"--response"_s, u"rt"_s,
+                              u"--participant"_s, u"who"_s, u"--json"_s};
+        if (weighted)
+            common << u"--weight"_s << u"w"_s;
+        const QStringList queryOnly = extraArgs.contains(u"--centre"_s) ? extraArgs.mid(extraArgs.indexOf(u"--centre"_s), 2) : QStringList{};
+        QStringList fitArgs = extraArgs;
+        if (!queryOnly.isEmpty())
+            fitArgs = extraArgs.mid(0, extraArgs.indexOf(u"--centre"_s));
+        const ProcessRun fromDb = runCli(QStringList{u"fit"_s, u"--database"_s, u"sqlite://"_s + db, u"--table"_s, u"trials"_s}
+                                         + common + extraArgs);
+        QVERIFY2(fromDb.exitCode == 0, qPrintable(fromDb.errText()));
+        const ProcessRun fromCsv = runCli(QStringList{u"fit"_s, u"--data"_s, csv} + common + fitArgs);
+        QVERIFY2(fromCsv.exitCode == 0, qPrintable(fromCsv.errText()));
+        const QJsonObject a = jsonOf(fromDb.out), b = jsonOf(fromCsv.out);
+        QCOMPARE(a[u"omnibus"_s][u"test"_s].toString(), u"hotelling"_s);
+        QCOMPARE(a[u"participants"_s][u"count"_s].toInt(), 60);
+        QCOMPARE(a[u"participants"_s][u"complete"_s].toInt(), 52); // every 7th lacks "tone"
+        QCOMPARE(a[u"omnibus"_s][u"participants"_s].toInt(), 52);
+        const QString difference = compareFits(a, b, 1e-9);
+        QVERIFY2(difference.isEmpty(), qPrintable(difference));
+        // The text report says it is by participant.
+        const ProcessRun text = runCli(QStringList{u"fit"_s, u"--database"_s, u"sqlite://"_s + db, u"--table"_s, u"trials"_s}
+                                       + QStringList(common).replaceInStrings(u"--json"_s, u"--alpha=0.05"_s) + extraArgs);
+        QVERIFY2(text.outText().contains(u"By participant (column 'who')"_s), qPrintable(text.outText()));
+    }
+
+    // The printed two-level query groups by the participant too and returns it last; run by hand it
+    // gives one row per participant and level, each the mean of that participant's trials.
+    void exportedTwoLevelQuery()
+    {
+        const QStringList columns = {u"who"_s, u"cue"_s, u"rt"_s, u"w"_s};
+        const std::vector<GeneratedRow> rows = {{{u"ann"_s, u"a"_s}, 10.0, 1.0}, {{u"ann"_s, u"a"_s}, 14.0, 1.0},
+                                                {{u"ann"_s, u"b"_s}, 20.0, 1.0}, {{u"bo"_s, u"a"_s}, 7.0, 1.0},
+                                                {{u"bo"_s, u"b"_s}, 9.0, 1.0},  {{u"bo"_s, u"b"_s}, 11.0, 1.0},
+                                                {{u"bo"_s, u"b"_s}, 16.0, 1.0}};
+        const QString path = makeDatabase(u"two-level.db"_s, [&](QSqlDatabase &d) { QCOMPARE(fillTable(d, u"t"_s, columns, rows), QString()); });
+        const ProcessRun query = runCli({u"export"_s, u"--format"_s, u"sql-summary"_s, u"--table"_s, u"t"_s, u"--factor"_s,
+                                         u"cue"_s, u"--response"_s, u"rt"_s, u"--participant"_s, u"who"_s});
+        QVERIFY2(query.exitCode == 0, qPrintable(query.errText()));
+        QVERIFY(query.outText().contains(u"two-level form"_s));
+        QVERIFY(query.outText().contains(u"AS \"participant\""_s));
+        QStringList got;
+        {
+            QSqlDatabase db = QSqlDatabase::addDatabase(u"QSQLITE"_s, u"twolevel"_s);
+            db.setDatabaseName(path);
+            QVERIFY(db.open());
+            QSqlQuery q(db);
+            QString sql = query.outText().trimmed();
+            sql.chop(1);
+            QVERIFY2(q.exec(sql), qPrintable(q.lastError().text()));
+            while (q.next())
+                got << u"%1 %2 n=%3 mean=%4 ss=%5"_s.arg(q.value(4).toString(), q.value(0).toString(), q.value(1).toString(),
+                                                          q.value(2).toString(), q.value(3).toString());
+        }
+        QSqlDatabase::removeDatabase(u"twolevel"_s);
+        // By hand: ann a (10, 14): mean 12, squared deviations 4 + 4 = 8; bo b (9, 11, 16): mean 12, 9 + 1 + 16 = 26.
+        QCOMPARE(got, (QStringList{u"ann a n=2 mean=12 ss=8"_s, u"ann b n=1 mean=20 ss=0"_s, u"bo a n=1 mean=7 ss=0"_s,
+                                   u"bo b n=3 mean=12 ss=26"_s}));
+    }
+
+    // A row without a participant is refused, as in a data file.
+    void missingParticipantIsRefused()
+    {
+        const QString path = makeDatabase(u"no-participant.db"_s, [](QSqlDatabase &d) {
+            QSqlQuery q(d);
+            QVERIFY(q.exec(u"CREATE TABLE t (who TEXT, cue TEXT, rt REAL)"_s));
+            QVERIFY(q.exec(u"INSERT INTO t VALUES ('a', 'x', 1), ('a', 'y', 2), (NULL, 'x', 3), ('b', 'x', 4), ('b', 'y', 6)"_s));
+        });
+        const ProcessRun run = runCli({u"fit"_s, u"--database"_s, u"sqlite://"_s + path, u"--table"_s, u"t"_s, u"--factor"_s, u"cue"_s,
+                                       u"--response"_s, u"rt"_s, u"--participant"_s, u"who"_s, u"--levels"_s, u"x,y"_s, u"--scheme"_s,
+                                       u"treatment"_s});
+        QCOMPARE(run.exitCode, 2);
+        QVERIFY2(run.errText().contains(u"table 't': --participant: 1 rows with a response have no participant (column 'who' is NULL)"_s),
+                 qPrintable(run.errText()));
+    }
+
     // The query printed by export is the one fit --database runs: run it by hand through
     // the engine, save the rows as a summary table and fit --summary reads the same fit.
     void exportedQueryFeedsFitSummary()
@@ -152,30 +244,16 @@ private slots:
     // the other table keeps its rows, and the file's bytes do not change (read-only).
     void hostileNamesStayInert()
     {
-        const QString table = u"x\"; DROP TABLE keep; --"_s;
-        const QStringList columns = {u"lvl\" FROM keep; DELETE FROM keep; --"_s, u"y'); DROP TABLE keep; --"_s, u"w"_s};
-        const auto rows = generateRows({{u"p"_s, u"q"_s}}, 200, 5.0, 1.0, 3);
-        const QString path = makeDatabase(u"hostile.db"_s, [&](QSqlDatabase &d) {
-            QCOMPARE(fillTable(d, table, columns, rows), QString());
-            QSqlQuery q(d);
-            QVERIFY(q.exec(u"CREATE TABLE keep (a INTEGER)"_s) && q.exec(u"INSERT INTO keep VALUES (1), (2), (3)"_s));
-        });
+        const QString &table = kHostileTable;
+        const QStringList &columns = kHostileColumns;
+        const QString path = makeDatabase(u"hostile.db"_s, [&](QSqlDatabase &d) { QCOMPARE(fillHostileTables(d, 200), QString()); });
         const QByteArray before = fileHash(path);
         const ProcessRun run = runCli({u"fit"_s, u"--database"_s, u"sqlite://"_s + path, u"--table"_s, table, u"--factor"_s,
                                        columns[0], u"--response"_s, columns[1], u"--levels"_s, u"p,q"_s, u"--scheme"_s, u"sum"_s, u"--json"_s});
         QVERIFY2(run.exitCode == 0, qPrintable(run.errText()));
         QCOMPARE(jsonOf(run.out)[u"n"_s].toDouble(), 200.0);
         QCOMPARE(fileHash(path), before);
-        QSqlDatabase db = QSqlDatabase::addDatabase(u"QSQLITE"_s, u"hostile-check"_s);
-        db.setDatabaseName(path);
-        QVERIFY(db.open());
-        QSqlQuery q(db);
-        QVERIFY(q.exec(u"SELECT COUNT(*) FROM keep"_s) && q.next());
-        QCOMPARE(q.value(0).toInt(), 3);
-        q = QSqlQuery();
-        db.close();
-        db = QSqlDatabase();
-        QSqlDatabase::removeDatabase(u"hostile-check"_s);
+        QCOMPARE(keptRows(path), 3);
         // The connection itself cannot write: a statement that tries is refused by the engine.
         SummaryQuerySpec spec;
         spec.table = u"keep"_s;
@@ -190,6 +268,29 @@ private slots:
         const ProcessRun query = runCli({u"export"_s, u"--format"_s, u"sql-summary"_s, u"--table"_s, table, u"--factor"_s,
                                          columns[0], u"--response"_s, columns[1]});
         QVERIFY(query.outText().contains(u"FROM \"x\"\"; DROP TABLE keep; --\" AS d"_s));
+    }
+
+    // The two-level form with a hostile table, factor, response and participant column: the fit by
+    // participant reads them as names, the other table keeps its rows, the file does not change.
+    void hostileNamesStayInertByParticipant()
+    {
+        const QString table = u"t\"; DROP TABLE keep; --"_s;
+        const QStringList columns = {u"who\" FROM keep; DELETE FROM keep; --"_s, u"cue'); DROP TABLE keep; --"_s,
+                                     u"rt\"\" --"_s, u"w"_s};
+        const auto rows = generateWithinRows(12, {u"p"_s, u"q"_s, u"r"_s}, 3, 5.0, 1.0, 5);
+        const QString path = makeDatabase(u"hostile-within.db"_s, [&](QSqlDatabase &d) {
+            QCOMPARE(fillTable(d, table, columns, rows), QString());
+            QSqlQuery q(d);
+            QVERIFY(q.exec(u"CREATE TABLE keep (a INTEGER)"_s) && q.exec(u"INSERT INTO keep VALUES (1), (2), (3)"_s));
+        });
+        const QByteArray before = fileHash(path);
+        const ProcessRun run = runCli({u"fit"_s, u"--database"_s, u"sqlite://"_s + path, u"--table"_s, table, u"--factor"_s, columns[1],
+                                       u"--response"_s, columns[2], u"--participant"_s, columns[0], u"--levels"_s, u"p,q,r"_s,
+                                       u"--scheme"_s, u"sum"_s, u"--json"_s});
+        QVERIFY2(run.exitCode == 0, qPrintable(run.errText()));
+        QCOMPARE(jsonOf(run.out)[u"participants"_s][u"count"_s].toInt(), 12);
+        QCOMPARE(fileHash(path), before);
+        QCOMPARE(keptRows(path), 3);
     }
 
     void errorsNameThePlace_data()
@@ -215,8 +316,10 @@ private slots:
                                       << u"%1, table 'empty': the summary query returned no rows"_s.arg(good);
         QTest::newRow("level missing from the data") << good << QStringList{u"--table"_s, u"trial"_s, u"--factor"_s, u"arm"_s, u"--response"_s, u"score"_s, u"--levels"_s, u"a,b,c"_s, u"--scheme"_s, u"treatment"_s}
                                                      << u"%1, table 'trial': "_s.arg(good);
-        QTest::newRow("participant refused") << good << QStringList{u"--table"_s, u"trial"_s, u"--participant"_s, u"who"_s} + cols
-                                             << u"--participant: the two-level form (each participant's cell means first) is not available"_s;
+        QTest::newRow("missing participant column") << good << QStringList{u"--table"_s, u"trial"_s, u"--participant"_s, u"who"_s} + cols
+                                                    << u"%1, table 'trial': --participant: no column 'who'; the columns are arm, score, note"_s.arg(good);
+        QTest::newRow("participant is the factor") << good << QStringList{u"--table"_s, u"trial"_s, u"--participant"_s, u"arm"_s} + cols
+                                                   << u"--participant: column 'arm' is already used as another role"_s;
         QTest::newRow("engine variance on SQLite") << good << QStringList{u"--table"_s, u"trial"_s, u"--variance"_s, u"engine"_s} + cols
                                                    << u"%1, table 'trial': the summary query failed: "_s.arg(good);
         QTest::newRow("engine variance with weights") << good << QStringList{u"--table"_s, u"trial"_s, u"--variance"_s, u"engine"_s, u"--weight"_s, u"w"_s} + cols

@@ -2,7 +2,8 @@
 // /usr/lib/postgresql/<version>/bin, as the unprivileged user `nobody` when run as root, else as
 // itself) on a free port in a temporary folder, and stops it at the end, also after a failure.
 // The engine's summary of 10^6 rows, fitted, equals fit --data on the same rows copied out as CSV
-// to 1e-9 (both variance forms); the password comes from PGPASSWORD or a password file only;
+// to 1e-9 (both variance forms), and so does the two-level form by participant against fit --data
+// --participant; the password comes from PGPASSWORD or a password file only;
 // hostile names stay inert; failures name the place. Missing server programs fail the test.
 #include "app/database/DatabaseSource.h"
 #include "tests/support/DatabaseTestSupport.h"
@@ -224,6 +225,74 @@ private slots:
         QCOMPARE(a[u"n"_s].toDouble(), extra.contains(u"--weight"_s) ? 1250000.0 : 1e6);
         const QString difference = compareFits(a, b, 1e-9);
         QVERIFY2(difference.isEmpty(), qPrintable(difference));
+    }
+
+    // The two-level form on 10^6 rows made by the engine: 2,000 participants with 125 trials at each
+    // of four cue types (every 7th participant has none at the last), fitted by participant, equals
+    // fit --data --participant on the same rows copied out as CSV to 1e-9.
+    void byParticipantEqualsFitFromCsv_data()
+    {
+        QTest::addColumn<QStringList>("extra");
+        QTest::newRow("centred first pass") << QStringList{};
+        QTest::newRow("engine VAR_SAMP") << QStringList{u"--variance"_s, u"engine"_s};
+        QTest::newRow("weighted") << QStringList{u"--weight"_s, u"w"_s};
+    }
+
+    void byParticipantEqualsFitFromCsv()
+    {
+        QFETCH(QStringList, extra);
+        const QString csv = m_work + u"/trials.csv"_s;
+        if (!QFile::exists(csv)) {
+            // An invented cueing study: reaction times in ms; participants "p00001" ... in text order.
+            QVERIFY(exec(u"CREATE TABLE trials AS SELECT 'p' || lpad(CAST(1 + g / 500 AS TEXT), 5, '0') AS who, "
+                         "(ARRAY['plain','arrow','word','tone'])[1 + g % 4] AS cue, "
+                         "CAST(480 + (g % 4) * 6 + ((g / 500) % 13) * 2.5 + ((g * 2654435761) % 1000003) / 20000.0 AS DOUBLE PRECISION) AS rt, "
+                         "CAST(1 + g % 3 AS DOUBLE PRECISION) / 2 AS w "
+                         "FROM generate_series(CAST(0 AS BIGINT), 999999) AS g WHERE NOT ((g / 500) % 7 = 6 AND g % 4 = 3)"_s));
+            QVERIFY(exec(u"COPY (SELECT * FROM trials ORDER BY who) TO '%1' (FORMAT csv, HEADER)"_s.arg(csv)));
+        }
+        QStringList common = {u"--factor"_s, u"cue"_s, u"--response"_s, u"rt"_s, u"--participant"_s, u"who"_s, u"--levels"_s,
+                              u"plain,arrow,word,tone"_s, u"--scheme"_s, u"helmert"_s, u"--adjust"_s, u"holm"_s, u"--json"_s};
+        QStringList csvExtra;
+        if (extra.contains(u"--weight"_s))
+            csvExtra << u"--weight"_s << u"w"_s;
+        QElapsedTimer t;
+        t.start();
+        const ProcessRun fromDb = runCliWithPassword(QStringList{u"fit"_s, u"--database"_s, url(), u"--table"_s, u"trials"_s}
+                                                     + common + extra);
+        const qint64 dbMs = t.restart();
+        QVERIFY2(fromDb.exitCode == 0, qPrintable(fromDb.errText()));
+        const ProcessRun fromCsv = runCli(QStringList{u"fit"_s, u"--data"_s, csv} + common + csvExtra);
+        const qint64 csvMs = t.elapsed();
+        QVERIFY2(fromCsv.exitCode == 0, qPrintable(fromCsv.errText()));
+        qInfo("by participant, %lld rows: fit --database %lld ms, fit --data (CSV) %lld ms",
+              qint64(jsonOf(fromCsv.out)[u"data"_s][u"used_rows"_s].toDouble()), dbMs, csvMs);
+        const QJsonObject a = jsonOf(fromDb.out), b = jsonOf(fromCsv.out);
+        QCOMPARE(a[u"participants"_s][u"count"_s].toInt(), 2000);
+        QCOMPARE(a[u"participants"_s][u"complete"_s].toInt(), 2000 - 285); // 285 of p = 0..1999 have p % 7 = 6
+        QCOMPARE(a[u"omnibus"_s][u"test"_s].toString(), u"hotelling"_s);
+        const QString difference = compareFits(a, b, 1e-9);
+        QVERIFY2(difference.isEmpty(), qPrintable(difference));
+    }
+
+    // The two-level form with hostile table, factor, response and participant names.
+    void hostileNamesStayInertByParticipant()
+    {
+        const QString table = u"t\"; DROP TABLE keep_within; --"_s;
+        const QStringList columns = {u"who\" FROM keep_within; DELETE FROM keep_within; --"_s,
+                                     u"cue'); DROP TABLE keep_within; --"_s, u"rt\"\" --"_s, u"w"_s};
+        const auto rows = generateWithinRows(15, {u"p"_s, u"q"_s, u"r"_s}, 3, 5.0, 1.0, 9);
+        QSqlDatabase db = connection();
+        QCOMPARE(fillTable(db, table, columns, rows), QString());
+        QVERIFY(exec(u"CREATE TABLE keep_within (a INTEGER)"_s) && exec(u"INSERT INTO keep_within VALUES (1), (2), (3)"_s));
+        const ProcessRun run = runCliWithPassword({u"fit"_s, u"--database"_s, url(), u"--table"_s, table, u"--factor"_s, columns[1],
+                                                   u"--response"_s, columns[2], u"--participant"_s, columns[0], u"--levels"_s,
+                                                   u"p,q,r"_s, u"--scheme"_s, u"sum"_s, u"--json"_s});
+        QVERIFY2(run.exitCode == 0, qPrintable(run.errText()));
+        QCOMPARE(jsonOf(run.out)[u"participants"_s][u"count"_s].toInt(), 15);
+        QSqlQuery q(db);
+        QVERIFY(q.exec(u"SELECT COUNT(*) FROM keep_within"_s) && q.next());
+        QCOMPARE(q.value(0).toInt(), 3);
     }
 
     void passwordFromFileOrEnvironmentOnly()

@@ -59,6 +59,7 @@ public:
         take(question.table, summaryAnswer.table);
         take(question.response, summaryAnswer.response);
         take(question.weight, summaryAnswer.weight);
+        take(question.participant, summaryAnswer.participant);
         if (!summaryAnswer.factorColumns.isEmpty())
             question.factorColumns = summaryAnswer.factorColumns;
         return true;

@@ -13,7 +13,10 @@
 #include <QClipboard>
 #include <QGuiApplication>
 #include <QPushButton>
+#include <QComboBox>
+#include <QFile>
 #include <QSignalSpy>
+#include <QTemporaryDir>
 #include <QTest>
 
 using namespace Qt::StringLiterals;
@@ -42,7 +45,7 @@ std::vector<SummaryRow> threeGroupRows()
     if (!data)
         return rows;
     for (const LevelStats &l : data->levels)
-        rows.push_back({l.name, l.stats.n, l.stats.mean, l.stats.variance(), true, u"test row"_s});
+        rows.push_back({l.name, l.stats.n, l.stats.mean, l.stats.variance(), true, u"test row"_s, {}});
     return rows;
 }
 
@@ -142,6 +145,69 @@ private slots:
         }
         QVERIFY(std::abs(a.sigma - b.sigma) < 1e-12);
         QCOMPARE(qRound(a.coefficients[0].estimate * 1000), 5032); // Dobson's control mean
+    }
+
+    // The Participant chooser of the open file is proposed to the database read, which asks for the
+    // two-level form; the rows that come back (each participant's cell) are checked by participant,
+    // as the file itself is.
+    void readFromDatabaseHonoursTheParticipantChooser()
+    {
+        QTemporaryDir dir;
+        const QString path = dir.filePath(u"rt.csv"_s);
+        QFile out(path);
+        QVERIFY(out.open(QIODevice::WriteOnly));
+        out.write("subject,cue,rt\ns1,a,500\ns1,b,480\ns1,a,520\ns1,c,530\ns2,a,610\ns2,b,600\ns2,c,650\ns2,c,640\n"
+                  "s3,a,450\ns3,b,440\ns3,c,470\ns4,a,520\ns4,b,490\ns4,c,560\ns5,a,580\ns5,b,575\n");
+        out.close();
+        Document doc;
+        Factor f;
+        f.name = u"cue"_s;
+        f.levels = {u"a"_s, u"b"_s, u"c"_s};
+        doc.reset(makeScheme(f, SchemeKind::Helmert).take(), {});
+        DataPanel panel(&doc);
+        QVERIFY(panel.openFile(path));
+        panel.setColumns(u"cue"_s, u"rt"_s, {});
+        panel.participantBox()->setCurrentText(u"subject"_s);
+        QSignalSpy fileDone(&panel, &DataPanel::finished);
+        panel.readAndFit();
+        QVERIFY(fileDone.wait(10'000));
+        QVERIFY2(panel.fit().has_value() && panel.fit()->byParticipant, qPrintable(panel.message()));
+        const FitResult fromFile = *panel.fit();
+        // What the engine would return: one row per participant and level (n, mean, sum of squares).
+        std::vector<SummaryRow> rows;
+        const DataSummary data = *panel.data();
+        for (size_t p = 0; p < data.participantCells.size(); ++p)
+            for (size_t l = 0; l < data.levels.size(); ++l)
+                if (const RunningStats &c = data.participantCells[p][l]; c.n > 0)
+                    rows.push_back({data.levels[l].name, c.n, c.mean, c.m2, false, u"test row"_s, data.participants[qsizetype(p)]});
+
+        ScriptedPrompter prompter;
+        panel.setPrompter(&prompter);
+        SummaryQuerySpec askedSpec;
+        panel.setDatabaseReader([&](const QString &url, const SummaryQuerySpec &spec) {
+            askedSpec = spec;
+            return participantSummaryFromRows(rows, url + u", table 'trials'"_s, spec.participantColumn);
+        });
+        prompter.summaryAnswer.url = u"sqlite:///srv/cueing.db"_s;
+        prompter.summaryAnswer.table = u"trials"_s;
+        QSignalSpy done(&panel, &DataPanel::finished);
+        databaseChoice(panel)->trigger();
+        QVERIFY(done.wait(10'000));
+        QCOMPARE(prompter.summaryQuestions.value(0).participant, u"subject"_s); // from the chooser
+        QCOMPARE(askedSpec.participantColumn, u"subject"_s);
+        QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+        const FitResult &a = *panel.fit();
+        QVERIFY(a.byParticipant);
+        QCOMPARE(a.participants, 5);
+        QCOMPARE(a.completeParticipants, 4);
+        QCOMPARE(a.coefficients.size(), fromFile.coefficients.size());
+        for (size_t i = 0; i < a.coefficients.size(); ++i) {
+            QVERIFY(std::abs(a.coefficients[i].estimate - fromFile.coefficients[i].estimate) < 1e-9);
+            QVERIFY(std::abs(a.coefficients[i].se - fromFile.coefficients[i].se) < 1e-9);
+            QCOMPARE(a.coefficients[i].participants, fromFile.coefficients[i].participants);
+        }
+        QVERIFY(std::abs(a.f - fromFile.f) < 1e-9);
+        QVERIFY(std::abs(a.sigma - fromFile.sigma) < 1e-9);
     }
 
     void readFailureShowsTheReadersMessage()

@@ -12,7 +12,9 @@
 #include "tests/support/TableText.h"
 #include "ui/common/SmallChart.h"
 
+#include <QCheckBox>
 #include <QLabel>
+#include <QPlainTextEdit>
 #include <QLineEdit>
 #include <QComboBox>
 #include <QTableView>
@@ -48,6 +50,9 @@ private slots:
     void typingChangesOnlyItsCell();
     void rendersTheIrrigationDemo();
     void withinFactorAsksForACorrelationAndCountsParticipants();
+    void fullCorrelationMatrixTypedOrPasted_data();
+    void fullCorrelationMatrixTypedOrPasted();
+    void fullCorrelationMatrixGivesCoresPower();
 };
 
 void TestPowerPanel::tableShowsCorePower_data()
@@ -253,11 +258,11 @@ void TestPowerPanel::withinFactorAsksForACorrelationAndCountsParticipants()
     PowerPanel panel(&doc);
     const auto *correlationCaution = panel.findChild<QLabel *>(u"correlationCaution"_s);
     QVERIFY(correlationCaution);
-    QVERIFY(correlationCaution->isHidden());
+    QVERIFY(!correlationCaution->isVisibleTo(&panel));
     Scheme s = makeScheme(f, SchemeKind::Treatment).take();
     s = edits::withMeasure(s, Measure::Within).take();
     doc.edit(s, u"within"_s);
-    QVERIFY(!correlationCaution->isHidden());
+    QVERIFY(correlationCaution->isVisibleTo(&panel));
     panel.setExpectedTexts({u"0"_s, u"0.5"_s});
     panel.sdEdit()->setText(u"1"_s);
     panel.totalEdit()->setText(u"20"_s);
@@ -286,6 +291,101 @@ void TestPowerPanel::withinFactorAsksForACorrelationAndCountsParticipants()
     panel.recompute();
     QVERIFY(!panel.report());
     QVERIFY(panel.findChild<QLabel *>(u"powerMessage"_s)->text().contains(u"measured within participants is not computed yet"_s));
+}
+
+namespace {
+
+// A panel over a three-level factor measured within participants, 20 participants, means 0, 0.4,
+// 0.5, SD 1, with the full matrix chosen.
+void planThreeWithin(Document &doc, PowerPanel &panel)
+{
+    Factor f;
+    f.levels = {u"plain"_s, u"arrow"_s, u"word"_s};
+    doc.edit(edits::withMeasure(makeScheme(f, SchemeKind::Treatment).take(), Measure::Within).take(), u"within"_s);
+    panel.setExpectedTexts({u"0"_s, u"0.4"_s, u"0.5"_s});
+    panel.sdEdit()->setText(u"1"_s);
+    panel.totalEdit()->setText(u"20"_s);
+    panel.correlationEdit()->setText(u"0.5"_s);
+    panel.fullMatrixBox()->setChecked(true);
+}
+
+} // namespace
+
+// The full matrix, typed or pasted: each mistake is named by its cell, in the note under the matrix.
+void TestPowerPanel::fullCorrelationMatrixTypedOrPasted_data()
+{
+    QTest::addColumn<QString>("text");
+    QTest::addColumn<QString>("message");
+    QTest::newRow("not symmetric") << u"1, 0.6, 0.4\n0.5, 1, 0.5\n0.4, 0.5, 1"_s
+                                   << u"correlations, row 1, column 2: 0.6, but row 2, column 1 is 0.5; the matrix must be symmetric"_s;
+    QTest::newRow("diagonal not 1") << u"1, 0.6, 0.4\n0.6, 0.9, 0.5\n0.4, 0.5, 1"_s
+                                    << u"correlations, row 2, column 2: 0.9 on the diagonal"_s;
+    QTest::newRow("not a correlation") << u"1\t1.2\t0.4\n1.2\t1\t0.5\n0.4\t0.5\t1"_s
+                                       << u"correlations, row 1, column 2: 1.2 is not a correlation"_s;
+    QTest::newRow("not positive definite") << u"1; 0.9; -0.9\n0.9; 1; 0.9\n-0.9; 0.9; 1"_s
+                                           << u"correlations, row 3: with this row the correlations of the first 3 levels are not positive definite"_s;
+    QTest::newRow("too small") << u"1, 0.6\n0.6, 1"_s << u"correlations: a 2 x 2 matrix for 3 levels"_s;
+    QTest::newRow("ragged") << u"1, 0.6, 0.4\n0.6, 1\n0.4, 0.5, 1"_s << u"correlations, line 2: 2 values, but the first row has 3"_s;
+    QTest::newRow("not a number") << u"1, 0.6, 0.4\n0.6, 1, high\n0.4, 0.5, 1"_s << u"correlations, line 2, item 3: "_s;
+    QTest::newRow("empty") << u"  \n"_s << u"correlations: no values"_s;
+}
+
+void TestPowerPanel::fullCorrelationMatrixTypedOrPasted()
+{
+    QFETCH(QString, text);
+    QFETCH(QString, message);
+    Document doc;
+    PowerPanel panel(&doc);
+    planThreeWithin(doc, panel);
+    QVERIFY(panel.correlationsEdit()->isVisibleTo(&panel));
+    QVERIFY(!panel.correlationEdit()->isEnabled());
+    panel.correlationsEdit()->setPlainText(text);
+    panel.recompute();
+    QVERIFY(!panel.report());
+    QVERIFY2(panel.fieldMessage(u"correlations"_s).contains(message), qPrintable(panel.fieldMessage(u"correlations"_s)));
+}
+
+// Choosing the full matrix starts it from the common correlation (the same report); a matrix
+// with its own correlations gives core's power for those settings (TestPowerWithin holds core
+// against SciPy's noncentral t and F with the covariance from NumPy).
+void TestPowerPanel::fullCorrelationMatrixGivesCoresPower()
+{
+    Document doc;
+    PowerPanel panel(&doc);
+    planThreeWithin(doc, panel);
+    QCOMPARE(panel.correlationsEdit()->toPlainText(), u"1, 0.5, 0.5\n0.5, 1, 0.5\n0.5, 0.5, 1"_s);
+    panel.recompute();
+    QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
+    const PowerReport fromMatrix = *panel.report();
+    panel.fullMatrixBox()->setChecked(false);
+    QVERIFY(!panel.correlationsEdit()->isVisibleTo(&panel));
+    panel.recompute();
+    QVERIFY(panel.report().has_value());
+    for (size_t i = 0; i < fromMatrix.contrasts.size(); ++i)
+        QVERIFY(std::abs(fromMatrix.contrasts[i].power - panel.report()->contrasts[i].power) < 1e-12);
+
+    panel.fullMatrixBox()->setChecked(true);
+    panel.correlationsEdit()->setPlainText(u"1\t0.7\t0.2\n0.7\t1\t0.4\n0.2\t0.4\t1\n"_s); // pasted from a spreadsheet
+    panel.recompute();
+    QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
+    const auto settings = panel.settings();
+    QVERIFY(settings.ok());
+    QCOMPARE(settings->correlations.rows(), 3);
+    QCOMPARE(settings->correlations(0, 1), 0.7);
+    QCOMPARE(settings->correlations(2, 1), 0.4);
+    const auto rows = contrastRowsOf(doc.analysis());
+    QVERIFY(rows.ok());
+    const auto core = computePower(rows->rows, rows->names, *settings);
+    QVERIFY(core.ok());
+    QCOMPARE(panel.report()->contrasts.size(), core->contrasts.size());
+    for (size_t i = 0; i < core->contrasts.size(); ++i) {
+        QCOMPARE(panel.report()->contrasts[i].power, core->contrasts[i].power);
+        QCOMPARE(panel.report()->contrasts[i].required.total, core->contrasts[i].required.total);
+    }
+    // arrow - plain with r = 0.7 has a smaller SE than word - plain with r = 0.2: sqrt(2 - 2r) / sqrt(20).
+    QVERIFY(std::abs(panel.report()->contrasts[0].se - std::sqrt((2.0 - 2 * 0.7) / 20.0)) < 1e-12);
+    QVERIFY(std::abs(panel.report()->contrasts[1].se - std::sqrt((2.0 - 2 * 0.2) / 20.0)) < 1e-12);
+    QVERIFY(renderPanel(panel, QSize(1366, 240), u"power-within-matrix"_s));
 }
 
 QTEST_MAIN(TestPowerPanel)

@@ -7,6 +7,7 @@
 #include "ui/power/PowerPanel.h"
 #include "ui/document/Document.h"
 #include "core/model/Scheme.h"
+#include "core/model/SchemeEdits.h"
 #include "core/model/Study.h"
 #include "tests/support/WindowFixture.h"
 
@@ -14,7 +15,9 @@
 #include <QHeaderView>
 #include <QScreen>
 #include <QScrollBar>
+#include <QCheckBox>
 #include <QLineEdit>
+#include <QPlainTextEdit>
 #include <QSignalSpy>
 #include <QTableView>
 #include <QTest>
@@ -33,6 +36,7 @@ private slots:
     void indicatorRowsStayPinnedWhileALongGridScrolls();
     void titlesThatGrowToTwoLinesKeepEveryRowInView();
     void keyColumnsOfPowerAndCheckOnDataInView();
+    void powerCorrelationInputInSightWithinParticipants();
 
 private:
     QSize m_screen;
@@ -56,17 +60,12 @@ QString describe(const QTableView *view, const QModelIndex &index)
         .arg(port.width()).arg(port.height());
 }
 
-// Is the cell wholly in sight: inside its view and inside every widget around it (a dock's
-// scroll area included), with no scrolling needed?
-bool cellInSight(const QTableView *view, const QModelIndex &index)
+// Is the rectangle of the widget (in its own coordinates) wholly inside every widget around it
+// (a dock's scroll area included), with no scrolling needed?
+bool rectInSight(const QWidget *widget, const QRect &rect)
 {
-    if (!cellVisible(view, index))
-        return false;
-    const QRect cell = view->visualRect(index);
-    const QWidget *viewport = view->viewport();
-    for (const QWidget *w = viewport->parentWidget(); w; w = w->parentWidget()) {
-        const QRect inW(viewport->mapTo(w, cell.topLeft()), cell.size());
-        if (!w->rect().contains(inW))
+    for (const QWidget *w = widget->parentWidget(); w; w = w->parentWidget()) {
+        if (!w->rect().contains(QRect(widget->mapTo(w, rect.topLeft()), rect.size())))
             return false;
         if (w->isWindow())
             break;
@@ -74,10 +73,33 @@ bool cellInSight(const QTableView *view, const QModelIndex &index)
     return true;
 }
 
+// Is the cell wholly in sight: inside its view and inside every widget around it?
+bool cellInSight(const QTableView *view, const QModelIndex &index)
+{
+    return cellVisible(view, index) && rectInSight(view->viewport(), view->visualRect(index));
+}
+
+// Is the widget shown and wholly in sight?
+bool widgetInSight(const QWidget *widget)
+{
+    return widget->isVisible() && rectInSight(widget, widget->rect());
+}
+
 // The header text of a column, as a reader sees it.
 QString columnTitle(const QTableView *view, int column)
 {
     return view->model()->headerData(column, Qt::Horizontal).toString().simplified();
+}
+
+// The irrigation demo in a maximised window, as a person on a laptop opens it.
+bool openIrrigationMaximized(WindowFixture &f)
+{
+    f.window.reset();
+    f.window = std::make_unique<MainWindow>(f.options(30'000));
+    if (!f.window->openDemo(QStringLiteral("irrigation")))
+        return false;
+    f.window->showMaximized();
+    return QTest::qWaitForWindowExposed(f.window.get());
 }
 
 void saveShot(QWidget *window, const QString &name)
@@ -233,12 +255,8 @@ void TestWindowGeometry::keyColumnsOfPowerAndCheckOnDataInView()
 {
     // Power at plan (and the n needed), and the fit's p and confidence interval, without sideways scrolling.
     WindowFixture f;
-    f.window.reset();
-    f.window = std::make_unique<MainWindow>(f.options(30'000));
+    QVERIFY(openIrrigationMaximized(f));
     MainWindow &w = *f.window;
-    QVERIFY(w.openDemo(u"irrigation"_s));
-    w.showMaximized();
-    QVERIFY(QTest::qWaitForWindowExposed(&w));
 
     auto *power = w.findChild<PowerPanel *>();
     QVERIFY(power);
@@ -269,6 +287,38 @@ void TestWindowGeometry::keyColumnsOfPowerAndCheckOnDataInView()
     for (int c : {int(DataPanel::NameColumn), int(DataPanel::EstimateColumn), int(DataPanel::PColumn), int(DataPanel::CiColumn)})
         QVERIFY2(cellInSight(fit, fit->model()->index(1, c)),
                  qPrintable(u"Check on data: column '%1' needs scrolling"_s.arg(columnTitle(fit, c))));
+}
+
+void TestWindowGeometry::powerCorrelationInputInSightWithinParticipants()
+{
+    // Issue 16: a factor measured within participants; the Power tab's correlation (and the full
+    // matrix, when chosen) without scrolling.
+    WindowFixture f;
+    QVERIFY(openIrrigationMaximized(f));
+    MainWindow &w = *f.window;
+    Document &doc = *w.document();
+    doc.edit(edits::withMeasure(doc.scheme(), Measure::Within).take(), u"within"_s);
+    auto *power = w.findChild<PowerPanel *>();
+    QVERIFY(power);
+    w.findChild<QDockWidget *>(u"powerDock"_s)->raise();
+    power->setExpectedTexts({u"4.1"_s, u"4.9"_s, u"4.7"_s, u"4.5"_s, u"4.4"_s});
+    power->sdEdit()->setText(u"0.5"_s);
+    power->totalEdit()->setText(u"12"_s);
+    power->correlationEdit()->setText(u"0.6"_s);
+    power->recompute();
+    QTest::qWait(100);
+    QVERIFY2(power->report(), qPrintable(power->settings().error()));
+    saveShot(&w, u"window-%1x%2-power-within"_s.arg(m_screen.width()).arg(m_screen.height()));
+    QVERIFY2(widgetInSight(power->correlationEdit()), "the correlation needs scrolling");
+    QVERIFY(widgetInSight(power->fullMatrixBox()));
+    power->fullMatrixBox()->setChecked(true);
+    power->recompute();
+    QTest::qWait(100);
+    QVERIFY2(power->report(), qPrintable(power->settings().error()));
+    saveShot(&w, u"window-%1x%2-power-within-matrix"_s.arg(m_screen.width()).arg(m_screen.height()));
+    QVERIFY2(widgetInSight(power->correlationsEdit()), "the correlation matrix needs scrolling");
+    const QTableView *results = power->resultTable();
+    QVERIFY2(cellInSight(results, results->model()->index(0, PowerPanel::PowerColumn)), "Power at plan needs scrolling");
 }
 
 QTEST_MAIN(TestWindowGeometry)

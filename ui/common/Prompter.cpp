@@ -113,6 +113,9 @@ bool DialogPrompter::askSummaryQuery(QWidget *parent, SummaryQuestion &question)
         factors << field(question.factorLabels[i] + u":"_s, question.factorColumns.value(i));
     QLineEdit *response = field(tr("Response column:"), question.response);
     QLineEdit *weight = field(tr("Case weight column:"), question.weight, tr("none"));
+    QLineEdit *participant = field(tr("Participant column:"), question.participant, tr("none: separate groups"));
+    participant->setToolTip(tr("For a factor measured within participants: the database first averages each participant's "
+                               "trials per level, and the check is by participant."));
     auto *buttons = new QDialogButtonBox(QDialogButtonBox::Ok | QDialogButtonBox::Cancel, &dialog);
     QObject::connect(buttons, &QDialogButtonBox::accepted, &dialog, &QDialog::accept);
     QObject::connect(buttons, &QDialogButtonBox::rejected, &dialog, &QDialog::reject);
@@ -127,6 +130,7 @@ bool DialogPrompter::askSummaryQuery(QWidget *parent, SummaryQuestion &question)
         question.factorColumns << f->text();
     question.response = response->text();
     question.weight = weight->text();
+    question.participant = participant->text();
     return true;
 }
 

@@ -35,6 +35,7 @@ struct SummaryQuestion
     QStringList factorColumns; // one per factor
     QString response;
     QString weight;
+    QString participant; // empty: every row counts as its own (no participant column)
 };
 
 // Every question the window asks the user goes through here, file dialogs included, so tests

@@ -485,6 +485,7 @@ SummaryQuestion DataPanel::summaryQuestion(bool withDatabase) const
             columns << m_moreFactors[i]->currentText();
         q.response = m_response->currentText();
         q.weight = m_weight->currentIndex() > 0 ? m_weight->currentText() : QString();
+        q.participant = m_participant->currentIndex() > 0 ? m_participant->currentText() : QString();
     } else if (q.factorColumns.size() == q.factorLabels.size()) {
         columns = q.factorColumns;
     } else {
@@ -501,6 +502,7 @@ Result<SummaryQuerySpec> DataPanel::specFromAnswer(const SummaryQuestion &answer
     spec.factorColumns = answer.factorColumns;
     spec.responseColumn = answer.response;
     spec.weightColumn = answer.weight.trimmed();
+    spec.participantColumn = answer.participant.trimmed();
     if (auto query = summaryQuery(spec); !query)
         return Result<SummaryQuerySpec>::failure(query.error(), query.field());
     return spec;
@@ -542,7 +544,10 @@ void DataPanel::readFromDatabase()
     }
     m_cancel = std::make_shared<std::atomic<bool>>(false);
     const QString note = summaryQuery(*spec)->formNote;
-    m_fileLabel->setText(tr("%1, table %2: summarised per level by the database (%3).").arg(q.url, quoted(spec->table), note));
+    m_fileLabel->setText(spec->participantColumn.isEmpty()
+                             ? tr("%1, table %2: summarised per level by the database (%3).").arg(q.url, quoted(spec->table), note)
+                             : tr("%1, table %2: each participant's cell means (column %3) from the database, checked by "
+                                  "participant (%4).").arg(q.url, quoted(spec->table), quoted(spec->participantColumn), note));
     startRead([reader = m_databaseReader, url = q.url, s = *spec] { return reader(url, s); },
               tr("Asking the database for the summary of %1\u2026").arg(quoted(spec->table)), false);
 }

@@ -15,6 +15,7 @@
 #include <QHeaderView>
 #include <QLabel>
 #include <QLineEdit>
+#include <QPlainTextEdit>
 #include <QShowEvent>
 #include <QSignalBlocker>
 #include <QTableView>
@@ -58,7 +59,8 @@ QString sizesText(const SampleSize &size, bool within)
 // The note under which a problem of a field shows: the per-level fields share the table's.
 QString noteOf(const QString &field)
 {
-    if (field == u"sd"_s || field == u"total"_s || field == u"alpha"_s || field == u"target"_s || field == u"correlation"_s)
+    if (field == u"sd"_s || field == u"total"_s || field == u"alpha"_s || field == u"target"_s || field == u"correlation"_s
+        || field == u"correlations"_s)
         return field;
     if (field == u"means"_s || field == u"sds"_s || field == u"n"_s || field == u"ratios"_s || field == u"levels"_s)
         return u"levels"_s;
@@ -117,6 +119,8 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     , m_sizeSource(new QComboBox(this))
     , m_total(new QLineEdit(this))
     , m_correlation(new QLineEdit(this))
+    , m_fullMatrix(new QCheckBox(tr("full matrix"), this))
+    , m_correlations(new QPlainTextEdit(this))
     , m_alpha(new QLineEdit(u"0.05"_s, this))
     , m_sided(new QComboBox(this))
     , m_target(new QLineEdit(u"0.8"_s, this))
@@ -133,8 +137,12 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     buildTables();
     // Inputs on the left (the levels table, then the settings), results in the middle, curves on the right.
     auto *layout = new QHBoxLayout(this);
+    m_columns = layout;
     layout->setContentsMargins(6, 4, 6, 4);
     layout->addLayout(buildInputForm(), 3);
+    // Within participants the correlations get a column of their own, in sight without scrolling
+    // on a laptop screen (below the other settings they fell out of the dock's view).
+    layout->addWidget(buildCorrelationColumn(), 2);
     layout->addLayout(buildResultColumn(), 7);
     layout->addWidget(m_chart, 4);
     connectInputs();
@@ -170,48 +178,15 @@ QLayout *PowerPanel::buildInputForm()
     for (Adjustment a : {Adjustment::None, Adjustment::Bonferroni, Adjustment::Sidak})
         m_adjustment->addItem(adjustmentTitle(a), QVariant::fromValue(int(a)));
     m_total->setPlaceholderText(tr("e.g. 120"));
-    m_correlation->setObjectName(u"powerCorrelation"_s);
-    m_correlation->setPlaceholderText(tr("e.g. 0.5"));
-    m_correlation->setToolTip(tr("How strongly a participant's values at two levels go together (from -1 to 1): the same "
-                                 "correlation for every two levels"));
 
     auto *form = new QFormLayout;
     form->setFieldGrowthPolicy(QFormLayout::AllNonFixedFieldsGrow);
-    auto addField = [&](const QString &text, QWidget *field, const QString &key) {
-        auto *label = new QLabel(text, this);
-        auto *box = new QVBoxLayout;
-        box->setSpacing(1);
-        box->addWidget(field);
-        if (!key.isEmpty()) {
-            QLabel *note = fieldNote(this);
-            note->setObjectName(key + u"Message"_s);
-            m_fieldNotes.insert(key, note);
-            box->addWidget(note);
-        }
-        form->addRow(label, box);
-        return label;
-    };
-    auto row = [this](QWidget *a, QWidget *b, int bStretch) {
-        auto *w = new QWidget(this);
-        auto *l = new QHBoxLayout(w);
-        l->setContentsMargins(0, 0, 0, 0);
-        l->addWidget(a, 1);
-        l->addWidget(b, bStretch);
-        return w;
-    };
+    const auto addField = [&](const QString &text, QWidget *field, const QString &key) { return addFormField(form, text, field, key); };
+    const auto row = [this](QWidget *a, QWidget *b, int bStretch) { return sideBySide(a, b, bStretch); };
     addField(tr("Expected values:"), row(m_expectedKind, m_baseline, 1), {});
     addField(tr("Common SD:"), row(m_sd, m_perLevelSd, 0), u"sd"_s);
     m_sizeSourceLabel = addField(tr("Group sizes:"), m_sizeSource, {});
     m_totalLabel = addField(tr("Total N:"), m_total, u"total"_s);
-    m_correlationLabel = addField(tr("Correlation:"), m_correlation, u"correlation"_s);
-    // Within participants the correlation is usually a guess: said beside it, always.
-    m_correlationCaution = look::note(look::mark(look::State::Caution) + u" "_s
-                                          + tr("Usually a guess: power changes much with it. Try a few values, or take it from "
-                                               "earlier data."),
-                                      this);
-    m_correlationCaution->setObjectName(u"correlationCaution"_s);
-    m_correlationCaution->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Caution).name()));
-    form->addRow(QString(), m_correlationCaution);
     m_form = form;
     addField(tr("Alpha (family):"), m_alpha, u"alpha"_s);
     addField(tr("Direction:"), m_sided, {});
@@ -226,6 +201,83 @@ QLayout *PowerPanel::buildInputForm()
     left->addWidget(levelsNote);
     left->addLayout(form);
     return left;
+}
+
+// A field of a settings form with its label, and under it the note where a problem of that field
+// (key) shows.
+QLabel *PowerPanel::addFormField(QFormLayout *form, const QString &text, QWidget *field, const QString &key)
+{
+    auto *label = new QLabel(text, this);
+    auto *box = new QVBoxLayout;
+    box->setSpacing(1);
+    box->addWidget(field);
+    if (!key.isEmpty()) {
+        QLabel *note = fieldNote(this);
+        note->setObjectName(key + u"Message"_s);
+        m_fieldNotes.insert(key, note);
+        box->addWidget(note);
+    }
+    form->addRow(label, box);
+    return label;
+}
+
+QWidget *PowerPanel::sideBySide(QWidget *a, QWidget *b, int bStretch)
+{
+    auto *w = new QWidget(this);
+    auto *l = new QHBoxLayout(w);
+    l->setContentsMargins(0, 0, 0, 0);
+    l->addWidget(a, 1);
+    l->addWidget(b, bStretch);
+    return w;
+}
+
+// Within participants: one common correlation, or the full matrix typed or pasted, and the
+// caution that it is usually a guess.
+QWidget *PowerPanel::buildCorrelationColumn()
+{
+    m_correlation->setObjectName(u"powerCorrelation"_s);
+    m_correlation->setPlaceholderText(tr("e.g. 0.5"));
+    m_correlation->setToolTip(tr("How strongly a participant's values at two levels go together (from -1 to 1): the same "
+                                 "correlation for every two levels"));
+    m_fullMatrix->setObjectName(u"powerFullMatrix"_s);
+    m_fullMatrix->setToolTip(tr("Give every two levels their own correlation: a k × k matrix, symmetric, with ones on "
+                                "the diagonal"));
+    m_correlations->setObjectName(u"powerCorrelations"_s);
+    m_correlations->setPlaceholderText(tr("one row per level, e.g.\n1, 0.6, 0.4\n0.6, 1, 0.5\n0.4, 0.5, 1"));
+    m_correlations->setToolTip(tr("The correlations of a participant's values at every two levels, one row per level in the "
+                                  "levels' order: type them or paste them from a spreadsheet (commas, semicolons, tabs or "
+                                  "spaces between values)"));
+    m_correlations->setTabChangesFocus(true);
+    m_correlations->setLineWrapMode(QPlainTextEdit::NoWrap);
+
+    m_correlationColumn = new QWidget(this);
+    m_correlationColumn->setObjectName(u"powerCorrelationColumn"_s);
+    auto *column = new QVBoxLayout(m_correlationColumn);
+    column->setContentsMargins(0, 0, 0, 0);
+    column->setSpacing(2);
+    auto *form = new QFormLayout;
+    form->setContentsMargins(0, 0, 0, 0);
+    form->setFieldGrowthPolicy(QFormLayout::AllNonFixedFieldsGrow);
+    addFormField(form, tr("Correlation:"), sideBySide(m_correlation, m_fullMatrix, 0), u"correlation"_s);
+    column->addLayout(form);
+    // Up to five rows in sight (the dock is short on a laptop screen); a larger matrix scrolls.
+    m_correlations->setFixedHeight(5 * fontMetrics().lineSpacing() + 12);
+    column->addWidget(m_correlations);
+    QLabel *note = fieldNote(this);
+    note->setObjectName(u"correlationsMessage"_s);
+    m_fieldNotes.insert(u"correlations"_s, note);
+    column->addWidget(note);
+    // Within participants the correlation is usually a guess: said beside it, always.
+    auto *caution = look::note(look::mark(look::State::Caution) + u" "_s
+                                   + tr("Usually a guess, and power changes much with it: try a few values."),
+                               this);
+    caution->setToolTip(tr("The correlation is usually a guess: power changes much with it. Try a few values, or take it "
+                           "from earlier data."));
+    caution->setObjectName(u"correlationCaution"_s);
+    caution->setStyleSheet(u"QLabel { color: %1; }"_s.arg(look::ink(look::State::Caution).name()));
+    column->addWidget(caution);
+    column->addStretch(1);
+    return m_correlationColumn;
 }
 
 // The message, the results, their notes and the cautions.
@@ -251,6 +303,25 @@ void PowerPanel::connectInputs()
             [this](int row, int column, const QVariant &value) { inputEdited(row, column, value.toString()); });
     for (QLineEdit *e : {m_sd, m_total, m_alpha, m_target, m_correlation})
         connect(e, &QLineEdit::textChanged, this, &PowerPanel::schedule);
+    connect(m_correlations, &QPlainTextEdit::textChanged, this, &PowerPanel::schedule);
+    connect(m_fullMatrix, &QCheckBox::toggled, this, [this](bool full) {
+        // The matrix starts from the common correlation, for the analyst to change what differs.
+        if (full && m_correlations->toPlainText().trimmed().isEmpty())
+            if (const Result<Weight> r = parseWeight(m_correlation->text().trimmed()); r && std::abs(r->value()) <= 1.0) {
+                const int k = int(factor().levels.size());
+                QStringList lines;
+                for (int i = 0; i < k; ++i) {
+                    QStringList cells;
+                    for (int j = 0; j < k; ++j)
+                        cells << (i == j ? u"1"_s : m_correlation->text().trimmed());
+                    lines << cells.join(u", "_s);
+                }
+                const QSignalBlocker block(m_correlations);
+                m_correlations->setPlainText(lines.join(u'\n'));
+            }
+        updateCorrelationRows();
+        schedule();
+    });
     for (QComboBox *c : {m_sided, m_adjustment, m_baseline})
         connect(c, &QComboBox::currentIndexChanged, this, &PowerPanel::schedule);
     connect(m_expectedKind, &QComboBox::currentIndexChanged, this, [this] {
@@ -293,8 +364,11 @@ void PowerPanel::followDocument()
     // Within participants: one number of participants, a correlation, and its caution.
     const bool isWithin = within();
     m_form->setRowVisible(m_sizeSourceLabel, !isWithin);
-    m_form->setRowVisible(m_correlationLabel, isWithin);
-    m_form->setRowVisible(m_correlationCaution, isWithin);
+    m_correlationColumn->setVisible(isWithin);
+    // The correlations' column takes its width from the curves, not from the results.
+    m_columns->setStretch(3, isWithin ? 1 : 4);
+    m_chart->setMinimumWidth(isWithin ? 160 : 0);
+    updateCorrelationRows();
     m_totalLabel->setText(isWithin ? tr("Participants:") : tr("Total N:"));
     m_chart->setAxisTitles(isWithin ? tr("participants") : tr("size of the smallest group"), tr("power"));
     m_cautions->setText(u"<b>%1</b><ul style='margin-left:-20px'><li>%2</li></ul>"_s.arg(
@@ -494,10 +568,19 @@ Result<PowerSettings> PowerPanel::settings() const
                 return R::failure(participants.problem());
             s.total = *participants;
         }
-        auto correlation = parseScalar(m_correlation, u"correlation"_s);
-        if (!correlation)
-            return R::failure(correlation.problem());
-        s.correlation = *correlation;
+        if (m_fullMatrix->isChecked()) {
+            // Read by core's reader (the one --correlations uses); validatePowerSettings below
+            // checks it against the levels, naming the cell.
+            auto matrix = parseCorrelationMatrix(m_correlations->toPlainText(), u"correlations"_s);
+            if (!matrix)
+                return R::failure(matrix.error(), u"correlations"_s);
+            s.correlations = matrix.take();
+        } else {
+            auto correlation = parseScalar(m_correlation, u"correlation"_s);
+            if (!correlation)
+                return R::failure(correlation.problem());
+            s.correlation = *correlation;
+        }
     } else if (m_sizeSource->currentIndex() == 0) {
         const Factor &f = factor();
         if (!f.hasPlannedN())
@@ -527,6 +610,13 @@ Result<PowerSettings> PowerPanel::settings() const
     if (Problem problem = validatePowerSettings(s, k); !problem.isEmpty())
         return R::failure(std::move(problem));
     return s;
+}
+
+// The matrix row only with "full matrix"; the common correlation is then not read.
+void PowerPanel::updateCorrelationRows()
+{
+    m_correlations->setVisible(m_fullMatrix->isChecked());
+    m_correlation->setEnabled(!m_fullMatrix->isChecked());
 }
 
 void PowerPanel::showMessages(const Problem &problem)

@@ -13,9 +13,11 @@ class QLayout;
 
 class QCheckBox;
 class QFormLayout;
+class QHBoxLayout;
 class QComboBox;
 class QLabel;
 class QLineEdit;
+class QPlainTextEdit;
 class QTableView;
 
 namespace cb {
@@ -56,6 +58,11 @@ public:
     QLineEdit *sdEdit() const { return m_sd; }
     QLineEdit *totalEdit() const { return m_total; }
     QLineEdit *correlationEdit() const { return m_correlation; }
+    // Within participants: "full matrix" instead of one common correlation, and the matrix typed or
+    // pasted (one row per line, values separated by commas, semicolons, tabs or spaces).
+    QCheckBox *fullMatrixBox() const { return m_fullMatrix; }
+    QPlainTextEdit *correlationsEdit() const { return m_correlations; }
+    QWidget *correlationColumn() const { return m_correlationColumn; }
     QLineEdit *alphaEdit() const { return m_alpha; }
     QLineEdit *targetEdit() const { return m_target; }
     QComboBox *adjustmentBox() const { return m_adjustment; }
@@ -91,6 +98,10 @@ private:
     // The constructor's steps.
     void buildTables();
     QLayout *buildInputForm();
+    QWidget *buildCorrelationColumn();
+    QLabel *addFormField(QFormLayout *form, const QString &text, QWidget *field, const QString &key);
+    QWidget *sideBySide(QWidget *a, QWidget *b, int bStretch);
+    void updateCorrelationRows();
     QLayout *buildResultColumn();
     void connectInputs();
 
@@ -117,12 +128,14 @@ private:
     QCheckBox *m_perLevelSd;
     QComboBox *m_sizeSource;
     QLineEdit *m_total;               // total N, or within participants the number of participants
-    QLineEdit *m_correlation;         // within participants
+    QLineEdit *m_correlation;         // within participants: one common correlation
+    QCheckBox *m_fullMatrix;          // within participants: the full matrix instead
+    QPlainTextEdit *m_correlations;   // the full matrix, k x k
+    QWidget *m_correlationColumn = nullptr; // shown within participants only, beside the inputs
+    QHBoxLayout *m_columns = nullptr; // inputs, correlations, results, curves
     QFormLayout *m_form = nullptr;
     QLabel *m_sizeSourceLabel = nullptr;
     QLabel *m_totalLabel = nullptr;
-    QLabel *m_correlationLabel = nullptr;
-    QLabel *m_correlationCaution = nullptr;
     QLabel *m_cautions = nullptr;
     QLabel *m_withinWhy = nullptr;    // why within needs fewer participants (withinExplanation)
     QLineEdit *m_alpha;
