@@ -18,9 +18,10 @@ QString itemScopeSentence()
 QStringList itemSummaryLines(const ItemAnalysis &items)
 {
     const FitResult &f = items.byItem;
-    return {u"By item: do the level means differ? F(%1, %2) = %3, %4; tests %5"_s.arg(numberText(f.fDf1, 10), numberText(f.fDf2, 10),
-                                                                                   numberText(f.f), pClause(f.fP), f.omnibusHypothesis),
-            u"%1 items, %2 with every level"_s.arg(f.participants).arg(f.completeParticipants)};
+    return {u"By item: do the level means differ? Hotelling's F(%1, %2) = %3, %4, over the %5 of %6 items with every level"_s
+                .arg(numberText(f.fDf1, 10), numberText(f.fDf2, 10), numberText(f.f), pClause(f.fP))
+                .arg(f.completeParticipants)
+                .arg(f.participants)};
 }
 
 QString itemReport(const FitResult &byParticipant, const ItemAnalysis &items)

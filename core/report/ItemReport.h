@@ -10,7 +10,7 @@ namespace cb {
 // What the by-item analysis and min F' are and are not, in one sentence (the report, the window).
 QString itemScopeSentence();
 
-// The by-item omnibus test and the items counted, one line each (the report and the window).
+// The by-item omnibus test and the items it counted, in one line (the report and the window).
 QStringList itemSummaryLines(const ItemAnalysis &items);
 
 // The by-item section of the fit report: its coefficients, its summary, min F' per coefficient
