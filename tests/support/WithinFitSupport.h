@@ -12,8 +12,12 @@
 #include <QJsonObject>
 #include <QString>
 
+#include <QByteArray>
+#include <QStringList>
+
 #include <algorithm>
 #include <cmath>
+#include <functional>
 
 namespace cb::test {
 
@@ -66,6 +70,22 @@ inline QString contrastTestDiffers(const FitCoefficient &mine, const QJsonObject
     if (mine.participants != ref[unitsKey].toInt())
         return QStringLiteral("%1: %2, expected %3").arg(unitsKey).arg(mine.participants).arg(ref[unitsKey].toInt());
     return {};
+}
+
+// A Latin square in long format (header "participant,item,level,value" as given): participant
+// p (named prefixes[0] + p) sees item i (prefixes[1] + i) once, at level (i + p) mod k;
+// value(p, i, j) gives the response.
+inline QByteArray latinSquareCsv(const QByteArray &header, const QStringList &prefixes, const QStringList &levels, int participants,
+                                 int items, const std::function<int(int, int, int)> &value)
+{
+    QByteArray out = header + '\n';
+    for (int p = 0; p < participants; ++p)
+        for (int i = 0; i < items; ++i) {
+            const int j = (i + p) % int(levels.size());
+            out += prefixes[0].toUtf8() + QByteArray::number(p) + ',' + prefixes[1].toUtf8() + QByteArray::number(i) + ','
+                + levels[j].toUtf8() + ',' + QByteArray::number(value(p, i, j)) + '\n';
+        }
+    return out;
 }
 
 } // namespace cb::test

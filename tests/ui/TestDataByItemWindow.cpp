@@ -7,6 +7,7 @@
 #include "ui/document/Document.h"
 #include "core/model/Scheme.h"
 #include "tests/support/FitTestSupport.h"
+#include "tests/support/WithinFitSupport.h"
 #include "tests/support/WindowFixture.h"
 
 #include <QDockWidget>
@@ -32,14 +33,9 @@ void TestDataByItemWindow::byItemTableAndMinFInTheWindow()
     // Sentences read under three cue types, rotated over the readers in a Latin square (invented numbers).
     QTemporaryDir dir;
     const QString path = dir.filePath(u"reading.csv"_s);
-    QByteArray bytes = "reader,sentence,cue,ms\n";
-    const char *cues[] = {"plain", "hinted", "misleading"};
-    for (int p = 0; p < 12; ++p)
-        for (int i = 0; i < 15; ++i) {
-            const int j = (i + p) % 3;
-            const int ms = 420 + 9 * p + 6 * i - 14 * (j == 1) + 11 * (j == 2) + ((p * 37 + i * 13) % 29);
-            bytes += "r" + QByteArray::number(p) + ",s" + QByteArray::number(i) + ',' + cues[j] + ',' + QByteArray::number(ms) + '\n';
-        }
+    const QByteArray bytes = test::latinSquareCsv(
+        "reader,sentence,cue,ms", {u"r"_s, u"s"_s}, {u"plain"_s, u"hinted"_s, u"misleading"_s}, 12, 15,
+        [](int p, int i, int j) { return 420 + 9 * p + 6 * i - 14 * (j == 1) + 11 * (j == 2) + ((p * 37 + i * 13) % 29); });
     QVERIFY(test::writeFile(path, bytes));
 
     WindowFixture fixture;

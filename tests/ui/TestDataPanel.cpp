@@ -10,6 +10,7 @@
 #include "tests/support/TableText.h"
 #include "core/report/FitReport.h"
 #include "tests/support/FitTestSupport.h"
+#include "tests/support/WithinFitSupport.h"
 #include "ui/window/Demos.h"
 #include "tests/support/PanelShot.h"
 #include "tests/support/ScriptedPrompter.h"
@@ -309,23 +310,20 @@ void TestDataPanel::itemColumnGivesTheByItemCheckAndMinF()
 {
     QTemporaryDir dir;
     const QString path = dir.filePath(u"rt.csv"_s);
-    QByteArray bytes = "subject,sentence,cue,rt\n";
-    const char *cues[] = {"a", "b", "c"};
-    for (int p = 0; p < 9; ++p)
-        for (int i = 0; i < 9; ++i) {
-            const int j = (i + p) % 3;
-            const int rt = 500 + 7 * p + 5 * i - 12 * j + ((p * 31 + i * 17) % 23);
-            bytes += "s" + QByteArray::number(p) + ",w" + QByteArray::number(i) + ',' + cues[j] + ',' + QByteArray::number(rt) + '\n';
-        }
+    const QByteArray bytes = test::latinSquareCsv("subject,sentence,cue,rt", {u"s"_s, u"w"_s}, {u"a"_s, u"b"_s, u"c"_s}, 9, 9,
+                                                  [](int p, int i, int j) { return 500 + 7 * p + 5 * i - 12 * j + ((p * 31 + i * 17) % 23); });
+    const auto readByItem = [&](DataPanel &panel) {
+        panel.setColumns(u"cue"_s, u"rt"_s, {});
+        panel.participantBox()->setCurrentText(u"subject"_s);
+        panel.itemBox()->setCurrentText(u"sentence"_s);
+        return readAndWait(panel);
+    };
     QVERIFY(test::writeFile(path, bytes));
     Document doc;
     useLevels(doc, {u"a"_s, u"b"_s, u"c"_s});
     DataPanel panel(&doc);
     QVERIFY(panel.openFile(path));
-    panel.setColumns(u"cue"_s, u"rt"_s, {});
-    panel.participantBox()->setCurrentText(u"subject"_s);
-    panel.itemBox()->setCurrentText(u"sentence"_s);
-    QVERIFY(readAndWait(panel));
+    QVERIFY(readByItem(panel));
     QVERIFY2(panel.itemAnalysis().has_value(), qPrintable(panel.message()));
     const ItemAnalysis &items = *panel.itemAnalysis();
     QCOMPARE(items.byItem.participants, 9);
@@ -342,10 +340,7 @@ void TestDataPanel::itemColumnGivesTheByItemCheckAndMinF()
     // An item seen at one level only: named, and the by-participant check stays.
     QVERIFY(test::writeFile(path, bytes + "s0,w99,a,500\ns1,w99,a,510\n"));
     QVERIFY(panel.openFile(path));
-    panel.setColumns(u"cue"_s, u"rt"_s, {});
-    panel.participantBox()->setCurrentText(u"subject"_s);
-    panel.itemBox()->setCurrentText(u"sentence"_s);
-    QVERIFY(readAndWait(panel));
+    QVERIFY(readByItem(panel));
     QVERIFY(panel.fit().has_value());
     QVERIFY(!panel.itemAnalysis().has_value());
     QVERIFY(!t->isVisibleTo(&panel));
