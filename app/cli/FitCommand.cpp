@@ -6,9 +6,11 @@
 
 #include "core/data/DataFit.h"
 #include "core/data/DataReader.h"
+#include "core/data/ItemFit.h"
 #include "core/model/Design.h"
 #include "core/model/Scheme.h"
 #include "core/report/FitReport.h"
+#include "core/report/ItemReport.h"
 
 #include <QCommandLineParser>
 #include <QJsonDocument>
@@ -40,6 +42,10 @@ void addDataOptions(QCommandLineParser &p)
     p.addOption({u"participant"_s, u"The data column naming each row's participant, for a factor measured within participants: "
                                   u"the by-participant analysis (each contrast on the participants' contrast scores, Hotelling's "
                                   u"T\u00b2 for all levels). It is not a mixed-effects model."_s,
+                 u"COL"_s});
+    p.addOption({u"item"_s, u"With --participant: the data column naming each row's item (sentence, word, picture): the by-item "
+                           u"analysis beside the by-participant one, and Clark's (1973) min F\u2032 for each coefficient. "
+                           u"Not a mixed-effects model with crossed random effects."_s,
                  u"COL"_s});
     p.addOption({u"summary"_s, u"The data file is a summary table with columns level, n, mean, sd."_s});
     p.addOption({u"delimiter"_s, u"comma, tab, semicolon, bar, or one character (default: detected)."_s, u"NAME"_s});
@@ -81,10 +87,14 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
         // --factor is checked with the scheme: a design's columns default to its factors' names.
         if (p.value(u"response"_s).trimmed().isEmpty())
             return R::failure(u"--response: missing; name the data column (or give --summary for a summary table)"_s);
+    } else if (p.isSet(u"item"_s)) {
+        return R::failure(u"--item cannot be combined with --summary; a summary table has its own columns"_s);
     } else if (p.isSet(u"weight"_s) || p.isSet(u"response"_s) || p.isSet(u"participant"_s)) {
         return R::failure(u"--%1 cannot be combined with --summary; a summary table has its own columns"_s.arg(
             p.isSet(u"weight"_s) ? u"weight"_s : p.isSet(u"response"_s) ? u"response"_s : u"participant"_s));
     }
+    if (p.isSet(u"item"_s) && !p.isSet(u"participant"_s))
+        return R::failure(u"--item needs --participant: the by-item analysis sits beside the by-participant one"_s);
     if (p.isSet(u"delimiter"_s)) {
         const auto d = delimiterFromName(p.value(u"delimiter"_s));
         if (!d)
@@ -139,6 +149,7 @@ Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a
     o.responseColumn = p.value(u"response"_s);
     o.weightColumn = p.value(u"weight"_s);
     o.participantColumn = p.value(u"participant"_s);
+    o.itemColumn = p.value(u"item"_s);
     o.delimiter = a.delimiter;
     o.header = a.header;
     return readLevelData(p.value(u"data"_s), o);
@@ -196,10 +207,23 @@ int runFit(const QStringList &args, Io &io)
                                          : fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
     if (!fit) // named by the data it could not fit
         return badInput(io, data->source + u": "_s + fit.error());
-    if (p.isSet(u"json"_s))
-        io.out << QString::fromUtf8(QJsonDocument(fitResultToJson(*fit, *data)).toJson(QJsonDocument::Indented));
-    else
+    std::optional<ItemAnalysis> items;
+    if (p.isSet(u"item"_s)) {
+        auto byItem = fitItems(*scheme, *data, *fit, arguments->fit, arguments->mapping);
+        if (!byItem)
+            return badInput(io, data->source + u": "_s + byItem.error());
+        items = byItem.take();
+    }
+    if (p.isSet(u"json"_s)) {
+        QJsonObject json = fitResultToJson(*fit, *data);
+        if (items)
+            addItemAnalysisToJson(json, *items);
+        io.out << QString::fromUtf8(QJsonDocument(json).toJson(QJsonDocument::Indented));
+    } else {
         io.out << fitReport(*scheme, design.has_value(), *data, *fit);
+        if (items)
+            io.out << itemReport(*fit, *items);
+    }
     return kExitOk;
 }
 

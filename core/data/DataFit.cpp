@@ -70,6 +70,11 @@ QString quotedList(const QStringList &names)
 
 } // namespace
 
+double fUpperTailP(double f, double df1, double df2)
+{
+    return fUpperP(f, df1, df2);
+}
+
 // ---------------------------------------------------------------------------
 // Multiplicity
 

@@ -18,6 +18,9 @@ namespace cb {
 
 struct Scheme;
 
+// P(F > f) for an F with df1 and df2 degrees of freedom; NaN when it cannot be evaluated.
+double fUpperTailP(double f, double df1, double df2);
+
 // Adjusted p-values in the order given. NaN entries are left NaN and not counted in m.
 std::vector<double> adjustPValues(const std::vector<double> &p, Adjustment method);
 

@@ -1065,6 +1065,10 @@ private:
             specs.push_back({m_options.weightColumn, u"weight"_s, &m_out.weightIndex});
         if (!m_options.participantColumn.trimmed().isEmpty())
             specs.push_back({m_options.participantColumn, u"participant"_s, &m_out.participantIndex});
+        if (!m_options.itemColumn.trimmed().isEmpty() && m_options.participantColumn.trimmed().isEmpty())
+            return u"an item column needs a participant column: the by-item analysis sits beside the by-participant one"_s;
+        if (!m_options.itemColumn.trimmed().isEmpty())
+            specs.push_back({m_options.itemColumn, u"item"_s, &m_out.itemIndex});
 
         bool hasHeader = m_options.header == HeaderMode::Present;
         if (m_options.header == HeaderMode::Detect) {
@@ -1127,6 +1131,13 @@ private:
             pi >= 0 && (std::find(factors.begin(), factors.end(), pi) != factors.end() || pi == m_out.responseIndex || pi == m_out.weightIndex))
             return u"%1: the participant column (%2) is also the factor, the response or the weight; choose the column that "
                    u"names the participants"_s.arg(label, quoted(m_out.columns[pi]));
+        if (const int ii = m_out.itemIndex; ii >= 0
+            && (std::find(factors.begin(), factors.end(), ii) != factors.end() || ii == m_out.responseIndex || ii == m_out.weightIndex
+                || ii == m_out.participantIndex))
+            return u"%1: the item column (%2) is also the factor, the response, the weight or the participant; choose the "
+                   u"column that names the items"_s.arg(label, quoted(m_out.columns[ii]));
+        m_participants.column = m_out.participantIndex;
+        m_items.column = m_out.itemIndex;
         m_out.delimiter = m_start.m_delimiter;
         m_out.weighted = m_out.weightIndex >= 0;
         m_fieldCount = m_start.m_first.count;
@@ -1182,6 +1193,7 @@ private:
         const int ri = m_out.responseIndex;
         const int wi = m_out.weightIndex;
         const int pi = m_out.participantIndex;
+        const int ii = m_out.itemIndex;
         // Further factor columns of a design (at most two: resolveColumns refuses more); -1, never
         // a field number, when not given.
         int mi[2] = {-1, -1};
@@ -1195,7 +1207,7 @@ private:
                 continue;
             }
             const char *rec = p;
-            std::string_view level, response, weight, participant;
+            std::string_view level, response, weight, participant, item;
             std::string_view more[2];
             double y = 0.0;
             bool yParsed = false;
@@ -1232,6 +1244,8 @@ private:
                     weight = std::string_view(s, size_t(p - s));
                 else if (f == pi)
                     participant = std::string_view(s, size_t(p - s));
+                else if (f == ii)
+                    item = std::string_view(s, size_t(p - s));
                 else if (f == mi[0])
                     more[0] = std::string_view(s, size_t(p - s));
                 else if (f == mi[1])
@@ -1274,6 +1288,8 @@ private:
                         weight = m_slow.field(wi);
                     if (pi >= 0)
                         participant = m_slow.field(pi);
+                    if (ii >= 0)
+                        item = m_slow.field(ii);
                     for (int i = 0; i < 2; ++i)
                         if (mi[i] >= 0)
                             more[i] = m_slow.field(mi[i]);
@@ -1307,7 +1323,9 @@ private:
             if (!error.isEmpty())
                 return true;
             if (pi >= 0 && m_out.usedRows > used) [[unlikely]] {
-                addToParticipant(line, participant, error);
+                addToUnit(m_participants, line, participant, error);
+                if (ii >= 0 && error.isEmpty())
+                    addToUnit(m_items, line, item, error);
                 if (!error.isEmpty())
                     return true;
             }
@@ -1378,29 +1396,54 @@ private:
         m_lastWeight = w;
     }
 
-    // The row just added (m_lastLevel, m_lastY, m_lastWeight), into its participant's cell.
-    void addToParticipant(qint64 line, std::string_view participant, QString &error)
+    // Rows grouped by a naming column (the participants, the items): each one's statistics per level.
+    struct Units
     {
-        participant = trimmed(participant);
-        if (participant.empty()) {
-            error = fail(line, u"the participant (column %1) is empty; every row needs the participant it belongs to"_s.arg(
-                                   quoted(m_out.columns[m_out.participantIndex])));
+        explicit Units(const char16_t *word) : role(word) {}
+        const char16_t *role; // "participant", "item": the word in messages
+        int column = -1;
+        LevelTable names;
+        std::vector<qint64> firstLines;
+        std::vector<std::vector<RunningStats>> cells; // [unit][level]
+    };
+
+    // The row just added (m_lastLevel, m_lastY, m_lastWeight), into its unit's cell (its participant's, its item's).
+    void addToUnit(Units &units, qint64 line, std::string_view name, QString &error)
+    {
+        name = trimmed(name);
+        const QString role = QString::fromUtf16(units.role);
+        if (name.empty()) {
+            error = fail(line, u"the %1 (column %2) is empty; every row needs the %1 it belongs to"_s.arg(
+                                   role, quoted(m_out.columns[units.column])));
             return;
         }
-        const LevelKey key = makeKey(participant, false);
-        int index = m_participants.find(key);
+        const LevelKey key = makeKey(name, false);
+        int index = units.names.find(key);
         if (index < 0) {
             if (!decodeUtf8(key.text)) {
-                error = fail(line, u"the participant is not valid UTF-8; save the file as UTF-8"_s);
+                error = fail(line, u"the %1 is not valid UTF-8; save the file as UTF-8"_s.arg(role));
                 return;
             }
-            index = m_participants.insert(key);
-            m_cells.emplace_back();
+            index = units.names.insert(key);
+            units.cells.emplace_back();
+            units.firstLines.push_back(line);
         }
-        std::vector<RunningStats> &cells = m_cells[size_t(index)];
+        std::vector<RunningStats> &cells = units.cells[size_t(index)];
         if (cells.size() <= size_t(m_lastLevel))
             cells.resize(size_t(m_lastLevel) + 1);
         cells[size_t(m_lastLevel)].add(m_lastY, m_lastWeight);
+    }
+
+    // The units' names in order of first appearance, their cells over every level.
+    QStringList finishUnits(Units &units)
+    {
+        QStringList names;
+        for (size_t i = 0; i < units.names.size(); ++i) {
+            const std::string &k = units.names.key(i);
+            names << QString::fromUtf8(k.data(), qsizetype(k.size()));
+            units.cells[i].resize(m_levels.size());
+        }
+        return names;
     }
 
     int newLevel(qint64 line, const LevelKey &key, QString &error)
@@ -1432,20 +1475,19 @@ private:
             m_levels.stats[i].flush();
             m_out.levels.push_back({QString::fromUtf8(k.data(), qsizetype(k.size())), m_levels.stats[i].result()});
         }
-        for (size_t i = 0; i < m_participants.size(); ++i) {
-            const std::string &k = m_participants.key(i);
-            m_out.participants << QString::fromUtf8(k.data(), qsizetype(k.size()));
-            m_cells[i].resize(m_levels.size());
-        }
-        m_out.participantCells = std::move(m_cells);
+        m_out.participants = finishUnits(m_participants);
+        m_out.participantCells = std::move(m_participants.cells);
+        m_out.items = finishUnits(m_items);
+        m_out.itemCells = std::move(m_items.cells);
+        m_out.itemLines = std::move(m_items.firstLines);
     }
 
     const DataReadOptions &m_options;
     LevelTable m_levels;
     SlowRecord m_slow;
     std::string m_cell; // a design row's joined cell name
-    LevelTable m_participants; // with a participant column
-    std::vector<std::vector<RunningStats>> m_cells; // [participant][level]
+    Units m_participants{u"participant"}; // with a participant column
+    Units m_items{u"item"};               // with an item column as well
     int m_lastLevel = -1;
     double m_lastY = 0.0;
     double m_lastWeight = 1.0;

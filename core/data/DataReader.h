@@ -91,6 +91,10 @@ struct DataReadOptions
     // same pass then keeps every participant's cell statistics (DataSummary::participantCells).
     // A row without a participant stops the read with the line named.
     QString participantColumn;
+    // The column naming each row's item (sentence, word, picture), read beside the participant column:
+    // the same pass keeps every item's cell statistics too (DataSummary::itemCells), for the by-item
+    // analysis. A row without an item stops the read with the line named.
+    QString itemColumn;
     // 0: detect among tab, comma, semicolon and vertical bar.
     char delimiter = 0;
     HeaderMode header = HeaderMode::Detect;
@@ -112,6 +116,7 @@ struct DataSummary
     int responseIndex = -1;
     int weightIndex = -1;
     int participantIndex = -1;
+    int itemIndex = -1;
     bool weighted = false;
     bool fromSummaryTable = false;
 
@@ -121,6 +126,11 @@ struct DataSummary
     // replicate rows of a cell are pooled, so their mean is the participant's cell mean).
     QStringList participants;
     std::vector<std::vector<RunningStats>> participantCells;
+    // With an item column: the same per item (each item's cell means over the participants' rows),
+    // and the line where each item first appears, for messages.
+    QStringList items;
+    std::vector<std::vector<RunningStats>> itemCells;
+    std::vector<qint64> itemLines;
     qint64 bytes = 0;       // bytes read
     qint64 lines = 0;       // physical lines
     qint64 records = 0;     // data rows (header and blank lines excluded)

@@ -334,6 +334,21 @@ def data_cases(tmp):
         path = os.path.join(tmp, f"data-{len(cases)}.csv")
         cases.append(Case(f"fit {name}", ["fit", "--levels", "a,b", "--scheme", "treatment", "--data", path,
                                           "--factor", "g", "--response", "y"], files={path: text}, kind="data"))
+    # The by-item analysis (--item beside --participant): hostile item columns.
+    items = {
+        "item column missing": ("p,w,g,y\np1,w1,a,1\np1,w1,b,2\n", "w2", True, "'w2'"),
+        "empty item": ("p,w,g,y\np1,w1,a,1\np1, ,b,2\n", "w", True, "line 3"),
+        "item at one level": ("p,w,g,y\np1,w1,a,1\np1,w2,b,2\np2,w1,b,3\np2,w1,a,4\np2,w2,b,5\n", "w", True, "'w2'"),
+        "one item": ("p,w,g,y\np1,w1,a,1\np1,w1,b,2\np2,w1,a,3\np2,w1,b,5\n", "w", False, None),
+    }
+    for name, (text, column, refuse, place) in items.items():
+        path = os.path.join(tmp, f"data-{len(cases)}.csv")
+        for output in ([], ["--json"]):
+            cases.append(Case(f"fit --item {name} {' '.join(output)}", ["fit", "--levels", "a,b", "--scheme", "treatment",
+                                                                        "--within", "--data", path, "--factor", "g",
+                                                                        "--response", "y", "--participant", "p", "--item",
+                                                                        column] + output,
+                              files={path: text}, refuse=refuse, place=place, kind="data"))
     return cases
 
 

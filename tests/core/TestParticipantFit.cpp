@@ -10,6 +10,7 @@
 
 #include "tests/support/FitTestSupport.h"
 #include "tests/support/ProcessRunner.h"
+#include "tests/support/WithinFitSupport.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>
@@ -21,6 +22,7 @@
 
 using namespace Qt::StringLiterals;
 using namespace cb;
+using test::nearRelative;
 
 namespace {
 
@@ -46,15 +48,6 @@ QByteArray generatedData(int participants, unsigned seed)
     return out;
 }
 
-Scheme cueScheme(SchemeKind kind)
-{
-    Factor f;
-    f.name = u"cue"_s;
-    f.levels = {u"none"_s, u"valid"_s, u"invalid"_s};
-    f.measure = Measure::Within;
-    return makeScheme(f, kind).take();
-}
-
 Result<DataSummary> read(const QByteArray &bytes)
 {
     DataReadOptions o;
@@ -63,11 +56,6 @@ Result<DataSummary> read(const QByteArray &bytes)
     o.participantColumn = u"participant"_s;
     o.blockBytes = 4096; // several blocks
     return readLevelDataFromBytes(bytes, u"rt.csv"_s, o);
-}
-
-bool near(double a, double b, double tolerance)
-{
-    return std::abs(a - b) <= tolerance * std::max(1.0, std::abs(b));
 }
 
 } // namespace
@@ -101,7 +89,7 @@ void TestParticipantFit::agreesWithScipy()
     QTemporaryDir dir;
     const QString path = dir.filePath(u"rt.csv"_s);
     QVERIFY(test::writeFile(path, bytes));
-    const Scheme scheme = cueScheme(SchemeKind(kind));
+    const Scheme scheme = test::withinCueScheme(SchemeKind(kind));
     auto data = read(bytes);
     QVERIFY2(data.ok(), qPrintable(data.error()));
     FitOptions options;
@@ -112,15 +100,9 @@ void TestParticipantFit::agreesWithScipy()
     QCOMPARE(fit->completeParticipants, participants - 2);
     QCOMPARE(fit->incompleteParticipants, (QStringList{u"p4 (no 'invalid')"_s, u"p9 (no 'valid')"_s}));
 
-    QJsonArray rows;
-    const Analysis analysis = analyze(scheme);
-    for (Eigen::Index r = 0; r < analysis.hypothesisValues.rows(); ++r) {
-        QJsonArray row;
-        for (Eigen::Index j = 0; j < analysis.hypothesisValues.cols(); ++j)
-            row.append(analysis.hypothesisValues(r, j));
-        rows.append(row);
-    }
-    const QJsonObject request{{u"data"_s, path}, {u"levels"_s, QJsonArray{u"none"_s, u"valid"_s, u"invalid"_s}}, {u"rows"_s, rows},
+    const QJsonObject request{{u"data"_s, path},
+                              {u"levels"_s, QJsonArray{u"none"_s, u"valid"_s, u"invalid"_s}},
+                              {u"rows"_s, test::hypothesisRowsJson(scheme)},
                               {u"alpha"_s, 0.05}};
     const QJsonObject py = test::runPython(u"participant_fit_check.py"_s, {}, QJsonDocument(request).toJson());
     QVERIFY2(!py.contains(u"error"_s), qPrintable(py[u"error"_s].toString()));
@@ -129,15 +111,8 @@ void TestParticipantFit::agreesWithScipy()
     std::vector<double> family;
     for (size_t c = 0; c < fit->coefficients.size(); ++c) {
         const FitCoefficient &mine = fit->coefficients[c];
-        const QJsonObject ref = coefficients[qsizetype(c)].toObject();
-        QVERIFY(near(mine.estimate, ref[u"estimate"_s].toDouble(), 1e-12));
-        QVERIFY(near(mine.se, ref[u"se"_s].toDouble(), 1e-10));
-        QVERIFY(near(mine.t, ref[u"t"_s].toDouble(), 1e-9));
-        QVERIFY(near(mine.p, ref[u"p"_s].toDouble(), 1e-9));
-        QVERIFY(near(mine.ciLow, ref[u"ci_low"_s].toDouble(), 1e-10));
-        QVERIFY(near(mine.ciHigh, ref[u"ci_high"_s].toDouble(), 1e-10));
-        QCOMPARE(mine.df, ref[u"df"_s].toDouble());
-        QCOMPARE(mine.participants, ref[u"participants"_s].toInt());
+        const QString differs = test::contrastTestDiffers(mine, coefficients[qsizetype(c)].toObject(), u"participants"_s);
+        QVERIFY2(differs.isEmpty(), qPrintable(differs));
         family.push_back(mine.inFamily ? mine.p : std::nan(""));
     }
     // The adjustment is the fit's own, over the contrasts (the intercept is not in the family).
@@ -145,10 +120,10 @@ void TestParticipantFit::agreesWithScipy()
     for (size_t c = 1; c < fit->coefficients.size(); ++c)
         QCOMPARE(fit->coefficients[c].pAdjusted, adjusted[c]);
     const QJsonObject h = py[u"hotelling"_s].toObject();
-    QVERIFY(near(fit->f, h[u"f"_s].toDouble(), 1e-9));
+    QVERIFY(nearRelative(fit->f, h[u"f"_s].toDouble(), 1e-9));
     QCOMPARE(fit->fDf1, h[u"df1"_s].toDouble());
     QCOMPARE(fit->fDf2, h[u"df2"_s].toDouble());
-    QVERIFY(near(fit->fP, h[u"p"_s].toDouble(), 1e-9));
+    QVERIFY(nearRelative(fit->fP, h[u"p"_s].toDouble(), 1e-9));
 
     // JSON: today's keys, and df, participants and Hotelling's test.
     const QJsonObject json = fitResultToJson(*fit, *data);
@@ -159,7 +134,7 @@ void TestParticipantFit::agreesWithScipy()
     QCOMPARE(omnibus[u"test"_s].toString(), u"hotelling"_s);
     QCOMPARE(omnibus[u"df1"_s].toDouble(), 2.0);
     QCOMPARE(omnibus[u"df2"_s].toDouble(), double((participants - 2) - 3 + 1)); // complete participants - k + 1
-    QVERIFY(near(omnibus[u"p"_s].toDouble(), h[u"p"_s].toDouble(), 1e-9));
+    QVERIFY(nearRelative(omnibus[u"p"_s].toDouble(), h[u"p"_s].toDouble(), 1e-9));
     QCOMPARE(json[u"participants"_s].toObject()[u"incomplete"_s].toArray().size(), 2);
     for (const char16_t *key : {u"levels", u"coefficients", u"sigma", u"df", u"f", u"f_df1", u"f_df2", u"f_p", u"notes"})
         QVERIFY(json.contains(QString::fromUtf16(key)));
@@ -192,7 +167,7 @@ void TestParticipantFit::errorsNameTheParticipantOrLine()
     auto data = read(bytes);
     QString error = data ? QString() : data.error();
     if (data) {
-        auto fit = fitParticipants(cueScheme(SchemeKind::Treatment), *data);
+        auto fit = fitParticipants(test::withinCueScheme(SchemeKind::Treatment), *data);
         QVERIFY(!fit.ok());
         error = fit.error();
     }

@@ -5,9 +5,12 @@
 // the same values TestDataFit checks against NumPy's lstsq).
 
 #include "ui/data/DataPanel.h"
+#include "ui/data/ItemTable.h"
+#include "core/base/NumberText.h"
 #include "tests/support/TableText.h"
 #include "core/report/FitReport.h"
 #include "tests/support/FitTestSupport.h"
+#include "tests/support/WithinFitSupport.h"
 #include "ui/window/Demos.h"
 #include "tests/support/PanelShot.h"
 #include "tests/support/ScriptedPrompter.h"
@@ -43,6 +46,7 @@ private slots:
     void responseIsAMeasurementNeverText_data();
     void responseIsAMeasurementNeverText();
     void participantColumnGivesTheByParticipantCheck();
+    void itemColumnGivesTheByItemCheckAndMinF();
 
 private:
     static void useLevels(Document &doc, const QStringList &levels);
@@ -297,6 +301,51 @@ void TestDataPanel::participantColumnGivesTheByParticipantCheck()
     QCOMPARE(panel.fit()->coefficients[2].participants, 4); // c - a: s5 lacks c
     QVERIFY2(panel.summaryText().contains(u"5 participants, 4 with every level"_s), qPrintable(panel.summaryText()));
     QVERIFY(panel.summaryText().contains(u"not a mixed-effects model"_s));
+}
+
+// An item column beside the participant column: the by-item table with min F' from core's
+// fitItems (checked against SciPy in TestItemFit), the scope sentence, and an item seen at one
+// level named in the message while the by-participant check stays.
+void TestDataPanel::itemColumnGivesTheByItemCheckAndMinF()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"rt.csv"_s);
+    const QByteArray bytes = test::latinSquareCsv("subject,sentence,cue,rt", {u"s"_s, u"w"_s}, {u"a"_s, u"b"_s, u"c"_s}, 9, 9,
+                                                  [](int p, int i, int j) { return 500 + 7 * p + 5 * i - 12 * j + ((p * 31 + i * 17) % 23); });
+    const auto readByItem = [&](DataPanel &panel) {
+        panel.setColumns(u"cue"_s, u"rt"_s, {});
+        panel.participantBox()->setCurrentText(u"subject"_s);
+        panel.itemBox()->setCurrentText(u"sentence"_s);
+        return readAndWait(panel);
+    };
+    QVERIFY(test::writeFile(path, bytes));
+    Document doc;
+    useLevels(doc, {u"a"_s, u"b"_s, u"c"_s});
+    DataPanel panel(&doc);
+    QVERIFY(panel.openFile(path));
+    QVERIFY(readByItem(panel));
+    QVERIFY2(panel.itemAnalysis().has_value(), qPrintable(panel.message()));
+    const ItemAnalysis &items = *panel.itemAnalysis();
+    QCOMPARE(items.byItem.participants, 9);
+    const QTableView *t = panel.itemTable();
+    QVERIFY(t->isVisibleTo(&panel));
+    QCOMPARE(rowCount(t), 3);
+    QCOMPARE(cellText(t, 1, MinFColumn), numberText(items.minF[1].f, 4));
+    QCOMPARE(cellText(t, 1, MinFPColumn), pValueText(items.minF[1].p));
+    QCOMPARE(cellText(t, 2, ItemTColumn), u"%1 (8)"_s.arg(numberText(items.byItem.coefficients[2].t, 3)));
+    QVERIFY2(panel.summaryText().contains(u"over the 9 of 9 items with every level"_s), qPrintable(panel.summaryText()));
+    QVERIFY(panel.summaryText().contains(u"not a mixed-effects model with crossed random effects"_s));
+    QVERIFY(renderPanel(panel, QSize(1366, 420), u"data-by-item"_s));
+
+    // An item seen at one level only: named, and the by-participant check stays.
+    QVERIFY(test::writeFile(path, bytes + "s0,w99,a,500\ns1,w99,a,510\n"));
+    QVERIFY(panel.openFile(path));
+    QVERIFY(readByItem(panel));
+    QVERIFY(panel.fit().has_value());
+    QVERIFY(!panel.itemAnalysis().has_value());
+    QVERIFY(!t->isVisibleTo(&panel));
+    QVERIFY2(panel.message().contains(u"item 'w99' (column 'sentence', first on line 83) has values at level 'a' only"_s),
+             qPrintable(panel.message()));
 }
 
 QTEST_MAIN(TestDataPanel)

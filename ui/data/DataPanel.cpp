@@ -4,12 +4,14 @@
 #include "core/base/NumberText.h"
 #include "core/base/Weight.h"
 #include "core/report/FitReport.h"
+#include "core/report/ItemReport.h"
 
 #include "ui/document/Document.h"
 #include "ui/common/CellTable.h"
 #include "ui/common/Look.h"
 #include "ui/common/Prompter.h"
 #include "ui/common/SmallChart.h"
+#include "ui/data/ItemTable.h"
 
 #include <QAction>
 #include <QClipboard>
@@ -140,6 +142,7 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     , m_response(new QComboBox(this))
     , m_weight(new QComboBox(this))
     , m_participant(new QComboBox(this))
+    , m_item(new QComboBox(this))
     , m_readButton(new QPushButton(tr("Read and fit"), this))
     , m_copyQueryButton(new QPushButton(tr("Copy summary query"), this))
     , m_databaseAction(new QAction(tr("Read from a database\u2026"), this))
@@ -153,6 +156,8 @@ DataPanel::DataPanel(Document *document, QWidget *parent)
     , m_summary(new WrapLabel(this))
     , m_coefficients(new CellTableModel(coefficientHeaders(tr("Confidence interval")), this))
     , m_coefficientView(tableView(m_coefficients, this))
+    , m_itemRows(new CellTableModel(itemTableHeaders(), this))
+    , m_itemView(tableView(m_itemRows, this))
     , m_chart(new SmallChart(this))
     , m_problems(look::note({}, this))
 {
@@ -241,7 +246,14 @@ QLayout *DataPanel::buildFileColumn()
     m_participant->setObjectName(u"participantColumn"_s);
     m_participant->setToolTip(tr("For a factor measured within participants: the column naming whose each row is. The "
                                  "check is then by participant: each contrast on the participants' own contrast scores."));
-    columns->addRow(tr("Participant:"), m_participant);
+    m_item->setObjectName(u"itemColumn"_s);
+    m_item->setToolTip(tr("With a participant column: the column naming each row's item (sentence, word, picture). The "
+                          "by-item analysis then sits beside the by-participant one, with Clark's (1973) min F\u2032."));
+    auto *units = new QHBoxLayout;
+    units->addWidget(m_participant, 1);
+    units->addWidget(new QLabel(tr("Item:"), this));
+    units->addWidget(m_item, 1);
+    columns->addRow(tr("Participant:"), units);
     columns->addRow(tr("Adjust p for:"), m_adjust);
     columns->addRow(tr("Alpha (CI):"), m_alpha);
     auto *left = new QVBoxLayout;
@@ -270,6 +282,11 @@ QLayout *DataPanel::buildResultColumn()
     middle->addWidget(m_message);
     middle->addWidget(m_summary);
     middle->addWidget(m_coefficientView, 2);
+    m_itemView->setObjectName(u"itemCoefficients"_s);
+    m_itemView->horizontalHeader()->setSectionResizeMode(QHeaderView::ResizeToContents);
+    m_itemView->setSelectionMode(QAbstractItemView::NoSelection);
+    m_itemView->hide();
+    middle->addWidget(m_itemView, 2);
     middle->addWidget(m_problems);
     middle->addWidget(look::note(tr("Adjusted p-values are for the family of coefficients (the intercept is not counted). "
                                     "Comparisons chosen after looking at the data are post hoc, not planned: "
@@ -379,6 +396,9 @@ bool DataPanel::openFile(const QString &path)
     m_participant->clear();
     m_participant->addItem(tr("(none: separate groups)"));
     m_participant->addItems(preview->columns);
+    m_item->clear();
+    m_item->addItem(tr("(none)"));
+    m_item->addItems(preview->columns);
     m_factor->addItems(preview->columns);
     for (QComboBox *more : m_moreFactors) {
         more->clear();
@@ -419,6 +439,7 @@ void DataPanel::readAndFit()
     options.responseColumn = m_response->currentText();
     options.weightColumn = m_weight->currentIndex() > 0 ? m_weight->currentText() : QString();
     options.participantColumn = m_participant->currentIndex() > 0 ? m_participant->currentText() : QString();
+    options.itemColumn = m_item->currentIndex() > 0 ? m_item->currentText() : QString();
     options.delimiter = m_delimiter;
     options.header = m_hasHeader ? HeaderMode::Present : HeaderMode::Absent;
     m_bytesRead = std::make_shared<std::atomic<qint64>>(0);
@@ -659,6 +680,8 @@ void DataPanel::refit()
         return;
     updateUnmatched();
     m_fit.reset();
+    m_items.reset();
+    m_itemView->hide();
     LevelMapping mapping = currentMapping();
     for (auto it = mapping.begin(); it != mapping.end();)
         it = it.value().isEmpty() ? mapping.erase(it) : std::next(it);
@@ -689,6 +712,14 @@ void DataPanel::refit()
     }
     showMessage({});
     m_fit = fit.take();
+    m_items.reset();
+    if (m_data->itemIndex >= 0) {
+        auto items = fitItems(fitTarget(), *m_data, *m_fit, options, mapping);
+        if (items)
+            m_items = items.take();
+        else
+            showMessage(items.error());
+    }
     showFit(*m_fit);
 }
 
@@ -721,7 +752,15 @@ void DataPanel::showFit(const FitResult &fit)
     if (!fit.hypothesesAgree)
         lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
                                                              tr("Some coefficients do not estimate the scheme\u2019s hypotheses at these group sizes (marked below)."));
-    if (fit.byParticipant)
+    if (m_items)
+        for (const QString &line : itemSummaryLines(*m_items))
+            lines << line.toHtmlEscaped();
+    m_itemRows->setRows(m_items ? itemTableRows(*m_items) : TableRows{});
+    m_itemView->setVisible(m_items.has_value());
+    if (m_items)
+        lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
+                                                             itemScopeSentence().toHtmlEscaped());
+    else if (fit.byParticipant)
         lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
                                                              tr("This is the by-participant analysis: each contrast on the participants' own "
                                                                 "contrast scores. It is not a mixed-effects model with participants (and items) "
@@ -753,6 +792,8 @@ void DataPanel::showFit(const FitResult &fit)
             problems << tr("  and %1 more").arg(m_data->skippedRows - qint64(m_data->skipped.size()));
     }
     problems << fit.notes;
+    if (m_items)
+        problems << m_items->byItem.notes;
     m_problems->setText(problems.join(u"\n"_s));
     m_problems->setVisible(!problems.isEmpty());
 }

@@ -1,6 +1,7 @@
 #pragma once
 
 #include "core/data/DataFit.h"
+#include "core/data/ItemFit.h"
 #include "core/data/SummaryQuery.h"
 #include "ui/common/Prompter.h"
 
@@ -72,6 +73,10 @@ public:
     QTableView *previewTable() const { return m_previewView; }
     QComboBox *responseBox() const { return m_response; }
     QComboBox *participantBox() const { return m_participant; }
+    QComboBox *itemBox() const { return m_item; }
+    // With an item column: the by-item analysis and min F' (core's fitItems), and its table.
+    const std::optional<ItemAnalysis> &itemAnalysis() const { return m_items; }
+    QTableView *itemTable() const { return m_itemView; }
     SmallChart *meansChart() const { return m_chart; }
 
     // Who answers "which data file?" (the window's prompter; the real dialog by default).
@@ -139,6 +144,7 @@ private:
     QComboBox *m_response; // the numeric columns only
     QComboBox *m_weight;
     QComboBox *m_participant; // "(none)" first, then the columns
+    QComboBox *m_item;        // beside it: "(none)" first, then the columns
     QPushButton *m_readButton;
     QPushButton *m_copyQueryButton;
     QAction *m_databaseAction; // in the "Open data…" button's menu
@@ -156,6 +162,8 @@ private:
     QLabel *m_summary;
     CellTableModel *m_coefficients;
     QTableView *m_coefficientView;
+    CellTableModel *m_itemRows;  // the by-item table, shown with an item column
+    QTableView *m_itemView;
     SmallChart *m_chart;
     QLabel *m_problems;
 
@@ -168,6 +176,7 @@ private:
 
     std::optional<DataSummary> m_data;
     std::optional<FitResult> m_fit;
+    std::optional<ItemAnalysis> m_items;
 };
 
 } // namespace cb

@@ -1,0 +1,287 @@
+// The by-item analysis beside the by-participant one and Clark's (1973) min F' (core/data/ItemFit:
+// readLevelData with participant and item columns, fitItems, minFPrime), against NumPy/SciPy
+// (tests/python/item_fit_check.py): each item's cell means, one-sample t on the items' contrast
+// scores, Hotelling's T^2 by item through its F, F1, F2, min F' and its p from scipy.stats.f;
+// items missing a level; the errors; the command line's JSON and report.
+#include "core/data/DataFit.h"
+#include "core/data/DataReader.h"
+#include "core/data/ItemFit.h"
+
+#include "tests/support/FitTestSupport.h"
+#include "tests/support/ProcessRunner.h"
+#include "tests/support/WithinFitSupport.h"
+
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QTemporaryDir>
+#include <QTest>
+
+#include <cmath>
+#include <random>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+using test::nearRelative;
+
+namespace {
+
+const char *const kLevels[] = {"none", "valid", "invalid"};
+
+// Generated reaction times in a Latin square: participant p sees item i at level (i + p) mod 3,
+// twice; participants and items each have a speed of their own. Item w5 is never shown at
+// 'invalid' (an incomplete item).
+QByteArray generatedData(int participants, int items, unsigned seed)
+{
+    std::mt19937 rng(seed);
+    std::normal_distribution<double> person(500.0, 50.0), word(0.0, 30.0), noise(0.0, 25.0);
+    const double effect[] = {0.0, -15.0, 10.0};
+    std::vector<double> itemSpeed;
+    for (int i = 0; i < items; ++i)
+        itemSpeed.push_back(word(rng));
+    QByteArray out = "participant,item,level,y\n";
+    for (int p = 0; p < participants; ++p) {
+        const double base = person(rng);
+        for (int i = 0; i < items; ++i) {
+            const int j = (i + p) % 3;
+            if (i == 5 && j == 2)
+                continue;
+            for (int r = 0; r < 1 + (p % 2); ++r)
+                out += "s" + QByteArray::number(p) + ",w" + QByteArray::number(i) + ',' + kLevels[j] + ','
+                    + QByteArray::number(base + itemSpeed[size_t(i)] + effect[j] + noise(rng), 'g', 17) + '\n';
+        }
+    }
+    return out;
+}
+
+Result<DataSummary> read(const QByteArray &bytes, const QString &item = u"item"_s, const QString &participant = u"participant"_s)
+{
+    DataReadOptions o;
+    o.factorColumn = u"level"_s;
+    o.responseColumn = u"y"_s;
+    o.participantColumn = participant;
+    o.itemColumn = item;
+    o.blockBytes = 4096; // several blocks
+    return readLevelDataFromBytes(bytes, u"rt.csv"_s, o);
+}
+
+} // namespace
+
+class TestItemFit : public QObject
+{
+    Q_OBJECT
+private slots:
+    void agreesWithScipy_data();
+    void agreesWithScipy();
+    void minFPrimeByHand();
+    void readerKeepsEachItemsCells();
+    void errorsNameTheItemOrLine_data();
+    void errorsNameTheItemOrLine();
+    void commandLine();
+};
+
+void TestItemFit::agreesWithScipy_data()
+{
+    QTest::addColumn<int>("kind");
+    QTest::addColumn<int>("participants");
+    QTest::addColumn<int>("items");
+    QTest::newRow("treatment, 24 x 18") << int(SchemeKind::Treatment) << 24 << 18;
+    QTest::newRow("helmert, 30 x 12") << int(SchemeKind::Helmert) << 30 << 12;
+    QTest::newRow("polynomial, 12 x 24") << int(SchemeKind::Polynomial) << 12 << 24;
+}
+
+void TestItemFit::agreesWithScipy()
+{
+    QFETCH(int, kind);
+    QFETCH(int, participants);
+    QFETCH(int, items);
+    const QByteArray bytes = generatedData(participants, items, 11u + unsigned(participants * items));
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"rt.csv"_s);
+    QVERIFY(test::writeFile(path, bytes));
+    const Scheme scheme = test::withinCueScheme(SchemeKind(kind));
+    auto data = read(bytes);
+    QVERIFY2(data.ok(), qPrintable(data.error()));
+    FitOptions options;
+    options.adjust = Adjustment::Holm;
+    auto fit = fitParticipants(scheme, *data, options);
+    QVERIFY2(fit.ok(), qPrintable(fit.error()));
+    auto byItem = fitItems(scheme, *data, *fit, options);
+    QVERIFY2(byItem.ok(), qPrintable(byItem.error()));
+    QCOMPARE(byItem->column, u"item"_s);
+    QCOMPARE(byItem->byItem.participants, items); // counts items in the participants' role
+    QCOMPARE(byItem->byItem.completeParticipants, items - 1);
+    QCOMPARE(byItem->byItem.incompleteParticipants, QStringList{u"w5 (no 'invalid')"_s});
+    QVERIFY(byItem->byItem.notes.join(u" "_s).contains(u"items lack a level"_s));
+    QVERIFY(!byItem->byItem.notes.join(u" "_s).contains(u"participant"_s));
+
+    const QJsonObject request{{u"data"_s, path},
+                              {u"levels"_s, QJsonArray{u"none"_s, u"valid"_s, u"invalid"_s}},
+                              {u"rows"_s, test::hypothesisRowsJson(scheme)},
+                              {u"alpha"_s, 0.05}};
+    const QJsonObject py = test::runPython(u"item_fit_check.py"_s, {}, QJsonDocument(request).toJson());
+    QVERIFY2(!py.contains(u"error"_s), qPrintable(py[u"error"_s].toString()));
+    QCOMPARE(py[u"incomplete_items"_s].toArray(), QJsonArray{u"w5"_s});
+    const QJsonArray reference = py[u"by_item"_s].toArray();
+    const QJsonArray referenceP = py[u"by_participant"_s].toArray();
+    const QJsonArray referenceMinF = py[u"min_f"_s].toArray();
+    QCOMPARE(reference.size(), qsizetype(byItem->byItem.coefficients.size()));
+    QCOMPARE(byItem->minF.size(), byItem->byItem.coefficients.size());
+    for (size_t c = 0; c < byItem->byItem.coefficients.size(); ++c) {
+        const QString differs = test::contrastTestDiffers(byItem->byItem.coefficients[c], reference[qsizetype(c)].toObject(), u"items"_s);
+        QVERIFY2(differs.isEmpty(), qPrintable(differs));
+        // The by-participant t beside it, then min F'.
+        QVERIFY(nearRelative(fit->coefficients[c].t, referenceP[qsizetype(c)].toObject()[u"t"_s].toDouble(), 1e-9));
+        const MinFPrime &m = byItem->minF[c];
+        const QJsonObject refM = referenceMinF[qsizetype(c)].toObject();
+        QVERIFY(nearRelative(m.f1, refM[u"f1"_s].toDouble(), 1e-9));
+        QVERIFY(nearRelative(m.f2, refM[u"f2"_s].toDouble(), 1e-9));
+        QVERIFY(nearRelative(m.f, refM[u"f"_s].toDouble(), 1e-9));
+        QCOMPARE(m.df1, 1.0);
+        QVERIFY(nearRelative(m.df2, refM[u"df2"_s].toDouble(), 1e-9));
+        QVERIFY2(nearRelative(m.p, refM[u"p"_s].toDouble(), 1e-8), qPrintable(u"%1 vs %2"_s.arg(m.p).arg(refM[u"p"_s].toDouble())));
+        // min F' is never larger than either F.
+        QVERIFY(m.f <= std::min(m.f1, m.f2));
+    }
+    const QJsonObject h = py[u"hotelling_by_item"_s].toObject();
+    QVERIFY(nearRelative(byItem->byItem.f, h[u"f"_s].toDouble(), 1e-9));
+    QCOMPARE(byItem->byItem.fDf1, h[u"df1"_s].toDouble());
+    QCOMPARE(byItem->byItem.fDf2, h[u"df2"_s].toDouble());
+    QVERIFY(nearRelative(byItem->byItem.fP, h[u"p"_s].toDouble(), 1e-9));
+    QVERIFY(byItem->byItem.omnibusHypothesis.contains(u"items with every level"_s));
+
+    // JSON: the fit's keys unchanged, by_item and min_f added.
+    const QJsonObject before = fitResultToJson(*fit, *data);
+    QJsonObject json = before;
+    addItemAnalysisToJson(json, *byItem);
+    for (auto it = before.begin(); it != before.end(); ++it)
+        QCOMPARE(json.value(it.key()), it.value());
+    const QJsonObject b = json[u"by_item"_s].toObject();
+    QCOMPARE(b[u"count"_s].toInt(), items);
+    QCOMPARE(b[u"complete"_s].toInt(), items - 1);
+    QCOMPARE(b[u"omnibus"_s].toObject()[u"test"_s].toString(), u"hotelling"_s);
+    QCOMPARE(b[u"omnibus"_s].toObject()[u"items"_s].toInt(), items - 1);
+    QCOMPARE(b[u"coefficients"_s].toArray()[1].toObject()[u"items"_s].toInt(), byItem->byItem.coefficients[1].participants);
+    const QJsonObject m1 = json[u"min_f"_s].toArray()[1].toObject();
+    QCOMPARE(m1[u"f"_s].toDouble(), byItem->minF[1].f);
+    QCOMPARE(m1[u"df1"_s].toDouble(), 1.0);
+    QCOMPARE(m1[u"p"_s].toDouble(), byItem->minF[1].p);
+}
+
+// Clark's formula on round numbers, worked by hand: F1 = 4 (20 df), F2 = 6 (10 df):
+// min F' = 24 / 10 = 2.4, df = 100 / (16 / 10 + 36 / 20) = 100 / 3.4.
+void TestItemFit::minFPrimeByHand()
+{
+    const MinFPrime m = minFPrime(4.0, 20.0, 6.0, 10.0);
+    QCOMPARE(m.f, 2.4);
+    QVERIFY(nearRelative(m.df2, 100.0 / 3.4, 1e-15));
+    QCOMPARE(m.df1, 1.0);
+    QVERIFY(m.p > 0.0 && m.p < 1.0);
+    QVERIFY(std::isnan(minFPrime(0.0, 20.0, 0.0, 10.0).f)); // both 0: undefined
+    QVERIFY(std::isnan(minFPrime(std::nan(""), 20.0, 6.0, 10.0).p));
+    QCOMPARE(minFPrime(0.0, 20.0, 6.0, 10.0).f, 0.0);
+}
+
+void TestItemFit::readerKeepsEachItemsCells()
+{
+    auto data = read("participant,item,level,y\na,w1,x,1\nb,w1,x,3\na,w2,z,10\nb,w1,z,20\na,w1,z,30\n");
+    QVERIFY2(data.ok(), qPrintable(data.error()));
+    QCOMPARE(data->items, (QStringList{u"w1"_s, u"w2"_s}));
+    QCOMPARE(data->itemLines, (std::vector<qint64>{2, 4}));
+    QCOMPARE(data->itemCells[0][0].mean, 2.0); // over the participants' rows
+    QCOMPARE(data->itemCells[0][1].mean, 25.0);
+    QCOMPARE(data->itemCells[1][0].n, 0.0);
+    QCOMPARE(data->itemCells[1][1].mean, 10.0);
+    QCOMPARE(data->participantCells[0][1].mean, 20.0); // the participants' cells as before
+}
+
+void TestItemFit::errorsNameTheItemOrLine_data()
+{
+    QTest::addColumn<QByteArray>("bytes");
+    QTest::addColumn<QString>("item");
+    QTest::addColumn<QString>("participant");
+    QTest::addColumn<QString>("message");
+    const QByteArray good = "participant,item,level,y\na,w1,none,1\na,w1,valid,2\na,w1,invalid,3\n";
+    QTest::newRow("item column missing") << good << u"word"_s << u"participant"_s
+                                         << u"rt.csv: no column 'word' for the item; the columns are"_s;
+    QTest::newRow("item column is the participant column") << good << u"participant"_s << u"participant"_s
+                                                           << u"rt.csv: the item column ('participant') is also"_s;
+    QTest::newRow("item without participant") << good << u"item"_s << QString() << u"an item column needs a participant column"_s;
+    QTest::newRow("missing item value") << QByteArray("participant,item,level,y\na,w1,none,1\na, ,valid,2\n") << u"item"_s
+                                        << u"participant"_s << u"rt.csv line 3: the item (column 'item') is empty"_s;
+    QTest::newRow("item with one level") << good + "b,w1,none,4\nb,w1,valid,5\nb,w2,invalid,6\nb,w2,invalid,7\n" << u"item"_s
+                                         << u"participant"_s
+                                         << u"item 'w2' (column 'item', first on line 7) has values at level 'invalid' only"_s;
+}
+
+void TestItemFit::errorsNameTheItemOrLine()
+{
+    QFETCH(QByteArray, bytes);
+    QFETCH(QString, item);
+    QFETCH(QString, participant);
+    QFETCH(QString, message);
+    auto data = read(bytes, item, participant);
+    QString error = data ? QString() : data.error();
+    if (data) {
+        const Scheme scheme = test::withinCueScheme(SchemeKind::Treatment);
+        auto fit = fitParticipants(scheme, *data);
+        QVERIFY2(fit.ok(), qPrintable(fit.error()));
+        auto items = fitItems(scheme, *data, *fit);
+        QVERIFY(!items.ok());
+        error = items.error();
+    }
+    QVERIFY2(error.startsWith(message), qPrintable(error));
+}
+
+// fit --participant --item: today's keys unchanged, by_item and min_f added; the report's sections; bad input.
+void TestItemFit::commandLine()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"rt.csv"_s);
+    QVERIFY(test::writeFile(path, generatedData(24, 18, 5u)));
+    const QStringList base{u"fit"_s,      u"--data"_s,   path,        u"--factor"_s, u"level"_s, u"--response"_s, u"y"_s,
+                           u"--levels"_s, u"none,valid,invalid"_s, u"--scheme"_s, u"treatment"_s, u"--within"_s,
+                           u"--participant"_s, u"participant"_s};
+    const test::ProcessRun plain = test::runCli(base + QStringList{u"--json"_s});
+    QVERIFY2(plain.exitCode == 0, plain.err.constData());
+    const test::ProcessRun run = test::runCli(base + QStringList{u"--item"_s, u"item"_s, u"--json"_s});
+    QVERIFY2(run.exitCode == 0, run.err.constData());
+    const QJsonObject without = QJsonDocument::fromJson(plain.out).object();
+    const QJsonObject o = QJsonDocument::fromJson(run.out).object();
+    for (auto it = without.begin(); it != without.end(); ++it)
+        QCOMPARE(o.value(it.key()), it.value());
+    QCOMPARE(o.keys().size(), without.keys().size() + 2);
+    const QJsonObject byItem = o[u"by_item"_s].toObject();
+    QCOMPARE(byItem[u"column"_s].toString(), u"item"_s);
+    QCOMPARE(byItem[u"count"_s].toInt(), 18);
+    QCOMPARE(byItem[u"incomplete"_s].toArray(), QJsonArray{u"w5 (no 'invalid')"_s});
+    const QJsonObject valid = byItem[u"coefficients"_s].toArray()[1].toObject();
+    QCOMPARE(valid[u"items"_s].toInt(), 18);
+    QCOMPARE(valid[u"df"_s].toDouble(), 17.0);
+    const QJsonObject invalid = byItem[u"coefficients"_s].toArray()[2].toObject();
+    QCOMPARE(invalid[u"items"_s].toInt(), 17); // w5 has no 'invalid'
+    const QJsonArray minF = o[u"min_f"_s].toArray();
+    QCOMPARE(minF.size(), 3);
+    for (const char16_t *key : {u"name", u"f", u"df1", u"df2", u"p", u"f1", u"f2"})
+        QVERIFY(minF[1].toObject().contains(QString::fromUtf16(key)));
+    const double t1 = o[u"coefficients"_s].toArray()[1].toObject()[u"t"_s].toDouble();
+    QVERIFY(nearRelative(minF[1].toObject()[u"f1"_s].toDouble(), t1 * t1, 1e-12));
+
+    const test::ProcessRun text = test::runCli(base + QStringList{u"--item"_s, u"item"_s});
+    QVERIFY2(text.exitCode == 0, text.err.constData());
+    QVERIFY(text.outText().contains(u"By participant (column 'participant')"_s));
+    QVERIFY(text.outText().contains(u"By item (column 'item')"_s));
+    QVERIFY(text.outText().contains(u"min F\u2032 (Clark 1973)"_s));
+    QVERIFY(text.outText().contains(u"not a mixed-effects model with crossed random effects"_s));
+    QVERIFY(text.outText().contains(u"w5 (no 'invalid')"_s));
+
+    const test::ProcessRun missing = test::runCli(base + QStringList{u"--item"_s, u"word"_s});
+    QCOMPARE(missing.exitCode, 2);
+    QVERIFY2(missing.errText().contains(u"no column 'word' for the item"_s), missing.err.constData());
+    QStringList noParticipant = base.mid(0, base.size() - 2);
+    const test::ProcessRun alone = test::runCli(noParticipant + QStringList{u"--item"_s, u"item"_s});
+    QCOMPARE(alone.exitCode, 2);
+    QVERIFY2(alone.errText().contains(u"--item needs --participant"_s), alone.err.constData());
+}
+
+QTEST_GUILESS_MAIN(TestItemFit)
+#include "TestItemFit.moc"
