@@ -36,12 +36,8 @@ int runAnalyze(const QStringList &args, Io &io)
     QCommandLineParser p;
     addSchemeOptions(p);
     p.addOption({u"json"_s, u"Print one JSON object instead of the report."_s});
-    if (QString e = parseArguments(p, u"analyze"_s, args); !e.isEmpty())
-        return badInput(io, u"analyze"_s, e);
-    if (p.isSet(u"help"_s)) {
-        io.out << p.helpText();
-        return kExitOk;
-    }
+    if (const auto done = parseOrHelp(p, u"analyze"_s, args, io))
+        return *done;
     auto study = studyFromOptions(p);
     if (!study)
         return badInput(io, u"analyze"_s, study.error());
@@ -65,12 +61,8 @@ int runDesign(const QStringList &args, Io &io)
     p.addOption({u"intercept-row"_s, u"The intercept's weights on the level means (default: the unweighted mean)."_s, u"h,h,h"_s});
     p.addOption({u"no-intercept"_s, u"No intercept: one row per coefficient, k rows for a full set."_s});
     p.addOption({u"json"_s, u"Print one JSON object instead of the report."_s});
-    if (QString e = parseArguments(p, u"design"_s, args); !e.isEmpty())
-        return badInput(io, u"design"_s, e);
-    if (p.isSet(u"help"_s)) {
-        io.out << p.helpText();
-        return kExitOk;
-    }
+    if (const auto done = parseOrHelp(p, u"design"_s, args, io))
+        return *done;
     if (!p.isSet(u"levels"_s) || !p.isSet(u"hypotheses"_s))
         return badInput(io, u"design"_s, u"give --levels and --hypotheses"_s);
     auto factor = factorFromOptions(p);

@@ -65,12 +65,8 @@ int runCompare(const QStringList &args, Io &io)
     p.addOption({u"with-spacing"_s, u"Level positions for the second coding's polynomial trends, or 'equal' for 1, 2, ..., k."_s, u"x,y,z"_s});
     p.addOption({u"with-integer"_s, u"The second coding's polynomial trends as smallest integers."_s});
     p.addOption({u"with-file"_s, u"The second coding from a scheme or design file with the same levels (or cells)."_s, u"other.json"_s});
-    if (QString e = parseArguments(p, u"compare"_s, args); !e.isEmpty())
-        return badInput(io, e);
-    if (p.isSet(u"help"_s)) {
-        io.out << p.helpText();
-        return kExitOk;
-    }
+    if (const auto done = parseOrHelp(p, u"compare"_s, args, io))
+        return *done;
     auto first = studyFromOptions(p);
     if (!first)
         return badInput(io, first.error());

@@ -57,19 +57,6 @@ int writeText(const QCommandLineParser &p, Io &io, const QString &text)
     return kExitOk;
 }
 
-// Parses the arguments; returns the exit code when that already ends the command (a bad
-// argument, or --help printed).
-std::optional<int> parseOrHelp(QCommandLineParser &p, const QStringList &args, Io &io)
-{
-    if (QString e = parseArguments(p, u"export"_s, args); !e.isEmpty())
-        return exportError(io, kExitBadInput, e);
-    if (p.isSet(u"help"_s)) {
-        io.out << p.helpText();
-        return kExitOk;
-    }
-    return std::nullopt;
-}
-
 void addOutputOption(QCommandLineParser &p)
 {
     p.addOption({{u"o"_s, u"output"_s}, u"Write to this file (replaced atomically) instead of standard output."_s, u"FILE"_s});
@@ -89,7 +76,7 @@ int runExportSummaryQuery(const QStringList &args, Io &io)
     p.addOption({u"weight"_s, u"A column of case weights (a row of weight w counts as w rows)."_s, u"COL"_s});
     addSummaryQueryOptions(p);
     addOutputOption(p);
-    if (const auto done = parseOrHelp(p, args, io))
+    if (const auto done = parseOrHelp(p, u"export"_s, args, io))
         return *done;
     QStringList factorColumns = p.values(u"factor"_s);
     if (p.isSet(u"file"_s) || p.isSet(u"levels"_s)) { // a scheme or design checks the factors' count
@@ -126,7 +113,7 @@ int runMatrixExport(const QStringList &args, Io &io)
     p.addOption({u"exact"_s, u"Write exact weights as fractions (-2/3) instead of decimals."_s});
     p.addOption({u"variable"_s, u"Variable name in code formats (made into a safe identifier)."_s, u"NAME"_s});
     addOutputOption(p);
-    if (const auto done = parseOrHelp(p, args, io))
+    if (const auto done = parseOrHelp(p, u"export"_s, args, io))
         return *done;
     if (!p.isSet(u"format"_s))
         return exportError(io, kExitBadInput, u"--format: missing; expected one of %1"_s.arg(formatIds()));

@@ -164,12 +164,8 @@ int runFit(const QStringList &args, Io &io)
     // Here --factor is the data column (it names the factor as well), so the scheme
     // options leave their own --factor out.
     addSchemeOptions(p, SchemeOptionSet::WithoutFactorName);
-    if (QString e = parseArguments(p, u"fit"_s, args); !e.isEmpty())
-        return badInput(io, e);
-    if (p.isSet(u"help"_s)) {
-        io.out << p.helpText();
-        return kExitOk;
-    }
+    if (const auto done = parseOrHelp(p, u"fit"_s, args, io))
+        return *done;
     auto arguments = dataArguments(p);
     if (!arguments)
         return badInput(io, arguments.error());

@@ -353,12 +353,8 @@ int runPower(const QStringList &args, Io &io)
     QCommandLineParser p;
     addSchemeOptions(p);
     addPowerOptions(p);
-    if (QString e = parseArguments(p, kCommand, args); !e.isEmpty())
-        return badInput(io, e);
-    if (p.isSet(u"help"_s)) {
-        io.out << p.helpText();
-        return kExitOk;
-    }
+    if (const auto done = parseOrHelp(p, kCommand, args, io))
+        return *done;
     // For a design file its cells act as the levels and its coding columns as the contrasts.
     std::optional<Design> design;
     auto loaded = schemeOrCellsFromOptions(p, u"power"_s, &design);

@@ -78,15 +78,19 @@ void addSchemeOptions(QCommandLineParser &p, SchemeOptionSet set)
     p.addOption({u"poly-weighted"_s, u"Polynomial trends orthogonal under the planned n."_s});
 }
 
-QString parseArguments(QCommandLineParser &p, const QString &command, const QStringList &args)
+std::optional<int> parseOrHelp(QCommandLineParser &p, const QString &command, const QStringList &args, Io &io)
 {
     p.setApplicationDescription(u"contrast-bench-cli %1"_s.arg(command));
     p.addHelpOption();
     if (!p.parse(QStringList{u"contrast-bench-cli %1"_s.arg(command)} + args))
-        return p.errorText();
+        return badInput(io, command, p.errorText());
     if (!p.positionalArguments().isEmpty())
-        return u"unexpected argument %1"_s.arg(quoted(p.positionalArguments().first()));
-    return {};
+        return badInput(io, command, u"unexpected argument %1"_s.arg(quoted(p.positionalArguments().first())));
+    if (p.isSet(u"help"_s)) {
+        io.out << p.helpText();
+        return kExitOk;
+    }
+    return std::nullopt;
 }
 
 Result<Study> studyFromOptions(const QCommandLineParser &p)

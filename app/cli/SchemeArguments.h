@@ -1,5 +1,6 @@
 #pragma once
 
+#include "app/cli/Commands.h"
 #include "core/model/Design.h"
 #include "core/files/StudyFile.h"
 #include "core/base/Result.h"
@@ -55,8 +56,10 @@ Result<Factor> factorFromOptions(const QCommandLineParser &parser);
 // One row of k weights from "w, w, w"; where names the argument ("--columns: column 2").
 Result<std::vector<Weight>> weightRowFromText(const QString &text, const Factor &factor, const QString &where);
 
-// Parses args (without program name and subcommand) into parser; on failure returns
-// the message. Adds --help handling: returns an empty Result error with helpRequested.
-QString parseArguments(QCommandLineParser &parser, const QString &command, const QStringList &args);
+// Parses a subcommand's args (without program name and subcommand word) into parser, with
+// --help added. Returns the exit code when that already ends the command: a bad argument
+// (kExitBadInput, "contrast-bench-cli COMMAND: message" on stderr) or --help (its text
+// printed, kExitOk); nothing when the command goes on. Every subcommand starts with it.
+std::optional<int> parseOrHelp(QCommandLineParser &parser, const QString &command, const QStringList &args, Io &io);
 
 } // namespace cb::cli

@@ -51,12 +51,8 @@ int runSheet(const QStringList &args, Io &io)
     p.addOption({u"format"_s, u"Output format (default: from the file's suffix): html, pdf."_s, u"html|pdf"_s});
     p.addOption({u"title"_s, u"The sheet's title (default: the study file's name)."_s, u"text"_s});
     p.addOption({u"date"_s, u"The date written on the sheet, as YYYY-MM-DD (default: today, UTC)."_s, u"YYYY-MM-DD"_s});
-    if (QString e = parseArguments(p, u"sheet"_s, args); !e.isEmpty())
-        return badInput(io, e);
-    if (p.isSet(u"help"_s)) {
-        io.out << p.helpText();
-        return kExitOk;
-    }
+    if (const auto done = parseOrHelp(p, u"sheet"_s, args, io))
+        return *done;
     if (!p.isSet(u"output"_s))
         return badInput(io, u"give -o FILE (.html or .pdf)"_s);
     const QString output = p.value(u"output"_s);

@@ -504,7 +504,9 @@ Result<FitResult> fitParticipants(const Scheme &scheme, const DataSummary &data,
     f.notes.prepend(u"by participant: %1 participants; each coefficient is tested on the participants' own contrast scores "
                     u"(one-sample t with P - 1 df, its own error term, no sphericity assumed)"_s.arg(participants));
     if (!f.incompleteParticipants.isEmpty())
-        f.notes << u"%1 participants lack a level and are left out of the tests that need it: %2"_s.arg(f.incompleteParticipants.size())
+        f.notes << (f.incompleteParticipants.size() == 1
+                        ? u"1 participant lacks a level and is left out of the tests that need it: %1"_s
+                        : u"%1 participants lack a level and are left out of the tests that need it: %2"_s.arg(f.incompleteParticipants.size()))
                        .arg(f.incompleteParticipants.join(u"; "_s));
     return fit;
 }

@@ -111,7 +111,7 @@ void TestItemFit::agreesWithScipy()
     QCOMPARE(byItem->byItem.participants, items); // counts items in the participants' role
     QCOMPARE(byItem->byItem.completeParticipants, items - 1);
     QCOMPARE(byItem->byItem.incompleteParticipants, QStringList{u"w5 (no 'invalid')"_s});
-    QVERIFY(byItem->byItem.notes.join(u" "_s).contains(u"items lack a level"_s));
+    QVERIFY(byItem->byItem.notes.join(u" "_s).contains(u"1 item lacks a level and is left out"_s));
     QVERIFY(!byItem->byItem.notes.join(u" "_s).contains(u"participant"_s));
 
     const QJsonObject request{{u"data"_s, path},
