@@ -1396,10 +1396,15 @@ private:
             }
             index = m_participants.insert(key);
             m_cells.emplace_back();
+            m_firstLines.emplace_back();
         }
         std::vector<RunningStats> &cells = m_cells[size_t(index)];
-        if (cells.size() <= size_t(m_lastLevel))
+        if (cells.size() <= size_t(m_lastLevel)) {
             cells.resize(size_t(m_lastLevel) + 1);
+            m_firstLines[size_t(index)].resize(size_t(m_lastLevel) + 1, 0);
+        }
+        if (m_firstLines[size_t(index)][size_t(m_lastLevel)] == 0)
+            m_firstLines[size_t(index)][size_t(m_lastLevel)] = line;
         cells[size_t(m_lastLevel)].add(m_lastY, m_lastWeight);
     }
 
@@ -1436,8 +1441,10 @@ private:
             const std::string &k = m_participants.key(i);
             m_out.participants << QString::fromUtf8(k.data(), qsizetype(k.size()));
             m_cells[i].resize(m_levels.size());
+            m_firstLines[i].resize(m_levels.size(), 0);
         }
         m_out.participantCells = std::move(m_cells);
+        m_out.participantFirstLines = std::move(m_firstLines);
     }
 
     const DataReadOptions &m_options;
@@ -1446,6 +1453,7 @@ private:
     std::string m_cell; // a design row's joined cell name
     LevelTable m_participants; // with a participant column
     std::vector<std::vector<RunningStats>> m_cells; // [participant][level]
+    std::vector<std::vector<qint64>> m_firstLines;  // [participant][level]
     int m_lastLevel = -1;
     double m_lastY = 0.0;
     double m_lastWeight = 1.0;

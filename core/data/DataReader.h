@@ -121,6 +121,7 @@ struct DataSummary
     // replicate rows of a cell are pooled, so their mean is the participant's cell mean).
     QStringList participants;
     std::vector<std::vector<RunningStats>> participantCells;
+    std::vector<std::vector<qint64>> participantFirstLines; // [participant][level]: line of its first row there, 0 for none
     qint64 bytes = 0;       // bytes read
     qint64 lines = 0;       // physical lines
     qint64 records = 0;     // data rows (header and blank lines excluded)
