@@ -150,6 +150,7 @@ Result<MixedFitResult> fitMixedParticipants(const Design &design, const DataSumm
     overall.completeParticipants = participants - int(incomplete.size());
     overall.f = overall.fP = overall.fDf1 = overall.fDf2 = kNaN;
     overall.omnibusHypothesis = u"no one test of all cells for a mixed design; see each within row's test of the groups"_s;
+    out.betweenDesign = *betweenPart ? designRows(**betweenPart) : Eigen::MatrixXd::Ones(1, 1);
     std::vector<double> pFamily;
     for (Eigen::Index r = 0; r < withinAnalysis.hypothesisValues.rows(); ++r) {
         MixedFitRow row;

@@ -39,6 +39,7 @@ struct MixedFitResult
     std::vector<MixedFitRow> rows;
     QStringList groups;
     QStringList withinCells;
+    Eigen::MatrixXd betweenDesign; // groups x p: the design rows the scores were fitted with
 };
 
 // Refused, naming the participant and the lines: a participant with rows in two groups. Also the
