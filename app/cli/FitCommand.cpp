@@ -5,6 +5,7 @@
 #include "app/database/DatabaseSource.h"
 
 #include "core/data/DataFit.h"
+#include "core/data/MixedFit.h"
 #include "core/data/DataReader.h"
 #include "core/data/ItemFit.h"
 #include "core/model/Design.h"
@@ -196,9 +197,16 @@ int runFit(const QStringList &args, Io &io)
     auto data = readData(p, *arguments, factorColumns);
     if (!data)
         return badInput(io, data.error());
-    if (design && p.isSet(u"participant"_s))
-        return badInput(io, u"--participant: the by-participant analysis of a design is not computed yet; give a one-factor "
-                            u"scheme measured within participants"_s);
+    if (design && p.isSet(u"participant"_s)) { // a mixed design, or a design of within factors only
+        auto mixed = fitMixedParticipants(*design, *data, arguments->fit, arguments->mapping);
+        if (!mixed)
+            return badInput(io, data->source + u": "_s + mixed.error());
+        if (p.isSet(u"json"_s))
+            io.out << QString::fromUtf8(QJsonDocument(mixedFitToJson(*mixed, *data)).toJson(QJsonDocument::Indented));
+        else
+            io.out << fitReport(*scheme, true, *data, mixed->overall);
+        return kExitOk;
+    }
     auto fit = p.isSet(u"participant"_s) ? fitParticipants(*scheme, *data, arguments->fit, arguments->mapping)
                                          : fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
     if (!fit) // named by the data it could not fit

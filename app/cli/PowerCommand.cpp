@@ -6,6 +6,7 @@
 #include "core/base/NumberText.h"
 #include "core/files/InputFile.h"
 #include "core/model/Design.h"
+#include "core/power/MixedPower.h"
 #include "core/power/Power.h"
 #include "core/report/TextTable.h"
 
@@ -122,7 +123,7 @@ QString readSpread(const QCommandLineParser &p, PowerSettings &s)
 }
 
 // Planned sizes: the scheme's (from --n or the file), or --ratios with --total.
-QString readSizes(const QCommandLineParser &p, const Scheme &scheme, PowerSettings &s)
+QString readSizes(const QCommandLineParser &p, const Scheme &scheme, bool within, PowerSettings &s)
 {
     const bool haveRatios = p.isSet(u"ratios"_s);
     const bool haveTotal = p.isSet(u"total"_s);
@@ -135,7 +136,7 @@ QString readSizes(const QCommandLineParser &p, const Scheme &scheme, PowerSettin
     }
     if (!haveTotal)
         return haveRatios            ? u"--ratios: give the total N with --total"_s
-               : scheme.factor.isWithin() ? u"give the number of participants with -n P"_s
+               : within ? u"give the number of participants with -n P (a mixed design: --total, split equally over the groups)"_s
                                           : u"give planned sizes per level with --n, or a total N with --total (and --ratios)"_s;
     auto total = singleNumber(p, u"total"_s);
     if (!total)
@@ -151,11 +152,11 @@ QString readSizes(const QCommandLineParser &p, const Scheme &scheme, PowerSettin
 }
 
 // Within participants: the correlation between a participant's values, one or a matrix.
-QString readCorrelation(const QCommandLineParser &p, const Scheme &scheme, PowerSettings &s)
+QString readCorrelation(const QCommandLineParser &p, bool within, PowerSettings &s)
 {
     const bool haveOne = p.isSet(u"correlation"_s);
     const bool haveMatrix = p.isSet(u"correlations"_s);
-    if (!scheme.factor.isWithin()) {
+    if (!within) {
         if (haveOne || haveMatrix)
             return u"--%1: a correlation is used only when the factor is measured within participants (--within, or "
                    u"\"measured\": \"within\" in the file)"_s.arg(haveOne ? u"correlation"_s : u"correlations"_s);
@@ -237,27 +238,28 @@ QString degrees(double df)
     return std::abs(df) < 1e15 ? QString::number(df, 'f', 2) : numberText(df);
 }
 
-QString sizesText(const SampleSize &s, bool within)
+// mixed: the sizes are participants per group of a mixed design.
+QString sizesText(const SampleSize &s, bool within, bool mixed = false)
 {
     if (!s.reachable)
         return u"not reached"_s;
-    if (within)
+    if (within && !mixed)
         return u"%1 participants"_s.arg(s.total);
     const bool equal = std::adjacent_find(s.perLevel.begin(), s.perLevel.end(), std::not_equal_to<>()) == s.perLevel.end();
     QStringList items;
     for (long long v : s.perLevel)
         items << QString::number(v);
-    const QString per = equal ? u"%1 per level"_s.arg(s.perLevel.front()) : items.join(u", "_s);
-    return u"%1 (N = %2)"_s.arg(per).arg(s.total);
+    const QString per = equal ? u"%1 per %2"_s.arg(s.perLevel.front()).arg(mixed ? u"group"_s : u"level"_s) : items.join(u", "_s);
+    return u"%1 (%2 = %3)"_s.arg(per, mixed ? u"participants"_s : u"N"_s).arg(s.total);
 }
 
-QString neededText(const ContrastPower &c, bool oneSided, bool within)
+QString neededText(const ContrastPower &c, bool oneSided, const PowerReport &r)
 {
     if (c.zeroEstimate)
         return u"none (estimate 0)"_s;
     if (oneSided && c.estimate < 0.0)
         return u"none (estimate < 0, one-sided)"_s;
-    return sizesText(c.required, within);
+    return sizesText(c.required, r.within, !r.groups.isEmpty());
 }
 
 QString sizesLine(const std::vector<double> &n)
@@ -304,7 +306,11 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
     } else {
         out += u"Common SD: %1\n"_s.arg(number(s.sd));
     }
-    if (r.within) {
+    if (!r.groups.isEmpty()) {
+        out += r.correlation ? u"Correlation between a participant's values in two within cells: %1\n"_s.arg(number(*r.correlation))
+                             : u"Correlations between within cells: the matrix given\n"_s;
+        out += u"Groups between participants: %1; participants: %2 in all\n"_s.arg(r.groups.join(u", "_s), number(r.plannedTotal));
+    } else if (r.within) {
         out += r.correlation ? u"Correlation between a participant's values at two levels: %1\n"_s.arg(number(*r.correlation))
                              : u"Correlations between levels: the matrix given\n"_s;
         out += u"Participants (each at every level): %1\n"_s.arg(number(r.plannedTotal));
@@ -321,12 +327,13 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
                      r.within ? u"participants for target"_s : u"n for target"_s});
     table.setAlign(7, TextTable::Align::Left);
     for (const ContrastPower &c : r.contrasts)
-        table.addRow({c.name, number(c.estimate), number(c.se), number(c.effectSize), number(c.noncentrality),
-                      degrees(c.df), number(c.power), neededText(c, r.oneSided, r.within)});
+        table.addRow({c.part.isEmpty() ? c.name : u"%1 [%2]"_s.arg(c.name, c.part), number(c.estimate), number(c.se),
+                      number(c.effectSize), number(c.noncentrality), degrees(c.df), number(c.power), neededText(c, r.oneSided, r)});
     out += u'\n' + table.text();
 
     const OmnibusPower &o = r.omnibus;
-    out += u"\nOmnibus %1 (df %2 and %3, alpha %4): f = %5, lambda = %6, power %7, %8 for target %9\n"_s
+    if (r.groups.isEmpty())
+        out += u"\nOmnibus %1 (df %2 and %3, alpha %4): f = %5, lambda = %6, power %7, %8 for target %9\n"_s
                .arg(o.hotelling ? u"Hotelling's T\u00b2 as F"_s : u"F-test"_s)
                .arg(o.df1)
                .arg(degrees(o.df2), number(o.alpha), number(o.effectSize), number(o.noncentrality), number(o.power),
@@ -361,21 +368,22 @@ int runPower(const QStringList &args, Io &io)
     if (!loaded)
         return badInput(io, loaded.error());
     Scheme &scheme = loaded.value();
+    // A design with a factor measured within participants: a mixed design (MixedPower.h).
+    const std::optional<MixedLayout> mixed = design && hasWithinFactor(*design) ? std::optional(mixedLayout(*design)) : std::nullopt;
+    const bool within = mixed || scheme.factor.isWithin();
     QStringList designNotes;
-    if (design)
+    if (design && !mixed)
         designNotes << u"a design of %1 cells: each cell is a group here (%2, the first factor varying slowest), and each "
                        "coding column of the design is a contrast over the cell means"_s
                            .arg(scheme.levelCount()).arg(scheme.factor.levels.join(u", "_s));
 
     PowerSettings s;
-    if (design && std::any_of(design->factors.begin(), design->factors.end(), [](const Scheme &f) { return f.factor.isWithin(); }))
-        return badInput(io, u"%1: power for a design with factors measured within participants is not computed yet; plan "
-                            u"a within factor on its own (one factor, --within)"_s.arg(inputLabel(p.value(u"file"_s))));
-    for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, s), readCorrelation(p, scheme, s),
-                             readTest(p, s)})
+    for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, within, s),
+                             readCorrelation(p, within, s), readTest(p, s)})
         if (!e.isEmpty())
             return badInput(io, e);
-    if (Problem e = validatePowerSettings(s, scheme.levelCount(), u"--"_s); !e.isEmpty())
+    if (Problem e = mixed ? validateMixedPowerSettings(s, *mixed, u"--"_s) : validatePowerSettings(s, scheme.levelCount(), u"--"_s);
+        !e.isEmpty())
         return badInput(io, e.message);
 
     useRatiosAsSizes(p, scheme);
@@ -383,7 +391,7 @@ int runPower(const QStringList &args, Io &io)
     auto rows = contrastRowsOf(analysis);
     if (!rows)
         return badInput(io, rows.error());
-    auto report = computePower(rows->rows, rows->names, s);
+    auto report = mixed ? computeMixedPower(rows->rows, rows->names, s, *mixed) : computePower(rows->rows, rows->names, s);
     if (!report)
         return badInput(io, report.error());
     report->notes = designNotes + report->notes;

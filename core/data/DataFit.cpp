@@ -390,6 +390,42 @@ Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const
 // ---------------------------------------------------------------------------
 // By participant
 
+ParticipantCells participantCells(const Scheme &scheme, const DataSummary &data, const LevelMapping &mapping)
+{
+    const int k = scheme.levelCount();
+    const int participants = int(data.participants.size());
+    ParticipantCells out;
+    out.means = Eigen::MatrixXd::Constant(participants, k, kNaN);
+    out.firstLines.assign(size_t(participants), std::vector<qint64>(size_t(k), 0));
+    auto matched = matchLevels(scheme.factor.levels, data.levels, mapping);
+    if (!matched)
+        return out;
+    // Data level -> scheme level.
+    std::vector<int> levelOf(data.levels.size(), -1);
+    for (int j = 0; j < k; ++j)
+        for (const QString &source : matched->sources[size_t(j)])
+            levelOf[size_t(data.levelIndex(source))] = j;
+    for (int p = 0; p < participants; ++p) {
+        std::vector<RunningStats> cells(static_cast<size_t>(k));
+        for (size_t d = 0; d < data.levels.size(); ++d) {
+            const int j = levelOf[d];
+            if (j < 0 || data.participantCells[size_t(p)][d].n <= 0)
+                continue;
+            cells[size_t(j)].merge(data.participantCells[size_t(p)][d]);
+            const qint64 line = size_t(p) < data.participantFirstLines.size() && d < data.participantFirstLines[size_t(p)].size()
+                                    ? data.participantFirstLines[size_t(p)][d]
+                                    : 0;
+            qint64 &first = out.firstLines[size_t(p)][size_t(j)];
+            if (line > 0 && (first == 0 || line < first))
+                first = line;
+        }
+        for (int j = 0; j < k; ++j)
+            if (cells[size_t(j)].n > 0)
+                out.means(p, j) = cells[size_t(j)].mean;
+    }
+    return out;
+}
+
 Result<FitResult> fitParticipants(const Scheme &scheme, const DataSummary &data, const FitOptions &options, const LevelMapping &mapping)
 {
     using R = Result<FitResult>;
@@ -400,32 +436,19 @@ Result<FitResult> fitParticipants(const Scheme &scheme, const DataSummary &data,
     if (!fit)
         return fit;
     const Analysis analysis = analyze(scheme);
-    auto matched = matchLevels(scheme.factor.levels, data.levels, mapping);
+    const ParticipantCells cellsOf = participantCells(scheme, data, mapping);
     const int k = scheme.levelCount();
-    // Data level -> scheme level.
-    std::vector<int> levelOf(data.levels.size(), -1);
-    for (int j = 0; j < k; ++j)
-        for (const QString &source : matched->sources[size_t(j)])
-            levelOf[size_t(data.levelIndex(source))] = j;
-
     const int participants = int(data.participants.size());
-    Eigen::MatrixXd y = Eigen::MatrixXd::Constant(participants, k, kNaN); // cell means
+    const Eigen::MatrixXd &y = cellsOf.means;
     FitResult &f = fit.value();
     f.byParticipant = true;
     f.participants = participants;
     std::vector<bool> complete(size_t(participants), true);
     for (int p = 0; p < participants; ++p) {
-        std::vector<RunningStats> cells(static_cast<size_t>(k));
-        for (size_t d = 0; d < data.levels.size(); ++d)
-            if (levelOf[d] >= 0 && data.participantCells[size_t(p)][d].n > 0)
-                cells[size_t(levelOf[d])].merge(data.participantCells[size_t(p)][d]);
         QStringList lacks;
-        for (int j = 0; j < k; ++j) {
-            if (cells[size_t(j)].n > 0)
-                y(p, j) = cells[size_t(j)].mean;
-            else
+        for (int j = 0; j < k; ++j)
+            if (std::isnan(y(p, j)))
                 lacks << quoted(scheme.factor.levels[j]);
-        }
         if (lacks.size() >= k - 1)
             return R::failure(u"participant %1 has values at one level only; measured within participants, each gives a value "
                               u"at every level (is the factor measured between participants?)"_s.arg(quoted(data.participants[p])));

@@ -134,6 +134,16 @@ Eigen::MatrixXd designRows(const Scheme &scheme);
 Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const FitOptions &options = {},
                             const LevelMapping &mapping = {});
 
+// Each participant's cell means in the scheme's level order (participants x k, NaN where it has no
+// row at a level; replicate rows averaged; the data's levels matched to the scheme with the
+// mapping, which fitScheme has checked), and the line of its first row at each level (0: none).
+struct ParticipantCells
+{
+    Eigen::MatrixXd means;
+    std::vector<std::vector<qint64>> firstLines;
+};
+ParticipantCells participantCells(const Scheme &scheme, const DataSummary &data, const LevelMapping &mapping = {});
+
 // The by-participant analysis of a factor measured within participants, from data read with a
 // participant column: each participant's cell means (replicates averaged) in the scheme's level
 // order; each coefficient's hypothesis row h applied to every participant with the levels h

@@ -1403,8 +1403,9 @@ private:
         const char16_t *role; // "participant", "item": the word in messages
         int column = -1;
         LevelTable names;
-        std::vector<qint64> firstLines;
+        std::vector<qint64> firstLines;                 // [unit]: the line it first appears on
         std::vector<std::vector<RunningStats>> cells; // [unit][level]
+        std::vector<std::vector<qint64>> cellLines;   // [unit][level]: the line of its first row there, 0 for none
     };
 
     // The row just added (m_lastLevel, m_lastY, m_lastWeight), into its unit's cell (its participant's, its item's).
@@ -1426,11 +1427,17 @@ private:
             }
             index = units.names.insert(key);
             units.cells.emplace_back();
+            units.cellLines.emplace_back();
             units.firstLines.push_back(line);
         }
         std::vector<RunningStats> &cells = units.cells[size_t(index)];
-        if (cells.size() <= size_t(m_lastLevel))
+        std::vector<qint64> &lines = units.cellLines[size_t(index)];
+        if (cells.size() <= size_t(m_lastLevel)) {
             cells.resize(size_t(m_lastLevel) + 1);
+            lines.resize(size_t(m_lastLevel) + 1, 0);
+        }
+        if (lines[size_t(m_lastLevel)] == 0)
+            lines[size_t(m_lastLevel)] = line;
         cells[size_t(m_lastLevel)].add(m_lastY, m_lastWeight);
     }
 
@@ -1442,6 +1449,7 @@ private:
             const std::string &k = units.names.key(i);
             names << QString::fromUtf8(k.data(), qsizetype(k.size()));
             units.cells[i].resize(m_levels.size());
+            units.cellLines[i].resize(m_levels.size(), 0);
         }
         return names;
     }
@@ -1477,6 +1485,7 @@ private:
         }
         m_out.participants = finishUnits(m_participants);
         m_out.participantCells = std::move(m_participants.cells);
+        m_out.participantFirstLines = std::move(m_participants.cellLines);
         m_out.items = finishUnits(m_items);
         m_out.itemCells = std::move(m_items.cells);
         m_out.itemLines = std::move(m_items.firstLines);

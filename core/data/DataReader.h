@@ -131,6 +131,7 @@ struct DataSummary
     QStringList items;
     std::vector<std::vector<RunningStats>> itemCells;
     std::vector<qint64> itemLines;
+    std::vector<std::vector<qint64>> participantFirstLines; // [participant][level]: line of its first row there, 0 for none
     qint64 bytes = 0;       // bytes read
     qint64 lines = 0;       // physical lines
     qint64 records = 0;     // data rows (header and blank lines excluded)

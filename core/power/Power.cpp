@@ -413,6 +413,17 @@ Eigen::MatrixXd withinCovariance(const PowerSettings &s, int levelCount)
     return sd.asDiagonal() * r * sd.asDiagonal();
 }
 
+SampleSize smallestSampleSize(const std::function<double(const std::vector<double> &)> &powerAt,
+                              const std::vector<double> &ratios, double target, long long least)
+{
+    return searchSampleSize(powerAt, ratios, target, least);
+}
+
+QString unreachedNote(const SampleSize &size, double target, bool within)
+{
+    return unreachableNote(size, target, within);
+}
+
 Result<Eigen::MatrixXd> parseCorrelationMatrix(const QString &text, const QString &where)
 {
     using R = Result<Eigen::MatrixXd>;
@@ -952,6 +963,9 @@ QJsonObject powerReportToJson(const PowerReport &report)
     root[u"welch"_s] = report.welch;
     root[u"measured"_s] = measureId(report.within ? Measure::Within : Measure::Between);
     root[u"correlation"_s] = report.correlation ? QJsonValue(*report.correlation) : QJsonValue(QJsonValue::Null);
+    const bool perParticipant = report.within && report.groups.isEmpty(); // one number of participants
+    if (!report.groups.isEmpty())
+        root[u"groups"_s] = QJsonArray::fromStringList(report.groups);
 
     QJsonArray contrasts;
     for (const ContrastPower &c : report.contrasts) {
@@ -961,7 +975,9 @@ QJsonObject powerReportToJson(const PowerReport &report)
         putNumbers(o, {{u"estimate", c.estimate}, {u"se", c.se}, {u"effect_size", c.effectSize},
                        {u"noncentrality", c.noncentrality}, {u"df", c.df}, {u"alpha", c.alpha}, {u"power", c.power}});
         o[u"welch"_s] = c.welch;
-        putSampleSize(o, c.required, report.within);
+        putSampleSize(o, c.required, perParticipant);
+        if (!c.part.isEmpty())
+            o[u"part"_s] = c.part;
         o[u"fewer_than_omnibus"_s] = c.fewerThanOmnibus;
         o[u"notes"_s] = QJsonArray::fromStringList(c.notes);
         contrasts.append(o);
@@ -970,12 +986,12 @@ QJsonObject powerReportToJson(const PowerReport &report)
 
     const OmnibusPower &om = report.omnibus;
     QJsonObject o;
-    o[u"test"_s] = om.hotelling ? u"hotelling"_s : u"anova"_s;
+    o[u"test"_s] = !report.groups.isEmpty() ? u"none"_s : om.hotelling ? u"hotelling"_s : u"anova"_s;
     o[u"df1"_s] = om.df1;
     putNumbers(o, {{u"df2", om.df2}, {u"effect_size", om.effectSize}, {u"noncentrality", om.noncentrality},
                    {u"alpha", om.alpha}, {u"power", om.power}, {u"sd", om.sd}});
     o[u"pooled_from_level_sds"_s] = om.pooledFromLevelSds;
-    putSampleSize(o, om.required, report.within);
+    putSampleSize(o, om.required, perParticipant);
     o[u"notes"_s] = QJsonArray::fromStringList(om.notes);
     root[u"omnibus"_s] = o;
 

@@ -10,6 +10,7 @@
 #include <QString>
 #include <QStringList>
 
+#include <functional>
 #include <limits>
 #include <optional>
 #include <vector>
@@ -77,6 +78,13 @@ struct SampleSize
     double power = std::numeric_limits<double>::quiet_NaN(); // power at perLevel
 };
 
+// The smallest sizes from groupSizesFor(t, ratios), t from least up to kPowerSearchCap, at which
+// powerAt(sizes) reaches target (power grows with t); the search computePower uses. When it is
+// not reached, unreachedNote says why.
+SampleSize smallestSampleSize(const std::function<double(const std::vector<double> &)> &powerAt,
+                              const std::vector<double> &ratios, double target, long long least = 2);
+QString unreachedNote(const SampleSize &size, double target, bool within);
+
 // The power of one planned contrast (one hypothesis row h).
 struct ContrastPower
 {
@@ -96,6 +104,7 @@ struct ContrastPower
     SampleSize required;           // smallest sizes reaching the target; not searched when psi is 0, or negative one-sided
     bool zeroEstimate = false;     // psi is 0: power equals alpha at every n
     bool fewerThanOmnibus = false; // reaches the target with a smaller total than the omnibus test
+    QString part;                  // mixed design (MixedPower.h): "between", "within", "between × within"; else empty
     QStringList notes;
 };
 
@@ -123,6 +132,7 @@ struct PowerReport
 {
     int levelCount = 0;
     bool within = false;          // sizes count participants (every one at every level)
+    QStringList groups;           // mixed design (MixedPower.h): the between groups; sizes are participants per group
     std::optional<double> correlation; // within: the common correlation (none with a full matrix)
     std::vector<double> plannedN; // the planned sizes used, k values (within: P at each level)
     double plannedTotal = 0.0;
@@ -212,6 +222,7 @@ QString withinExplanation(const PowerReport &report);
 //  "omnibus": {"test" ("anova"; within: "hotelling"), "df1", "df2", "effect_size", "noncentrality", "alpha", "power", "sd", "n_required",
 //              "n_required_total", "reachable", "notes"},
 //  "measured" ("between" or "within"), "correlation" (within: the common one; null with a full matrix),
+//  mixed design: "groups" (names), each contrast's "part", n_required per group, omnibus "test" "none",
 //  "notes", "cautions"}
 QJsonObject powerReportToJson(const PowerReport &report);
 

@@ -101,6 +101,7 @@ private slots:
         QTest::newRow("irrigation") << u"irrigation"_s;
         QTest::newRow("roast") << u"roast"_s;
         QTest::newRow("hedgerow (a design)") << u"hedgerow"_s;
+        QTest::newRow("warmup (a mixed design)") << u"warmup"_s;
     }
     void pdfSheetHasEveryLevelAndHypothesis()
     {

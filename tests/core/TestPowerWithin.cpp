@@ -18,6 +18,8 @@
 
 using namespace Qt::StringLiterals;
 using namespace cb;
+using test::matrixJson;
+using test::numbersJson;
 
 Q_DECLARE_METATYPE(cb::PowerSettings)
 
@@ -30,25 +32,7 @@ Eigen::MatrixXd commonCorrelation(int k, double r)
     return m;
 }
 
-QJsonArray matrixJson(const Eigen::MatrixXd &m)
-{
-    QJsonArray rows;
-    for (Eigen::Index i = 0; i < m.rows(); ++i) {
-        QJsonArray row;
-        for (Eigen::Index j = 0; j < m.cols(); ++j)
-            row.append(m(i, j));
-        rows.append(row);
-    }
-    return rows;
-}
 
-QJsonArray numbersJson(const std::vector<double> &v)
-{
-    QJsonArray a;
-    for (double x : v)
-        a.append(x);
-    return a;
-}
 
 bool near(double a, double b, double tolerance)
 {

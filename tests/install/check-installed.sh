@@ -29,7 +29,7 @@ version=$("$cli" --version) || fail "$cli --version failed"
 [[ $version =~ ^contrast-bench-cli\ [0-9]+\.[0-9]+\.[0-9]+$ ]] || fail "--version printed '$version'"
 report=$("$cli" analyze --file "$share/contrast-bench/demos/irrigation.json") || fail "analyze --file on the installed demo failed"
 grep -q "What each coefficient estimates" <<<"$report" || fail "analyze --file printed no hypotheses"
-for demo in irrigation roast onboarding hedgerow; do
+for demo in irrigation roast onboarding hedgerow warmup; do
   "$cli" analyze --file "$share/contrast-bench/demos/$demo.json" --json >/dev/null || fail "analyze --file $demo.json failed"
 done
 

@@ -2,7 +2,10 @@
 // Helpers shared by the data-reading and fitting tests: running the NumPy/pandas
 // reference scripts in tests/python and writing scratch files.
 
+#include <Eigen/Dense>
+
 #include <QByteArray>
+#include <QJsonArray>
 #include <QFile>
 #include <QJsonDocument>
 #include <QJsonObject>
@@ -10,6 +13,8 @@
 #include <QString>
 #include <QStringList>
 #include <QTemporaryDir>
+
+#include <vector>
 
 namespace cb::test {
 
@@ -31,6 +36,27 @@ inline QJsonObject runPython(const QString &script, const QStringList &args, con
     if (process.exitCode() != 0 || !doc.isObject())
         return {{QStringLiteral("error"), QString::fromUtf8(process.readAllStandardError() + out)}};
     return doc.object();
+}
+
+// Numbers and matrices as JSON arrays, for the reference scripts' input.
+inline QJsonArray numbersJson(const std::vector<double> &v)
+{
+    QJsonArray a;
+    for (double x : v)
+        a.append(x);
+    return a;
+}
+
+inline QJsonArray matrixJson(const Eigen::MatrixXd &m)
+{
+    QJsonArray rows;
+    for (Eigen::Index i = 0; i < m.rows(); ++i) {
+        QJsonArray row;
+        for (Eigen::Index j = 0; j < m.cols(); ++j)
+            row.append(m(i, j));
+        rows.append(row);
+    }
+    return rows;
 }
 
 inline bool writeFile(const QString &path, const QByteArray &bytes)

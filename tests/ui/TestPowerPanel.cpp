@@ -53,6 +53,7 @@ private slots:
     void fullCorrelationMatrixTypedOrPasted_data();
     void fullCorrelationMatrixTypedOrPasted();
     void fullCorrelationMatrixGivesCoresPower();
+    void mixedDesignGivesEachColumnsPartAndGroups();
 };
 
 void TestPowerPanel::tableShowsCorePower_data()
@@ -284,13 +285,37 @@ void TestPowerPanel::withinFactorAsksForACorrelationAndCountsParticipants()
     QVERIFY(panel.findChild<QLabel *>(u"powerCautions"_s)->text().contains(u"correlation between a participant's values"_s));
     QCOMPARE(panel.chart()->xTitle(), u"participants"_s);
 
-    // A design with a within factor is not planned as separate groups: refused with the reason.
+    // A design with a within factor is a mixed design: each column's power, participants per group.
     Study study = withFactorAdded(doc.study()).take();
     doc.editStudy(settled(study), u"add a factor"_s);
     QVERIFY(doc.isDesign());
     panel.recompute();
-    QVERIFY(!panel.report());
-    QVERIFY(panel.findChild<QLabel *>(u"powerMessage"_s)->text().contains(u"measured within participants is not computed yet"_s));
+    QVERIFY(!panel.findChild<QLabel *>(u"powerMessage"_s)->text().contains(u"not computed yet"_s)); // no longer refused
+}
+
+void TestPowerPanel::mixedDesignGivesEachColumnsPartAndGroups()
+{
+    // The warmup demo: 2 routines (12 and 10 singers) x 3 vowels within singers. With SD 6 and a
+    // correlation of 0.6 the routine column's SE is 2.2 and the 'ee vs ah' column needs 12 and 10
+    // singers (both derived in TestPowerMixed::handDerivedWarmupFigures, SciPy power 0.8257).
+    Document doc;
+    doc.reset(loadDemoStudy(u"warmup"_s).take(), {});
+    PowerPanel panel(&doc);
+    panel.setExpectedTexts({u"10"_s, u"14"_s, u"12"_s, u"8"_s, u"11"_s, u"9"_s});
+    panel.sdEdit()->setText(u"6"_s);
+    panel.correlationEdit()->setText(u"0.6"_s);
+    panel.recompute();
+    QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
+    QCOMPARE(panel.report()->groups, (QStringList{u"humming"_s, u"lip trills"_s}));
+    QVERIFY(!panel.findChild<QLabel *>(u"correlationCaution"_s)->isHidden());
+    const QAbstractItemModel *results = panel.resultTable()->model();
+    QCOMPARE(results->rowCount(), 5); // the five columns, no omnibus row
+    QCOMPARE(results->headerData(PowerPanel::NeededColumn, Qt::Horizontal).toString(), u"Participants per group for target"_s);
+    QCOMPARE(results->index(0, PowerPanel::TestColumn).data().toString(), u"lip trills vs humming [between]"_s);
+    QCOMPARE(results->index(1, PowerPanel::NeededColumn).data().toString(), u"12, 10"_s);
+    QCOMPARE(results->index(3, PowerPanel::TestColumn).data().toString(), u"lip trills vs humming \u00d7 ee vs ah [between \u00d7 within]"_s);
+    QCOMPARE(panel.chart()->xTitle(), u"smallest group"_s);
+    QVERIFY(renderPanel(panel, QSize(1500, 700), u"power-mixed"_s));
 }
 
 namespace {

@@ -3,6 +3,7 @@
 
 #include "core/base/NumberText.h"
 #include "core/base/Weight.h"
+#include "core/data/MixedFit.h"
 #include "core/report/FitReport.h"
 #include "core/report/ItemReport.h"
 
@@ -698,9 +699,10 @@ void DataPanel::refit()
     Result<FitResult> fit = m_document->isDesign() && fitTarget().levelCount() == 0
         ? Result<FitResult>::failure(tr("the design cannot be fitted: %1")
                                          .arg(designFindings.empty() ? tr("it has no cells") : designFindings.front().message))
-        : m_data->participantIndex >= 0 && m_document->isDesign()
-        ? Result<FitResult>::failure(tr("the by-participant check of a design is not computed yet; choose no participant "
-                                        "column, or open a single factor measured within participants"))
+        : m_data->participantIndex >= 0 && m_document->isDesign() ? [&] { // a mixed design (core/data/MixedFit.h)
+              auto mixed = fitMixedParticipants(m_document->design(), *m_data, options, mapping);
+              return mixed ? Result<FitResult>(std::move(mixed->overall)) : Result<FitResult>::failure(mixed.error());
+          }()
         : m_data->participantIndex >= 0 ? fitParticipants(fitTarget(), *m_data, options, mapping)
                                         : fitScheme(fitTarget(), *m_data, options, mapping);
     if (!fit) {

@@ -2,6 +2,7 @@
 #include "ui/common/WrapLabel.h"
 
 #include "core/base/NumberText.h"
+#include "core/power/MixedPower.h"
 #include "ui/document/Document.h"
 #include "ui/common/CellTable.h"
 #include "ui/common/Look.h"
@@ -355,7 +356,12 @@ const Analysis &PowerPanel::analysis() const
 
 bool PowerPanel::within() const
 {
-    return factor().isWithin();
+    return mixed() || factor().isWithin();
+}
+
+bool PowerPanel::mixed() const
+{
+    return m_document->isDesign() && hasWithinFactor(m_document->design());
 }
 
 void PowerPanel::followDocument()
@@ -370,10 +376,12 @@ void PowerPanel::followDocument()
     m_chart->setMinimumWidth(isWithin ? 160 : 0);
     updateCorrelationRows();
     m_totalLabel->setText(isWithin ? tr("Participants:") : tr("Total N:"));
-    m_chart->setAxisTitles(isWithin ? tr("participants") : tr("size of the smallest group"), tr("power"));
+    m_chart->setAxisTitles(mixed() ? tr("smallest group") : isWithin ? tr("participants") : tr("size of the smallest group"),
+                           tr("power"));
     m_cautions->setText(u"<b>%1</b><ul style='margin-left:-20px'><li>%2</li></ul>"_s.arg(
         tr("Read with care"), powerCautions(isWithin).join(u"</li><li>"_s)));
-    m_results->setHeaders({tr("Test"), tr("Power at plan"), isWithin ? tr("Participants for target") : tr("n/level for target"),
+    m_results->setHeaders({tr("Test"), tr("Power at plan"),
+                           mixed() ? tr("Participants per group for target") : isWithin ? tr("Participants for target") : tr("n/level for target"),
                            isWithin ? tr("Participants") : tr("Total N"), tr("Estimate \u03c8"), tr("SE"), tr("Std. eff."), tr("df"),
                            isWithin ? tr("vs Hotelling") : tr("vs F test")});
     if (!m_sizeSourceChosen) {
@@ -607,7 +615,8 @@ Result<PowerSettings> PowerPanel::settings() const
     s.target = *target;
     s.oneSided = m_sided->currentIndex() == 1;
     s.adjustment = Adjustment(m_adjustment->currentData().toInt());
-    if (Problem problem = validatePowerSettings(s, k); !problem.isEmpty())
+    if (Problem problem = mixed() ? validateMixedPowerSettings(s, mixedLayout(m_document->design())) : validatePowerSettings(s, k);
+        !problem.isEmpty())
         return R::failure(std::move(problem));
     return s;
 }
@@ -643,19 +652,14 @@ void PowerPanel::recompute()
         m_withinWhy->hide();
         m_chart->clear(tr("The power curves appear once every input is valid."));
     };
-    const auto &factors = m_document->design().factors;
-    if (m_document->isDesign()
-        && std::any_of(factors.begin(), factors.end(), [](const Scheme &f) { return f.factor.isWithin(); }))
-        return fail(Problem{tr("power for a design with factors measured within participants is not computed yet; plan a "
-                               "within factor on its own (a one-factor study)"),
-                            {}});
     const Result<ContrastRows> rows = contrastRowsOf(analysis());
     if (!rows)
         return fail(rows.problem());
     const Result<PowerSettings> s = settings();
     if (!s)
         return fail(s.problem());
-    const Result<PowerReport> report = computePower(rows->rows, rows->names, *s);
+    const Result<PowerReport> report = mixed() ? computeMixedPower(rows->rows, rows->names, *s, mixedLayout(m_document->design()))
+                                               : computePower(rows->rows, rows->names, *s);
     if (!report)
         return fail(report.problem());
     showMessages({});
@@ -679,12 +683,12 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
     table.reserve(size_t(m) + 1);
     for (int i = 0; i < m; ++i) {
         const ContrastPower &c = report.contrasts[size_t(i)];
-        TableCell test = cell(c.name, false);
+        TableCell test = cell(c.part.isEmpty() ? c.name : u"%1 [%2]"_s.arg(c.name, c.part), false);
         test.toolTip = c.notes.join(u"\n"_s);
         TableCell versus = cell(c.fewerThanOmnibus ? look::mark(look::State::Good) + tr(" needs fewer") : QString(), false);
         if (c.fewerThanOmnibus)
             versus.ink = look::ink(look::State::Good);
-        table.push_back({test, powerCell(c.power), cell(c.zeroEstimate ? tr("\u2014 (\u03c8 = 0)") : sizesText(c.required, report.within)),
+        table.push_back({test, powerCell(c.power), cell(c.zeroEstimate ? tr("\u2014 (\u03c8 = 0)") : sizesText(c.required, report.within && report.groups.isEmpty())),
                          cell(c.required.reachable ? QString::number(c.required.total) : dash()), cell(number(c.estimate)),
                          cell(number(c.se)), cell(number(c.effectSize, 3)),
                          cell(c.welch ? QString::number(c.df, 'f', 1) : number(c.df, 6)), versus});
@@ -701,7 +705,8 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
                                    cell({}, false)};
     for (TableCell &c : omnibus)
         c.italic = true;
-    table.push_back(std::move(omnibus));
+    if (report.groups.isEmpty()) // a mixed design has no one test of all cells
+        table.push_back(std::move(omnibus));
     m_results->setRows(std::move(table));
     if (o.required.reachable)
         curveUpTo = std::max(curveUpTo, *std::min_element(o.required.perLevel.begin(), o.required.perLevel.end()));
@@ -712,7 +717,7 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
         for (const QString &n : c.notes)
             notes << c.name + u": "_s + n;
     for (const QString &n : o.notes)
-        notes << (report.within ? tr("Hotelling test: ") : tr("F test: ")) + n;
+        notes << (!report.groups.isEmpty() ? QString() : report.within ? tr("Hotelling test: ") : tr("F test: ")) + n;
     m_notes->setText(notes.join(u"\n"_s));
     const QString why = withinExplanation(report);
     m_withinWhy->setText(why);
@@ -721,8 +726,10 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
     // Curves up to a little past the largest size needed among the tests.
     std::vector<SmallChart::Line> lines;
     const std::vector<long long> sizes = powerCurveSizes(std::min<long long>(curveUpTo + curveUpTo / 4 + 2, 100'000));
-    for (int i = -1; i < m; ++i) {
-        const Result<std::vector<double>> curve = powerCurve(rows.rows, i, settings, sizes);
+    const bool isMixed = !report.groups.isEmpty();
+    for (int i = isMixed ? 0 : -1; i < m; ++i) {
+        const Result<std::vector<double>> curve = isMixed ? mixedPowerCurve(rows.rows, i, settings, mixedLayout(m_document->design()), sizes)
+                                                          : powerCurve(rows.rows, i, settings, sizes);
         if (!curve)
             continue;
         SmallChart::Line line;

@@ -108,7 +108,8 @@ private:
     void followDocument();
     const Factor &factor() const;     // the scheme's factor, or the design's cells
     const Analysis &analysis() const; // the scheme's analysis, or the design's over the cells
-    bool within() const;              // the factor is measured within participants
+    bool within() const;              // the factor is measured within participants (or the design has such a factor)
+    bool mixed() const;               // a design with a factor measured within participants (core/power/MixedPower.h)
     bool differences() const;
     void showInputs();
     void inputEdited(int row, int column, const QString &text);

@@ -20,6 +20,8 @@ QList<DemoStudy> demoStudies()
         {u"roast"_s, tr("Roast tasting panel: trends over unevenly spaced temperatures"), u":/demos/roast.json"_s},
         {u"onboarding"_s, tr("Onboarding flows: one control, three variants, very unequal groups"), u":/demos/onboarding.json"_s},
         {u"hedgerow"_s, tr("Field margins \u00d7 mowing: a 3 \u00d7 2 crossed design with uneven plots"), u":/demos/hedgerow.json"_s},
+        {u"warmup"_s, tr("Choir warm-up: 2 routines between singers \u00d7 3 vowels within singers (a mixed design)"),
+         u":/demos/warmup.json"_s},
     };
     const QString folder = installedDemoFolder();
     if (folder.isEmpty())

@@ -1,0 +1,329 @@
+#include "core/power/MixedPower.h"
+
+#include "core/base/NumberText.h"
+#include "core/base/Weight.h"
+
+#include <Eigen/SVD>
+
+#include <algorithm>
+#include <cmath>
+#include <numeric>
+#include <tuple>
+
+using namespace Qt::StringLiterals;
+
+namespace cb {
+
+namespace {
+
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+
+// The hypothesis row as groups x within cells.
+Eigen::MatrixXd byGroup(const Eigen::VectorXd &h, const MixedLayout &layout)
+{
+    Eigen::MatrixXd m = Eigen::MatrixXd::Zero(layout.groups(), layout.withinCells());
+    for (Eigen::Index cell = 0; cell < h.size(); ++cell)
+        m(layout.groupOf[size_t(cell)], layout.withinOf[size_t(cell)]) = h[cell];
+    return m;
+}
+
+// What the power at any group sizes needs: each group's covariance over the within cells.
+struct MixedModel
+{
+    MixedModel(const PowerSettings &s, const MixedLayout &l) : settings(s), layout(l)
+    {
+        const int w = l.withinCells();
+        Eigen::MatrixXd r = s.correlations;
+        if (r.size() == 0) {
+            r = Eigen::MatrixXd::Constant(w, w, s.correlation);
+            r.diagonal().setOnes();
+        }
+        sigma.assign(size_t(l.groups()), Eigen::MatrixXd());
+        for (int g = 0; g < l.groups(); ++g) {
+            Eigen::VectorXd sd = Eigen::VectorXd::Constant(w, s.sd);
+            if (s.perLevelSds())
+                for (size_t cell = 0; cell < l.groupOf.size(); ++cell)
+                    if (l.groupOf[cell] == g)
+                        sd[l.withinOf[cell]] = s.sds[cell];
+            sigma[size_t(g)] = sd.asDiagonal() * r * sd.asDiagonal();
+        }
+    }
+
+    // Estimate, SE, df and power of hypothesis row h at participants per group n.
+    struct Values
+    {
+        double estimate = 0.0, se = 0.0, df = 0.0, noncentrality = 0.0, power = kNaN;
+    };
+    Values at(const Eigen::VectorXd &h, const std::vector<double> &n, double alpha) const
+    {
+        Values v;
+        double scale = 0.0;
+        for (Eigen::Index i = 0; i < h.size(); ++i) {
+            v.estimate += h[i] * settings.means[size_t(i)];
+            scale += std::abs(h[i] * settings.means[size_t(i)]);
+        }
+        if (std::abs(v.estimate) <= 1e-12 * scale)
+            v.estimate = 0.0;
+        const Eigen::MatrixXd hg = byGroup(h, layout);
+        double var = 0.0;
+        for (int g = 0; g < layout.groups(); ++g)
+            var += hg.row(g).dot(sigma[size_t(g)] * hg.row(g).transpose()) / n[size_t(g)];
+        v.se = std::sqrt(var);
+        v.df = std::accumulate(n.begin(), n.end(), 0.0) - layout.groups();
+        v.noncentrality = v.estimate == 0.0 ? 0.0 : v.estimate / v.se;
+        v.power = tTestPower(v.noncentrality, v.df, alpha, settings.oneSided);
+        return v;
+    }
+
+    const PowerSettings &settings;
+    const MixedLayout &layout;
+    std::vector<Eigen::MatrixXd> sigma;
+};
+
+Problem problem(const QString &key, QString message)
+{
+    return Problem{std::move(message), key};
+}
+
+Problem checkRows(const Eigen::MatrixXd &rows, const PowerSettings &s, const MixedLayout &layout)
+{
+    if (Problem p = validateMixedPowerSettings(s, layout); !p.isEmpty())
+        return p;
+    if (rows.cols() != Eigen::Index(layout.groupOf.size()))
+        return problem(u"contrasts"_s, u"contrasts: %1 weights per row for %2 cells"_s.arg(rows.cols()).arg(layout.groupOf.size()));
+    for (Eigen::Index r = 0; r < rows.rows(); ++r)
+        if (!rows.row(r).allFinite() || (rows.row(r).array() == 0.0).all())
+            return problem(u"contrasts"_s, u"contrast %1: its weights are not finite numbers, or all 0"_s.arg(r + 1));
+    return {};
+}
+
+} // namespace
+
+bool hasWithinFactor(const Design &design)
+{
+    return std::any_of(design.factors.begin(), design.factors.end(), [](const Scheme &f) { return f.factor.isWithin(); });
+}
+
+MixedLayout mixedLayout(const Design &design)
+{
+    MixedLayout out;
+    const int cells = design.cellCount();
+    out.groupOf.resize(size_t(cells));
+    out.withinOf.resize(size_t(cells));
+    for (int cell = 0; cell < cells; ++cell) {
+        const std::vector<int> levels = cellLevels(design, cell);
+        int group = 0;
+        int within = 0;
+        QStringList groupName;
+        QStringList withinName;
+        for (size_t f = 0; f < design.factors.size(); ++f) {
+            const Factor &factor = design.factors[f].factor;
+            int &index = factor.isWithin() ? within : group;
+            index = index * factor.levelCount() + levels[f];
+            (factor.isWithin() ? withinName : groupName) << factor.levels[levels[f]];
+        }
+        out.groupOf[size_t(cell)] = group;
+        out.withinOf[size_t(cell)] = within;
+        const QString g = groupName.isEmpty() ? u"all"_s : groupName.join(cellJoiner());
+        if (group >= out.groupNames.size())
+            out.groupNames.resize(group + 1);
+        out.groupNames[group] = g;
+        if (within >= out.withinNames.size())
+            out.withinNames.resize(within + 1);
+        out.withinNames[within] = withinName.join(cellJoiner());
+    }
+    return out;
+}
+
+QString mixedPartText(MixedPart part)
+{
+    switch (part) {
+    case MixedPart::Between:
+        return u"between"_s;
+    case MixedPart::Within:
+        return u"within"_s;
+    case MixedPart::Interaction:
+        return u"between \u00d7 within"_s;
+    case MixedPart::Combined:
+        break;
+    }
+    return u"combined"_s;
+}
+
+MixedPart mixedPart(const Eigen::VectorXd &h, const MixedLayout &layout)
+{
+    const Eigen::MatrixXd m = byGroup(h, layout);
+    const Eigen::JacobiSVD<Eigen::MatrixXd> svd(m, Eigen::ComputeThinU | Eigen::ComputeThinV);
+    const Eigen::VectorXd s = svd.singularValues();
+    if (s.size() > 1 && s[1] > 1e-9 * s[0])
+        return MixedPart::Combined;
+    const Eigen::VectorXd a = svd.matrixU().col(0);
+    const Eigen::VectorXd c = svd.matrixV().col(0);
+    const double tolerance = 1e-9 * c.cwiseAbs().maxCoeff();
+    if (c.maxCoeff() - c.minCoeff() <= tolerance)
+        return MixedPart::Between;
+    return std::abs(a.sum()) <= 1e-9 * a.cwiseAbs().sum() ? MixedPart::Interaction : MixedPart::Within;
+}
+
+Problem validateMixedPowerSettings(const PowerSettings &s, const MixedLayout &layout, const QString &fieldPrefix)
+{
+    const int cells = int(layout.groupOf.size());
+    const auto field = [&](const char16_t *name) { return fieldPrefix + QString::fromUtf16(name); };
+    if (!s.ratios.empty())
+        return problem(u"ratios"_s, u"%1: a mixed design takes the participants per group from the cell sizes, or a total split "
+                                    u"equally over the groups"_s.arg(field(u"ratios")));
+    // The cells as separate groups: means, SDs, sizes, alpha and target.
+    PowerSettings cellsAlone = s;
+    cellsAlone.measure = Measure::Between;
+    cellsAlone.correlation = 0.0;
+    cellsAlone.correlations.resize(0, 0);
+    if (s.n.empty()) // the total counts participants, each at every within cell
+        cellsAlone.total = s.total * layout.withinCells();
+    if (Problem p = validatePowerSettings(cellsAlone, cells, fieldPrefix); !p.isEmpty())
+        return p;
+    if (!s.n.empty()) {
+        std::vector<int> first(size_t(layout.groups()), -1);
+        for (int cell = 0; cell < cells; ++cell) {
+            int &f = first[size_t(layout.groupOf[size_t(cell)])];
+            if (f < 0)
+                f = cell;
+            else if (s.n[size_t(cell)] != s.n[size_t(f)])
+                return problem(u"n"_s, u"%1: group '%2' has %3 participants in one within cell and %4 in another; its participants "
+                                       u"give a value in every within cell, so its cells' sizes must agree"_s
+                                           .arg(field(u"n"), layout.groupNames[layout.groupOf[size_t(cell)]], doubleToString(s.n[size_t(f)]),
+                                                doubleToString(s.n[size_t(cell)])));
+        }
+    }
+    // The correlations over the within cells, checked as a within factor of that many levels.
+    PowerSettings within;
+    within.measure = Measure::Within;
+    within.means.assign(size_t(layout.withinCells()), 0.0);
+    within.n.assign(size_t(layout.withinCells()), 2.0);
+    within.correlation = s.correlation;
+    within.correlations = s.correlations;
+    if (Problem p = validatePowerSettings(within, layout.withinCells(), fieldPrefix); !p.isEmpty()) {
+        p.message += u" (the within cells: %1)"_s.arg(layout.withinNames.join(u", "_s));
+        return p;
+    }
+    return {};
+}
+
+std::vector<double> groupSizes(const PowerSettings &s, const MixedLayout &layout)
+{
+    std::vector<double> out(size_t(layout.groups()), s.total / layout.groups());
+    if (!s.n.empty())
+        for (size_t cell = layout.groupOf.size(); cell-- > 0;)
+            out[size_t(layout.groupOf[cell])] = s.n[cell];
+    return out;
+}
+
+Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QStringList &names, const PowerSettings &settings,
+                                      const MixedLayout &layout)
+{
+    using R = Result<PowerReport>;
+    if (Problem p = checkRows(rows, settings, layout); !p.isEmpty())
+        return R::failure(std::move(p));
+    const MixedModel model(settings, layout);
+    const std::vector<double> n = groupSizes(settings, layout);
+    const int m = int(rows.rows());
+    const int g = layout.groups();
+
+    PowerReport report;
+    report.levelCount = int(rows.cols());
+    report.within = true;
+    report.groups = layout.groupNames;
+    if (settings.correlations.size() == 0)
+        report.correlation = settings.correlation;
+    for (size_t cell = 0; cell < layout.groupOf.size(); ++cell)
+        report.plannedN.push_back(n[size_t(layout.groupOf[cell])]);
+    report.plannedTotal = std::accumulate(n.begin(), n.end(), 0.0);
+    report.alpha = settings.alpha;
+    report.perTestAlpha = perTestAlpha(settings.alpha, settings.adjustment, m);
+    report.adjustment = settings.adjustment;
+    report.oneSided = settings.oneSided;
+    report.target = settings.target;
+    report.cautions = powerCautions(true);
+    report.omnibus.alpha = settings.alpha;
+    report.omnibus.effectSize = report.omnibus.noncentrality = report.omnibus.power = report.omnibus.sd = kNaN;
+    report.omnibus.df2 = kNaN;
+    report.omnibus.notes << u"a mixed design has no one test of all cells here: each column is tested on its own"_s;
+
+    double rmsSd = settings.sd;
+    if (settings.perLevelSds()) {
+        double squares = 0.0;
+        for (double v : settings.sds)
+            squares += v * v;
+        rmsSd = std::sqrt(squares / double(settings.sds.size()));
+    }
+    bool combined = false;
+    for (int r = 0; r < m; ++r) {
+        ContrastPower c;
+        c.name = r < names.size() && !names[r].isEmpty() ? names[r] : u"contrast %1"_s.arg(r + 1);
+        const Eigen::VectorXd h = rows.row(r).transpose();
+        c.weights.assign(h.data(), h.data() + h.size());
+        const MixedPart part = mixedPart(h, layout);
+        combined = combined || part == MixedPart::Combined;
+        c.part = mixedPartText(part);
+        c.alpha = report.perTestAlpha;
+        const MixedModel::Values v = model.at(h, n, c.alpha);
+        std::tie(c.estimate, c.se, c.df, c.noncentrality, c.power) = std::tuple(v.estimate, v.se, v.df, v.noncentrality, v.power);
+        c.zeroEstimate = v.estimate == 0.0;
+        // Standardized as between groups (Kline 2013): each side of the weights summing to 1, over the
+        // root mean square of the cells' SDs.
+        const double side = std::max(h.cwiseMax(0.0).sum(), -h.cwiseMin(0.0).sum());
+        c.effectSize = c.estimate / (side * rmsSd);
+        if (part == MixedPart::Combined)
+            c.notes << u"its weights are not one contrast of the groups times one of the within cells, so its scores' variance "
+                       u"is not one pooled variance and the t with N - g df is an approximation"_s;
+        if (c.zeroEstimate)
+            c.notes << u"the expected estimate is 0: power equals alpha at every n"_s;
+        else if (settings.oneSided && c.estimate < 0.0)
+            c.notes << u"the expected estimate is negative but the one-sided test looks for a positive one"_s;
+        else {
+            c.required = smallestSampleSize([&](const std::vector<double> &nn) { return model.at(h, nn, c.alpha).power; }, n,
+                                            settings.target);
+            if (!c.required.reachable)
+                c.notes << unreachedNote(c.required, settings.target, false);
+        }
+        report.contrasts.push_back(std::move(c));
+    }
+    report.notes << u"mixed design: %1 groups between participants (%2), each participant at all %3 within cells (%4)"_s.arg(g)
+                        .arg(layout.groupNames.join(u", "_s))
+                        .arg(layout.withinCells())
+                        .arg(layout.withinNames.join(u", "_s));
+    report.notes << u"between columns compare the participants' averages over the within cells; within columns test a "
+                    u"contrast of the within cells on each participant's contrast score, averaged over the groups; between "
+                    u"\u00d7 within columns compare those scores across groups. Each column has its own error term, the "
+                    u"pooled within-group variance of its scores, with N - g df (Maxwell & Delaney 2004, ch. 14); no "
+                    u"sphericity is assumed, the covariance is taken to be the same in every group"_s;
+    if (settings.perLevelSds())
+        report.notes << u"per-cell SDs that differ between groups break the equal-covariance assumption of the pooled error"_s;
+    if (combined)
+        report.notes << u"some columns mix parts (see their notes); their power is approximate"_s;
+    if (m > 1 && settings.adjustment != Adjustment::None)
+        report.notes << u"%1 adjustment across %2 columns: each is tested at alpha = %3"_s.arg(adjustmentTitle(settings.adjustment))
+                            .arg(m)
+                            .arg(numberText(report.perTestAlpha));
+    return R(std::move(report));
+}
+
+Result<std::vector<double>> mixedPowerCurve(const Eigen::MatrixXd &rows, int contrast, const PowerSettings &settings,
+                                            const MixedLayout &layout, const std::vector<long long> &smallestGroupSizes)
+{
+    using R = Result<std::vector<double>>;
+    if (Problem p = checkRows(rows, settings, layout); !p.isEmpty())
+        return R::failure(std::move(p));
+    if (contrast < 0 || contrast >= rows.rows())
+        return R::failure(u"contrast: %1 is not a column index of a mixed design (0 to %2)"_s.arg(contrast).arg(rows.rows() - 1));
+    const MixedModel model(settings, layout);
+    const std::vector<double> ratios = groupSizes(settings, layout);
+    const double alpha = perTestAlpha(settings.alpha, settings.adjustment, int(rows.rows()));
+    std::vector<double> out;
+    for (long long t : smallestGroupSizes) {
+        const std::vector<long long> sizes = groupSizesFor(std::max(t, 2LL), ratios);
+        out.push_back(model.at(rows.row(contrast).transpose(), std::vector<double>(sizes.begin(), sizes.end()), alpha).power);
+    }
+    return R(std::move(out));
+}
+
+} // namespace cb

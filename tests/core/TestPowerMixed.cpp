@@ -1,0 +1,320 @@
+// Power in mixed designs (core/power/MixedPower.h): factors between participants crossed with
+// factors within participants. Each column's SE, df, power, part and sample size against NumPy/SciPy
+// (tests/python/power_mixed_check.py: the covariance of the cell means built as a whole in NumPy,
+// SciPy's noncentral t), a hand-derived case, the refusals, and the command line on the warmup demo.
+#include "core/analysis/Analysis.h"
+#include "core/files/StudyFile.h"
+#include "core/model/Design.h"
+#include "core/power/MixedPower.h"
+
+#include "tests/support/FitTestSupport.h"
+#include "tests/support/ProcessRunner.h"
+
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QJsonObject>
+#include <QTest>
+
+#include <cmath>
+#include <random>
+
+using namespace Qt::StringLiterals;
+using namespace cb;
+using test::matrixJson;
+using test::numbersJson;
+
+Q_DECLARE_METATYPE(cb::PowerSettings)
+
+namespace {
+
+
+QJsonArray intsJson(const std::vector<int> &v)
+{
+    QJsonArray a;
+    for (int x : v)
+        a.append(x);
+    return a;
+}
+
+
+bool near(double a, double b, double tolerance)
+{
+    return std::abs(a - b) <= tolerance * std::max(1.0, std::abs(b));
+}
+
+Scheme factorOf(const QString &name, int k, Measure measure, SchemeKind kind)
+{
+    Factor f;
+    f.name = name;
+    for (int i = 0; i < k; ++i)
+        f.levels << u"%1%2"_s.arg(name).arg(i + 1);
+    f.measure = measure;
+    return makeScheme(f, kind).take();
+}
+
+const QString kDemo = QStringLiteral(CB_SOURCE_DIR "/resources/demos/warmup.json");
+
+} // namespace
+
+class TestPowerMixed : public QObject
+{
+    Q_OBJECT
+private slots:
+    void layoutSplitsCellsIntoGroupsAndWithinCells();
+    void agreesWithScipyOnGeneratedDesigns();
+    void handDerivedWarmupFigures();
+    void rejectsInput_data();
+    void rejectsInput();
+    void commandLineOnTheWarmupDemo();
+};
+
+void TestPowerMixed::layoutSplitsCellsIntoGroupsAndWithinCells()
+{
+    // Within factor first: the cells are A-major, so the groups interleave.
+    Design d;
+    d.factors.push_back(factorOf(u"W"_s, 3, Measure::Within, SchemeKind::Sum));
+    d.factors.push_back(factorOf(u"B"_s, 2, Measure::Between, SchemeKind::Sum));
+    d.terms = Design::fullFactorial(2);
+    const MixedLayout l = mixedLayout(d);
+    QCOMPARE(l.groupOf, (std::vector<int>{0, 1, 0, 1, 0, 1}));
+    QCOMPARE(l.withinOf, (std::vector<int>{0, 0, 1, 1, 2, 2}));
+    QCOMPARE(l.groupNames, (QStringList{u"B1"_s, u"B2"_s}));
+    QCOMPARE(l.withinNames, (QStringList{u"W1"_s, u"W2"_s, u"W3"_s}));
+    QVERIFY(hasWithinFactor(d));
+}
+
+void TestPowerMixed::agreesWithScipyOnGeneratedDesigns()
+{
+    std::mt19937 rng(20261202);
+    auto uniform = [&](double lo, double hi) { return std::uniform_real_distribution<double>(lo, hi)(rng); };
+    auto integer = [&](int lo, int hi) { return std::uniform_int_distribution<int>(lo, hi)(rng); };
+    const SchemeKind kinds[] = {SchemeKind::Treatment, SchemeKind::Sum, SchemeKind::Helmert, SchemeKind::Simple, SchemeKind::Polynomial};
+    const Adjustment adjustments[] = {Adjustment::None, Adjustment::Bonferroni, Adjustment::Sidak};
+    QJsonArray cases;
+    std::vector<PowerReport> reports;
+    for (int c = 0; c < 30; ++c) {
+        Design d;
+        const int factors = c % 4 == 0 ? 3 : 2;
+        for (int f = 0; f < factors; ++f) {
+            // At least one factor of each kind, except every fifth case, all within.
+            const Measure m = c % 5 == 4 || f == 1 ? Measure::Within : f == 0 ? Measure::Between
+                                                                             : (integer(0, 1) ? Measure::Within : Measure::Between);
+            d.factors.push_back(factorOf(QString(QChar(u'A' + f)), factors == 3 ? 2 : integer(2, 3), m, kinds[integer(0, 4)]));
+        }
+        if (c % 3 == 0)
+            std::swap(d.factors.front(), d.factors.back());
+        d.terms = Design::fullFactorial(factors);
+        const auto cells = cellScheme(d);
+        QVERIFY2(bool(cells), qPrintable(cells.error()));
+        const MixedLayout layout = mixedLayout(d);
+        auto rows = contrastRowsOf(analyze(*cells));
+        QVERIFY2(bool(rows), qPrintable(rows.error()));
+
+        PowerSettings s;
+        s.measure = Measure::Within;
+        const int k = d.cellCount();
+        const int w = layout.withinCells();
+        for (int i = 0; i < k; ++i)
+            s.means.push_back(uniform(-1.0, 1.0));
+        std::vector<double> sds;
+        if (c % 2 == 0) {
+            s.sd = uniform(0.5, 2.0);
+            sds.assign(size_t(k), s.sd);
+        } else {
+            for (int i = 0; i < k; ++i)
+                s.sds.push_back(uniform(0.5, 2.0));
+            sds = s.sds;
+        }
+        Eigen::MatrixXd r;
+        if (c % 3 != 1) {
+            s.correlation = uniform(-0.4 / (w - 1), 0.9);
+            r = Eigen::MatrixXd::Constant(w, w, s.correlation);
+            r.diagonal().setOnes();
+        } else {
+            Eigen::MatrixXd a(w, w + 2);
+            for (Eigen::Index i = 0; i < a.size(); ++i)
+                a.data()[i] = uniform(-1.0, 1.0) + 0.8;
+            const Eigen::MatrixXd cov = a * a.transpose();
+            const Eigen::VectorXd inv = cov.diagonal().cwiseSqrt().cwiseInverse();
+            r = inv.asDiagonal() * cov * inv.asDiagonal();
+            r.diagonal().setOnes();
+            r = (r + r.transpose()) / 2.0;
+            s.correlations = r;
+        }
+        std::vector<double> groupN;
+        for (int g = 0; g < layout.groups(); ++g)
+            groupN.push_back(double(integer(3, 30)));
+        for (int cell = 0; cell < k; ++cell)
+            s.n.push_back(groupN[size_t(layout.groupOf[size_t(cell)])]);
+        s.alpha = c % 3 == 0 ? 0.01 : 0.05;
+        s.oneSided = c % 7 == 0;
+        s.target = c % 4 == 0 ? 0.9 : 0.8;
+        s.adjustment = adjustments[c % 3];
+        auto report = computeMixedPower(rows->rows, rows->names, s, layout);
+        QVERIFY2(bool(report), qPrintable(report.error()));
+        reports.push_back(report.take());
+
+        QJsonObject o;
+        o[u"rows"_s] = matrixJson(rows->rows);
+        o[u"group_of"_s] = intsJson(layout.groupOf);
+        o[u"within_of"_s] = intsJson(layout.withinOf);
+        o[u"means"_s] = numbersJson(s.means);
+        o[u"sds"_s] = numbersJson(sds);
+        o[u"corr"_s] = matrixJson(r);
+        o[u"group_n"_s] = numbersJson(groupN);
+        o[u"alpha"_s] = s.alpha;
+        o[u"one_sided"_s] = s.oneSided;
+        o[u"adjust"_s] = adjustmentId(s.adjustment);
+        o[u"target"_s] = s.target;
+        cases.append(o);
+    }
+    const QJsonObject answer = test::runPython(u"power_mixed_check.py"_s, {}, QJsonDocument(QJsonObject{{u"cases"_s, cases}}).toJson());
+    QVERIFY2(!answer.contains(u"error"_s), qPrintable(answer[u"error"_s].toString()));
+    const QJsonArray results = answer[u"cases"_s].toArray();
+    QCOMPARE(results.size(), cases.size());
+    int parts[4] = {0, 0, 0, 0};
+    for (qsizetype c = 0; c < results.size(); ++c) {
+        const QJsonObject py = results[c].toObject();
+        const PowerReport &r = reports[size_t(c)];
+        QCOMPARE(qsizetype(r.contrasts.size()), py[u"se"_s].toArray().size());
+        for (size_t j = 0; j < r.contrasts.size(); ++j) {
+            const ContrastPower &cp = r.contrasts[j];
+            const auto at = [&](const char16_t *key) -> QJsonValue { return py[QString::fromUtf16(key)].toArray().at(qsizetype(j)); };
+            QVERIFY2(near(cp.se, at(u"se").toDouble(), 1e-12), qPrintable(u"case %1 column %2 se"_s.arg(c).arg(j)));
+            QCOMPARE(cp.df, at(u"df").toDouble());
+            QVERIFY2(near(cp.power, at(u"power").toDouble(), 1e-8),
+                     qPrintable(u"case %1 column %2: power %3, SciPy %4"_s.arg(c).arg(j).arg(cp.power).arg(at(u"power").toDouble())));
+            QString part = cp.part;
+            part.replace(u'\u00d7', u'x');
+            QCOMPARE(part, at(u"part").toString());
+            ++parts[part == u"between"_s ? 0 : part == u"within"_s ? 1 : part == u"between x within"_s ? 2 : 3];
+            if (at(u"between_se").isDouble())
+                QVERIFY(near(cp.se, at(u"between_se").toDouble(), 1e-12));
+            const QJsonValue searched = at(u"searched");
+            QCOMPARE(cp.required.reachable, searched.isArray());
+            if (searched.isArray()) {
+                std::vector<long long> expected;
+                for (const QJsonValue &v : searched.toArray())
+                    expected.push_back(qint64(v.toDouble()));
+                QCOMPARE(cp.required.perLevel, expected);
+            }
+        }
+    }
+    // The generated designs hold every part (combined rows come from uneven treatment-coded interactions, if any).
+    QVERIFY(parts[0] > 0 && parts[1] > 0 && parts[2] > 0);
+}
+
+void TestPowerMixed::handDerivedWarmupFigures()
+{
+    // The warmup demo (2 routines between x 3 vowels within, 12 and 10 singers) with SD 6 and a
+    // correlation of 0.6, derived by hand: a singer's average over 3 vowels has variance
+    // 36 (1 + 2 * 0.6) / 3 = 26.4, so the routine column's SE is sqrt(26.4 (1/12 + 1/10)) = 2.2;
+    // a vowel difference score has variance 2 * 36 (1 - 0.6) = 28.8, so 'ee vs ah' averaged over
+    // the routines has SE sqrt(28.8 / 4 (1/12 + 1/10)) = sqrt(1.32), and its difference between
+    // the routines sqrt(28.8 (1/12 + 1/10)) = sqrt(5.28). df = 22 - 2 = 20.
+    auto study = loadStudy(kDemo);
+    QVERIFY2(bool(study), qPrintable(study.error()));
+    const MixedLayout layout = mixedLayout(study->design);
+    auto rows = contrastRowsOf(analyze(*cellScheme(study->design)));
+    QVERIFY(bool(rows));
+    PowerSettings s;
+    s.measure = Measure::Within;
+    s.means = {10, 14, 12, 8, 11, 9};
+    s.sd = 6.0;
+    s.correlation = 0.6;
+    s.n = {12, 12, 12, 10, 10, 10};
+    auto r = computeMixedPower(rows->rows, rows->names, s, layout);
+    QVERIFY2(bool(r), qPrintable(r.error()));
+    QCOMPARE(r->contrasts.size(), size_t(5));
+    QCOMPARE(r->plannedTotal, 22.0);
+    QCOMPARE(r->groups, (QStringList{u"humming"_s, u"lip trills"_s}));
+    const double se[] = {2.2, std::sqrt(1.32), std::sqrt(1.32), std::sqrt(5.28), std::sqrt(5.28)};
+    const double estimate[] = {-8.0 / 3.0, 3.5, 1.5, -1.0, -1.0};
+    const char16_t *part[] = {u"between", u"within", u"within", u"between \u00d7 within", u"between \u00d7 within"};
+    for (size_t j = 0; j < 5; ++j) {
+        QVERIFY(near(r->contrasts[j].se, se[j], 1e-12));
+        QVERIFY(near(r->contrasts[j].estimate, estimate[j], 1e-12));
+        QCOMPARE(r->contrasts[j].df, 20.0);
+        QCOMPARE(r->contrasts[j].part, QString::fromUtf16(part[j]));
+    }
+    // SciPy: stats.nct.sf(t.isf(.025, 20), 20, 3.5 / sqrt(1.32)) + nct.cdf(-t.isf(.025, 20), ...) = 0.8257
+    QVERIFY(near(r->contrasts[1].power, 0.8257, 5e-5));
+    QVERIFY(std::isnan(r->omnibus.power));
+}
+
+void TestPowerMixed::rejectsInput_data()
+{
+    QTest::addColumn<PowerSettings>("settings");
+    QTest::addColumn<QString>("field");
+    QTest::addColumn<QString>("message");
+    PowerSettings base;
+    base.measure = Measure::Within;
+    base.means = {10, 14, 12, 8, 11, 9};
+    base.sd = 6.0;
+    base.correlation = 0.6;
+    base.n = {12, 12, 12, 10, 10, 10};
+    PowerSettings uneven = base;
+    uneven.n = {12, 12, 11, 10, 10, 10};
+    QTest::newRow("cells of a group differ") << uneven << u"n"_s << u"group 'humming' has 12 participants in one within cell and 11"_s;
+    PowerSettings matrix = base;
+    matrix.correlations = Eigen::MatrixXd::Identity(6, 6);
+    QTest::newRow("correlations over the cells") << matrix << u"correlations"_s << u"(the within cells: ah, ee, oo)"_s;
+    PowerSettings ratios = base;
+    ratios.n.clear();
+    ratios.total = 20;
+    ratios.ratios = {1, 1, 1, 2, 2, 2};
+    QTest::newRow("ratios") << ratios << u"ratios"_s << u"ratios: a mixed design takes the participants per group"_s;
+    PowerSettings high = base;
+    high.correlation = 1.0;
+    QTest::newRow("correlation 1") << high << u"correlation"_s << u"1 is not a correlation 3 levels can share"_s;
+    PowerSettings means = base;
+    means.means.pop_back();
+    QTest::newRow("means") << means << u"means"_s << u"means: 5 values for 6 levels"_s;
+}
+
+void TestPowerMixed::rejectsInput()
+{
+    QFETCH(PowerSettings, settings);
+    QFETCH(QString, field);
+    QFETCH(QString, message);
+    auto study = loadStudy(kDemo);
+    QVERIFY(bool(study));
+    const Problem p = validateMixedPowerSettings(settings, mixedLayout(study->design));
+    QCOMPARE(p.field, field);
+    QVERIFY2(p.message.contains(message), qPrintable(p.message));
+}
+
+void TestPowerMixed::commandLineOnTheWarmupDemo()
+{
+    const QStringList base{u"power"_s, u"--file"_s, kDemo, u"--means"_s, u"10,14,12,8,11,9"_s, u"--sd"_s, u"6"_s,
+                           u"--correlation"_s, u"0.6"_s};
+    const test::ProcessRun run = test::runCli(base + QStringList{u"--json"_s});
+    QVERIFY2(run.exitCode == 0, run.err.constData());
+    const QJsonObject o = QJsonDocument::fromJson(run.out).object();
+    QCOMPARE(o[u"measured"_s].toString(), u"within"_s);
+    QCOMPARE(o[u"planned_total"_s].toDouble(), 22.0);
+    QCOMPARE(o[u"groups"_s].toArray().size(), 2);
+    const QJsonObject first = o[u"contrasts"_s].toArray()[0].toObject();
+    QCOMPARE(first[u"part"_s].toString(), u"between"_s);
+    QVERIFY(near(first[u"se"_s].toDouble(), 2.2, 1e-12)); // by hand, handDerivedWarmupFigures
+    QCOMPARE(first[u"df"_s].toDouble(), 20.0);
+    const QJsonObject vowel = o[u"contrasts"_s].toArray()[1].toObject();
+    QCOMPARE(vowel[u"n_required"_s].toArray().size(), 2); // participants per group, in the planned ratio 12 : 10
+    QCOMPARE(vowel[u"n_required"_s].toArray()[0].toDouble(), 12.0);
+    QCOMPARE(vowel[u"n_required_total"_s].toDouble(), 22.0);
+    QCOMPARE(o[u"omnibus"_s].toObject()[u"test"_s].toString(), u"none"_s);
+
+    const test::ProcessRun text = test::runCli(base);
+    QVERIFY2(text.exitCode == 0, text.err.constData());
+    QVERIFY(text.outText().contains(u"Groups between participants: humming, lip trills; participants: 22 in all"_s));
+    QVERIFY(text.outText().contains(u"ee vs ah [within]"_s));
+    QVERIFY(text.outText().contains(u"N - g df"_s));
+
+    const test::ProcessRun noCorrelation = test::runCli(
+        {u"power"_s, u"--file"_s, kDemo, u"--means"_s, u"10,14,12,8,11,9"_s, u"--sd"_s, u"6"_s});
+    QCOMPARE(noCorrelation.exitCode, 2);
+    QVERIFY(noCorrelation.errText().contains(u"give the expected correlation"_s));
+}
+
+QTEST_GUILESS_MAIN(TestPowerMixed)
+#include "TestPowerMixed.moc"

@@ -1,0 +1,130 @@
+#!/usr/bin/env python3
+"""Independent figures for power in mixed designs (TestPowerMixed), from NumPy and SciPy.
+
+Reads one JSON object on stdin: {"cases": [case, ...]} where a case holds
+  rows (m x cells hypothesis weights over the cells), group_of and within_of (per cell: its group
+  and its within cell), means and sds (per cell), corr (w x w correlations of the within cells),
+  group_n (participants per group), alpha, one_sided, adjust, target.
+Writes {"cases": [result, ...]} with, per case,
+  se, df, power (m: at the planned sizes), part (m: "between", "within", "between x within" or
+  "combined", from the rank of the weights as a groups x within-cells matrix), searched (m: the
+  smallest participants per group reaching the target, as a list, by its own search keeping the
+  groups' ratios), and between_se (m: for between columns, the SE computed again from the
+  variance of one participant's average over the within cells and the group sizes).
+Parts are written with ASCII x; the C++ side writes the multiplication sign.
+
+Written from the definitions, apart from the C++ code: the covariance of the vector of cell means
+is built in NumPy as a whole (cells x cells: two cells of the same group covary by
+Sigma_g[w1, w2] / n_g, cells of different groups not at all, Sigma_g = D_g R D_g), so
+se = sqrt(h' V h); df = N - g (the pooled within-group error of the column's scores); power from
+scipy.stats.nct / t through power_check.py's t_power.
+"""
+import importlib.util
+import json
+import math
+import pathlib
+import sys
+import warnings
+
+import numpy as np
+
+_spec = importlib.util.spec_from_file_location("power_check", pathlib.Path(__file__).with_name("power_check.py"))
+_power_check = importlib.util.module_from_spec(_spec)
+_spec.loader.exec_module(_power_check)
+per_test_alpha, t_power = _power_check.per_test_alpha, _power_check.t_power
+
+warnings.simplefilter("ignore")
+
+
+def cell_covariance(case, n):
+    group_of = case["group_of"]
+    within_of = case["within_of"]
+    sds = np.array(case["sds"], dtype=float)
+    r = np.array(case["corr"], dtype=float)
+    cells = len(group_of)
+    v = np.zeros((cells, cells))
+    for a in range(cells):
+        for b in range(cells):
+            if group_of[a] == group_of[b]:
+                v[a, b] = sds[a] * sds[b] * r[within_of[a], within_of[b]] / n[group_of[a]]
+    return v
+
+
+def part_of(case, h):
+    g = max(case["group_of"]) + 1
+    w = max(case["within_of"]) + 1
+    m = np.zeros((g, w))
+    for cell, x in enumerate(h):
+        m[case["group_of"][cell], case["within_of"][cell]] = x
+    if np.linalg.matrix_rank(m, tol=1e-9 * np.abs(m).max()) > 1:
+        return "combined"
+    # rank one: m = a c'; a from the largest column, c from the largest row
+    i, j = np.unravel_index(np.argmax(np.abs(m)), m.shape)
+    a, c = m[:, j], m[i, :]
+    if np.ptp(c) <= 1e-9 * np.abs(c).max():
+        return "between"
+    return "between x within" if abs(a.sum()) <= 1e-9 * np.abs(a).sum() else "within"
+
+
+def sizes_for(t, ratios):
+    least = min(ratios)
+    return [max(t, int(math.ceil(t * (r / least) * (1 - 1e-12)))) for r in ratios]
+
+
+def check_case(case):
+    mu = np.array(case["means"], dtype=float)
+    rows = [np.array(h, dtype=float) for h in case["rows"]]
+    alpha_t = per_test_alpha(case["alpha"], case["adjust"], len(rows))
+    g = max(case["group_of"]) + 1
+    ratios = [float(x) for x in case["group_n"]]
+
+    def contrast(h, n):
+        se = float(np.sqrt(h @ cell_covariance(case, n) @ h))
+        df = float(sum(n) - g)
+        psi = float(h @ mu)
+        return se, df, t_power(psi / se if psi != 0 else 0.0, df, alpha_t, case["one_sided"])
+
+    out = {"se": [], "df": [], "power": [], "part": [], "searched": [], "between_se": []}
+    for h in rows:
+        se, df, power = contrast(h, ratios)
+        out["se"].append(se)
+        out["df"].append(df)
+        out["power"].append(power)
+        part = part_of(case, h)
+        out["part"].append(part)
+        if part == "between":
+            # a participant's average over the within cells: variance 1' Sigma_g 1 / w^2 in group g
+            w = max(case["within_of"]) + 1
+            corr = np.array(case["corr"], dtype=float)
+            a = np.zeros(g)
+            sd = np.zeros((g, w))
+            for cell, x in enumerate(h):
+                a[case["group_of"][cell]] += x  # the contrast of the group averages (sum of a group's weights)
+                sd[case["group_of"][cell], case["within_of"][cell]] = case["sds"][cell]
+            avg_var = np.array([float(np.ones(w) @ (np.diag(sd[j]) @ corr @ np.diag(sd[j])) @ np.ones(w)) / w**2 for j in range(g)])
+            out["between_se"].append(float(np.sqrt(np.sum(a**2 * avg_var / np.array(ratios)))))
+        else:
+            out["between_se"].append(None)
+        found = None
+        if float(h @ mu) != 0 and not (case["one_sided"] and float(h @ mu) < 0):
+            t = 2
+            while t <= 20_000_000:
+                if contrast(h, sizes_for(t, ratios))[2] >= case["target"]:
+                    break
+                t *= 2
+            lo, hi = max(1, t // 2), t
+            if contrast(h, sizes_for(lo, ratios))[2] >= case["target"]:
+                hi = lo
+            while hi - lo > 1:
+                mid = (lo + hi) // 2
+                if contrast(h, sizes_for(mid, ratios))[2] >= case["target"]:
+                    hi = mid
+                else:
+                    lo = mid
+            found = sizes_for(hi, ratios)
+        out["searched"].append(found)
+    return out
+
+
+if __name__ == "__main__":
+    json.dump({"cases": list(map(check_case, json.load(sys.stdin)["cases"]))}, sys.stdout)
