@@ -96,6 +96,9 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
     }
     if (p.isSet(u"item"_s) && !p.isSet(u"participant"_s))
         return R::failure(u"--item needs --participant: the by-item analysis sits beside the by-participant one"_s);
+    if (p.isSet(u"item"_s) && p.isSet(u"database"_s))
+        return R::failure(u"--item cannot be combined with --database: the summary query has no by-item form yet; "
+                          "export the rows and use --data"_s);
     if (p.isSet(u"delimiter"_s)) {
         const auto d = delimiterFromName(p.value(u"delimiter"_s));
         if (!d)
@@ -194,6 +197,8 @@ int runFit(const QStringList &args, Io &io)
     } else if (!p.isSet(u"summary"_s) && factorColumns.value(0).trimmed().isEmpty()) {
         return badInput(io, u"--factor: missing; name the data column (or give --summary for a summary table)"_s);
     }
+    if (design && p.isSet(u"item"_s))
+        return badInput(io, u"--item: the by-item analysis covers one factor; for a design it is not available yet"_s);
     auto data = readData(p, *arguments, factorColumns);
     if (!data)
         return badInput(io, data.error());
