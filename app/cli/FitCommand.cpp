@@ -5,12 +5,15 @@
 #include "app/database/DatabaseSource.h"
 
 #include "core/data/DataFit.h"
+#include "core/data/DesignFit.h"
+#include "core/report/AnalysisJson.h"
 #include "core/data/DataReader.h"
 #include "core/model/Design.h"
 #include "core/model/Scheme.h"
 #include "core/report/FitReport.h"
 
 #include <QCommandLineParser>
+#include <QJsonArray>
 #include <QJsonDocument>
 
 using namespace Qt::StringLiterals;
@@ -162,10 +165,12 @@ int runFit(const QStringList &args, Io &io)
     auto arguments = dataArguments(p);
     if (!arguments)
         return badInput(io, arguments.error());
+    auto study = studyFromOptions(p);
+    if (!study)
+        return badInput(io, study.error());
     std::optional<Design> design;
-    auto scheme = schemeOrCellsFromOptions(p, u"a fit"_s, &design);
-    if (!scheme)
-        return badInput(io, scheme.error());
+    if (study->isDesign())
+        design = study->design;
     // The data columns of the factors: a design's default to the factors' names.
     QStringList factorColumns = p.values(u"factor"_s);
     if (design && !p.isSet(u"summary"_s)) {
@@ -192,14 +197,29 @@ int runFit(const QStringList &args, Io &io)
     if (design && p.isSet(u"participant"_s))
         return badInput(io, u"--participant: the by-participant analysis of a design is not computed yet; give a one-factor "
                             u"scheme measured within participants"_s);
-    auto fit = p.isSet(u"participant"_s) ? fitParticipants(*scheme, *data, arguments->fit, arguments->mapping)
-                                         : fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
+    // A design is fitted over the cells that have data (refused, with the reason, when its terms
+    // cannot be estimated from them); a one-factor scheme as it stands.
+    Result<DesignFit> fit = design ? fitDesign(*design, *data, arguments->fit, arguments->mapping)
+                                   : Result<DesignFit>::failure(QString());
+    if (!design) {
+        auto one = p.isSet(u"participant"_s) ? fitParticipants(study->activeScheme(), *data, arguments->fit, arguments->mapping)
+                                             : fitScheme(study->activeScheme(), *data, arguments->fit, arguments->mapping);
+        fit = one ? Result<DesignFit>(DesignFit{one.take(), {}}) : Result<DesignFit>::failure(one.error());
+    }
     if (!fit) // named by the data it could not fit
         return badInput(io, data->source + u": "_s + fit.error());
-    if (p.isSet(u"json"_s))
-        io.out << QString::fromUtf8(QJsonDocument(fitResultToJson(*fit, *data)).toJson(QJsonDocument::Indented));
-    else
-        io.out << fitReport(*scheme, design.has_value(), *data, *fit);
+    const Scheme &scheme = design ? fit->design.cellScheme : study->activeScheme();
+    if (p.isSet(u"json"_s)) {
+        QJsonObject o = fitResultToJson(fit->fit, *data);
+        const QJsonObject empty = emptyCellsToJson(fit->design.empty);
+        for (auto it = empty.constBegin(); it != empty.constEnd(); ++it)
+            o[it.key()] = it.value();
+        if (!fit->design.emptyCells.isEmpty())
+            o[u"empty_cells"_s] = QJsonArray::fromStringList(fit->design.emptyCells);
+        io.out << QString::fromUtf8(QJsonDocument(o).toJson(QJsonDocument::Indented));
+    } else {
+        io.out << fitReport(scheme, design.has_value(), *data, fit->fit);
+    }
     return kExitOk;
 }
 
