@@ -135,6 +135,11 @@ EmptyCellEffects checkEmptyCells(const Design &d, const Scheme &cells, const std
             e.emptyCells << names[c];
     const Eigen::MatrixXd x = keptRows(cells, kept);
     e.coefficients = int(x.cols());
+    if (kept.empty()) {
+        e.estimable = false;
+        e.refusal = u"every cell is empty (%1): there is nothing to estimate; give the cells observations"_s.arg(why);
+        return e;
+    }
     const auto lu = decomposed(x);
     e.rank = int(lu.rank());
     e.estimable = e.rank == e.coefficients;
@@ -190,10 +195,10 @@ EmptyCellEffects checkEmptyCells(const Design &d, const Scheme &cells, const std
     else
         advice = u"No single term can be left out to fix this: leave out several terms, or give the empty cell%1 observations"_s.arg(
             several ? u"s"_s : QString());
-    e.refusal = u"empty cell%1 (%2): %3. The chosen terms cannot be estimated from the other %4 cells (rank %5 for %6 "
+    e.refusal = u"empty cell%1 (%2): %3. The chosen terms cannot be estimated from the %4 with observations (rank %5 for %6 "
                 "coefficients). Not estimable: %7. %8"_s
                     .arg(several ? u"s"_s : QString(), why, listed(e.emptyCells))
-                    .arg(kept.size())
+                    .arg(kept.size() == 1 ? u"1 cell"_s : u"%1 cells"_s.arg(kept.size()))
                     .arg(e.rank)
                     .arg(e.coefficients)
                     .arg(parts.join(u"; "_s), advice);

@@ -13,9 +13,14 @@ Result<DesignFit> fitDesign(const Design &d, const DataSummary &data, const FitO
         return R::failure(e);
     const QStringList cells = d.cellNames();
     std::vector<double> observed(size_t(cells.size()), 0.0);
-    for (const LevelStats &l : data.levels)
-        if (const qsizetype c = cells.indexOf(mapping.value(l.name, l.name)); c >= 0)
+    for (const LevelStats &l : data.levels) {
+        const qsizetype c = cells.indexOf(mapping.value(l.name, l.name));
+        if (c < 0) // a cell the design does not have: the level matching names it (and the cells without data)
+            if (auto matched = matchLevels(cells, data.levels, mapping); !matched)
+                return R::failure(matched.error());
+        if (c >= 0)
             observed[size_t(c)] += l.stats.n;
+    }
     bool anyAbsent = false;
     for (double n : observed)
         anyAbsent = anyAbsent || !(n > 0.0);

@@ -441,7 +441,7 @@ void TestDesignView::emptyCellIsNamed()
     QAbstractItemModel *sizes = p->cellSizeTable()->model();
     QVERIFY(sizes->setData(sizes->index(1, 1), u"0"_s)); // grass·late, as typed
     QCOMPARE(rationalToString(d->design().cellN[3]), u"0"_s);
-    QVERIFY2(hasFinding(p->findingsText(), u"empty cells (planned n = 0): grass\u00b7late"_s), qPrintable(p->findingsText()));
+    QVERIFY2(hasFinding(p->findingsText(), u"Empty cell (planned n = 0): grass\u00b7late. The chosen terms cannot be estimated"_s), qPrintable(p->findingsText()));
     QVERIFY(cellText(p->cellSizeTable(), 1, 1).startsWith(u"\u2717"_s));
     sizes->setData(sizes->index(1, 1), u"x"_s); // refused, nothing changes
     QCOMPARE(rationalToString(d->design().cellN[3]), u"0"_s);

@@ -50,8 +50,8 @@ void CellPicture::clear()
 QStringList CellPicture::cellTexts() const
 {
     QStringList out;
-    for (const Weight &w : m_content.weights)
-        out << w.display(true);
+    for (size_t c = 0; c < m_content.weights.size(); ++c)
+        out << (isEmptyCell(c) ? tr("empty") : m_content.weights[c].display(true));
     return out;
 }
 
@@ -65,7 +65,9 @@ QStringList CellPicture::cellSigns() const
 
 QString CellPicture::keyText() const
 {
-    return tr("%1 above zero   %2 below zero   plain: not compared").arg(kAbove, kBelow);
+    const bool anyEmpty = std::find(m_content.empty.begin(), m_content.empty.end(), true) != m_content.empty.end();
+    return tr("%1 above zero   %2 below zero   plain: not compared").arg(kAbove, kBelow)
+        + (anyEmpty ? tr("   hatched: empty cell (no observations)") : QString());
 }
 
 int CellPicture::blockCount() const
@@ -156,6 +158,12 @@ void CellPicture::paintEvent(QPaintEvent *)
                 }
                 p.setPen(look::baseline());
                 p.drawRect(box.adjusted(0, 0, -1, -1));
+                if (isEmptyCell(cell)) {
+                    p.fillRect(box.adjusted(1, 1, -1, -1), QBrush(look::baseline(), Qt::BDiagPattern));
+                    p.setPen(look::quietText());
+                    p.drawText(box, Qt::AlignCenter, tr("empty"));
+                    continue;
+                }
                 p.setPen(sign.isEmpty() ? look::quietText() : palette().color(QPalette::WindowText));
                 p.setFont(sign.isEmpty() ? font() : bold);
                 const QString text = sign.isEmpty() ? w.display(true) : sign + u" "_s + w.display(true);
