@@ -71,20 +71,17 @@ Design hedgerow(bool interaction)
     return d;
 }
 
-// The design rows [1 | C] over every cell, for NumPy.
-QJsonArray designRowsJson(const Design &d)
+// A matrix as rows of numbers, for the Python scripts.
+QJsonArray matrixJson(const Eigen::MatrixXd &m)
 {
-    const Scheme s = cellScheme(d).value();
-    QJsonArray x;
-    for (int c = 0; c < s.levelCount(); ++c) {
+    QJsonArray out;
+    for (Eigen::Index r = 0; r < m.rows(); ++r) {
         QJsonArray row;
-        if (s.intercept)
-            row.append(1.0);
-        for (const Column &col : s.columns)
-            row.append(col.weights[size_t(c)].value());
-        x.append(row);
+        for (Eigen::Index c = 0; c < m.cols(); ++c)
+            row.append(m(r, c));
+        out.append(row);
     }
-    return x;
+    return out;
 }
 
 QJsonObject numpy(const Design &d)
@@ -92,7 +89,7 @@ QJsonObject numpy(const Design &d)
     QJsonArray n;
     for (const Rational &v : d.cellN)
         n.append(v.get_d());
-    const QJsonObject request{{u"cases"_s, QJsonArray{QJsonObject{{u"X"_s, designRowsJson(d)}, {u"n"_s, n}}}}};
+    const QJsonObject request{{u"cases"_s, QJsonArray{QJsonObject{{u"X"_s, matrixJson(designRows(cellScheme(d).value()))}, {u"n"_s, n}}}}};
     const QJsonObject out = test::runPython(u"empty_cells_check.py"_s, {}, QJsonDocument(request).toJson());
     return out.value(u"cases"_s).toArray().first().toObject();
 }
@@ -407,19 +404,12 @@ void TestEmptyCells::fitLeavesOutCellsWithoutData()
     QVERIFY2(fit->fit.notes.front().startsWith(u"the empty cell grass\u00b7late (no rows in the data) changes what 4 of 4"_s),
              qPrintable(fit->fit.notes.front()));
 
-    QJsonArray x;
-    for (int c = 0; c < fit->design.cellScheme.levelCount(); ++c) {
-        QJsonArray row{1.0};
-        for (const Column &col : fit->design.cellScheme.columns)
-            row.append(col.weights[size_t(c)].value());
-        x.append(row);
-    }
     const QJsonObject spec{{u"csv"_s, path},
                            {u"factors"_s, QJsonArray{u"margin"_s, u"mowing"_s}},
                            {u"response"_s, u"visits"_s},
                            {u"weight"_s, QJsonValue()},
                            {u"levels"_s, QJsonArray::fromStringList(fit->design.cellScheme.factor.levels)},
-                           {u"X"_s, x},
+                           {u"X"_s, matrixJson(designRows(fit->design.cellScheme))},
                            {u"intercept"_s, true},
                            {u"alpha"_s, 0.05}};
     const QJsonObject ref = test::runPython(u"fit_lstsq.py"_s, {}, QJsonDocument(spec).toJson());
