@@ -10,7 +10,7 @@ Result<DesignFit> fitDesign(const Design &d, const DataSummary &data, const FitO
 {
     using R = Result<DesignFit>;
     if (QString e = d.validate(); !e.isEmpty())
-        return R::failure(e);
+        return R::failure(u"the design cannot be fitted: "_s + e);
     const QStringList cells = d.cellNames();
     std::vector<double> observed(size_t(cells.size()), 0.0);
     for (const LevelStats &l : data.levels) {

@@ -52,6 +52,7 @@ private:
     };
     Metrics metrics() const;
     QString keyText() const;
+    bool hasEmptyCells() const;
     bool isEmptyCell(size_t cell) const { return cell < m_content.empty.size() && m_content.empty[cell]; }
 
     Content m_content;
