@@ -244,6 +244,8 @@ void TestDataPanel::fitsADesignFromOneColumnPerFactor()
 // coefficients now test something else (the numbers themselves: TestEmptyCells, against NumPy).
 void TestDataPanel::designCellWithoutDataIsLeftOutWhenTheTermsAllow()
 {
+    Document doc;
+    doc.reset(loadDemoStudy(u"hedgerow"_s).take(), {});
     QTemporaryDir dir;
     const QString path = dir.filePath(u"margins.csv"_s);
     QByteArray csv = "margin,mowing,visits\n";
@@ -251,8 +253,6 @@ void TestDataPanel::designCellWithoutDataIsLeftOutWhenTheTermsAllow()
         for (int i = 0; i < 3; ++i)
             csv += QByteArray(cell) + ',' + QByteArray::number(10 + i * 2 + int(qstrlen(cell)) % 5) + '\n';
     QVERIFY(test::writeFile(path, csv));
-    Document doc;
-    doc.reset(loadDemoStudy(u"hedgerow"_s).take(), {});
     DataPanel panel(&doc);
     QVERIFY(panel.openFile(path));
     panel.setColumns(u"margin"_s, u"visits"_s);
