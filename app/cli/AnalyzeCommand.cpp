@@ -4,6 +4,7 @@
 #include "app/cli/SchemeArguments.h"
 
 #include "core/analysis/Analysis.h"
+#include "core/files/InputFile.h"
 #include "core/report/AnalysisJson.h"
 #include "core/report/AnalysisReport.h"
 #include "core/model/Design.h"
@@ -46,6 +47,10 @@ int runAnalyze(const QStringList &args, Io &io)
     // A design of several crossed factors is analysed over its cells.
     const Design &design = study->design;
     const DesignAnalysis da = analyzeDesign(design);
+    // Empty cells are analysed over the others; refused, with the reason, only when the terms
+    // cannot be estimated from them.
+    if (!da.empty.estimable)
+        return badInput(io, u"analyze"_s, inputLabel(p.value(u"file"_s)) + u": "_s + da.empty.refusal);
     if (p.isSet(u"json"_s))
         io.out << QString::fromUtf8(QJsonDocument(designAnalysisToJson(design, da)).toJson(QJsonDocument::Indented));
     else

@@ -5,7 +5,10 @@
 #include "app/database/DatabaseSource.h"
 
 #include "core/data/DataFit.h"
+#include "core/analysis/DesignAnalysis.h"
+#include "core/data/DesignFit.h"
 #include "core/data/MixedFit.h"
+#include "core/report/AnalysisJson.h"
 #include "core/data/DataReader.h"
 #include "core/data/ItemFit.h"
 #include "core/model/Design.h"
@@ -14,6 +17,7 @@
 #include "core/report/ItemReport.h"
 
 #include <QCommandLineParser>
+#include <QJsonArray>
 #include <QJsonDocument>
 
 using namespace Qt::StringLiterals;
@@ -173,10 +177,12 @@ int runFit(const QStringList &args, Io &io)
     auto arguments = dataArguments(p);
     if (!arguments)
         return badInput(io, arguments.error());
+    auto study = studyFromOptions(p);
+    if (!study)
+        return badInput(io, study.error());
     std::optional<Design> design;
-    auto scheme = schemeOrCellsFromOptions(p, u"a fit"_s, &design);
-    if (!scheme)
-        return badInput(io, scheme.error());
+    if (study->isDesign())
+        design = study->design;
     // The data columns of the factors: a design's default to the factors' names.
     QStringList factorColumns = p.values(u"factor"_s);
     if (design && !p.isSet(u"summary"_s)) {
@@ -209,29 +215,42 @@ int runFit(const QStringList &args, Io &io)
         if (p.isSet(u"json"_s))
             io.out << QString::fromUtf8(QJsonDocument(mixedFitToJson(*mixed, *data)).toJson(QJsonDocument::Indented));
         else
-            io.out << fitReport(*scheme, true, *data, mixed->overall);
+            io.out << fitReport(analyzeDesign(*design).cellScheme, true, *data, mixed->overall);
         return kExitOk;
     }
-    auto fit = p.isSet(u"participant"_s) ? fitParticipants(*scheme, *data, arguments->fit, arguments->mapping)
-                                         : fitScheme(*scheme, *data, arguments->fit, arguments->mapping);
+    // A design is fitted over the cells that have data (refused, with the reason, when its terms
+    // cannot be estimated from them); a one-factor scheme as it stands.
+    Result<DesignFit> fit = design ? fitDesign(*design, *data, arguments->fit, arguments->mapping)
+                                   : Result<DesignFit>::failure(QString());
+    if (!design) {
+        auto one = p.isSet(u"participant"_s) ? fitParticipants(study->activeScheme(), *data, arguments->fit, arguments->mapping)
+                                             : fitScheme(study->activeScheme(), *data, arguments->fit, arguments->mapping);
+        fit = one ? Result<DesignFit>(DesignFit{one.take(), {}}) : Result<DesignFit>::failure(one.error());
+    }
     if (!fit) // named by the data it could not fit
         return badInput(io, data->source + u": "_s + fit.error());
+    const Scheme &scheme = design ? fit->design.cellScheme : study->activeScheme();
     std::optional<ItemAnalysis> items;
     if (p.isSet(u"item"_s)) {
-        auto byItem = fitItems(*scheme, *data, *fit, arguments->fit, arguments->mapping);
+        auto byItem = fitItems(scheme, *data, fit->fit, arguments->fit, arguments->mapping);
         if (!byItem)
             return badInput(io, data->source + u": "_s + byItem.error());
         items = byItem.take();
     }
     if (p.isSet(u"json"_s)) {
-        QJsonObject json = fitResultToJson(*fit, *data);
+        QJsonObject o = fitResultToJson(fit->fit, *data);
+        const QJsonObject empty = emptyCellsToJson(fit->design.empty);
+        for (auto it = empty.constBegin(); it != empty.constEnd(); ++it)
+            o[it.key()] = it.value();
+        if (!fit->design.emptyCells.isEmpty())
+            o[u"empty_cells"_s] = QJsonArray::fromStringList(fit->design.emptyCells);
         if (items)
-            addItemAnalysisToJson(json, *items);
-        io.out << QString::fromUtf8(QJsonDocument(json).toJson(QJsonDocument::Indented));
+            addItemAnalysisToJson(o, *items);
+        io.out << QString::fromUtf8(QJsonDocument(o).toJson(QJsonDocument::Indented));
     } else {
-        io.out << fitReport(*scheme, design.has_value(), *data, *fit);
+        io.out << fitReport(scheme, design.has_value(), *data, fit->fit);
         if (items)
-            io.out << itemReport(*fit, *items);
+            io.out << itemReport(fit->fit, *items);
     }
     return kExitOk;
 }

@@ -71,7 +71,12 @@ QString differenceOfDifferences(const Design &d, const std::vector<Weight> &h, s
 
 } // namespace
 
-DesignAnalysis analyzeDesign(const Design &d)
+std::vector<Weight> DesignAnalysis::rowOverCells(int coefficient) const
+{
+    return overAllCells(analysis.hypotheses[size_t(coefficient)], analysedCells, int(cells.size()));
+}
+
+DesignAnalysis analyzeDesign(const Design &d, const QString &emptyWhy)
 {
     DesignAnalysis out;
     auto addProblem = [&](const QString &msg) {
@@ -84,9 +89,12 @@ DesignAnalysis analyzeDesign(const Design &d)
     out.cells = d.cellNames();
     for (const Term &t : d.terms)
         out.termNames << termName(d, t);
-    for (size_t c = 0; c < d.cellN.size(); ++c)
-        if (d.cellN[c] == 0)
+    for (size_t c = 0; c < size_t(out.cells.size()); ++c) {
+        if (!d.cellN.empty() && d.cellN[c] == 0)
             out.emptyCells << out.cells[qsizetype(c)];
+        else
+            out.analysedCells.push_back(int(c));
+    }
     auto cs = cellScheme(d);
     if (!cs) {
         addProblem(cs.error());
@@ -96,13 +104,26 @@ DesignAnalysis analyzeDesign(const Design &d)
     for (size_t t = 0; t < d.terms.size(); ++t)
         out.columnTerm.insert(out.columnTerm.end(), termColumns(d, d.terms[t]).size(), int(t));
     if (!out.emptyCells.isEmpty()) {
-        // Refuse rather than guess: a cell mean with no observations cannot enter any hypothesis.
-        out.analysis.levels = out.cells;
-        addProblem(u"empty cells (planned n = 0): %1. Every cell needs observations for the cell-means hypotheses; "
-                   "give them a planned n or leave out the terms that need them"_s.arg(out.emptyCells.join(u", "_s)));
-        return out;
+        // Over the cells with observations, when the terms can be estimated from them.
+        out.empty = checkEmptyCells(d, out.cellScheme, out.analysedCells, emptyWhy.isEmpty() ? u"planned n = 0"_s : emptyWhy);
+        if (!out.empty.estimable) {
+            out.analysis.levels = out.cells;
+            addProblem(out.empty.refusal);
+            return out;
+        }
+        out.cellScheme = keptCellsScheme(out.cellScheme, out.analysedCells, d.cellN);
     }
     out.analysis = analyze(out.cellScheme);
+    if (!out.emptyCells.isEmpty() && out.analysis.fullRank) {
+        compareWithFullDesign(out.empty, d, out.analysedCells, out.analysis);
+        out.analysis.findings.push_back(Finding{Finding::Severity::Info, Finding::Topic::Hypothesis,
+            u"the hypotheses and the design's health are over the %1 cells with observations (without %2)"_s
+                .arg(out.analysedCells.size()).arg(out.emptyCells.join(u", "_s))});
+        for (const HypothesisShift &s : out.empty.shifts)
+            out.analysis.findings.push_back(Finding{Finding::Severity::Caution, Finding::Topic::Hypothesis,
+                u"without %1: "_s.arg(out.emptyCells.join(u", "_s)) + s.words,
+                s.coefficient - (out.analysis.intercept ? 1 : 0), -1});
+    }
     const Analysis &a = out.analysis;
 
     // Term blocks: orthogonal when every cross pair is orthogonal under the cell n.
@@ -133,7 +154,7 @@ DesignAnalysis analyzeDesign(const Design &d)
             const Term &t = d.terms[size_t(out.columnTerm[size_t(j)])];
             if (t.factors.size() < 2 || t.within >= 0)
                 continue;
-            const QString text = differenceOfDifferences(d, a.hypotheses[size_t(j + off)], t.factors, out.cells);
+            const QString text = differenceOfDifferences(d, out.rowOverCells(j + off), t.factors, out.cells);
             if (text.isEmpty())
                 continue;
             out.analysis.hypothesisCombinations[j + off] = text;
@@ -143,7 +164,8 @@ DesignAnalysis analyzeDesign(const Design &d)
     }
 
     // A "main effect" that only compares cells at one level of another factor is a simple effect.
-    if (a.fullRank) {
+    // (With empty cells the comparison with the full design says what changed, and why.)
+    if (a.fullRank && out.emptyCells.isEmpty()) {
         const int off = a.intercept ? 1 : 0;
         for (int j = 0; j < a.columnCount; ++j) {
             const Term &t = d.terms[size_t(out.columnTerm[size_t(j)])];
@@ -153,8 +175,9 @@ DesignAnalysis analyzeDesign(const Design &d)
                 if (std::find(t.factors.begin(), t.factors.end(), int(g)) != t.factors.end())
                     continue;
                 std::vector<bool> used(size_t(d.factors[g].levelCount()), false);
-                for (int c = 0; c < a.levelCount; ++c)
-                    if (!a.hypotheses[size_t(j + off)][size_t(c)].isZero() && std::abs(a.hypotheses[size_t(j + off)][size_t(c)].value()) > 1e-12)
+                const std::vector<Weight> row = out.rowOverCells(j + off);
+                for (int c = 0; c < int(row.size()); ++c)
+                    if (!row[size_t(c)].isZero() && std::abs(row[size_t(c)].value()) > 1e-12)
                         used[size_t(cellLevels(d, c)[g])] = true;
                 if (std::count(used.begin(), used.end(), true) == 1) {
                     const int level = int(std::find(used.begin(), used.end(), true) - used.begin());

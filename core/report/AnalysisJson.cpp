@@ -132,6 +132,49 @@ QJsonObject designAnalysisToJson(const Design &d, const DesignAnalysis &da)
     }
     o[u"terms_orthogonal_in_design"_s] = to;
     o[u"empty_cells"_s] = QJsonArray::fromStringList(da.emptyCells);
+    const QJsonObject empty = emptyCellsToJson(da.empty);
+    for (auto it = empty.constBegin(); it != empty.constEnd(); ++it)
+        o[it.key()] = it.value();
+    return o;
+}
+
+QJsonObject emptyCellsToJson(const EmptyCellEffects &e)
+{
+    QJsonObject o;
+    if (e.emptyCells.isEmpty())
+        return o;
+    auto weights = [](const std::vector<Weight> &row) { return jsonArray(row, [](const Weight &w) { return jsonNumber(w.value()); }); };
+    QJsonArray shifts;
+    for (const HypothesisShift &s : e.shifts)
+        shifts.append(QJsonObject{{u"coefficient"_s, s.coefficient},
+                                  {u"label"_s, s.label},
+                                  {u"term"_s, s.term},
+                                  {u"full_design"_s, s.before},
+                                  {u"now"_s, s.after},
+                                  {u"full_design_weights"_s, weights(s.beforeRow)},
+                                  {u"weights"_s, weights(s.afterRow)},
+                                  {u"empty_cell_weights"_s, QJsonArray::fromStringList(s.emptyWeights)},
+                                  {u"reweighted_cells"_s, QJsonArray::fromStringList(s.reweighted)},
+                                  {u"words"_s, s.words}});
+    QJsonArray unestimable;
+    for (const UnestimableCoefficient &u : e.unestimable)
+        unestimable.append(QJsonObject{{u"coefficient"_s, u.coefficient},
+                                       {u"label"_s, u.label},
+                                       {u"term"_s, u.term},
+                                       {u"only_in_empty_cells"_s, u.onlyInEmptyCells}});
+    o[u"empty_cells_reason"_s] = e.why;
+    o[u"estimable"_s] = e.estimable;
+    o[u"estimable_rank"_s] = e.rank;
+    if (!e.estimable) {
+        o[u"not_estimable"_s] = unestimable;
+        o[u"leave_out_terms"_s] = QJsonArray::fromStringList(e.leaveOut);
+        o[u"refusal"_s] = e.refusal;
+        return o;
+    }
+    o[u"full_design_empty_cell_n"_s] = e.fullCellN;
+    o[u"changed_hypotheses"_s] = shifts;
+    o[u"unchanged_hypotheses"_s] = QJsonArray::fromStringList(e.unchanged);
+    o[u"empty_cells_summary"_s] = e.summary;
     return o;
 }
 

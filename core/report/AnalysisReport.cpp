@@ -133,6 +133,17 @@ QString analysisReport(const Scheme &s, const Analysis &a)
     return out;
 }
 
+QString emptyCellsReport(const EmptyCellEffects &e)
+{
+    if (e.emptyCells.isEmpty())
+        return {};
+    QString out = u"Empty cells (%1): %2; analysed over the other cells\n"_s.arg(e.why, e.emptyCells.join(u", "_s));
+    out += u"  %1\n"_s.arg(e.summary);
+    for (const HypothesisShift &s : e.shifts)
+        out += u"  %1\n"_s.arg(s.words);
+    return out + u"\n"_s;
+}
+
 QString designReport(const Design &d, const DesignAnalysis &da)
 {
     QString out;
@@ -142,11 +153,12 @@ QString designReport(const Design &d, const DesignAnalysis &da)
     out += u"Design: %1\n"_s.arg(factors.join(kCrossJoiner));
     out += u"Cells (first factor slowest): %1\n"_s.arg(da.cells.join(u", "_s));
     out += u"Terms: %1\n\n"_s.arg(da.termNames.join(u", "_s));
-    if (!da.emptyCells.isEmpty() || da.cellScheme.columns.empty()) {
+    if (da.refused() || da.cellScheme.columns.empty()) {
         for (const Finding &f : da.analysis.findings)
             out += u"[problem] %1\n"_s.arg(f.message);
         return out;
     }
+    out += emptyCellsReport(da.empty);
     QStringList colTerms;
     for (size_t j = 0; j < da.columnTerm.size(); ++j)
         colTerms << u"  column %1 '%2' belongs to %3"_s.arg(j + 1).arg(da.cellScheme.columns[j].name, da.termNames[da.columnTerm[j]]);

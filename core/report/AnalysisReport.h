@@ -17,6 +17,9 @@ QString analysisReport(const Scheme &scheme, const Analysis &analysis);
 struct Design;
 struct DesignAnalysis;
 QString designReport(const Design &design, const DesignAnalysis &analysis);
+// The empty cells, what they change (one line per changed coefficient); empty without empty cells.
+// The design report and the fit report of a design both include it.
+QString emptyCellsReport(const EmptyCellEffects &effects);
 
 // A plain-text report of two codings compared (core/analysis/Compare.h), for the terminal.
 struct CodingComparison;

@@ -43,6 +43,7 @@ private slots:
     void openButtonAsksThePrompter();
     void rendersTheIrrigationDemo();
     void fitsADesignFromOneColumnPerFactor();
+    void designCellWithoutDataIsLeftOutWhenTheTermsAllow();
     void responseIsAMeasurementNeverText_data();
     void responseIsAMeasurementNeverText();
     void participantColumnGivesTheByParticipantCheck();
@@ -240,6 +241,39 @@ void TestDataPanel::fitsADesignFromOneColumnPerFactor()
     doc.reset(broken, {});
     QVERIFY(!panel.fit().has_value());
     QVERIFY2(panel.message().contains(u"the design cannot be fitted: design.terms: give at least one term"_s), qPrintable(panel.message()));
+}
+
+// The hedgerow design with no rows for grass·late: with the interaction the panel refuses and says
+// which term to leave out; main effects only, it fits the five cells with data and says which
+// coefficients now test something else (the numbers themselves: TestEmptyCells, against NumPy).
+void TestDataPanel::designCellWithoutDataIsLeftOutWhenTheTermsAllow()
+{
+    Document doc;
+    doc.reset(loadDemoStudy(u"hedgerow"_s).take(), {});
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"margins.csv"_s);
+    QByteArray csv = "margin,mowing,visits\n";
+    for (const char *cell : {"bare,early", "bare,late", "grass,early", "wildflower,early", "wildflower,late"})
+        for (int i = 0; i < 3; ++i)
+            csv += QByteArray(cell) + ',' + QByteArray::number(10 + i * 2 + int(qstrlen(cell)) % 5) + '\n';
+    QVERIFY(test::writeFile(path, csv));
+    DataPanel panel(&doc);
+    QVERIFY(panel.openFile(path));
+    panel.setColumns(u"margin"_s, u"visits"_s);
+    QVERIFY(readAndWait(panel));
+    QVERIFY(!panel.fit().has_value());
+    QVERIFY2(panel.message().contains(u"empty cell (no rows in the data): grass\u00b7late. The chosen terms cannot be estimated"_s),
+             qPrintable(panel.message()));
+    QVERIFY2(panel.message().contains(u"Leave out the term margin \u00d7 mowing"_s), qPrintable(panel.message()));
+
+    Study mainEffects = doc.study();
+    mainEffects.design.terms.pop_back();
+    doc.editStudy(mainEffects, u"Leave out the interaction"_s);
+    QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+    QCOMPARE(panel.fit()->levels.size(), 5);
+    QCOMPARE(panel.fit()->coefficients.size(), size_t(4));
+    QVERIFY2(panel.problemsText().contains(u"the empty cell grass\u00b7late (no rows in the data) changes what"_s), qPrintable(panel.problemsText()));
+    QVERIFY(renderPanel(panel, QSize(1500, 470), u"data-design-empty-cell"_s));
 }
 
 // The proposed response is the first numeric column that is not a row label (named like one,

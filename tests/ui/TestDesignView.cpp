@@ -46,6 +46,7 @@ private slots:
     void factorSizesAreTheLevelTotalsOverTheCells();
     void exportIsOverTheCells();
     void emptyCellIsNamed();
+    void emptyCellWithEstimableTermsIsAnalysedOverTheOthers();
     void saveThenOpenRoundTripsTheDesign();
     void badDesignFileNamesTheFieldAndKeepsTheWork();
     void recoveryKeepsTheDesign();
@@ -441,12 +442,36 @@ void TestDesignView::emptyCellIsNamed()
     QAbstractItemModel *sizes = p->cellSizeTable()->model();
     QVERIFY(sizes->setData(sizes->index(1, 1), u"0"_s)); // grass·late, as typed
     QCOMPARE(rationalToString(d->design().cellN[3]), u"0"_s);
-    QVERIFY2(hasFinding(p->findingsText(), u"empty cells (planned n = 0): grass\u00b7late"_s), qPrintable(p->findingsText()));
+    QVERIFY2(hasFinding(p->findingsText(), u"Empty cell (planned n = 0): grass\u00b7late. The chosen terms cannot be estimated"_s), qPrintable(p->findingsText()));
     QVERIFY(cellText(p->cellSizeTable(), 1, 1).startsWith(u"\u2717"_s));
     sizes->setData(sizes->index(1, 1), u"x"_s); // refused, nothing changes
     QCOMPARE(rationalToString(d->design().cellN[3]), u"0"_s);
     d->undoStack()->undo();
     QCOMPARE(rationalToString(d->design().cellN[3]), u"5"_s);
+}
+
+// Main effects only, grass·late emptied: the design is analysed over the other five cells; the
+// picture hatches the empty cell, the cell-size table marks it as a caution, and the hypothesis
+// text and the findings say which coefficients now test something different.
+void TestDesignView::emptyCellWithEstimableTermsIsAnalysedOverTheOthers()
+{
+    WindowFixture f;
+    QVERIFY(f.window->openDemo(u"hedgerow"_s));
+    Document *d = f.window->document();
+    DesignPanel *p = f.window->designPanel();
+    setTicked(termItem(p->termTree(), u"margin \u00d7 mowing"_s), false);
+    QAbstractItemModel *sizes = p->cellSizeTable()->model();
+    QVERIFY(sizes->setData(sizes->index(1, 1), u"0"_s)); // grass·late
+    QVERIFY(d->designAnalysis().empty.estimable);
+    QCOMPARE(d->designAnalysis().analysis.levelCount, 5);
+    QVERIFY(cellText(p->cellSizeTable(), 1, 1).startsWith(u"!"_s));
+    p->selectColumn(2); // b3 late vs early
+    QCOMPARE(p->picture()->cellTexts(),
+             (QStringList{u"\u22125/9"_s, u"5/9"_s, u"0"_s, u"empty"_s, u"\u22124/9"_s, u"4/9"_s})); // TestEmptyCells derives them
+    QVERIFY2(p->hypothesisText().contains(u"Without grass\u00b7late: b3 late vs early (mowing) now tests"_s), qPrintable(p->hypothesisText()));
+    QVERIFY2(hasFinding(p->findingsText(), u"the empty cell grass\u00b7late (planned n = 0) changes what 4 of 4 coefficients test"_s),
+             qPrintable(p->findingsText()));
+    QVERIFY2(hasFinding(p->findingsText(), u"over the 5 cells with observations"_s), qPrintable(p->findingsText()));
 }
 
 void TestDesignView::saveThenOpenRoundTripsTheDesign()

@@ -1,4 +1,6 @@
 #include "ui/data/DataPanel.h"
+
+#include "core/data/DesignFit.h"
 #include "ui/common/WrapLabel.h"
 
 #include "core/base/NumberText.h"
@@ -313,6 +315,12 @@ const Scheme &DataPanel::fitTarget() const
     return m_document->isDesign() ? m_document->designAnalysis().cellScheme : m_document->scheme();
 }
 
+QStringList DataPanel::targetLevels() const
+{
+    // Every cell of a design: the data decide which are empty (fitDesign).
+    return m_document->isDesign() ? m_document->design().cellNames() : m_document->scheme().factor.levels;
+}
+
 void DataPanel::updateFactorRows()
 {
     QStringList names;
@@ -601,7 +609,7 @@ void DataPanel::rebuildMapping()
 {
     if (!m_data)
         return;
-    const QStringList scheme = fitTarget().factor.levels;
+    const QStringList scheme = targetLevels();
     const bool design = m_document->isDesign();
     m_mapping->setHeaders({design ? tr("Cell in the data") : tr("Level in the data"), tr("Rows"), design ? tr("Design cell") : tr("Scheme level")});
     const QStringList choices = QStringList{noMatch()} + scheme;
@@ -626,7 +634,7 @@ void DataPanel::levelChosen(int row, int choice)
 {
     if (!m_data || row < 0 || row >= int(m_data->levels.size()))
         return;
-    const QStringList scheme = fitTarget().factor.levels;
+    const QStringList scheme = targetLevels();
     m_chosen.insert(m_data->levels[size_t(row)].name, choice > 0 ? scheme.value(choice - 1) : QString());
     rebuildMapping();
 }
@@ -642,7 +650,7 @@ void DataPanel::mapLevel(const QString &dataLevel, const QString &schemeLevel)
         return;
     for (size_t r = 0; r < m_data->levels.size(); ++r)
         if (m_data->levels[r].name == dataLevel)
-            levelChosen(int(r), int(fitTarget().factor.levels.indexOf(schemeLevel)) + 1);
+            levelChosen(int(r), int(targetLevels().indexOf(schemeLevel)) + 1);
 }
 
 void DataPanel::setAdjustment(Adjustment adjust)
@@ -652,7 +660,7 @@ void DataPanel::setAdjustment(Adjustment adjust)
 
 void DataPanel::updateUnmatched()
 {
-    const QStringList scheme = fitTarget().factor.levels;
+    const QStringList scheme = targetLevels();
     const LevelMapping mapping = currentMapping();
     QStringList dataOnly, covered;
     for (const LevelStats &l : m_data->levels) {
@@ -694,15 +702,18 @@ void DataPanel::refit()
         return;
     }
     options.alpha = alpha->value();
-    // A design that is not usable has no cells to fit; its own findings say why.
-    const auto &designFindings = m_document->designAnalysis().analysis.findings;
-    Result<FitResult> fit = m_document->isDesign() && fitTarget().levelCount() == 0
-        ? Result<FitResult>::failure(tr("the design cannot be fitted: %1")
-                                         .arg(designFindings.empty() ? tr("it has no cells") : designFindings.front().message))
-        : m_data->participantIndex >= 0 && m_document->isDesign() ? [&] { // a mixed design (core/data/MixedFit.h)
-              auto mixed = fitMixedParticipants(m_document->design(), *m_data, options, mapping);
-              return mixed ? Result<FitResult>(std::move(mixed->overall)) : Result<FitResult>::failure(mixed.error());
-          }()
+    // A design is fitted over the cells that have data, or refused with the reason (fitDesign);
+    // with a participant column, by participant (a mixed design, core/data/MixedFit.h).
+    const auto overCells = [&]() -> Result<FitResult> {
+        auto designFit = fitDesign(m_document->design(), *m_data, options, mapping);
+        return designFit ? Result<FitResult>(std::move(designFit->fit)) : Result<FitResult>::failure(designFit.error());
+    };
+    const auto byParticipantOverCells = [&]() -> Result<FitResult> {
+        auto mixed = fitMixedParticipants(m_document->design(), *m_data, options, mapping);
+        return mixed ? Result<FitResult>(std::move(mixed->overall)) : Result<FitResult>::failure(mixed.error());
+    };
+    Result<FitResult> fit = m_data->participantIndex >= 0 && m_document->isDesign() ? byParticipantOverCells()
+        : m_document->isDesign()        ? overCells()
         : m_data->participantIndex >= 0 ? fitParticipants(fitTarget(), *m_data, options, mapping)
                                         : fitScheme(fitTarget(), *m_data, options, mapping);
     if (!fit) {

@@ -123,6 +123,7 @@ private:
     void updateUnmatched();
     // The one-factor scheme, or with a design open the design's coding over its cells.
     const Scheme &fitTarget() const;
+    QStringList targetLevels() const; // the levels, or every cell of a design
     // One column chooser per factor of the open design (the first alone for one factor).
     void updateFactorRows();
     LevelMapping currentMapping() const;

@@ -50,8 +50,8 @@ void CellPicture::clear()
 QStringList CellPicture::cellTexts() const
 {
     QStringList out;
-    for (const Weight &w : m_content.weights)
-        out << w.display(true);
+    for (size_t c = 0; c < m_content.weights.size(); ++c)
+        out << (isEmptyCell(c) ? tr("empty") : m_content.weights[c].display(true));
     return out;
 }
 
@@ -66,6 +66,11 @@ QStringList CellPicture::cellSigns() const
 QString CellPicture::keyText() const
 {
     return tr("%1 above zero   %2 below zero   plain: not compared").arg(kAbove, kBelow);
+}
+
+bool CellPicture::hasEmptyCells() const
+{
+    return std::find(m_content.empty.begin(), m_content.empty.end(), true) != m_content.empty.end();
 }
 
 int CellPicture::blockCount() const
@@ -96,7 +101,7 @@ QSize CellPicture::sizeHint() const
     const int blocks = blockCount();
     const int grid = m.rowHeader + blocks * int(m_content.columns.size()) * m.cell + (blocks - 1) * m.blockGap + 2;
     const int width = std::max(grid, fontMetrics().horizontalAdvance(keyText()) + 4);
-    const int height = m.top + int(m_content.rows.size()) * m.cellHeight + fontMetrics().height() + 8;
+    const int height = m.top + int(m_content.rows.size()) * m.cellHeight + (hasEmptyCells() ? 2 : 1) * fontMetrics().height() + 8;
     return {width, height};
 }
 
@@ -156,6 +161,14 @@ void CellPicture::paintEvent(QPaintEvent *)
                 }
                 p.setPen(look::baseline());
                 p.drawRect(box.adjusted(0, 0, -1, -1));
+                if (isEmptyCell(cell)) {
+                    QColor hatch = look::baseline();
+                    hatch.setAlphaF(0.45f);
+                    p.fillRect(box.adjusted(1, 1, -1, -1), QBrush(hatch, Qt::BDiagPattern));
+                    p.setPen(look::quietText());
+                    p.drawText(box, Qt::AlignCenter, tr("empty"));
+                    continue;
+                }
                 p.setPen(sign.isEmpty() ? look::quietText() : palette().color(QPalette::WindowText));
                 p.setFont(sign.isEmpty() ? font() : bold);
                 const QString text = sign.isEmpty() ? w.display(true) : sign + u" "_s + w.display(true);
@@ -166,6 +179,9 @@ void CellPicture::paintEvent(QPaintEvent *)
     // A key under the grid, so the symbols read without the colours.
     p.setPen(look::quietText());
     p.drawText(QRect(0, m.top + rows * m.cellHeight + 4, width(), fm.height()), Qt::AlignLeft | Qt::AlignVCenter, keyText());
+    if (hasEmptyCells())
+        p.drawText(QRect(0, m.top + rows * m.cellHeight + 4 + fm.height(), width(), fm.height()), Qt::AlignLeft | Qt::AlignVCenter,
+                   tr("hatched: an empty cell, without observations"));
 }
 
 } // namespace cb

@@ -24,6 +24,7 @@ public:
         QString rowFactor, columnFactor, blockFactor; // factor names (blockFactor empty with two factors)
         QStringList rows, columns, blocks;            // level names
         std::vector<Weight> weights;                  // over the cells, the first factor varying slowest
+        std::vector<bool> empty;                      // cells without observations (hatched, "empty"); may be left empty
     };
 
     explicit CellPicture(QWidget *parent = nullptr);
@@ -31,7 +32,7 @@ public:
     void setContent(Content content);
     void clear();
     bool isEmpty() const { return m_content.weights.empty(); }
-    // The text shown in each cell (A-major), as Weight::display gives it.
+    // The text shown in each cell (A-major), as Weight::display gives it; "empty" for an empty cell.
     QStringList cellTexts() const;
     // "▲", "▼" or "" for each cell.
     QStringList cellSigns() const;
@@ -51,6 +52,8 @@ private:
     };
     Metrics metrics() const;
     QString keyText() const;
+    bool hasEmptyCells() const;
+    bool isEmptyCell(size_t cell) const { return cell < m_content.empty.size() && m_content.empty[cell]; }
 
     Content m_content;
     double m_largest = 0;

@@ -231,7 +231,10 @@ void DesignPanel::fillCellSizes()
         columnTitles << cells[c].mid(first.factor.levels.value(0).size() + cellJoiner().size());
     m_cellN->setHeaders(columnTitles);
     m_cellN->setRowHeaders(first.factor.levels);
-    const QStringList empty = m_document->designAnalysis().emptyCells;
+    const DesignAnalysis &da = m_document->designAnalysis();
+    const QStringList empty = da.emptyCells;
+    // An empty cell is a problem only when the terms cannot be estimated without it.
+    const look::State emptyState = da.empty.estimable ? look::State::Caution : look::State::Problem;
     TableRows table(static_cast<size_t>(rows));
     for (int r = 0; r < rows; ++r)
         for (int c = 0; c < cols; ++c) {
@@ -245,12 +248,17 @@ void DesignPanel::fillCellSizes()
                 item.toolTip = tr("Equal sizes (none given); type a number to plan this cell.");
             } else {
                 const bool isEmpty = empty.contains(cells[cell]);
-                item.text = (isEmpty ? look::mark(look::State::Problem) + u" "_s : QString()) + rationalToString(d.cellN[size_t(cell)]);
+                item.text = (isEmpty ? look::mark(emptyState) + u" "_s : QString()) + rationalToString(d.cellN[size_t(cell)]);
                 if (isEmpty) {
-                    item.ink = look::ink(look::State::Problem);
-                    item.background = look::tint(look::State::Problem);
+                    item.ink = look::ink(emptyState);
+                    item.background = look::tint(emptyState);
                 }
-                item.toolTip = isEmpty ? tr("An empty cell: no observations planned for %1.").arg(cells[cell]) : cells[cell];
+                item.toolTip = !isEmpty ? cells[cell]
+                    : da.empty.estimable
+                    ? tr("An empty cell: no observations planned for %1. The design is analysed over the other cells; the findings say "
+                         "which hypotheses change.").arg(cells[cell])
+                    : tr("An empty cell: no observations planned for %1. The terms cannot be estimated without it (see the findings).")
+                          .arg(cells[cell]);
             }
             table[size_t(r)].push_back(std::move(item));
         }
@@ -273,8 +281,9 @@ void DesignPanel::fillPicture()
     if (a.hypotheses.empty() || m_column >= a.columnCount || size_t(row) >= a.hypotheses.size()) {
         m_picture->clear();
         look::setText(m_columnTitle, tr("Hypothesis over the cells"));
-        look::setText(m_hypothesis, a.columnCount == 0 ? tr("No columns to show: see the findings below.")
-                                                       : tr("No hypotheses: the design's columns are not identifiable (see the findings below)."));
+        look::setText(m_hypothesis, a.columnCount == 0 && da.empty.estimable ? tr("No columns to show: see the findings below.")
+                                    : !da.empty.estimable ? tr("No hypotheses: the terms cannot be estimated without the empty cells (see the findings below).")
+                                    : tr("No hypotheses: the design's columns are not identifiable (see the findings below)."));
         return;
     }
     CellPicture::Content c;
@@ -286,11 +295,18 @@ void DesignPanel::fillPicture()
         c.blockFactor = d.factors[2].factor.name;
         c.blocks = d.factors[2].factor.levels;
     }
-    c.weights = a.hypotheses[size_t(row)];
+    c.weights = da.rowOverCells(row);
+    for (const QString &cell : da.cells)
+        c.empty.push_back(da.emptyCells.contains(cell));
     m_picture->setContent(std::move(c));
     const QString term = da.termNames.value(da.columnTerm[size_t(m_column)]);
     look::setText(m_columnTitle, tr("b%1 over the cells \u2014 %2 (term %3)").arg(row).arg(da.cellScheme.columns[size_t(m_column)].name, term));
-    look::setText(m_hypothesis, u"%1\n%2"_s.arg(a.hypothesisSymbols.value(row), capitalised(a.hypothesisWords.value(row))));
+    QString text = u"%1\n%2"_s.arg(a.hypothesisSymbols.value(row), capitalised(a.hypothesisWords.value(row)));
+    for (const HypothesisShift &shift : da.empty.shifts)
+        if (shift.coefficient == row)
+            text += u"\n"_s + look::mark(look::State::Caution) + u" "_s
+                + tr("Without %1: %2").arg(da.emptyCells.join(u", "_s), shift.words);
+    look::setText(m_hypothesis, text);
 }
 
 void DesignPanel::fillFindings()
@@ -305,6 +321,8 @@ void DesignPanel::fillFindings()
         const QString mark = state == look::State::Neutral ? u"i"_s : look::mark(state);
         lines << u"<div style=\"color:%1\">%2 %3</div>"_s.arg(look::ink(state).name(), mark, capitalised(text).toHtmlEscaped());
     };
+    if (!da.empty.summary.isEmpty())
+        line(da.empty.shifts.empty() ? look::State::Good : look::State::Caution, da.empty.summary);
     for (const Finding &f : findings)
         line(look::ofSeverity(f.severity), f.message);
     if (findings.empty())
