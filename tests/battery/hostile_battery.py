@@ -383,8 +383,12 @@ def database_cases(tmp):
     for value in ["", " ", 'x"; DROP TABLE t; --', "%1%2", "a" * 100_000]:
         cases.append(Case(f"export sql-summary --table {value[:30]!r}", query[:3] + ["--table", value] + query[5:],
                           refuse=value == "", place="--table" if value == "" else None, kind="option"))
-    cases.append(Case("export sql-summary --participant", query + ["--participant", "p"], refuse=True,
-                      place="--participant", kind="option"))
+    # The two-level form (one row per participant and level) is printed, not refused.
+    cases.append(Case("export sql-summary --participant", query + ["--participant", "p"], refuse=False,
+                      kind="option"))
+    for value in ["", 'p"; DROP TABLE t; --']:
+        cases.append(Case(f"export sql-summary --participant {value[:20]!r}", query + ["--participant", value],
+                          refuse=value == "", place="--participant" if value == "" else None, kind="option"))
     cases.append(Case("export sql-summary without --table", query[:3] + query[5:], refuse=True, place="--table",
                       kind="option"))
     return cases

@@ -66,6 +66,7 @@ class TestPowerWithin : public QObject
 private slots:
     void agreesWithScipyOnGeneratedDesigns();
     void betweenGroupsFormulaGivesAVeryDifferentN();
+    void pairedComparisonOfTheTextbooks();
     void hotellingNeedsAsManyParticipantsAsLevels();
     void rejectsInput_data();
     void rejectsInput();
@@ -183,6 +184,9 @@ void TestPowerWithin::betweenGroupsFormulaGivesAVeryDifferentN()
     const PowerReport within = mustCompute(rows, s);
     QCOMPARE(within.contrasts[0].required.total, 21LL);
     QCOMPARE(within.comparedContrast, 0);
+    // 64 per group for d = 0.5, two-sided alpha = .05, power .80: Cohen (1988), Statistical Power
+    // Analysis for the Behavioral Sciences, 2nd ed., Table 2.4.1 (from memory; SciPy's noncentral t
+    // gives power 0.8015 at 64 and 0.7952 at 63).
     QCOMPARE(within.asGroups.perLevel, (std::vector<long long>{64, 64}));
     QCOMPARE(within.asGroups.total, 128LL);
     // The between-groups computation itself, with the same means and SD.
@@ -201,6 +205,24 @@ void TestPowerWithin::betweenGroupsFormulaGivesAVeryDifferentN()
     // The correlation is a guess: its caution comes with every within report.
     QVERIFY(within.cautions.join(u' ').contains(u"correlation between a participant's values"_s));
     QVERIFY(!between.cautions.join(u' ').contains(u"correlation between a participant's values"_s));
+}
+
+// The textbook paired comparison: two conditions, SD 1, means 0.5 apart, correlation 0.5, so the
+// difference scores have SD 1 and d_z = 0.5. The paired t test then needs 34 participants for
+// power .80 at two-sided alpha = .05 (power 0.8078; 33 give 0.7954): the exact figure commonly
+// quoted for a paired t with d_z = 0.5 (from memory; Cohen's (1988, ch. 2) approximation through
+// his two-sample table gives 33). The powers asserted are SciPy's noncentral t (scipy.stats.nct).
+void TestPowerWithin::pairedComparisonOfTheTextbooks()
+{
+    Eigen::MatrixXd rows(1, 2);
+    rows << -1, 1;
+    const PowerReport at34 = mustCompute(rows, withinSettings({0.0, 0.5}, 0.5, 34));
+    QCOMPARE(at34.contrasts[0].required.total, 34LL);
+    QVERIFY(near(at34.contrasts[0].df, 33.0, 1e-15));
+    QVERIFY(near(at34.contrasts[0].se, std::sqrt(1.0 / 34.0), 1e-14));
+    QVERIFY(std::abs(at34.contrasts[0].power - 0.8078) < 5e-5);
+    const PowerReport at33 = mustCompute(rows, withinSettings({0.0, 0.5}, 0.5, 33));
+    QVERIFY(std::abs(at33.contrasts[0].power - 0.7954) < 5e-5);
 }
 
 void TestPowerWithin::hotellingNeedsAsManyParticipantsAsLevels()
