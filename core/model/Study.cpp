@@ -54,9 +54,19 @@ Study consistent(Study study)
             Scheme &s = d.factors[f];
             std::vector<Rational> totals;
             if (!d.cellN.empty() && d.cellN.size() == size_t(d.cellCount())) {
+                // Planned n counts participants: the same participants fill every cell of the
+                // within factors other than this one, so a level's total over the cells counts
+                // each of them that many times (1 when no other factor is within participants).
+                // The proportions, and with them every weighting by n, do not change.
+                int repeats = 1;
+                for (size_t g = 0; g < d.factors.size(); ++g)
+                    if (g != f && d.factors[g].factor.isWithin())
+                        repeats *= d.factors[g].levelCount();
                 totals.assign(size_t(s.levelCount()), Rational(0));
                 for (int c = 0; c < d.cellCount(); ++c)
                     totals[size_t(cellLevels(d, c)[f])] += d.cellN[size_t(c)];
+                for (Rational &t : totals)
+                    t /= repeats;
                 // Equal totals stay written out too: the levels panel shows what the cell table implies.
                 if (!std::all_of(totals.begin(), totals.end(), [](const Rational &n) { return n > 0; }))
                     totals.clear();

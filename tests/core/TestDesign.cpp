@@ -59,6 +59,7 @@ class TestDesign : public QObject
 {
     Q_OBJECT
 private slots:
+    void plannedNCountsParticipants();
     void centredTwoByTwo();
     void treatmentTwoByTwoMainEffectIsSimpleEffect();
     void cellsAndColumnNames();
@@ -341,6 +342,25 @@ void TestDesign::cellsAtAndBeyondTheLimit()
     QVERIFY(!added.ok());
     QCOMPARE(added.error(), u"Not added: the design would have %1 cells; at most %2 are supported."_s
                                 .arg(2 * at.cellCount()).arg(kMaxCells));
+}
+
+// A factor's planned n in a design counts participants. In the warmup demo 12 and 10 singers
+// each sing all three vowels (cells 12, 12, 12 and 10, 10, 10): the between factor's levels hold
+// 12 and 10 participants, not 36 and 30 rows, and each vowel all 22 singers.
+void TestDesign::plannedNCountsParticipants()
+{
+    auto study = loadStudy(QStringLiteral(CB_SOURCE_DIR "/resources/demos/warmup.json"));
+    QVERIFY2(study.ok(), qPrintable(study.error()));
+    const Design &d = study->design;
+    QCOMPARE(d.factors.size(), size_t(2));
+    QVERIFY(!d.factors[0].factor.isWithin() && d.factors[1].factor.isWithin());
+    QCOMPARE(d.factors[0].factor.plannedN, (std::vector<Rational>{Rational(12), Rational(10)}));
+    QCOMPARE(d.factors[1].factor.plannedN, (std::vector<Rational>{Rational(22), Rational(22), Rational(22)}));
+    // Between participants only, the totals over the cells are the group sizes, as before.
+    Study between = *study;
+    between.design.factors[1].factor.measure = Measure::Between;
+    between = consistent(std::move(between));
+    QCOMPARE(between.design.factors[0].factor.plannedN, (std::vector<Rational>{Rational(36), Rational(30)}));
 }
 
 QTEST_GUILESS_MAIN(TestDesign)

@@ -77,7 +77,8 @@ QVariant LevelsModel::data(const QModelIndex &index, int role) const
             return QVariant::fromValue(Qt::AlignRight | Qt::AlignVCenter);
         if (role == Qt::ToolTipRole && document()->study().isDesign())
             return tr("In a design the planned sizes are set per cell, in the Design tab; this is the level's total over the "
-                      "cells (1 when the totals are equal), which the panels for this factor on its own use.");
+                      "cells in participants (each counted once across the levels of the other factors measured within "
+                      "participants), which the panels for this factor on its own use.");
         if (role == Qt::ToolTipRole)
             return f.hasPlannedN() ? tr("Planned group size of this level. Weighted-effect coding, the intercept's meaning and "
                                         "orthogonality \u2018under the planned n\u2019 use it.")
