@@ -9,7 +9,7 @@ namespace cb::cli {
 void addSummaryQueryOptions(QCommandLineParser &p, bool participantOption)
 {
     p.addOption({u"table"_s, u"The database table that holds the rows (matched exactly, case included)."_s, u"T"_s});
-    p.addOption({u"variance"_s, u"How the query computes the variance: centred (sums of squares about each level's mean "
+    p.addOption({u"variance"_s, u"How the query computes the variance: centred (sums of squares about each level's midrange "
                                "from a first pass, or about --centre; accurate when the mean is large relative to the SD; "
                                "the default) or engine (the engine's VAR_SAMP)."_s,
                  u"centred|engine"_s});
