@@ -20,7 +20,7 @@ PACKAGES=(
   unixodbc libsqliteodbc
   libeigen3-dev libboost-dev libboost-math-dev libgmp-dev
   libbenchmark-dev
-  python3-numpy python3-scipy python3-pandas
+  python3-numpy python3-scipy python3-pandas python3-statsmodels
   clang libclang-rt-14-dev llvm-14
   xvfb xauth fonts-dejavu-core valgrind
   poppler-utils chromium

@@ -534,6 +534,53 @@ Result<FitResult> fitParticipants(const Scheme &scheme, const DataSummary &data,
     return fit;
 }
 
+Result<MultivariateTest> wilksTest(const Eigen::MatrixXd &X, const Eigen::MatrixXd &Y, const Eigen::MatrixXd &L, const Eigen::MatrixXd &M)
+{
+    using R = Result<MultivariateTest>;
+    const Eigen::Index n = X.rows();
+    const Eigen::Index p = X.cols();
+    const Eigen::Index q = M.cols();
+    const Eigen::Index h = L.rows();
+    const double nu = double(n - p);
+    if (q < 1 || h < 1)
+        return R::failure(u"nothing to test"_s);
+    if (nu < double(q))
+        return R::failure(u"%1 participants with every within cell; the test needs at least %2"_s.arg(n).arg(p + q));
+    const Eigen::MatrixXd xtx = X.transpose() * X;
+    const Eigen::LDLT<Eigen::MatrixXd> xtxLdlt(xtx);
+    if (xtxLdlt.info() != Eigen::Success || !xtxLdlt.isPositive() || xtxLdlt.vectorD().minCoeff() <= 1e-12 * xtx.diagonal().maxCoeff())
+        return R::failure(u"a group has no participant with every within cell, so the groups' scores cannot all be estimated"_s);
+    const Eigen::MatrixXd z = Y * M;
+    const Eigen::MatrixXd b = xtxLdlt.solve(X.transpose() * z);
+    const Eigen::MatrixXd residual = z - X * b;
+    const Eigen::MatrixXd e = residual.transpose() * residual;
+    const Eigen::MatrixXd lb = L * b;
+    const Eigen::MatrixXd middle = L * xtxLdlt.solve(L.transpose());
+    const Eigen::MatrixXd hyp = lb.transpose() * middle.ldlt().solve(lb);
+    const Eigen::LLT<Eigen::MatrixXd> eLlt(e);
+    const Eigen::LLT<Eigen::MatrixXd> ehLlt(e + hyp);
+    const double scale = std::max(e.diagonal().maxCoeff(), std::numeric_limits<double>::min());
+    if (eLlt.info() != Eigen::Success || ehLlt.info() != Eigen::Success
+        || eLlt.matrixL().toDenseMatrix().diagonal().minCoeff() <= 1e-7 * std::sqrt(scale))
+        return R::failure(u"the participants' scores do not vary in every direction within the groups, so the error matrix is singular"_s);
+    const Eigen::VectorXd le = eLlt.matrixL().toDenseMatrix().diagonal();
+    const Eigen::VectorXd leh = ehLlt.matrixL().toDenseMatrix().diagonal();
+    double logLambda = 0.0;
+    for (Eigen::Index i = 0; i < q; ++i)
+        logLambda += 2.0 * (std::log(le(i)) - std::log(leh(i)));
+    MultivariateTest t;
+    t.wilks = std::exp(logLambda);
+    const double pq = double(q), hq = double(h);
+    const double power = pq * pq + hq * hq - 5.0 > 0.0 ? std::sqrt((pq * pq * hq * hq - 4.0) / (pq * pq + hq * hq - 5.0)) : 1.0;
+    t.df1 = pq * hq;
+    t.df2 = (nu - (pq - hq + 1.0) / 2.0) * power - (pq * hq - 2.0) / 2.0;
+    const double root = std::exp(logLambda / power);
+    t.f = (1.0 - root) / root * t.df2 / t.df1;
+    t.p = fUpperP(t.f, t.df1, t.df2);
+    t.exact = std::min(q, h) <= 2;
+    return R(t);
+}
+
 // ---------------------------------------------------------------------------
 // JSON
 

@@ -114,6 +114,7 @@ struct FitResult
     // By participant (fitParticipants): f, fDf1, fDf2 and fP are Hotelling's T^2 as F over the
     // participants with every level.
     bool byParticipant = false;
+    bool mixedDesign = false;         // by participant over a mixed design (core/data/MixedFit.h)
     int participants = 0;             // participants in the data
     int completeParticipants = 0;     // with a value at every level (the omnibus test's)
     QStringList incompleteParticipants; // "p7 (no 'invalid')", each with the levels it lacks
@@ -154,6 +155,25 @@ ParticipantCells participantCells(const Scheme &scheme, const DataSummary &data,
 // participant named: one with values at one level only (is the factor between participants?).
 Result<FitResult> fitParticipants(const Scheme &scheme, const DataSummary &data, const FitOptions &options = {},
                                   const LevelMapping &mapping = {});
+
+// The multivariate linear hypothesis L B M = 0 in the model Y = X B + error, one row per
+// participant (X: N x p, full column rank; Y: N x w; L: h x p; M: w x q): the hypothesis and error
+// sums of squares and cross-products H = (LBM)' (L (X'X)^-1 L')^-1 (LBM) and E = M'Y'(I - X(X'X)^-1 X')YM
+// with nu = N - p df, Wilks' (1932) lambda = det E / det(E + H), and Rao's (1951) F with a b and
+// (nu - (a - b + 1) / 2) t - (a b - 2) / 2 df, a the columns of M, b the rows of L and
+// t = sqrt((a^2 b^2 - 4) / (a^2 + b^2 - 5)) (1 when that denominator is not positive); exact when
+// min(a, b) <= 2 (for b = 1 it is Hotelling's T^2). Refused, with the reason, when X is rank deficient or E is
+// singular (fewer participants than the test needs, or scores that do not vary in every direction).
+struct MultivariateTest
+{
+    double wilks = 0.0;
+    double f = 0.0;
+    double df1 = 0.0;
+    double df2 = 0.0;
+    double p = 0.0;
+    bool exact = true;
+};
+Result<MultivariateTest> wilksTest(const Eigen::MatrixXd &X, const Eigen::MatrixXd &Y, const Eigen::MatrixXd &L, const Eigen::MatrixXd &M);
 
 // {levels: [{name, n, mean, sd}], coefficients: [{name, estimate, se, t, p, p_adjusted,
 //  ci_low, ci_high, hypothesis_estimate, hypothesis}], sigma, df, r_squared, f, f_df1,

@@ -30,12 +30,32 @@ struct MixedFitRow
     FitResult fit;               // the between coding on the scores (levels: the groups)
 };
 
+// A multivariate test of a mixed design over the participants with every within cell: L B M = 0
+// (wilksTest in core/data/DataFit.h) with the participants' cell means as Y, their groups' rows of
+// the between coding as X, L the between part (the groups' equal-weight average, or a between
+// term's columns) and M the within part (the participants' average over the within cells, or a
+// within term's hypothesis rows).
+struct MixedTest
+{
+    QString name;       // "all within cells", a within term, a between term, or "A × T"
+    QString hypothesis; // what it tests, in words
+    MultivariateTest test;
+    QString refusal;    // why it could not be computed (then the numbers are NaN)
+    int participants = 0;
+    Eigen::MatrixXd contrast;  // L: rows over the between design's columns
+    Eigen::MatrixXd transform; // M: columns over the within cells
+};
+
 struct MixedFitResult
 {
     // The design's columns as tested: each within row's coefficients, flattened (names joined with
-    // " × ": "lip trills vs humming × ee vs ah"), with df and participants; byParticipant is set,
-    // and the omnibus F is not computed (NaN), each row's fit has its own between F.
+    // " × ": "lip trills vs humming × ee vs ah"), with df and participants; byParticipant and
+    // mixedDesign are set, and the omnibus F is the first of `tests` (Hotelling's T^2 that the
+    // within cells are equal, averaged over the groups).
     FitResult overall;
+    // All within cells; each within term when there are several; each between term on the
+    // participants' averages; each between term x within term.
+    std::vector<MixedTest> tests;
     std::vector<MixedFitRow> rows;
     QStringList groups;
     QStringList withinCells;
@@ -48,8 +68,9 @@ struct MixedFitResult
 Result<MixedFitResult> fitMixedParticipants(const Design &design, const DataSummary &data, const FitOptions &options = {},
                                             const LevelMapping &mapping = {});
 
-// fitResultToJson of `overall`, its "omnibus" {test: "none", ...}, plus "groups", "within_cells"
-// and "within_rows": [{name, weights, participants, sigma, df, f, f_df1, f_df2, f_p, coefficients}].
+// fitResultToJson of `overall`, its "omnibus" {test: "hotelling", ..., tests: [{name, hypothesis,
+// wilks, f, df1, df2, p, exact, participants, refusal}]}, plus "groups", "within_cells" and
+// "within_rows": [{name, weights, participants, sigma, df, f, f_df1, f_df2, f_p, coefficients}].
 QJsonObject mixedFitToJson(const MixedFitResult &fit, const DataSummary &data);
 
 } // namespace cb

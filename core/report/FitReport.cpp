@@ -21,8 +21,10 @@ QString percent(double share)
 
 QStringList fitSummaryLines(const FitResult &fit, bool cells)
 {
-    if (fit.byParticipant && std::isnan(fit.fDf1)) // a mixed design (core/data/MixedFit.h): no one test of all cells
-        return {fit.omnibusHypothesis, u"%1 participants, %2 with every within cell"_s.arg(fit.participants).arg(fit.completeParticipants)};
+    if (fit.mixedDesign) // core/data/MixedFit.h; the notes list the other multivariate tests
+        return {u"Do the within cells differ? F(%1, %2) = %3, %4; tests that %5"_s.arg(numberText(fit.fDf1, 10), numberText(fit.fDf2, 10),
+                                                                               numberText(fit.f), pClause(fit.fP), fit.omnibusHypothesis),
+                u"%1 participants, %2 with every within cell"_s.arg(fit.participants).arg(fit.completeParticipants)};
     if (fit.byParticipant)
         return {u"Do the level means differ? F(%1, %2) = %3, %4; tests %5"_s.arg(numberText(fit.fDf1, 10), numberText(fit.fDf2, 10),
                                                                               numberText(fit.f), pClause(fit.fP), fit.omnibusHypothesis),

@@ -1,6 +1,7 @@
 // The by-participant check of mixed designs (core/data/MixedFit.h): for each within row the
 // between coding fitted on the participants' scores, against pandas/NumPy/SciPy
-// (tests/python/mixed_fit_check.py: participant-level least squares), the refusals (a participant
+// (tests/python/mixed_fit_check.py: participant-level least squares), the multivariate tests
+// against statsmodels' MANOVA (tests/python/mixed_multivariate_check.py), the refusals (a participant
 // in two groups, with its lines), and the command line (fit --participant on a design).
 #include "core/data/DataReader.h"
 #include "core/data/MixedFit.h"
@@ -76,6 +77,7 @@ void TestMixedFit::agreesWithParticipantLevelLeastSquares()
     const SchemeKind kinds[] = {SchemeKind::Treatment, SchemeKind::Sum, SchemeKind::Helmert, SchemeKind::Simple, SchemeKind::Polynomial};
     QTemporaryDir dir;
     int compared = 0;
+    int comparedTests = 0;
     for (int c = 0; c < 12; ++c) {
         // 1 between x 1 within, 2 between x 1 within, 1 between x 2 within, 2 within (no between).
         const int shape = c % 4;
@@ -166,8 +168,45 @@ void TestMixedFit::agreesWithParticipantLevelLeastSquares()
             total += r.fit.coefficients.size();
         QCOMPARE(fit->overall.coefficients.size(), total);
         QVERIFY(fit->overall.byParticipant);
+
+        // The multivariate tests against statsmodels' MANOVA on the same participants.
+        QJsonArray tests;
+        for (const MixedTest &t : fit->tests)
+            tests.append(QJsonObject{{u"name"_s, t.name}, {u"l"_s, matrixJson(t.contrast)}, {u"m"_s, matrixJson(t.transform)}});
+        const QJsonObject manovaRequest{{u"data"_s, path},
+                                        {u"groups"_s, QJsonArray::fromStringList(layout.groupNames)},
+                                        {u"within_cells"_s, QJsonArray::fromStringList(layout.withinNames)},
+                                        {u"x"_s, matrixJson(fit->betweenDesign)},
+                                        {u"tests"_s, tests}};
+        const QJsonObject manova = test::runPython(u"mixed_multivariate_check.py"_s, {}, QJsonDocument(manovaRequest).toJson());
+        QVERIFY2(!manova.contains(u"error"_s), qPrintable(manova[u"error"_s].toString()));
+        const QJsonArray pyTests = manova[u"tests"_s].toArray();
+        QCOMPARE(size_t(pyTests.size()), fit->tests.size());
+        // All within cells; each within term when there are several; each between term, alone and with each within term.
+        const int withinTerms = int(std::count(measures.begin(), measures.end(), Measure::Within));
+        const int betweenFactors = int(measures.size()) - withinTerms;
+        const int withinTermCount = withinTerms == 2 ? 3 : 1;
+        const int betweenTermCount = betweenFactors == 2 ? 3 : betweenFactors;
+        QCOMPARE(int(fit->tests.size()), 1 + (withinTermCount > 1 ? withinTermCount : 0) + betweenTermCount * (1 + withinTermCount));
+        for (size_t i = 0; i < fit->tests.size(); ++i) {
+            const MixedTest &t = fit->tests[i];
+            const QJsonObject e = pyTests[qsizetype(i)].toObject();
+            const QString where = u"case %1, test %2"_s.arg(c).arg(t.name);
+            QVERIFY2(t.refusal.isEmpty(), qPrintable(where + u": "_s + t.refusal));
+            QCOMPARE(t.participants, manova[u"participants"_s].toInt());
+            for (const auto &[mine, key] : {std::pair{t.test.wilks, u"wilks"_s}, {t.test.f, u"f"_s}, {t.test.df1, u"df1"_s}, {t.test.df2, u"df2"_s}})
+                QVERIFY2(near(mine, e[key].toDouble(), 1e-9), qPrintable(where + u" "_s + key + u": "_s + QString::number(mine, 'g', 17)
+                                                                        + u" vs "_s + QString::number(e[key].toDouble(), 'g', 17)));
+            QVERIFY2(near(t.test.p, e[u"p"_s].toDouble(), 1e-8), qPrintable(where + u" p"_s));
+            ++comparedTests;
+        }
+        // The omnibus of the fit is the first test, Hotelling's T^2 (exact: one row of L).
+        QCOMPARE(fit->overall.f, fit->tests.front().test.f);
+        QCOMPARE(fit->overall.fDf1, double(layout.withinCells() - 1));
+        QVERIFY(fit->tests.front().test.exact);
     }
     QVERIFY(compared > 60);
+    QVERIFY(comparedTests > 40);
 }
 
 void TestMixedFit::participantInTwoGroupsIsRefusedWithItsLines()
@@ -219,7 +258,13 @@ void TestMixedFit::commandLineOnTheWarmupDemo()
     const test::ProcessRun run = test::runCli(args + QStringList{u"--json"_s});
     QVERIFY2(run.exitCode == 0, run.err.constData());
     const QJsonObject o = QJsonDocument::fromJson(run.out).object();
-    QCOMPARE(o[u"omnibus"_s].toObject()[u"test"_s].toString(), u"none"_s);
+    const QJsonObject omnibus = o[u"omnibus"_s].toObject();
+    QCOMPARE(omnibus[u"test"_s].toString(), u"hotelling"_s);
+    QCOMPARE(omnibus[u"df1"_s].toDouble(), 2.0); // three vowels
+    QCOMPARE(omnibus[u"df2"_s].toDouble(), 19.0); // 22 participants in 2 groups: 20 - 2 + 1
+    const QJsonArray tests = omnibus[u"tests"_s].toArray();
+    QCOMPARE(tests.size(), 3); // vowels, routine, routine x vowels
+    QCOMPARE(tests[2].toObject()[u"name"_s].toString(), u"routine \u00d7 vowel"_s);
     QCOMPARE(o[u"participants"_s].toObject()[u"count"_s].toInt(), 22);
     QCOMPARE(o[u"within_rows"_s].toArray().size(), 3);
     QCOMPARE(o[u"within_rows"_s].toArray()[1].toObject()[u"name"_s].toString(), u"ee vs ah"_s);

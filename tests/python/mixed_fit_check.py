@@ -23,14 +23,20 @@ import pandas as pd
 from scipy import stats
 
 
+def participant_means(req):
+    """Each participant's cell means (participants x within cells, NaN where missing), its group,
+    and the groups' design rows, from the request's CSV (also used by mixed_multivariate_check.py)."""
+    df = pd.read_csv(req["data"], dtype={"participant": str, "group": str, "within": str})
+    means = df.groupby(["participant", "within"])["y"].mean().unstack("within").reindex(columns=req["within_cells"])
+    group_of = df.groupby("participant")["group"].first().reindex(means.index)
+    return means, group_of, np.array(req["x"], dtype=float)
+
+
 def main():
     req = json.load(sys.stdin)
-    df = pd.read_csv(req["data"], dtype={"participant": str, "group": str, "within": str})
     groups = req["groups"]
     cells = req["within_cells"]
-    x_groups = np.array(req["x"], dtype=float)
-    means = df.groupby(["participant", "within"])["y"].mean().unstack("within").reindex(columns=cells)
-    group_of = df.groupby("participant")["group"].first().reindex(means.index)
+    means, group_of, x_groups = participant_means(req)
     out = {"rows": []}
     for r in req["rows"]:
         r = np.array(r, dtype=float)
