@@ -3,6 +3,7 @@
 #include "app/cli/SchemeArguments.h"
 
 #include "core/analysis/Analysis.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "core/base/NumberText.h"
 #include "core/files/InputFile.h"
 #include "core/model/Design.h"
@@ -332,13 +333,14 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
     out += u'\n' + table.text();
 
     const OmnibusPower &o = r.omnibus;
-    if (r.groups.isEmpty())
-        out += u"\nOmnibus %1 (df %2 and %3, alpha %4): f = %5, lambda = %6, power %7, %8 for target %9\n"_s
-               .arg(o.hotelling ? u"Hotelling's T\u00b2 as F"_s : u"F-test"_s)
+    out += u"\nOmnibus %1 (df %2 and %3, alpha %4): f = %5, lambda = %6, power %7, %8 for target %9\n"_s
+               .arg(!r.groups.isEmpty() ? u"Hotelling's T\u00b2 as F, within cells averaged over the groups"_s
+                    : o.hotelling       ? u"Hotelling's T\u00b2 as F"_s
+                                        : u"F-test"_s)
                .arg(o.df1)
                .arg(degrees(o.df2), number(o.alpha), number(o.effectSize), number(o.noncentrality), number(o.power),
                     r.within ? u"needed"_s : u"n"_s,
-                    o.noncentrality == 0.0 ? u"none (all means equal)"_s : sizesText(o.required, r.within));
+                    o.noncentrality == 0.0 ? u"none (all means equal)"_s : sizesText(o.required, r.within, !r.groups.isEmpty()));
 
     QStringList contrastNotes;
     for (const ContrastPower &c : r.contrasts)
@@ -376,6 +378,9 @@ int runPower(const QStringList &args, Io &io)
         designNotes << u"a design of %1 cells: each cell is a group here (%2, the first factor varying slowest), and each "
                        "coding column of the design is a contrast over the cell means"_s
                            .arg(scheme.levelCount()).arg(scheme.factor.levels.join(u", "_s));
+    if (design && scheme.levelCount() < design->cellCount()) // empty cells, left out as in the window
+        designNotes << u"empty cells (cell_n 0) are left out, so give means for the other %1 cells; %2"_s.arg(scheme.levelCount()).arg(
+            analyzeDesign(*design).empty.summary);
 
     PowerSettings s;
     for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, within, s),

@@ -1,11 +1,13 @@
 #include "app/cli/SchemeArguments.h"
 
 #include "core/files/StudyFile.h"
+#include "core/analysis/DesignAnalysis.h"
 #include "core/analysis/Settled.h"
 #include "core/base/Limits.h"
 
 #include "core/files/SchemeFile.h"
 #include "core/model/SchemeEdits.h"
+#include "core/power/MixedPower.h"
 #include "core/files/InputFile.h"
 
 using namespace Qt::StringLiterals;
@@ -134,13 +136,19 @@ Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &p, const QStri
     if (!study->isDesign())
         return Result<Scheme>(study->activeScheme());
     const Design &d = study->design;
-    for (size_t c = 0; c < d.cellN.size(); ++c)
-        if (d.cellN[c] == 0)
-            return Result<Scheme>::failure(u"%1: cell %2 is empty (cell_n 0); %3 needs a planned size above 0 for every cell"_s
-                                               .arg(inputLabel(p.value(u"file"_s)), quoted(d.cellNames()[qsizetype(c)]), what));
     if (designOut)
         *designOut = d;
-    return cellScheme(d);
+    const auto empty = std::find(d.cellN.begin(), d.cellN.end(), Rational(0));
+    if (empty == d.cellN.end())
+        return cellScheme(d);
+    if (hasWithinFactor(d))
+        return Result<Scheme>::failure(u"%1: cell %2 is empty (cell_n 0); with a factor measured within participants %3 needs "
+                                       u"every cell, since each participant gives a value in every within cell"_s
+                                           .arg(inputLabel(p.value(u"file"_s)), quoted(d.cellNames()[qsizetype(empty - d.cellN.begin())]), what));
+    DesignAnalysis analysed = analyzeDesign(d);
+    if (analysed.refused())
+        return Result<Scheme>::failure(u"%1: %2"_s.arg(inputLabel(p.value(u"file"_s)), analysed.empty.refusal));
+    return Result<Scheme>(std::move(analysed.cellScheme));
 }
 
 Result<SchemeChoice> schemeChoiceFromOptions(const QCommandLineParser &p, const QStringList &levels, const SchemeChoiceNames &names)

@@ -27,8 +27,10 @@ Result<Scheme> schemeFromOptions(const QCommandLineParser &parser);
 
 // The study's scheme or, for a design, the equivalent one-factor scheme over its cells (the cells
 // as levels, the first factor varying slowest; the design's columns; the cell n as planned sizes).
-// An empty cell is refused: `what` ("power") names who needs the sizes. design, when given,
-// receives the design (empty for a one-factor scheme).
+// With empty cells it is the scheme the window uses too (analyzeDesign's cellScheme): over the
+// cells with observations, when the terms can be estimated from them; otherwise refused with the
+// reason. A design with a factor measured within participants needs every cell: `what` ("power")
+// names who needs them. design, when given, receives the design (empty for a one-factor scheme).
 Result<Scheme> schemeOrCellsFromOptions(const QCommandLineParser &parser, const QString &what,
                                         std::optional<Design> *design = nullptr);
 

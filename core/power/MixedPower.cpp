@@ -75,6 +75,51 @@ struct MixedModel
         return v;
     }
 
+    // Hotelling's T^2 that the within cells are equal, averaged over the groups with equal weight:
+    // delta = the groups' average of the differences of the within cells from the first, its
+    // covariance V = sum_j D' Sigma_j D / (g^2 n_j), lambda = delta' V^-1 delta, an F with w - 1
+    // and N - g - w + 2 df (exact when the groups share one covariance; then the pooled error is
+    // Wishart). effectSize: sqrt(delta' S^-1 delta), S the groups' average covariance of the
+    // differences, so that lambda = N f^2 for equal groups.
+    struct Omnibus
+    {
+        double df2 = kNaN, effectSize = kNaN, noncentrality = kNaN, power = kNaN;
+    };
+    Omnibus omnibusAt(const std::vector<double> &n, double alpha) const
+    {
+        const int g = layout.groups();
+        const int w = layout.withinCells();
+        Eigen::MatrixXd diff = Eigen::MatrixXd::Zero(w, w - 1);
+        for (int j = 1; j < w; ++j) {
+            diff(0, j - 1) = -1.0;
+            diff(j, j - 1) = 1.0;
+        }
+        Eigen::VectorXd delta = Eigen::VectorXd::Zero(w - 1);
+        for (size_t cell = 0; cell < layout.groupOf.size(); ++cell)
+            delta += diff.row(layout.withinOf[cell]).transpose() * settings.means[cell] / double(g);
+        Eigen::MatrixXd v = Eigen::MatrixXd::Zero(w - 1, w - 1);
+        Eigen::MatrixXd average = Eigen::MatrixXd::Zero(w - 1, w - 1);
+        for (int j = 0; j < g; ++j) {
+            const Eigen::MatrixXd s = diff.transpose() * sigma[size_t(j)] * diff;
+            v += s / (double(g) * double(g) * n[size_t(j)]);
+            average += s / double(g);
+        }
+        Omnibus o;
+        o.df2 = std::accumulate(n.begin(), n.end(), 0.0) - g - w + 2;
+        const Eigen::LDLT<Eigen::MatrixXd> ldlt(v);
+        if (ldlt.info() != Eigen::Success || !ldlt.isPositive())
+            return o;
+        double scale = 1.0;
+        for (double m : settings.means)
+            scale = std::max(scale, std::abs(m));
+        const bool equal = delta.cwiseAbs().maxCoeff() <= 1e-12 * scale;
+        o.noncentrality = equal ? 0.0 : delta.dot(ldlt.solve(delta));
+        o.effectSize = equal ? 0.0 : std::sqrt(delta.dot(average.ldlt().solve(delta)));
+        if (o.df2 >= 1.0)
+            o.power = fTestPower(o.noncentrality, w - 1, o.df2, alpha);
+        return o;
+    }
+
     const PowerSettings &settings;
     const MixedLayout &layout;
     std::vector<Eigen::MatrixXd> sigma;
@@ -243,11 +288,6 @@ Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QString
     report.oneSided = settings.oneSided;
     report.target = settings.target;
     report.cautions = powerCautions(true);
-    report.omnibus.alpha = settings.alpha;
-    report.omnibus.effectSize = report.omnibus.noncentrality = report.omnibus.power = report.omnibus.sd = kNaN;
-    report.omnibus.df2 = kNaN;
-    report.omnibus.notes << u"a mixed design has no one test of all cells here: each column is tested on its own"_s;
-
     double rmsSd = settings.sd;
     if (settings.perLevelSds()) {
         double squares = 0.0;
@@ -255,6 +295,36 @@ Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QString
             squares += v * v;
         rmsSd = std::sqrt(squares / double(settings.sds.size()));
     }
+    // The omnibus test: all within cells equal, averaged over the groups (the data check's omnibus).
+    const MixedModel::Omnibus om = model.omnibusAt(n, settings.alpha);
+    const int w = layout.withinCells();
+    report.omnibus = OmnibusPower{.hotelling = true, .df1 = w - 1, .df2 = om.df2, .effectSize = om.effectSize,
+                                  .noncentrality = om.noncentrality, .alpha = settings.alpha, .power = om.power, .sd = rmsSd,
+                                  .pooledFromLevelSds = false, .required = {}, .notes = {}};
+    OmnibusPower &o = report.omnibus;
+    o.notes << u"tests that the %1 within cells are equal, averaged over the groups with equal weight: Hotelling's T\u00b2 as an F "
+               u"with %2 and %3 df (the data check's omnibus test; the data check also tests the between and between "
+               u"\u00d7 within terms)"_s.arg(w).arg(w - 1).arg(w == 2 ? u"N - g"_s : u"N - g - %1"_s.arg(w - 2));
+    if (om.noncentrality == 0.0)
+        o.notes << u"the within cells' expected means, averaged over the groups, are equal: the test's power equals alpha at every n"_s;
+    else {
+        long long least = 2; // the smallest group size at which the test has a denominator df
+        while (least < kPowerSearchCap) {
+            const std::vector<long long> sizes = groupSizesFor(least, n);
+            if (std::accumulate(sizes.begin(), sizes.end(), 0LL) >= g + w - 1)
+                break;
+            ++least;
+        }
+        o.required = smallestSampleSize([&](const std::vector<double> &nn) { return model.omnibusAt(nn, settings.alpha).power; }, n,
+                                        settings.target, least);
+        if (!o.required.reachable)
+            o.notes << unreachedNote(o.required, settings.target, false);
+    }
+    if (om.df2 < 1.0)
+        o.notes << u"the test needs more participants than g + w - 2 = %1; with %2 it cannot be computed"_s.arg(g + w - 2).arg(
+            numberText(report.plannedTotal, 10));
+    if (settings.perLevelSds())
+        o.notes << u"with per-cell SDs that differ between groups its F is an approximation (the groups' covariances differ)"_s;
     bool combined = false;
     for (int r = 0; r < m; ++r) {
         ContrastPower c;
@@ -313,15 +383,17 @@ Result<std::vector<double>> mixedPowerCurve(const Eigen::MatrixXd &rows, int con
     using R = Result<std::vector<double>>;
     if (Problem p = checkRows(rows, settings, layout); !p.isEmpty())
         return R::failure(std::move(p));
-    if (contrast < 0 || contrast >= rows.rows())
-        return R::failure(u"contrast: %1 is not a column index of a mixed design (0 to %2)"_s.arg(contrast).arg(rows.rows() - 1));
+    if (contrast < -1 || contrast >= rows.rows())
+        return R::failure(u"contrast: %1 is not a column index of a mixed design (-1 for the omnibus test, 0 to %2)"_s.arg(contrast).arg(
+            rows.rows() - 1));
     const MixedModel model(settings, layout);
     const std::vector<double> ratios = groupSizes(settings, layout);
     const double alpha = perTestAlpha(settings.alpha, settings.adjustment, int(rows.rows()));
     std::vector<double> out;
     for (long long t : smallestGroupSizes) {
         const std::vector<long long> sizes = groupSizesFor(std::max(t, 2LL), ratios);
-        out.push_back(model.at(rows.row(contrast).transpose(), std::vector<double>(sizes.begin(), sizes.end()), alpha).power);
+        const std::vector<double> nn(sizes.begin(), sizes.end());
+        out.push_back(contrast < 0 ? model.omnibusAt(nn, settings.alpha).power : model.at(rows.row(contrast).transpose(), nn, alpha).power);
     }
     return R(std::move(out));
 }

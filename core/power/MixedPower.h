@@ -55,11 +55,12 @@ std::vector<double> groupSizes(const PowerSettings &settings, const MixedLayout 
 // term, the pooled within-group variance of its scores, with N - g df (N participants, g groups;
 // the multivariate, separate-error approach to split-plot designs, Maxwell & Delaney 2004,
 // ch. 14), and the noncentral t. The sample-size search keeps the groups' ratios and reports
-// participants per group. No omnibus test of all cells is computed (its power is NaN, noted).
+// participants per group. The omnibus test is Hotelling's T^2 that the within cells are equal,
+// averaged over the groups (MixedModel::omnibusAt in MixedPower.cpp; the data check's omnibus).
 Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QStringList &names, const PowerSettings &settings,
                                       const MixedLayout &layout);
 
-// Power of one column (contrast index) at each smallest-group size, as powerCurve does.
+// Power of one column (contrast index; -1: the omnibus test) at each smallest-group size, as powerCurve does.
 Result<std::vector<double>> mixedPowerCurve(const Eigen::MatrixXd &rows, int contrast, const PowerSettings &settings,
                                             const MixedLayout &layout, const std::vector<long long> &smallestGroupSizes);
 

@@ -986,7 +986,7 @@ QJsonObject powerReportToJson(const PowerReport &report)
 
     const OmnibusPower &om = report.omnibus;
     QJsonObject o;
-    o[u"test"_s] = !report.groups.isEmpty() ? u"none"_s : om.hotelling ? u"hotelling"_s : u"anova"_s;
+    o[u"test"_s] = om.hotelling ? u"hotelling"_s : u"anova"_s;
     o[u"df1"_s] = om.df1;
     putNumbers(o, {{u"df2", om.df2}, {u"effect_size", om.effectSize}, {u"noncentrality", om.noncentrality},
                    {u"alpha", om.alpha}, {u"power", om.power}, {u"sd", om.sd}});

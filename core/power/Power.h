@@ -222,7 +222,8 @@ QString withinExplanation(const PowerReport &report);
 //  "omnibus": {"test" ("anova"; within: "hotelling"), "df1", "df2", "effect_size", "noncentrality", "alpha", "power", "sd", "n_required",
 //              "n_required_total", "reachable", "notes"},
 //  "measured" ("between" or "within"), "correlation" (within: the common one; null with a full matrix),
-//  mixed design: "groups" (names), each contrast's "part", n_required per group, omnibus "test" "none",
+//  mixed design: "groups" (names), each contrast's "part", n_required per group, omnibus "test" "hotelling"
+//  (all within cells equal, averaged over the groups),
 //  "notes", "cautions"}
 QJsonObject powerReportToJson(const PowerReport &report);
 

@@ -142,6 +142,7 @@ private slots:
     void badInput();
     void fitLeavesOutCellsWithoutData();
     void commandLine();
+    void powerAndExportOverTheCellsWithObservations();
 };
 
 // The hedgerow demo (margin: bare, grass, wildflower, treatment coding with bare the reference;
@@ -465,6 +466,66 @@ void TestEmptyCells::commandLine()
     QCOMPARE(f[u"changed_hypotheses"_s].toArray().size(), 3);
     QCOMPARE(f[u"unchanged_hypotheses"_s].toArray(), QJsonArray{u"b2 wildflower vs bare"_s});
     QVERIFY(f[u"notes"_s].toArray().first().toString().contains(u"changes what 3 of 4 coefficients test"_s));
+}
+
+// power and export take a design with an empty cell as the window does (analyzeDesign's
+// cellScheme): over the five cells with observations. By hand, from the hypotheses derived above
+// (hedgerowMainEffectsWithOneEmptyCell): b3 late vs early is (-5 be + 5 bl - 4 we + 4 wl)/9, so with
+// means be = 10, bl = 12, ge = 14, we = 13, wl = 15 its estimate is (-50 + 60 - 52 + 60)/9 = 2, and
+// with SD 4 and n = 6, 6, 6, 6, 4 its SE is 4 sqrt((25 + 25 + 16)/(81 * 6) + 16/(81 * 4)) =
+// 4 sqrt(5/27). With the interaction the terms cannot be estimated: refused with the reason; and
+// a design with a factor measured within participants needs every cell.
+void TestEmptyCells::powerAndExportOverTheCellsWithObservations()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"plan.json"_s);
+    QVERIFY(test::writeFile(path, designToJson(hedgerow(false))));
+    const test::ProcessRun power = test::runCli({u"power"_s, u"--file"_s, path, u"--means"_s, u"10,12,14,13,15"_s, u"--sd"_s, u"4"_s, u"--json"_s});
+    QVERIFY2(power.exitCode == 0, power.err.constData());
+    const QJsonObject o = QJsonDocument::fromJson(power.out).object();
+    const QStringList kept{u"bare\u00b7early"_s, u"bare\u00b7late"_s, u"grass\u00b7early"_s, u"wildflower\u00b7early"_s, u"wildflower\u00b7late"_s};
+    QCOMPARE(o[u"level_names"_s].toArray(), QJsonArray::fromStringList(kept));
+    const QJsonArray contrasts = o[u"contrasts"_s].toArray();
+    QCOMPARE(contrasts.size(), 3);
+    const QJsonObject late = contrasts[2].toObject();
+    QCOMPARE(late[u"name"_s].toString(), u"late vs early"_s);
+    const double expected[] = {-5.0 / 9.0, 5.0 / 9.0, 0.0, -4.0 / 9.0, 4.0 / 9.0};
+    for (int i = 0; i < 5; ++i)
+        QVERIFY(std::abs(late[u"weights"_s].toArray()[i].toDouble() - expected[i]) < 1e-12);
+    QVERIFY(std::abs(late[u"estimate"_s].toDouble() - 2.0) < 1e-12);
+    QVERIFY(std::abs(late[u"se"_s].toDouble() - 4.0 * std::sqrt(5.0 / 27.0)) < 1e-12);
+    QVERIFY2(o[u"notes"_s].toArray().at(1).toString().startsWith(u"empty cells (cell_n 0) are left out, so give means for the other 5 cells"_s),
+             qPrintable(o[u"notes"_s].toArray().at(1).toString()));
+    const test::ProcessRun sixMeans = test::runCli({u"power"_s, u"--file"_s, path, u"--means"_s, u"10,12,14,0,13,15"_s, u"--sd"_s, u"4"_s});
+    QCOMPARE(sixMeans.exitCode, 2);
+    QVERIFY2(sixMeans.errText().contains(u"6 values for 5 levels"_s), sixMeans.err.constData());
+
+    const test::ProcessRun csv = test::runCli({u"export"_s, u"--file"_s, path, u"--format"_s, u"csv"_s});
+    QVERIFY2(csv.exitCode == 0, csv.err.constData());
+    const QStringList lines = csv.outText().trimmed().split(u"\r\n"_s); // RFC 4180 line ends
+    QCOMPARE(lines.size(), 6); // the header and the five cells with observations
+    QCOMPARE(lines[4], u"wildflower\u00b7early,0,1,0"_s);
+    QVERIFY(!csv.outText().contains(u"grass\u00b7late"_s));
+
+    const QString full = dir.filePath(u"full.json"_s);
+    QVERIFY(test::writeFile(full, designToJson(hedgerow(true))));
+    for (const QString &command : {u"power"_s, u"export"_s}) {
+        QStringList args{command, u"--file"_s, full};
+        args << (command == u"power"_s ? QStringList{u"--means"_s, u"1,2,3,4,5"_s, u"--sd"_s, u"1"_s} : QStringList{u"--format"_s, u"csv"_s});
+        const test::ProcessRun refused = test::runCli(args);
+        QCOMPARE(refused.exitCode, 2);
+        QVERIFY2(refused.errText().contains(u"The chosen terms cannot be estimated from the"_s), refused.err.constData());
+    }
+
+    QFile demo(QStringLiteral(CB_SOURCE_DIR "/resources/demos/warmup.json"));
+    QVERIFY(demo.open(QIODevice::ReadOnly));
+    Design warmup = studyFromJson(demo.readAll(), u"warmup.json"_s).value().design;
+    warmup.cellN = sizes({12, 12, 12, 0, 0, 0});
+    const QString mixed = dir.filePath(u"mixed.json"_s);
+    QVERIFY(test::writeFile(mixed, designToJson(warmup)));
+    const test::ProcessRun within = test::runCli({u"power"_s, u"--file"_s, mixed, u"--means"_s, u"1,2,3,4,5,6"_s, u"--sd"_s, u"1"_s});
+    QCOMPARE(within.exitCode, 2);
+    QVERIFY2(within.errText().contains(u"with a factor measured within participants power needs every cell"_s), within.err.constData());
 }
 
 QTEST_GUILESS_MAIN(TestEmptyCells)

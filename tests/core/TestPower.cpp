@@ -1081,14 +1081,15 @@ void TestPower::commandLineReadsDesignFile()
     QVERIFY(std::abs(interaction[u"power"_s].toDouble() - 0.3371329261052971) < 1e-9);
     QVERIFY(o[u"notes"_s].toArray().first().toString().startsWith(u"a design of 4 cells"_s));
 
-    // An empty cell is refused, naming the file and the cell.
+    // An empty cell whose loss leaves the terms inestimable is refused, naming the file, the cell
+    // and the reason (an estimable one: TestEmptyCells::powerAndExportOverTheCellsWithObservations).
     d.cellN = {10, 0, 10, 10};
     QVERIFY(f.open(QIODevice::WriteOnly | QIODevice::Truncate));
     f.write(designToJson(d));
     f.close();
     const CliRun empty = runCli({u"--file"_s, path, u"--means"_s, u"0,0.5,0.5,2"_s, u"--sd"_s, u"1"_s});
     QCOMPARE(empty.exitCode, 2);
-    QVERIFY2(empty.err.contains(path + u": cell 'a1\u00b7b2' is empty"_s), qPrintable(empty.err));
+    QVERIFY2(empty.err.contains(path + u": empty cell (planned n = 0): a1\u00b7b2. The chosen terms cannot be estimated"_s), qPrintable(empty.err));
 }
 
 void TestPower::commandLineRejectsInput_data()

@@ -11,7 +11,12 @@ Writes {"cases": [result, ...]} with, per case,
   smallest participants per group reaching the target, as a list, by its own search keeping the
   groups' ratios), and between_se (m: for between columns, the SE computed again from the
   variance of one participant's average over the within cells and the group sizes).
-Parts are written with ASCII x; the C++ side writes the multiplication sign.
+Parts are written with ASCII x; the C++ side writes the multiplication sign. Also "omnibus":
+{noncentrality, df2, power, searched} for Hotelling's T^2 that the within cells are equal,
+averaged over the groups: lambda = delta' (A V A')^-1 delta with delta = A mu, A the groups'
+average of each within cell's difference from the first, V the covariance of the cell means
+below; F with w - 1 and N - g - w + 2 df (scipy.stats.ncf); searched by stepping the smallest
+group up one participant at a time.
 
 Written from the definitions, apart from the C++ code: the covariance of the vector of cell means
 is built in NumPy as a whole (cells x cells: two cells of the same group covary by
@@ -31,7 +36,7 @@ import numpy as np
 _spec = importlib.util.spec_from_file_location("power_check", pathlib.Path(__file__).with_name("power_check.py"))
 _power_check = importlib.util.module_from_spec(_spec)
 _spec.loader.exec_module(_power_check)
-per_test_alpha, t_power = _power_check.per_test_alpha, _power_check.t_power
+per_test_alpha, t_power, f_power = _power_check.per_test_alpha, _power_check.t_power, _power_check.f_power
 
 warnings.simplefilter("ignore")
 
@@ -123,7 +128,72 @@ def check_case(case):
                     lo = mid
             found = sizes_for(hi, ratios)
         out["searched"].append(found)
+
+    # The omnibus test: all within cells equal, averaged over the groups. A maps the cells to the
+    # groups' average of each within cell's difference from the first; its covariance A V A'.
+    w = max(case["within_of"]) + 1
+    a = np.zeros((w - 1, len(mu)))
+    for cell in range(len(mu)):
+        j = case["within_of"][cell]
+        if j > 0:
+            a[j - 1, cell] += 1.0 / g
+        a[:, cell] -= (1.0 / g) if j == 0 else 0.0
+
+    def omnibus(n):
+        delta = a @ mu
+        lam = float(delta @ np.linalg.solve(a @ cell_covariance(case, n) @ a.T, delta))
+        df2 = float(sum(n) - g - w + 2)
+        return lam, df2, (f_power(lam, w - 1, df2, case["alpha"]) if df2 >= 1 else None)
+
+    lam, df2, power = omnibus(ratios)
+    found = None
+    if lam > 1e-20:
+        t = 1
+        while omnibus(sizes_for(t, ratios))[2] is None or omnibus(sizes_for(t, ratios))[2] < case["target"]:
+            t += 1
+        found = sizes_for(max(t, 2), ratios)
+    out["omnibus"] = {"noncentrality": lam, "df2": df2, "power": power, "searched": found}
+    if case.get("simulate"):
+        out["omnibus"]["simulated"] = simulated_omnibus_power(case, a, g, w, int(case["simulate"]))
     return out
+
+
+def simulated_omnibus_power(case, a, g, w, reps):
+    """The share of simulated studies in which the omnibus test rejects: each group's participants
+    drawn from the multivariate normal of its cell means and covariance, the test statistic computed
+    from its definition (the groups' average of the within differences, the pooled within-group
+    covariance of the differences, T^2 and its F), compared with the F quantile."""
+    from scipy import stats
+    rng = np.random.default_rng(20261203)
+    mu = np.array(case["means"], dtype=float)
+    sds = np.array(case["sds"], dtype=float)
+    corr = np.array(case["corr"], dtype=float)
+    n = [int(x) for x in case["group_n"]]
+    diff = np.zeros((w, w - 1))
+    diff[0, :] = -1.0
+    diff[1:, :] = np.eye(w - 1)
+    means = np.zeros((reps, g, w - 1))
+    sscp = np.zeros((reps, w - 1, w - 1))
+    for j in range(g):
+        cells = [c for c in range(len(mu)) if case["group_of"][c] == j]
+        cells.sort(key=lambda c: case["within_of"][c])
+        m = mu[cells]
+        sd = sds[cells]
+        cov = np.diag(sd) @ corr @ np.diag(sd)
+        y = rng.multivariate_normal(m, cov, size=(reps, n[j])) @ diff  # reps x n_j x (w - 1)
+        centre = y.mean(axis=1)
+        means[:, j, :] = centre
+        r = y - centre[:, None, :]
+        sscp += np.einsum("rni,rnj->rij", r, r)
+    nu = sum(n) - g
+    pooled = sscp / nu
+    delta = means.mean(axis=1)
+    c = sum(1.0 / (g * g * nj) for nj in n)
+    t2 = np.einsum("ri,ri->r", delta, np.linalg.solve(c * pooled, delta[:, :, None])[:, :, 0])
+    q = w - 1
+    f = t2 * (nu - q + 1) / (nu * q)
+    crit = stats.f.isf(case["alpha"], q, nu - q + 1)
+    return float(np.mean(f > crit))
 
 
 if __name__ == "__main__":

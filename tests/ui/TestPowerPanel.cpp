@@ -54,6 +54,7 @@ private slots:
     void fullCorrelationMatrixTypedOrPasted();
     void fullCorrelationMatrixGivesCoresPower();
     void mixedDesignGivesEachColumnsPartAndGroups();
+    void designWithAnEmptyCellPlansTheOtherCells();
 };
 
 void TestPowerPanel::tableShowsCorePower_data()
@@ -309,13 +310,39 @@ void TestPowerPanel::mixedDesignGivesEachColumnsPartAndGroups()
     QCOMPARE(panel.report()->groups, (QStringList{u"humming"_s, u"lip trills"_s}));
     QVERIFY(!panel.findChild<QLabel *>(u"correlationCaution"_s)->isHidden());
     const QAbstractItemModel *results = panel.resultTable()->model();
-    QCOMPARE(results->rowCount(), 5); // the five columns, no omnibus row
+    QCOMPARE(results->rowCount(), 6); // the five columns and the omnibus test
+    // Its power: TestPowerMixed::handDerivedWarmupFigures (lambda 925/99, SciPy 0.714866).
+    QCOMPARE(results->index(5, PowerPanel::TestColumn).data().toString(), u"All 3 within cells equal, over the groups (Hotelling T\u00b2)"_s);
+    QVERIFY(std::abs(panel.report()->omnibus.power - 0.7148660473684714) < 1e-9);
     QCOMPARE(results->headerData(PowerPanel::NeededColumn, Qt::Horizontal).toString(), u"Participants per group for target"_s);
     QCOMPARE(results->index(0, PowerPanel::TestColumn).data().toString(), u"lip trills vs humming [between]"_s);
     QCOMPARE(results->index(1, PowerPanel::NeededColumn).data().toString(), u"12, 10"_s);
     QCOMPARE(results->index(3, PowerPanel::TestColumn).data().toString(), u"lip trills vs humming \u00d7 ee vs ah [between \u00d7 within]"_s);
     QCOMPARE(panel.chart()->xTitle(), u"smallest group"_s);
     QVERIFY(renderPanel(panel, QSize(1500, 700), u"power-mixed"_s));
+}
+
+// The hedgerow demo, main effects only, with grass·late empty: the panel plans the five cells
+// with observations, as the CLI's power does (TestEmptyCells::powerAndExportOverTheCellsWithObservations
+// derives the 'late vs early' estimate 2 and SE 4 sqrt(5/27) by hand).
+void TestPowerPanel::designWithAnEmptyCellPlansTheOtherCells()
+{
+    Study study = loadDemoStudy(u"hedgerow"_s).take();
+    study.design.terms.pop_back();
+    study.design.cellN = {Rational(6), Rational(6), Rational(6), Rational(0), Rational(6), Rational(4)};
+    Document doc;
+    doc.reset(study, {});
+    PowerPanel panel(&doc);
+    QCOMPARE(panel.inputTable()->model()->rowCount(), 5); // one row per cell with observations
+    panel.setExpectedTexts({u"10"_s, u"12"_s, u"14"_s, u"13"_s, u"15"_s});
+    panel.sdEdit()->setText(u"4"_s);
+    panel.recompute();
+    QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
+    QCOMPARE(panel.report()->levelCount, 5);
+    const ContrastPower &late = panel.report()->contrasts.at(2);
+    QCOMPARE(late.name, u"late vs early"_s);
+    QVERIFY(std::abs(late.estimate - 2.0) < 1e-12);
+    QVERIFY(std::abs(late.se - 4.0 * std::sqrt(5.0 / 27.0)) < 1e-12);
 }
 
 namespace {

@@ -696,17 +696,19 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
             curveUpTo = std::max(curveUpTo, *std::min_element(c.required.perLevel.begin(), c.required.perLevel.end()));
     }
     const OmnibusPower &o = report.omnibus;
-    TableCell test = cell((report.within ? tr("All %1 means equal (Hotelling T\u00b2)") : tr("All %1 means equal (F test)")).arg(report.levelCount),
+    const bool isMixed = !report.groups.isEmpty();
+    TableCell test = cell(isMixed         ? tr("All %1 within cells equal, over the groups (Hotelling T\u00b2)").arg(report.omnibus.df1 + 1)
+                          : report.within ? tr("All %1 means equal (Hotelling T\u00b2)").arg(report.levelCount)
+                                          : tr("All %1 means equal (F test)").arg(report.levelCount),
                           false);
     test.toolTip = o.notes.join(u"\n"_s);
-    std::vector<TableCell> omnibus{test, powerCell(o.power), cell(sizesText(o.required, report.within)),
+    std::vector<TableCell> omnibus{test, powerCell(o.power), cell(sizesText(o.required, report.within && !isMixed)),
                                    cell(o.required.reachable ? QString::number(o.required.total) : dash()), cell(dash()), cell(dash()),
                                    cell(u"f = "_s + number(o.effectSize, 3)), cell(u"%1, %2"_s.arg(o.df1).arg(number(o.df2, 6))),
                                    cell({}, false)};
     for (TableCell &c : omnibus)
         c.italic = true;
-    if (report.groups.isEmpty()) // a mixed design has no one test of all cells
-        table.push_back(std::move(omnibus));
+    table.push_back(std::move(omnibus));
     m_results->setRows(std::move(table));
     if (o.required.reachable)
         curveUpTo = std::max(curveUpTo, *std::min_element(o.required.perLevel.begin(), o.required.perLevel.end()));
@@ -717,7 +719,7 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
         for (const QString &n : c.notes)
             notes << c.name + u": "_s + n;
     for (const QString &n : o.notes)
-        notes << (!report.groups.isEmpty() ? QString() : report.within ? tr("Hotelling test: ") : tr("F test: ")) + n;
+        notes << (report.within ? tr("Hotelling test: ") : tr("F test: ")) + n;
     m_notes->setText(notes.join(u"\n"_s));
     const QString why = withinExplanation(report);
     m_withinWhy->setText(why);
@@ -726,8 +728,7 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
     // Curves up to a little past the largest size needed among the tests.
     std::vector<SmallChart::Line> lines;
     const std::vector<long long> sizes = powerCurveSizes(std::min<long long>(curveUpTo + curveUpTo / 4 + 2, 100'000));
-    const bool isMixed = !report.groups.isEmpty();
-    for (int i = isMixed ? 0 : -1; i < m; ++i) {
+    for (int i = -1; i < m; ++i) {
         const Result<std::vector<double>> curve = isMixed ? mixedPowerCurve(rows.rows, i, settings, mixedLayout(m_document->design()), sizes)
                                                           : powerCurve(rows.rows, i, settings, sizes);
         if (!curve)
