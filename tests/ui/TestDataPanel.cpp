@@ -47,6 +47,7 @@ private slots:
     void responseIsAMeasurementNeverText_data();
     void responseIsAMeasurementNeverText();
     void participantColumnGivesTheByParticipantCheck();
+    void mixedDesignShowsItsMultivariateTests();
     void itemColumnGivesTheByItemCheckAndMinF();
 
 private:
@@ -335,6 +336,39 @@ void TestDataPanel::participantColumnGivesTheByParticipantCheck()
     QCOMPARE(panel.fit()->coefficients[2].participants, 4); // c - a: s5 lacks c
     QVERIFY2(panel.summaryText().contains(u"5 participants, 4 with every level"_s), qPrintable(panel.summaryText()));
     QVERIFY(panel.summaryText().contains(u"not a mixed-effects model"_s));
+}
+
+// The warmup demo (routine between, vowel within) with a participant column: the check is core's
+// fitMixedParticipants (TestMixedFit holds its multivariate tests against statsmodels' MANOVA);
+// the summary leads with the within cells' Hotelling test, and the notes list the others.
+void TestDataPanel::mixedDesignShowsItsMultivariateTests()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"warmup.csv"_s);
+    QByteArray csv = "singer,routine,vowel,drift\n";
+    const char *vowels[] = {"ah", "ee", "oo"};
+    const int drift[6][3] = {{10, 14, 12}, {12, 15, 13}, {9, 14, 10}, {8, 11, 9}, {9, 13, 11}, {7, 10, 10}};
+    for (int singer = 0; singer < 6; ++singer)
+        for (int v = 0; v < 3; ++v)
+            csv += "s" + QByteArray::number(singer + 1) + (singer < 3 ? ",humming," : ",lip trills,") + vowels[v] + ','
+                   + QByteArray::number(drift[singer][v]) + '\n';
+    QVERIFY(test::writeFile(path, csv));
+    Document doc;
+    doc.reset(loadDemoStudy(u"warmup"_s).take(), {});
+    DataPanel panel(&doc);
+    QVERIFY(panel.openFile(path));
+    panel.setColumns(u"routine"_s, u"drift"_s);
+    panel.participantBox()->setCurrentText(u"singer"_s);
+    QVERIFY(readAndWait(panel));
+    QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+    QVERIFY(panel.fit()->mixedDesign);
+    QCOMPARE(panel.fit()->fDf1, 2.0);
+    QCOMPARE(panel.fit()->fDf2, 3.0); // 6 singers in 2 groups: 4 - 2 + 1
+    QVERIFY2(panel.summaryText().contains(u"Do the within cells differ? F(2, 3) = "_s), qPrintable(panel.summaryText()));
+    QVERIFY2(panel.summaryText().contains(u"6 participants, 6 with every within cell"_s), qPrintable(panel.summaryText()));
+    QVERIFY2(panel.problemsText().contains(u"routine \u00d7 vowel: \u039b = "_s), qPrintable(panel.problemsText()));
+    QVERIFY(panel.problemsText().contains(u"not adjusted for multiplicity"_s));
+    QVERIFY(renderPanel(panel, QSize(1366, 520), u"data-mixed"_s));
 }
 
 // An item column beside the participant column: the by-item table with min F' from core's
