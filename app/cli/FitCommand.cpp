@@ -100,9 +100,6 @@ Result<DataArguments> dataArguments(const QCommandLineParser &p)
     }
     if (p.isSet(u"item"_s) && !p.isSet(u"participant"_s))
         return R::failure(u"--item needs --participant: the by-item analysis sits beside the by-participant one"_s);
-    if (p.isSet(u"item"_s) && p.isSet(u"database"_s))
-        return R::failure(u"--item cannot be combined with --database: the summary query has no by-item form yet; "
-                          "export the rows and use --data"_s);
     if (p.isSet(u"delimiter"_s)) {
         const auto d = delimiterFromName(p.value(u"delimiter"_s));
         if (!d)
@@ -147,6 +144,7 @@ Result<DataSummary> readData(const QCommandLineParser &p, const DataArguments &a
         auto spec = summaryQuerySpec(p, factorColumns);
         if (!spec)
             return Result<DataSummary>::failure(spec.error(), spec.field());
+        spec->itemColumn = p.value(u"item"_s);
         return readDatabaseSummary(p.value(u"database"_s), *spec);
     }
     if (p.isSet(u"summary"_s))

@@ -54,12 +54,12 @@ Result<ItemAnalysis> fitItems(const Scheme &scheme, const DataSummary &data, con
                 only = data.levels[d].name;
             }
         if (seen == 1 && scheme.levelCount() > 1)
-            return R::failure(u"item %1 (column %2, first on line %3) has values at level %4 only; the by-item analysis "
+            return R::failure(u"item %1 (column %2%3) has values at level %4 only; the by-item analysis "
                               u"needs every item at every level (measured within items); an item seen at one level only "
                               u"means the factor varies between items, which this analysis does not cover"_s
-                                  .arg(quoted(data.items[i]), quoted(column))
-                                  .arg(size_t(i) < data.itemLines.size() ? data.itemLines[size_t(i)] : 0)
-                                  .arg(quoted(only)));
+                                  .arg(quoted(data.items[i]), quoted(column),
+                                       size_t(i) < data.itemLines.size() ? u", first on line %1"_s.arg(data.itemLines[size_t(i)]) : QString(),
+                                       quoted(only)));
     }
     // The same analysis with the items in the participants' role.
     DataSummary asUnits;

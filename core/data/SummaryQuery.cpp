@@ -266,9 +266,38 @@ Result<DataSummary> summaryFromSource(const SummaryQuerySpec &spec, const Summar
     auto rows = source(spec, *query);
     if (!rows)
         return Result<DataSummary>::failure(rows.error(), rows.field());
-    if (!spec.participantColumn.isEmpty())
-        return participantSummaryFromRows(*rows, sourceName, spec.participantColumn);
-    return summaryFromRows(*rows, sourceName);
+    if (spec.participantColumn.isEmpty()) {
+        if (!spec.itemColumn.isEmpty())
+            return Result<DataSummary>::failure(u"the by-item analysis needs a participant column beside the item column"_s, u"item"_s);
+        return summaryFromRows(*rows, sourceName);
+    }
+    auto data = participantSummaryFromRows(*rows, sourceName, spec.participantColumn);
+    if (!data || spec.itemColumn.isEmpty())
+        return data;
+    if (spec.itemColumn == spec.participantColumn)
+        return Result<DataSummary>::failure(u"the item column is the participant column (%1); name the column that says which item "
+                                            u"each row shows"_s.arg(quoted(spec.itemColumn)),
+                                            u"item"_s);
+    // The same two-level form with the items in the participants' place.
+    SummaryQuerySpec byItem = spec;
+    byItem.participantColumn = spec.itemColumn;
+    byItem.itemColumn.clear();
+    auto items = summaryFromSource(byItem, source, sourceName);
+    if (!items)
+        return items;
+    data->columns << spec.itemColumn;
+    data->itemIndex = int(data->columns.size()) - 1;
+    data->items = items->participants;
+    data->itemCells.assign(size_t(items->participants.size()), std::vector<RunningStats>(data->levels.size()));
+    for (size_t i = 0; i < data->itemCells.size(); ++i)
+        for (size_t l = 0; l < items->levels.size(); ++l) {
+            const int mine = data->levelIndex(items->levels[l].name);
+            if (mine < 0)
+                return Result<DataSummary>::failure(u"the by-item answer has level %1, which the by-participant answer lacks"_s.arg(
+                    quoted(items->levels[l].name)));
+            data->itemCells[i][size_t(mine)] = items->participantCells[i][l];
+        }
+    return data;
 }
 
 } // namespace cb

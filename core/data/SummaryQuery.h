@@ -39,6 +39,10 @@ struct SummaryQuerySpec
     // The two-level form, for factors measured within participants: GROUP BY this column too, so
     // each row is one participant's cell (replicate trials averaged); empty: the one-level form.
     QString participantColumn;
+    // With participantColumn, for the by-item analysis: summaryFromSource runs the two-level form a
+    // second time grouped by this column instead, so each row is one item's cell (its mean over the
+    // participants' rows), and fills DataSummary's items. The query text is the participants' one.
+    QString itemColumn;
     VarianceForm form = VarianceForm::Centred;
     std::optional<double> centre; // Centred only: subtract this constant instead of a first pass
 };
@@ -85,6 +89,7 @@ Result<DataSummary> participantSummaryFromRows(const std::vector<SummaryRow> &ro
 
 // Writes the query, runs it through the source and reads the rows as a summary table (the same
 // checks as a summary file), or, with a participant column, through participantSummaryFromRows;
+// with an item column as well, a second query grouped by the item gives the items' cells.
 // sourceName names the data in messages and in the fit's JSON.
 Result<DataSummary> summaryFromSource(const SummaryQuerySpec &spec, const SummaryRowSource &source,
                                       const QString &sourceName);

@@ -153,6 +153,51 @@ private slots:
         QVERIFY2(text.outText().contains(u"By participant (column 'who')"_s), qPrintable(text.outText()));
     }
 
+    // --item with --database: a second two-level query grouped by the item gives each item's cell
+    // means; the by-item analysis and min F' equal those of fit --data --item on the same rows as
+    // CSV (each trial's item is its position modulo 6, so every item is seen at every level).
+    void byItemFromSqliteEqualsFitFromCsv()
+    {
+        const QStringList levels = {u"plain"_s, u"arrow"_s, u"word"_s, u"tone"_s};
+        const QStringList columns = {u"who"_s, u"cue"_s, u"sentence"_s, u"rt"_s, u"w"_s};
+        auto rows = generateWithinRows(60, levels, 4, 480.0, 25.0, 77u);
+        for (size_t j = 0; j < rows.size(); ++j)
+            rows[j].factors << u"s%1"_s.arg(j % 6);
+        const QString db = makeDatabase(u"items.db"_s, [&](QSqlDatabase &d) { QCOMPARE(fillTable(d, u"trials"_s, columns, rows), QString()); });
+        QVERIFY(!db.isEmpty());
+        const QString csv = m_dir.filePath(u"items.csv"_s);
+        QVERIFY(writeFile(csv, rowsToCsv(columns, rows)));
+        const QStringList common = {u"--levels"_s, levels.join(u','), u"--scheme"_s, u"helmert"_s, u"--factor"_s, u"cue"_s,
+                                    u"--response"_s, u"rt"_s, u"--participant"_s, u"who"_s, u"--item"_s, u"sentence"_s, u"--json"_s};
+        const ProcessRun fromDb = runCli(QStringList{u"fit"_s, u"--database"_s, u"sqlite://"_s + db, u"--table"_s, u"trials"_s} + common);
+        QVERIFY2(fromDb.exitCode == 0, qPrintable(fromDb.errText()));
+        const ProcessRun fromCsv = runCli(QStringList{u"fit"_s, u"--data"_s, csv} + common);
+        QVERIFY2(fromCsv.exitCode == 0, qPrintable(fromCsv.errText()));
+        const QJsonObject a = jsonOf(fromDb.out), b = jsonOf(fromCsv.out);
+        const QString difference = compareFits(a, b, 1e-9);
+        QVERIFY2(difference.isEmpty(), qPrintable(difference));
+        QCOMPARE(a[u"by_item"_s][u"count"_s].toInt(), 6);
+        QCOMPARE(a[u"by_item"_s][u"column"_s].toString(), u"sentence"_s);
+        const QJsonArray itemsDb = a[u"by_item"_s][u"coefficients"_s].toArray(), itemsCsv = b[u"by_item"_s][u"coefficients"_s].toArray();
+        const QJsonArray minDb = a[u"min_f"_s].toArray(), minCsv = b[u"min_f"_s].toArray();
+        QCOMPARE(itemsDb.size(), 4);
+        QCOMPARE(minDb.size(), minCsv.size());
+        const auto close = [](const QJsonValue &x, const QJsonValue &y) {
+            return (x.isNull() && y.isNull()) || std::abs(x.toDouble() - y.toDouble()) <= 1e-9 * std::max(1.0, std::abs(y.toDouble()));
+        };
+        for (qsizetype i = 0; i < itemsDb.size(); ++i) {
+            for (const QString &key : {u"estimate"_s, u"se"_s, u"t"_s, u"p"_s, u"df"_s})
+                QVERIFY2(close(itemsDb[i][key], itemsCsv[i][key]), qPrintable(u"by item %1 %2"_s.arg(i).arg(key)));
+            for (const QString &key : {u"f"_s, u"df2"_s, u"p"_s})
+                QVERIFY2(close(minDb[i][key], minCsv[i][key]), qPrintable(u"min F' %1 %2"_s.arg(i).arg(key)));
+        }
+        // An item column without a participant column is refused before any query runs.
+        const ProcessRun alone = runCli({u"fit"_s, u"--database"_s, u"sqlite://"_s + db, u"--table"_s, u"trials"_s, u"--levels"_s,
+                                         levels.join(u','), u"--factor"_s, u"cue"_s, u"--response"_s, u"rt"_s, u"--item"_s, u"sentence"_s});
+        QCOMPARE(alone.exitCode, 2);
+        QVERIFY2(alone.errText().contains(u"--item needs --participant"_s), qPrintable(alone.errText()));
+    }
+
     // The printed two-level query groups by the participant too and returns it last; run by hand it
     // gives one row per participant and level, each the mean of that participant's trials.
     void exportedTwoLevelQuery()

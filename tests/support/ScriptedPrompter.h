@@ -60,6 +60,7 @@ public:
         take(question.response, summaryAnswer.response);
         take(question.weight, summaryAnswer.weight);
         take(question.participant, summaryAnswer.participant);
+        take(question.item, summaryAnswer.item);
         if (!summaryAnswer.factorColumns.isEmpty())
             question.factorColumns = summaryAnswer.factorColumns;
         return true;

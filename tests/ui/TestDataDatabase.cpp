@@ -208,6 +208,18 @@ private slots:
         }
         QVERIFY(std::abs(a.f - fromFile.f) < 1e-9);
         QVERIFY(std::abs(a.sigma - fromFile.sigma) < 1e-9);
+
+        // An item column typed into the question: the spec asks for the by-item query too (core's
+        // summaryFromSource runs it; TestDatabaseFit::byItemFromSqliteEqualsFitFromCsv checks the
+        // numbers), and without a participant column the answer is refused, naming the field.
+        prompter.summaryAnswer.item = u"sentence"_s;
+        databaseChoice(panel)->trigger();
+        QVERIFY(done.wait(10'000));
+        QCOMPARE(askedSpec.itemColumn, u"sentence"_s);
+        panel.participantBox()->setCurrentIndex(0);
+        prompter.summaryAnswer.participant.clear();
+        databaseChoice(panel)->trigger();
+        QVERIFY2(panel.message().contains(u"the by-item analysis needs a participant column"_s), qPrintable(panel.message()));
     }
 
     void readFailureShowsTheReadersMessage()

@@ -116,6 +116,12 @@ bool DialogPrompter::askSummaryQuery(QWidget *parent, SummaryQuestion &question)
     QLineEdit *participant = field(tr("Participant column:"), question.participant, tr("none: separate groups"));
     participant->setToolTip(tr("For a factor measured within participants: the database first averages each participant's "
                                "trials per level, and the check is by participant."));
+    QLineEdit *item = nullptr;
+    if (question.withDatabase) {
+        item = field(tr("Item column:"), question.item, tr("none: no by-item analysis"));
+        item->setToolTip(tr("With a participant column: a second query averages each item's rows per level, for the by-item "
+                            "analysis and min F\u2032 beside the by-participant one."));
+    }
     auto *buttons = new QDialogButtonBox(QDialogButtonBox::Ok | QDialogButtonBox::Cancel, &dialog);
     QObject::connect(buttons, &QDialogButtonBox::accepted, &dialog, &QDialog::accept);
     QObject::connect(buttons, &QDialogButtonBox::rejected, &dialog, &QDialog::reject);
@@ -131,6 +137,8 @@ bool DialogPrompter::askSummaryQuery(QWidget *parent, SummaryQuestion &question)
     question.response = response->text();
     question.weight = weight->text();
     question.participant = participant->text();
+    if (item)
+        question.item = item->text();
     return true;
 }
 

@@ -36,6 +36,7 @@ struct SummaryQuestion
     QString response;
     QString weight;
     QString participant; // empty: every row counts as its own (no participant column)
+    QString item;        // with a participant column, reading from a database: the by-item analysis too
 };
 
 // Every question the window asks the user goes through here, file dialogs included, so tests

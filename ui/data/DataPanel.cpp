@@ -516,6 +516,7 @@ SummaryQuestion DataPanel::summaryQuestion(bool withDatabase) const
         q.response = m_response->currentText();
         q.weight = m_weight->currentIndex() > 0 ? m_weight->currentText() : QString();
         q.participant = m_participant->currentIndex() > 0 ? m_participant->currentText() : QString();
+        q.item = m_item->currentIndex() > 0 ? m_item->currentText() : QString();
     } else if (q.factorColumns.size() == q.factorLabels.size()) {
         columns = q.factorColumns;
     } else {
@@ -533,6 +534,9 @@ Result<SummaryQuerySpec> DataPanel::specFromAnswer(const SummaryQuestion &answer
     spec.responseColumn = answer.response;
     spec.weightColumn = answer.weight.trimmed();
     spec.participantColumn = answer.participant.trimmed();
+    spec.itemColumn = answer.withDatabase ? answer.item.trimmed() : QString();
+    if (!spec.itemColumn.isEmpty() && spec.participantColumn.isEmpty())
+        return Result<SummaryQuerySpec>::failure(tr("Item column: the by-item analysis needs a participant column beside it."), u"item"_s);
     if (auto query = summaryQuery(spec); !query)
         return Result<SummaryQuerySpec>::failure(query.error(), query.field());
     return spec;
