@@ -21,6 +21,11 @@ QString percent(double share)
 
 QStringList fitSummaryLines(const FitResult &fit, bool cells)
 {
+    if (fit.byParticipant && std::isnan(fit.f)) // too few complete participants, or singular scores: the notes say which
+        return {u"Hotelling's test of all %1 cannot be computed (see the notes); each coefficient is tested on its own"_s.arg(
+                    fit.mixedDesign ? u"within cells"_s : u"levels"_s),
+                u"%1 participants, %2 with every %3"_s.arg(fit.participants).arg(fit.completeParticipants).arg(
+                    fit.mixedDesign ? u"within cell"_s : u"level"_s)};
     if (fit.mixedDesign) // core/data/MixedFit.h; the notes list the other multivariate tests
         return {u"Do the within cells differ? F(%1, %2) = %3, %4; tests that %5"_s.arg(numberText(fit.fDf1, 10), numberText(fit.fDf2, 10),
                                                                                numberText(fit.f), pClause(fit.fP), fit.omnibusHypothesis),

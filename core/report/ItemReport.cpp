@@ -4,6 +4,8 @@
 #include "core/base/NumberText.h"
 #include "core/report/TextTable.h"
 
+#include <cmath>
+
 using namespace Qt::StringLiterals;
 
 namespace cb {
@@ -18,6 +20,9 @@ QString itemScopeSentence()
 QStringList itemSummaryLines(const ItemAnalysis &items)
 {
     const FitResult &f = items.byItem;
+    if (std::isnan(f.f)) // too few items with every level, or scores that do not vary in every direction: the notes say which
+        return {u"By item: Hotelling's test of all levels cannot be computed over the %1 of %2 items with every level (see the notes); "
+                u"each coefficient is tested on its own"_s.arg(f.completeParticipants).arg(f.participants)};
     return {u"By item: do the level means differ? Hotelling's F(%1, %2) = %3, %4, over the %5 of %6 items with every level"_s
                 .arg(numberText(f.fDf1, 10), numberText(f.fDf2, 10), numberText(f.f), pClause(f.fP))
                 .arg(f.completeParticipants)

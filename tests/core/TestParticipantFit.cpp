@@ -7,6 +7,7 @@
 #include "core/data/DataReader.h"
 #include "core/model/Scheme.h"
 #include "core/model/SchemeEdits.h"
+#include "core/report/FitReport.h"
 
 #include "tests/support/FitTestSupport.h"
 #include "tests/support/ProcessRunner.h"
@@ -71,6 +72,7 @@ private slots:
     void errorsNameTheParticipantOrLine();
     void commandLine();
     void studentsSleepData();
+    void tooFewParticipantsForHotellingIsSaid();
 };
 
 void TestParticipantFit::agreesWithScipy_data()
@@ -245,6 +247,22 @@ void TestParticipantFit::studentsSleepData()
     QVERIFY(nearRelative(fit->f, 4.062127683382037 * 4.062127683382037, 1e-10));
     QCOMPARE(fit->fDf1, 1.0);
     QCOMPARE(fit->fDf2, 9.0);
+}
+
+// Two participants for three levels: each contrast is tested, Hotelling's test cannot be (it needs
+// as many participants with every level as levels), and the summary says so instead of F(2, 0).
+void TestParticipantFit::tooFewParticipantsForHotellingIsSaid()
+{
+    auto data = read("participant,level,y\np1,none,500\np1,valid,480\np1,invalid,530\np2,none,610\np2,valid,600\np2,invalid,650\n");
+    QVERIFY2(data.ok(), qPrintable(data.error()));
+    auto fit = fitParticipants(test::withinCueScheme(SchemeKind::Treatment), *data);
+    QVERIFY2(fit.ok(), qPrintable(fit.error()));
+    QVERIFY(std::isnan(fit->f));
+    QCOMPARE(fit->coefficients[1].df, 1.0);
+    const QStringList lines = fitSummaryLines(*fit, false);
+    QCOMPARE(lines.value(0), u"Hotelling's test of all levels cannot be computed (see the notes); each coefficient is tested on its own"_s);
+    QCOMPARE(lines.value(1), u"2 participants, 2 with every level"_s);
+    QVERIFY(fit->notes.join(u' ').contains(u"Hotelling's test needs at least as many participants with every level as levels (3)"_s));
 }
 
 QTEST_GUILESS_MAIN(TestParticipantFit)

@@ -580,8 +580,12 @@ void DataPanel::readFromDatabase()
     const QString note = summaryQuery(*spec)->formNote;
     m_fileLabel->setText(spec->participantColumn.isEmpty()
                              ? tr("%1, table %2: summarised per level by the database (%3).").arg(q.url, quoted(spec->table), note)
-                             : tr("%1, table %2: each participant's cell means (column %3) from the database, checked by "
-                                  "participant (%4).").arg(q.url, quoted(spec->table), quoted(spec->participantColumn), note));
+                         : spec->itemColumn.isEmpty()
+                             ? tr("%1, table %2: each participant's cell means (column %3) from the database, checked by "
+                                  "participant (%4).").arg(q.url, quoted(spec->table), quoted(spec->participantColumn), note)
+                             : tr("%1, table %2: each participant's cell means (column %3) and, in a second query, each item's "
+                                  "(column %4) from the database, checked by participant and by item (%5).")
+                                   .arg(q.url, quoted(spec->table), quoted(spec->participantColumn), quoted(spec->itemColumn), note));
     startRead([reader = m_databaseReader, url = q.url, s = *spec] { return reader(url, s); },
               tr("Asking the database for the summary of %1\u2026").arg(quoted(spec->table)), false);
 }
