@@ -8,6 +8,7 @@
 #include "core/files/InputFile.h"
 #include "core/model/Design.h"
 #include "core/power/MixedPower.h"
+#include "core/power/PowerPlanSettings.h"
 #include "core/power/Power.h"
 #include "core/report/TextTable.h"
 
@@ -34,7 +35,9 @@ int badInput(Io &io, const QString &message)
 
 void addPowerOptions(QCommandLineParser &p)
 {
-    p.addOption({u"means"_s, u"Expected mean of each level, in level order."_s, u"m1,m2,..."_s});
+    p.addOption({u"means"_s, u"Expected mean of each level, in level order. Without --means or --differences, a --file saved "
+                             u"with the window's Power tab inputs plans with them."_s,
+                 u"m1,m2,..."_s});
     p.addOption({u"differences"_s, u"Instead of --means: expected difference of each other level from the baseline level."_s, u"d2,d3,..."_s});
     p.addOption({u"baseline"_s, u"The level --differences are measured from (default: the first level)."_s, u"LEVEL"_s});
     p.addOption({u"sd"_s, u"Expected common standard deviation within levels."_s, u"S"_s});
@@ -185,23 +188,59 @@ QString readCorrelation(const QCommandLineParser &p, bool within, PowerSettings 
     return {};
 }
 
-QString readTest(const QCommandLineParser &p, PowerSettings &s)
+// The test's settings from --alpha, --target, --adjust and --one-sided (their defaults when not
+// given); with onlyGiven, the options not given leave `s` as it is (a study file's power plan).
+QString readTest(const QCommandLineParser &p, PowerSettings &s, bool onlyGiven = false)
 {
-    auto alpha = singleNumber(p, u"alpha"_s);
-    if (!alpha)
-        return alpha.error();
-    auto target = singleNumber(p, u"target"_s);
-    if (!target)
-        return target.error();
-    const auto adjustment = adjustmentFromId(p.value(u"adjust"_s));
-    if (!adjustment || !adjustsPower(*adjustment))
-        return u"--adjust: unknown adjustment %1; expected %2 (Holm's step-down needs the observed p-values and is "
-               u"applied in the data check)"_s.arg(quoted(p.value(u"adjust"_s)), adjustmentIdList(true));
-    s.alpha = *alpha;
-    s.target = *target;
-    s.adjustment = *adjustment;
-    s.oneSided = p.isSet(u"one-sided"_s);
+    const auto read = [&](const QString &name) { return !onlyGiven || p.isSet(name); };
+    if (read(u"alpha"_s)) {
+        auto alpha = singleNumber(p, u"alpha"_s);
+        if (!alpha)
+            return alpha.error();
+        s.alpha = *alpha;
+    }
+    if (read(u"target"_s)) {
+        auto target = singleNumber(p, u"target"_s);
+        if (!target)
+            return target.error();
+        s.target = *target;
+    }
+    if (read(u"adjust"_s)) {
+        const auto adjustment = adjustmentFromId(p.value(u"adjust"_s));
+        if (!adjustment || !adjustsPower(*adjustment))
+            return u"--adjust: unknown adjustment %1; expected %2 (Holm's step-down needs the observed p-values and is "
+                   u"applied in the data check)"_s.arg(quoted(p.value(u"adjust"_s)), adjustmentIdList(true));
+        s.adjustment = *adjustment;
+    }
+    if (read(u"one-sided"_s))
+        s.oneSided = p.isSet(u"one-sided"_s);
     return {};
+}
+
+// A study file that holds the window's power inputs ("power", core/model/PowerPlan.h) plans with
+// them when the command line types no means: the same numbers as the window's Power tab, with
+// --alpha, --target, --adjust and --one-sided taking the place of the plan's when given. Empty
+// when the file holds none or the means are typed here; otherwise the settings or a message.
+std::optional<Result<PowerSettings>> settingsFromFilePlan(const QCommandLineParser &p, const Scheme &scheme,
+                                                          const std::optional<MixedLayout> &mixed)
+{
+    using R = Result<PowerSettings>;
+    if (!p.isSet(u"file"_s) || p.isSet(u"means"_s) || p.isSet(u"differences"_s))
+        return std::nullopt;
+    auto study = studyFromOptions(p);
+    if (!study || study->power.isDefault())
+        return std::nullopt;
+    const QString where = inputLabel(p.value(u"file"_s));
+    for (const QString &name : {u"sd"_s, u"sds"_s, u"ratios"_s, u"total"_s, u"correlation"_s, u"correlations"_s, u"baseline"_s})
+        if (p.isSet(name))
+            return R::failure(u"--%1: %2 holds the power inputs of the window's Power tab (field 'power'); change them there, "
+                              u"or give every input here, starting with --means or --differences"_s.arg(name, where));
+    auto s = settingsFromPlan(study->power, scheme.factor, mixed);
+    if (!s)
+        return R::failure(u"%1: field 'power' (the window's Power tab): %2"_s.arg(where, s.error()));
+    if (const QString e = readTest(p, s.value(), true); !e.isEmpty())
+        return R::failure(e);
+    return s;
 }
 
 // With ratios and no planned sizes, the ratios stand for the sizes wherever the
@@ -383,10 +422,17 @@ int runPower(const QStringList &args, Io &io)
             analyzeDesign(*design).empty.summary);
 
     PowerSettings s;
-    for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, within, s),
-                             readCorrelation(p, within, s), readTest(p, s)})
-        if (!e.isEmpty())
-            return badInput(io, e);
+    if (auto fromFile = settingsFromFilePlan(p, scheme, mixed)) {
+        if (!*fromFile)
+            return badInput(io, fromFile->error());
+        s = fromFile->take();
+        designNotes << u"the inputs are the study file's (the window's Power tab)"_s;
+    } else {
+        for (const QString &e : {readMeans(p, scheme.factor.levels, s), readSpread(p, s), readSizes(p, scheme, within, s),
+                                 readCorrelation(p, within, s), readTest(p, s)})
+            if (!e.isEmpty())
+                return badInput(io, e);
+    }
     if (Problem e = mixed ? validateMixedPowerSettings(s, *mixed, u"--"_s) : validatePowerSettings(s, scheme.levelCount(), u"--"_s);
         !e.isEmpty())
         return badInput(io, e.message);

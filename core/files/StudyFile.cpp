@@ -1,7 +1,9 @@
 #include "core/files/StudyFile.h"
 
+#include "core/analysis/Adjustment.h"
 #include "core/analysis/Settled.h"
 #include "core/base/JsonArray.h"
+#include "core/base/Weight.h"
 #include "core/files/InputFile.h"
 #include "core/files/SchemeFile.h"
 
@@ -17,7 +19,9 @@ namespace {
 using R = Result<Study>;
 } // namespace
 
-QByteArray designToJson(const Design &d)
+namespace {
+
+QJsonObject designToObject(const Design &d)
 {
     QJsonArray factors;
     for (const Scheme &s : d.factors) {
@@ -40,9 +44,136 @@ QByteArray designToJson(const Design &d)
     if (!d.cellN.empty()) {
         design[u"cell_n"_s] = jsonArray(d.cellN, [](const Rational &r) { return rationalToString(r); });
     }
-    QJsonObject root{{u"format"_s, QString::fromLatin1(kSchemeFormatTag)}, {u"version"_s, kSchemeFormatVersion},
-                     {u"design"_s, design}, {u"intercept"_s, d.intercept}, {u"notes"_s, d.notes}};
-    return QJsonDocument(root).toJson(QJsonDocument::Indented);
+    return QJsonObject{{u"format"_s, QString::fromLatin1(kSchemeFormatTag)}, {u"version"_s, kSchemeFormatVersion},
+                       {u"design"_s, design}, {u"intercept"_s, d.intercept}, {u"notes"_s, d.notes}};
+}
+
+// The power planner's inputs as typed, every field written; the levels in the order of `names`.
+QJsonObject powerPlanToObject(const PowerPlan &plan, const QStringList &names)
+{
+    QJsonArray levels;
+    for (const QString &name : names)
+        if (plan.levels.contains(name)) {
+            const PowerPlanLevel &l = plan.levels[name];
+            levels.append(QJsonObject{{u"level"_s, name}, {u"expected"_s, l.expected}, {u"sd"_s, l.sd}, {u"ratio"_s, l.ratio}});
+        }
+    return QJsonObject{{u"levels"_s, levels},
+                       {u"expected"_s, plan.differences ? u"differences"_s : u"means"_s},
+                       {u"baseline"_s, plan.baseline},
+                       {u"sd"_s, plan.sd},
+                       {u"sd_per_level"_s, plan.perLevelSd},
+                       {u"sizes"_s, powerPlanSizesId(plan.sizes)},
+                       {u"total"_s, plan.total},
+                       {u"correlation"_s, plan.correlation},
+                       {u"correlation_matrix"_s, plan.fullMatrix},
+                       {u"correlations"_s, plan.correlations},
+                       {u"alpha"_s, plan.alpha},
+                       {u"target"_s, plan.target},
+                       {u"sided"_s, plan.oneSided ? u"one"_s : u"two"_s},
+                       {u"adjustment"_s, plan.adjustment}};
+}
+
+// Reads "power" of a study file. Every field may be left out (its default); texts may be
+// written as strings or numbers. Level names are checked against the study by the caller.
+Result<PowerPlan> powerPlanFromJson(const QJsonValue &value, const QString &where)
+{
+    using P = Result<PowerPlan>;
+    auto fail = [&](const QString &field, const QString &what) { return P::failure(u"%1: field 'power%2': %3"_s.arg(where, field, what)); };
+    if (!value.isObject())
+        return fail({}, u"expected an object with the power planner's inputs"_s);
+    const QJsonObject o = value.toObject();
+    PowerPlan plan;
+    // A text field: a string, or a number written as one.
+    auto text = [](const QJsonObject &from, const QString &key, QString &into) -> bool {
+        const QJsonValue v = from.value(key);
+        if (v.isUndefined())
+            return true;
+        if (v.isString())
+            into = v.toString();
+        else if (v.isDouble())
+            into = doubleToString(v.toDouble());
+        else
+            return false;
+        return true;
+    };
+    auto flag = [&](const QString &key, bool &into) -> bool {
+        const QJsonValue v = o.value(key);
+        if (v.isUndefined())
+            return true;
+        into = v.toBool();
+        return v.isBool();
+    };
+    for (const auto &[key, into] : {std::pair{u"baseline"_s, &plan.baseline}, {u"sd"_s, &plan.sd}, {u"total"_s, &plan.total},
+                                    {u"correlation"_s, &plan.correlation}, {u"correlations"_s, &plan.correlations},
+                                    {u"alpha"_s, &plan.alpha}, {u"target"_s, &plan.target}})
+        if (!text(o, key, *into))
+            return fail(u"."_s + key, u"expected a number, as a string such as \"0.5\" or a number"_s);
+    for (const auto &[key, into] : {std::pair{u"sd_per_level"_s, &plan.perLevelSd}, {u"correlation_matrix"_s, &plan.fullMatrix}})
+        if (!flag(key, *into))
+            return fail(u"."_s + key, u"expected true or false"_s);
+    if (const QJsonValue v = o.value(u"expected"_s); !v.isUndefined()) {
+        if (v.toString() != u"means"_s && v.toString() != u"differences"_s)
+            return fail(u".expected"_s, u"expected \"means\" or \"differences\""_s);
+        plan.differences = v.toString() == u"differences"_s;
+    }
+    if (const QJsonValue v = o.value(u"sided"_s); !v.isUndefined()) {
+        if (v.toString() != u"one"_s && v.toString() != u"two"_s)
+            return fail(u".sided"_s, u"expected \"two\" or \"one\""_s);
+        plan.oneSided = v.toString() == u"one"_s;
+    }
+    if (const QJsonValue v = o.value(u"sizes"_s); !v.isUndefined()) {
+        const auto sizes = powerPlanSizesFromId(v.toString());
+        if (!v.isString() || !sizes)
+            return fail(u".sizes"_s, u"expected %1"_s.arg(powerPlanSizesIdList()));
+        plan.sizes = *sizes;
+    }
+    if (const QJsonValue v = o.value(u"adjustment"_s); !v.isUndefined()) {
+        const auto adjustment = adjustmentFromId(v.toString());
+        if (!v.isString() || !adjustment || !adjustsPower(*adjustment))
+            return fail(u".adjustment"_s, u"expected %1"_s.arg(adjustmentIdList(true)));
+        plan.adjustment = adjustmentId(*adjustment);
+    }
+    if (const QJsonValue v = o.value(u"levels"_s); !v.isUndefined()) {
+        if (!v.isArray())
+            return fail(u".levels"_s, u"expected an array of objects such as {\"level\": \"A\", \"expected\": \"10\"}"_s);
+        const QJsonArray levels = v.toArray();
+        for (qsizetype i = 0; i < levels.size(); ++i) {
+            const QString path = u".levels[%1]"_s.arg(i);
+            const QJsonObject lo = levels[i].toObject();
+            if (!levels[i].isObject() || !lo.value(u"level"_s).isString())
+                return fail(path, u"expected an object with a \"level\" name and its \"expected\", \"sd\" and \"ratio\""_s);
+            const QString name = lo.value(u"level"_s).toString();
+            if (plan.levels.contains(name))
+                return fail(path + u".level"_s, u"%1 is given twice"_s.arg(quoted(name)));
+            PowerPlanLevel l;
+            for (const auto &[key, into] : {std::pair{u"expected"_s, &l.expected}, {u"sd"_s, &l.sd}, {u"ratio"_s, &l.ratio}})
+                if (!text(lo, key, *into))
+                    return fail(path + u"."_s + key, u"expected a number, as a string such as \"12.5\" or a number"_s);
+            plan.levels.insert(name, l);
+        }
+    }
+    return P(std::move(plan));
+}
+
+// The plan's level names and baseline must name levels (a design: cells) of the study.
+QString checkPlanLevels(const PowerPlan &plan, const QStringList &names, const QString &where, const QJsonValue &value)
+{
+    const QString known = shortenedInput(names.join(u", "_s));
+    const QJsonArray levels = value.toObject().value(u"levels"_s).toArray();
+    for (qsizetype i = 0; i < levels.size(); ++i)
+        if (const QString name = levels[i].toObject().value(u"level"_s).toString(); !names.contains(name))
+            return u"%1: field 'power.levels[%2].level': %3 is not a level of the study; expected one of %4"_s.arg(where).arg(i).arg(
+                quoted(name), known);
+    if (!plan.baseline.isEmpty() && !names.contains(plan.baseline))
+        return u"%1: field 'power.baseline': %2 is not a level of the study; expected one of %3"_s.arg(where, quoted(plan.baseline), known);
+    return {};
+}
+
+} // namespace
+
+QByteArray designToJson(const Design &d)
+{
+    return QJsonDocument(designToObject(d)).toJson(QJsonDocument::Indented);
 }
 
 bool isDesignJson(const QByteArray &data)
@@ -140,7 +271,11 @@ Result<Design> designFromJson(const QByteArray &data, const QString &where)
 
 QByteArray studyToJson(const Study &study)
 {
-    return study.isDesign() ? designToJson(study.design) : schemeToJson(study.activeScheme());
+    if (study.power.isDefault()) // files without a power plan stay as they were before plans were saved
+        return study.isDesign() ? designToJson(study.design) : schemeToJson(study.activeScheme());
+    QJsonObject root = study.isDesign() ? designToObject(study.design) : QJsonDocument::fromJson(schemeToJson(study.activeScheme())).object();
+    root[u"power"_s] = powerPlanToObject(study.power, study.powerLevelNames());
+    return QJsonDocument(root).toJson(QJsonDocument::Indented);
 }
 
 namespace {
@@ -186,6 +321,14 @@ Result<Study> studyFromJson(const QByteArray &data, const QString &where)
             return R::failure(coded.error());
         s.design.factors[f] = coded.take();
     }
+    if (const QJsonValue power = QJsonDocument::fromJson(data).object().value(u"power"_s); !power.isUndefined()) {
+        auto plan = powerPlanFromJson(power, where);
+        if (!plan)
+            return R::failure(plan.error());
+        if (const QString e = checkPlanLevels(*plan, s.powerLevelNames(), where, power); !e.isEmpty())
+            return R::failure(e);
+        s.power = plan.take();
+    }
     return R(settled(std::move(s)));
 }
 
@@ -199,11 +342,10 @@ Result<Study> loadStudy(const QString &path)
 
 QString saveStudy(const Study &study, const QString &path)
 {
-    if (!study.isDesign())
-        return saveScheme(study.activeScheme(), path);
-    if (const QString e = study.design.validate(); !e.isEmpty())
-        return u"%1: not saved: %2"_s.arg(path, e);
-    return writeFileAtomically(path, designToJson(study.design));
+    if (study.isDesign())
+        if (const QString e = study.design.validate(); !e.isEmpty())
+            return u"%1: not saved: %2"_s.arg(path, e);
+    return writeFileAtomically(path, studyToJson(study));
 }
 
 } // namespace cb

@@ -77,7 +77,14 @@ Study consistent(Study study)
                 s = next.take();
         }
     }
+    study.power = prunedPlan(std::move(study.power), study.powerLevelNames());
     return study;
+}
+
+Study withPowerPlan(Study study, PowerPlan plan)
+{
+    study.power = std::move(plan);
+    return consistent(std::move(study));
 }
 
 Study studyOf(Scheme scheme)

@@ -1,6 +1,7 @@
 #pragma once
 
 #include "core/model/Design.h"
+#include "core/model/PowerPlan.h"
 #include "core/base/Result.h"
 #include "core/model/Scheme.h"
 
@@ -17,6 +18,10 @@ struct Study
     Design design;
     int active = 0;          // the factor the coding grid edits
     QString cellSizeNote;    // why the cell sizes were reset (shown beside them); empty normally
+    PowerPlan power;         // the power planner's inputs, for the levels (a design: the cells)
+
+    // The names the power plan's levels are kept under: the factor's levels, or the design's cells.
+    QStringList powerLevelNames() const { return isDesign() ? design.cellNames() : activeScheme().factor.levels; }
 
     bool isDesign() const { return design.factors.size() >= 2; }
     int factorCount() const { return int(design.factors.size()); }
@@ -27,7 +32,8 @@ struct Study
 // The parts of a study that follow from the rest, made consistent: in a design every factor
 // shares the design's intercept and notes, and a factor's planned n are its levels' totals over
 // the cells (equal when the cells are, or when a level has no planned observations), so its
-// one-factor panels and its n-dependent codings (weighted-effect) read the design's sizes.
+// one-factor panels and its n-dependent codings (weighted-effect) read the design's sizes. The
+// power plan keeps the values of the current levels or cells only (prunedPlan).
 // settled() (core/analysis/Settled.h) does this and then names the columns.
 Study consistent(Study study);
 
@@ -45,6 +51,7 @@ Result<Study> withTerm(const Study &study, const Term &term, bool included);
 // Sets one cell's planned n (A-major index); equal sizes become explicit ones first.
 Result<Study> withCellSize(const Study &study, int cell, const QString &text);
 Study withEqualCellSizes(const Study &study);
+Study withPowerPlan(Study study, PowerPlan plan);
 
 // The terms one can choose for a design of `factorCount` factors: main effects,
 // interactions, then each factor nested within each other one.

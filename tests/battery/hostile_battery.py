@@ -41,6 +41,12 @@ SCHEME = {
         {"name": "quadratic", "weights": ["1", "-2", "1"]},
     ],
     "notes": "an invented plan",
+    "power": {
+        "levels": [{"level": "low", "expected": "10", "sd": "4", "ratio": "1"}, {"level": "mid", "expected": "12"}],
+        "expected": "differences", "baseline": "low", "sd": "4", "sd_per_level": False, "sizes": "ratios", "total": "60",
+        "correlation": "0.5", "correlation_matrix": False, "correlations": "", "alpha": "0.05", "target": "0.8",
+        "sided": "two", "adjustment": "sidak",
+    },
 }
 
 DESIGN = {
@@ -92,6 +98,11 @@ ACCEPTED = {
     "factor.n[0]": {"number", "huge number"},
     "factor.spacing[0]": {"number", "negative", "huge number"},
     "design.cell_n[0]": {"number", "huge number"},
+    # The power plan keeps numbers as typed texts; a JSON number is read as the decimal it shows,
+    # and its value is checked where it is used (the Power tab, `power --file`), not on loading.
+    **{f"power.{key}": {"number", "negative", "huge number"}
+       for key in ("sd", "total", "correlation", "correlations", "alpha", "target",
+                   "levels[0].expected", "levels[0].sd", "levels[0].ratio")},
 }
 
 

@@ -38,6 +38,7 @@ private slots:
     void customColumns();
     void designReverse();
     void fileRoundTrip();
+    void powerPlansWithTheStudyFilesInputs();
     void badInput_data();
     void badInput();
     void fileFromStandardInput();
@@ -125,6 +126,55 @@ void TestCli::fileRoundTrip()
     const Run bad = cli({u"analyze"_s, u"--file"_s, path, u"--scheme"_s, u"sum"_s});
     QCOMPARE(bad.exitCode, 2);
     QVERIFY(bad.errText().contains(u"--scheme cannot be combined with --file"_s));
+}
+
+// A study file saved with the window's Power tab inputs ("power"): `power --file` plans with them,
+// exactly as with the same inputs typed as options; --alpha takes the place of the plan's, and
+// an input option beside the plan is refused, naming it.
+void TestCli::powerPlansWithTheStudyFilesInputs()
+{
+    QFile demo(QStringLiteral(CB_SOURCE_DIR "/resources/demos/irrigation.json"));
+    QVERIFY(demo.open(QIODevice::ReadOnly));
+    QJsonObject root = QJsonDocument::fromJson(demo.readAll()).object();
+    QJsonArray levels;
+    const QJsonArray names = root[u"factor"_s].toObject()[u"levels"_s].toArray();
+    for (qsizetype i = 0; i < names.size(); ++i)
+        levels.append(QJsonObject{{u"level"_s, names[i]}, {u"expected"_s, QString::number(10 + 2 * i)}});
+    root[u"power"_s] = QJsonObject{{u"levels"_s, levels}, {u"sd"_s, u"4"_s}, {u"adjustment"_s, u"sidak"_s}};
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"planned.json"_s);
+    QFile f(path);
+    QVERIFY(f.open(QIODevice::WriteOnly));
+    f.write(QJsonDocument(root).toJson());
+    f.close();
+
+    const Run fromPlan = cli({u"power"_s, u"--file"_s, path, u"--json"_s});
+    QCOMPARE(fromPlan.exitCode, 0);
+    const Run typed = cli({u"power"_s, u"--file"_s, path, u"--means"_s, u"10,12,14,16,18"_s, u"--sd"_s, u"4"_s, u"--adjust"_s,
+                           u"sidak"_s, u"--json"_s});
+    QCOMPARE(typed.exitCode, 0);
+    QCOMPARE(json(fromPlan)[u"contrasts"_s], json(typed)[u"contrasts"_s]);
+    QCOMPARE(json(fromPlan)[u"omnibus"_s], json(typed)[u"omnibus"_s]);
+    QVERIFY(json(fromPlan)[u"contrasts"_s].toArray().size() == 4);
+    QVERIFY(fromPlan.outText().contains(u"the inputs are the study file's"_s));
+
+    const Run alpha = cli({u"power"_s, u"--file"_s, path, u"--alpha"_s, u"0.01"_s, u"--json"_s});
+    QCOMPARE(alpha.exitCode, 0);
+    QCOMPARE(json(alpha)[u"alpha"_s].toDouble(), 0.01);
+    QCOMPARE(json(alpha)[u"adjustment"_s].toString(), u"sidak"_s); // the plan's, not the option's default
+
+    const Run clash = cli({u"power"_s, u"--file"_s, path, u"--sd"_s, u"5"_s});
+    QCOMPARE(clash.exitCode, 2);
+    QVERIFY2(clash.errText().contains(u"--sd: "_s) && clash.errText().contains(u"planned.json holds the power inputs"_s), qPrintable(clash.errText()));
+
+    root[u"power"_s] = QJsonObject{{u"levels"_s, levels}, {u"sd"_s, u"-4"_s}};
+    QVERIFY(f.open(QIODevice::WriteOnly | QIODevice::Truncate));
+    f.write(QJsonDocument(root).toJson());
+    f.close();
+    const Run bad = cli({u"power"_s, u"--file"_s, path});
+    QCOMPARE(bad.exitCode, 2);
+    QVERIFY2(bad.errText().contains(u"planned.json: field 'power' (the window's Power tab): "_s) && bad.errText().contains(u"sd"_s),
+             qPrintable(bad.errText()));
 }
 
 void TestCli::badInput_data()

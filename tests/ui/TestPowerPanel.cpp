@@ -9,6 +9,7 @@
 #include "ui/power/PowerPanel.h"
 #include "core/model/SchemeEdits.h"
 #include "core/model/Study.h"
+#include "core/files/StudyFile.h"
 #include "tests/support/TableText.h"
 #include "ui/common/SmallChart.h"
 
@@ -19,7 +20,9 @@
 #include <QComboBox>
 #include <QTableView>
 #include <QSignalSpy>
+#include <QTemporaryDir>
 #include <QTest>
+#include <QUndoStack>
 
 using namespace Qt::StringLiterals;
 using namespace cb;
@@ -55,6 +58,7 @@ private slots:
     void fullCorrelationMatrixGivesCoresPower();
     void mixedDesignGivesEachColumnsPartAndGroups();
     void designWithAnEmptyCellPlansTheOtherCells();
+    void inputsAreTheStudysUndoneAndSaved();
 };
 
 void TestPowerPanel::tableShowsCorePower_data()
@@ -438,6 +442,54 @@ void TestPowerPanel::fullCorrelationMatrixGivesCoresPower()
     QVERIFY(std::abs(panel.report()->contrasts[0].se - std::sqrt((2.0 - 2 * 0.7) / 20.0)) < 1e-12);
     QVERIFY(std::abs(panel.report()->contrasts[1].se - std::sqrt((2.0 - 2 * 0.2) / 20.0)) < 1e-12);
     QVERIFY(renderPanel(panel, QSize(1366, 240), u"power-within-matrix"_s));
+}
+
+// What is typed into the panel belongs to the study: the document is modified, typing into one
+// field is one undo step that brings the old text back, and a saved study opened again shows the
+// same inputs and the same power (the numbers: TestPowerPlan::planGivesTheTextbookPower).
+void TestPowerPanel::inputsAreTheStudysUndoneAndSaved()
+{
+    Document doc;
+    doc.reset(loadDemoStudy(u"irrigation"_s).take(), {});
+    PowerPanel panel(&doc);
+    QVERIFY(!doc.isModified());
+    panel.setExpectedTexts({u"10"_s, u"12"_s, u"14"_s, u"16"_s, u"18"_s});
+    QVERIFY(doc.isModified());
+    panel.sdEdit()->selectAll();
+    QTest::keyClicks(panel.sdEdit(), u"4"_s);
+    panel.adjustmentBox()->setCurrentIndex(panel.adjustmentBox()->findText(adjustmentTitle(Adjustment::Sidak)));
+    QCOMPARE(doc.study().power.sd, u"4"_s);
+    QCOMPARE(doc.study().power.adjustment, u"sidak"_s);
+    QCOMPARE(doc.study().power.levels.value(u"daily drip"_s).expected, u"12"_s);
+
+    // Typing "4.5" over "4" is one step; undo brings "4" back into the field.
+    const int steps = doc.undoStack()->count();
+    panel.sdEdit()->selectAll();
+    QTest::keyClicks(panel.sdEdit(), u"4.5"_s);
+    QCOMPARE(doc.undoStack()->count(), steps + 1);
+    QCOMPARE(doc.study().power.sd, u"4.5"_s);
+    doc.undoStack()->undo();
+    QCOMPARE(panel.sdEdit()->text(), u"4"_s);
+    QCOMPARE(doc.study().power.sd, u"4"_s);
+    panel.recompute();
+    QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
+    const double power = panel.report()->contrasts[0].power;
+
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"planned.json"_s);
+    QCOMPARE(saveStudy(doc.study(), path), QString());
+    Document again;
+    auto loaded = loadStudy(path);
+    QVERIFY2(loaded.ok(), qPrintable(loaded.error()));
+    again.reset(loaded.take(), path);
+    PowerPanel reopened(&again);
+    reopened.recompute();
+    QCOMPARE(reopened.sdEdit()->text(), u"4"_s);
+    QCOMPARE(reopened.adjustmentBox()->currentText(), adjustmentTitle(Adjustment::Sidak));
+    QCOMPARE(cellText(reopened.inputTable(), 1, PowerPanel::ExpectedColumn), u"12"_s);
+    QVERIFY(reopened.report().has_value());
+    QCOMPARE(reopened.report()->contrasts[0].power, power);
+    QCOMPARE(reopened.report()->perTestAlpha, panel.report()->perTestAlpha);
 }
 
 QTEST_MAIN(TestPowerPanel)

@@ -24,7 +24,7 @@ DocumentTableModel::Shape HypothesisModel::currentShape() const
 
 bool HypothesisModel::draftIsCurrent() const
 {
-    return m_draft && m_draftRevision == document()->revision();
+    return m_draft && m_draftRevision == document()->codingRevision();
 }
 
 void HypothesisModel::aboutToFollow()
@@ -42,7 +42,7 @@ void HypothesisModel::discardDraft()
 {
     if (!m_draft)
         return;
-    m_draftRevision = document()->revision() + 1; // no longer current
+    m_draftRevision = document()->codingRevision() + 1; // no longer current
     follow();
 }
 
@@ -64,7 +64,7 @@ bool HypothesisModel::addComparison()
     QSet<int> touched = m_draft ? m_draftColumns : QSet<int>();
     touched.insert(int(next.size()) - 1);
     m_draft = std::move(next);
-    m_draftRevision = document()->revision();
+    m_draftRevision = document()->codingRevision();
     m_draftColumns = touched;
     m_draftProblem = tr("the new comparison has no weights yet; type weights on the level means that sum to 0");
     follow();
@@ -123,7 +123,7 @@ bool HypothesisModel::applyWeights(const std::vector<edits::CellWeight> &cells, 
     auto coded = edits::withHypotheses(d->scheme(), next);
     if (!coded) {
         m_draft = std::move(next);
-        m_draftRevision = d->revision();
+        m_draftRevision = d->codingRevision();
         m_draftColumns = touched;
         m_draftProblem = coded.error();
         follow();

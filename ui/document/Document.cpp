@@ -90,9 +90,15 @@ Problem Document::setActiveFactor(int factor)
 
 void Document::applyStudy(Study study)
 {
+    // An edit of the power plan alone changes no analysis (and ends no draft of the grids).
+    const bool planOnly = m_revision > 0 && study.design == m_study.design && study.active == m_study.active
+                          && study.cellSizeNote == m_study.cellSizeNote;
     m_study = std::move(study);
-    m_analysis = analyze(m_study.activeScheme());
-    m_designAnalysis = m_study.isDesign() ? analyzeDesign(m_study.design) : DesignAnalysis{};
+    if (!planOnly) {
+        m_analysis = analyze(m_study.activeScheme());
+        m_designAnalysis = m_study.isDesign() ? analyzeDesign(m_study.design) : DesignAnalysis{};
+        ++m_codingRevision;
+    }
     ++m_revision;
     emit changed();
 }

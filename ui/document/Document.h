@@ -43,6 +43,9 @@ public:
     bool isModified() const { return !m_undo.isClean(); }
     // Number of changes so far (for autosave: has anything changed since?).
     quint64 revision() const { return m_revision; }
+    // Number of changes of the study other than its power plan (for drafts that end when the
+    // coding, the levels or the design change).
+    quint64 codingRevision() const { return m_codingRevision; }
 
     // One undoable step named `actionName`. Consecutive edits with the same
     // merge id and key fold into one step (typing into the same cell).
@@ -85,6 +88,7 @@ private:
     QUndoStack m_undo;
     QString m_filePath;
     quint64 m_revision = 0;
+    quint64 m_codingRevision = 0;
 };
 
 } // namespace cb

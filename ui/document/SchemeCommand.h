@@ -21,6 +21,7 @@ enum class MergeId : int {
     FactorName,
     Notes,
     CellSize,      // one cell of the design's planned n
+    PowerPlan,     // one input of the power planner
 };
 
 // The one edit command. Every change to a document goes through it, so every change can be

@@ -3,6 +3,7 @@
 
 #include "core/base/NumberText.h"
 #include "core/power/MixedPower.h"
+#include "core/power/PowerPlanSettings.h"
 #include "ui/document/Document.h"
 #include "ui/common/CellTable.h"
 #include "ui/common/Look.h"
@@ -17,6 +18,7 @@
 #include <QLabel>
 #include <QLineEdit>
 #include <QPlainTextEdit>
+#include <QScopedValueRollback>
 #include <QShowEvent>
 #include <QSignalBlocker>
 #include <QTableView>
@@ -24,6 +26,7 @@
 #include <QVBoxLayout>
 
 #include <algorithm>
+#include <tuple>
 #include <cmath>
 
 using namespace Qt::StringLiterals;
@@ -66,17 +69,6 @@ QString noteOf(const QString &field)
     if (field == u"means"_s || field == u"sds"_s || field == u"n"_s || field == u"ratios"_s || field == u"levels"_s)
         return u"levels"_s;
     return {};
-}
-
-Result<double> parseScalar(const QLineEdit *edit, const QString &field)
-{
-    const QString text = edit->text().trimmed();
-    if (text.isEmpty())
-        return Result<double>::failure(u"%1: no value; type a number"_s.arg(field), field);
-    const Result<Weight> w = parseWeight(text);
-    if (!w)
-        return Result<double>::failure(u"%1: %2"_s.arg(field, w.error()), field);
-    return w->value();
 }
 
 QLabel *fieldNote(QWidget *parent)
@@ -298,48 +290,62 @@ QLayout *PowerPanel::buildResultColumn()
     return middle;
 }
 
+// Every input is the study's power plan: an edit goes to the document as one undoable step
+// (typing into one field folds into one), and followDocument shows the plan back.
 void PowerPanel::connectInputs()
 {
     connect(m_inputs, &CellTableModel::edited, this,
             [this](int row, int column, const QVariant &value) { inputEdited(row, column, value.toString()); });
-    for (QLineEdit *e : {m_sd, m_total, m_alpha, m_target, m_correlation})
-        connect(e, &QLineEdit::textChanged, this, &PowerPanel::schedule);
-    connect(m_correlations, &QPlainTextEdit::textChanged, this, &PowerPanel::schedule);
+    const std::tuple<QLineEdit *, QString PowerPlan::*, QString> texts[] = {
+        {m_sd, &PowerPlan::sd, u"sd"_s},          {m_total, &PowerPlan::total, u"total"_s},
+        {m_alpha, &PowerPlan::alpha, u"alpha"_s}, {m_target, &PowerPlan::target, u"target"_s},
+        {m_correlation, &PowerPlan::correlation, u"correlation"_s}};
+    for (const auto &[edit, member, key] : texts)
+        connect(edit, &QLineEdit::textChanged, this,
+                [this, member, key](const QString &text) { editPlan([&](PowerPlan &plan) { plan.*member = text; }, key); });
+    connect(m_correlations, &QPlainTextEdit::textChanged, this,
+            [this] { editPlan([this](PowerPlan &plan) { plan.correlations = m_correlations->toPlainText(); }, u"correlations"_s); });
     connect(m_fullMatrix, &QCheckBox::toggled, this, [this](bool full) {
-        // The matrix starts from the common correlation, for the analyst to change what differs.
-        if (full && m_correlations->toPlainText().trimmed().isEmpty())
-            if (const Result<Weight> r = parseWeight(m_correlation->text().trimmed()); r && std::abs(r->value()) <= 1.0) {
+        editPlan([&](PowerPlan &plan) {
+            plan.fullMatrix = full;
+            // The matrix starts from the common correlation, for the analyst to change what differs.
+            const QString r = plan.correlation.trimmed();
+            if (const Result<Weight> w = parseWeight(r); full && plan.correlations.trimmed().isEmpty() && w && std::abs(w->value()) <= 1.0) {
                 const int k = int(factor().levels.size());
                 QStringList lines;
                 for (int i = 0; i < k; ++i) {
                     QStringList cells;
                     for (int j = 0; j < k; ++j)
-                        cells << (i == j ? u"1"_s : m_correlation->text().trimmed());
+                        cells << (i == j ? u"1"_s : r);
                     lines << cells.join(u", "_s);
                 }
-                const QSignalBlocker block(m_correlations);
-                m_correlations->setPlainText(lines.join(u'\n'));
+                plan.correlations = lines.join(u'\n');
             }
-        updateCorrelationRows();
-        schedule();
+        });
     });
-    for (QComboBox *c : {m_sided, m_adjustment, m_baseline})
-        connect(c, &QComboBox::currentIndexChanged, this, &PowerPanel::schedule);
-    connect(m_expectedKind, &QComboBox::currentIndexChanged, this, [this] {
-        showInputs();
-        schedule();
+    connect(m_sided, &QComboBox::currentIndexChanged, this, [this](int i) { editPlan([&](PowerPlan &plan) { plan.oneSided = i == 1; }); });
+    connect(m_adjustment, &QComboBox::currentIndexChanged, this,
+            [this] { editPlan([this](PowerPlan &plan) { plan.adjustment = adjustmentId(Adjustment(m_adjustment->currentData().toInt())); }); });
+    connect(m_baseline, &QComboBox::currentIndexChanged, this, [this](int i) {
+        editPlan([&](PowerPlan &plan) { plan.baseline = i >= 0 && i < m_levels.size() ? m_levels[i] : QString(); });
     });
-    connect(m_baseline, &QComboBox::currentIndexChanged, this, &PowerPanel::showInputs);
-    connect(m_perLevelSd, &QCheckBox::toggled, this, [this] {
-        updateColumnVisibility();
-        schedule();
-    });
-    connect(m_sizeSource, &QComboBox::currentIndexChanged, this, [this] {
-        m_sizeSourceChosen = true;
-        showInputs();
-        schedule();
+    connect(m_expectedKind, &QComboBox::currentIndexChanged, this,
+            [this](int i) { editPlan([&](PowerPlan &plan) { plan.differences = i == 1; }); });
+    connect(m_perLevelSd, &QCheckBox::toggled, this, [this](bool on) { editPlan([&](PowerPlan &plan) { plan.perLevelSd = on; }); });
+    connect(m_sizeSource, &QComboBox::currentIndexChanged, this, [this](int i) {
+        editPlan([&](PowerPlan &plan) { plan.sizes = i == 1 ? PowerPlan::Sizes::Ratios : PowerPlan::Sizes::PlannedN; });
     });
     connect(m_document, &Document::changed, this, &PowerPanel::followDocument);
+}
+
+void PowerPanel::editPlan(const std::function<void(PowerPlan &)> &change, const QString &key)
+{
+    if (m_showingPlan)
+        return;
+    PowerPlan plan = m_document->study().power;
+    change(plan);
+    m_document->editStudy(withPowerPlan(m_document->study(), std::move(plan)), tr("Edit power plan"),
+                          key.isEmpty() ? MergeId::None : MergeId::PowerPlan, key);
 }
 
 // For a design, power is per design column over the cell means: the "levels" are the cells,
@@ -374,7 +380,6 @@ void PowerPanel::followDocument()
     // The correlations' column takes its width from the curves, not from the results.
     m_columns->setStretch(3, isWithin ? 1 : 4);
     m_chart->setMinimumWidth(isWithin ? 160 : 0);
-    updateCorrelationRows();
     m_totalLabel->setText(isWithin ? tr("Participants:") : tr("Total N:"));
     m_chart->setAxisTitles(mixed() ? tr("smallest group") : isWithin ? tr("participants") : tr("size of the smallest group"),
                            tr("power"));
@@ -384,23 +389,43 @@ void PowerPanel::followDocument()
                            mixed() ? tr("Participants per group for target") : isWithin ? tr("Participants for target") : tr("n/level for target"),
                            isWithin ? tr("Participants") : tr("Total N"), tr("Estimate \u03c8"), tr("SE"), tr("Std. eff."), tr("df"),
                            isWithin ? tr("vs Hotelling") : tr("vs F test")});
-    if (!m_sizeSourceChosen) {
-        const QSignalBlocker block(m_sizeSource);
-        m_sizeSource->setCurrentIndex(f.hasPlannedN() ? 0 : 1);
-    }
-    if (f.levels != m_levels) {
-        const QSignalBlocker block(m_baseline);
-        const QString previous = m_baseline->currentText();
-        m_baseline->clear();
-        m_baseline->addItems(f.levels);
-        m_baseline->setCurrentIndex(std::max(0, int(f.levels.indexOf(previous))));
-    }
     m_levels = f.levels;
-    // Typed values stay with their level's name; a level renamed or added starts empty.
-    for (auto it = m_typed.begin(); it != m_typed.end();)
-        it = m_levels.contains(it.key()) ? std::next(it) : m_typed.erase(it);
-    showInputs();
+    showPlan();
     schedule();
+}
+
+// The widgets as the study's power plan says, without an edit of their own.
+void PowerPanel::showPlan()
+{
+    const QScopedValueRollback guard(m_showingPlan, true);
+    const PowerPlan &plan = m_document->study().power;
+    const auto setText = [](QLineEdit *edit, const QString &text) {
+        if (edit->text() != text)
+            edit->setText(text);
+    };
+    setText(m_sd, plan.sd);
+    setText(m_total, plan.total);
+    setText(m_alpha, plan.alpha);
+    setText(m_target, plan.target);
+    setText(m_correlation, plan.correlation);
+    if (m_correlations->toPlainText() != plan.correlations)
+        m_correlations->setPlainText(plan.correlations);
+    m_fullMatrix->setChecked(plan.fullMatrix);
+    m_perLevelSd->setChecked(plan.perLevelSd);
+    m_expectedKind->setCurrentIndex(plan.differences ? 1 : 0);
+    m_sided->setCurrentIndex(plan.oneSided ? 1 : 0);
+    m_adjustment->setCurrentIndex(std::max(0, m_adjustment->findData(int(adjustmentFromId(plan.adjustment).value_or(Adjustment::None)))));
+    m_sizeSource->setCurrentIndex(planUsesRatios(plan, factor()) ? 1 : 0);
+    QStringList listed;
+    for (int i = 0; i < m_baseline->count(); ++i)
+        listed << m_baseline->itemText(i);
+    if (listed != m_levels) {
+        m_baseline->clear();
+        m_baseline->addItems(m_levels);
+    }
+    m_baseline->setCurrentIndex(std::max(0, int(m_levels.indexOf(plan.baseline))));
+    updateCorrelationRows();
+    showInputs();
 }
 
 bool PowerPanel::differences() const
@@ -408,20 +433,19 @@ bool PowerPanel::differences() const
     return m_expectedKind->currentIndex() == 1;
 }
 
-// The input table as the typed values and the factor say (one row per level).
+// The input table as the plan and the factor say (one row per level).
 void PowerPanel::showInputs()
 {
     const Factor &f = factor();
+    const PowerPlan &plan = m_document->study().power;
     const std::vector<Rational> sizes = f.sizes();
     const bool diff = differences();
     const int baseline = m_baseline->currentIndex();
     TableRows rows;
     rows.reserve(size_t(m_levels.size()));
     for (int r = 0; r < int(m_levels.size()); ++r) {
-        const LevelInput in = m_typed.value(m_levels[r]);
+        const PowerPlanLevel in = plan.levels.value(m_levels[r]);
         const bool isBaseline = diff && r == baseline;
-        if (isBaseline && !in.expected.isEmpty())
-            m_typed[m_levels[r]].expected.clear(); // the baseline's value is 0 by definition
         rows.push_back({cell(m_levels[r], false), isBaseline ? quietCell(tr("0 (baseline)")) : entryCell(in.expected), entryCell(in.sd),
                         quietCell(f.hasPlannedN() && size_t(r) < sizes.size() ? QString::fromStdString(sizes[size_t(r)].get_str()) : dash()),
                         entryCell(in.ratio)});
@@ -437,16 +461,21 @@ void PowerPanel::inputEdited(int row, int column, const QString &text)
 {
     if (row < 0 || row >= int(m_levels.size()))
         return;
-    LevelInput &in = m_typed[m_levels[row]];
-    (column == ExpectedColumn ? in.expected : column == SdColumn ? in.sd : in.ratio) = text;
-    showInputs();
-    schedule();
+    setLevelText(m_levels[row], column, text);
+}
+
+void PowerPanel::setLevelText(const QString &level, int column, const QString &text)
+{
+    QString PowerPlanLevel::*member = column == ExpectedColumn ? &PowerPlanLevel::expected
+                                      : column == SdColumn     ? &PowerPlanLevel::sd
+                                                               : &PowerPlanLevel::ratio;
+    editPlan([&](PowerPlan &plan) { plan.levels[level].*member = text; }, u"%1/%2"_s.arg(column).arg(level));
 }
 
 void PowerPanel::updateColumnVisibility()
 {
     // Within participants the participants come from the factor's planned n or, without it, the field.
-    const bool ratios = within() ? !factor().hasPlannedN() : m_sizeSource->currentIndex() == 1;
+    const bool ratios = within() ? !factor().hasPlannedN() : planUsesRatios(m_document->study().power, factor());
     m_inputView->setColumnHidden(SdColumn, !m_perLevelSd->isChecked());
     m_inputView->setColumnHidden(PlannedNColumn, ratios);
     m_inputView->setColumnHidden(RatioColumn, !ratios || within());
@@ -475,23 +504,16 @@ void PowerPanel::showEvent(QShowEvent *event)
         schedule();
 }
 
-QStringList PowerPanel::columnTexts(int column) const
-{
-    QStringList out;
-    for (const QString &level : m_levels) {
-        const LevelInput in = m_typed.value(level);
-        out << (column == ExpectedColumn ? in.expected : column == SdColumn ? in.sd : in.ratio).trimmed();
-    }
-    return out;
-}
-
 void PowerPanel::setColumnTexts(int column, const QStringList &texts)
 {
-    for (int r = 0; r < int(m_levels.size()) && r < texts.size(); ++r)
-        if (column != ExpectedColumn || !(differences() && r == m_baseline->currentIndex()))
-            (column == ExpectedColumn ? m_typed[m_levels[r]].expected : column == SdColumn ? m_typed[m_levels[r]].sd : m_typed[m_levels[r]].ratio) = texts[r];
-    showInputs();
-    schedule();
+    editPlan([&](PowerPlan &plan) {
+        QString PowerPlanLevel::*member = column == ExpectedColumn ? &PowerPlanLevel::expected
+                                          : column == SdColumn     ? &PowerPlanLevel::sd
+                                                                   : &PowerPlanLevel::ratio;
+        for (int r = 0; r < int(m_levels.size()) && r < texts.size(); ++r)
+            if (column != ExpectedColumn || !(differences() && r == m_baseline->currentIndex()))
+                plan.levels[m_levels[r]].*member = texts[r];
+    });
 }
 
 void PowerPanel::setExpectedTexts(const QStringList &texts)
@@ -519,7 +541,7 @@ void PowerPanel::setUseDifferences(bool differences, int baseline)
 
 void PowerPanel::setSizeSource(SizeSource source)
 {
-    m_sizeSource->setCurrentIndex(source == SizeSource::PlannedN ? 0 : 1);
+    editPlan([&](PowerPlan &plan) { plan.sizes = source == SizeSource::PlannedN ? PowerPlan::Sizes::PlannedN : PowerPlan::Sizes::Ratios; });
 }
 
 QString PowerPanel::fieldMessage(const QString &field) const
@@ -530,95 +552,8 @@ QString PowerPanel::fieldMessage(const QString &field) const
 
 Result<PowerSettings> PowerPanel::settings() const
 {
-    using R = Result<PowerSettings>;
-    PowerSettings s;
-    const int k = int(m_levels.size());
-    const bool differences = this->differences();
-    const int baseline = m_baseline->currentIndex();
-    // One number per level from a column of the table; the message names the level.
-    auto column = [&](int c, const QString &key, const QString &field, int skip) -> Result<std::vector<double>> {
-        std::vector<double> out;
-        const QStringList texts = columnTexts(c);
-        for (int r = 0; r < k; ++r) {
-            if (r == skip)
-                continue;
-            if (texts[r].isEmpty())
-                return Result<std::vector<double>>::failure(u"%1, level \u2018%2\u2019: no value; type a number"_s.arg(field, m_levels[r]), key);
-            const Result<Weight> w = parseWeight(texts[r]);
-            if (!w)
-                return Result<std::vector<double>>::failure(u"%1, level \u2018%2\u2019: %3"_s.arg(field, m_levels[r], w.error()), key);
-            out.push_back(w->value());
-        }
-        return out;
-    };
-    auto expected = column(ExpectedColumn, u"means"_s, differences ? u"means (differences)"_s : u"means"_s, differences ? baseline : -1);
-    if (!expected)
-        return R::failure(expected.problem());
-    s.means = differences ? meansFromDifferences(*expected, baseline) : *expected;
-    if (m_perLevelSd->isChecked()) {
-        auto sds = column(SdColumn, u"sds"_s, u"sds"_s, -1);
-        if (!sds)
-            return R::failure(sds.problem());
-        s.sds = *sds;
-    } else {
-        auto sd = parseScalar(m_sd, u"sd"_s);
-        if (!sd)
-            return R::failure(sd.problem());
-        s.sd = *sd;
-    }
-    if (within()) {
-        s.measure = Measure::Within;
-        if (factor().hasPlannedN()) {
-            s.n = factor().sizesAsDouble();
-        } else {
-            auto participants = parseScalar(m_total, u"total"_s);
-            if (!participants)
-                return R::failure(participants.problem());
-            s.total = *participants;
-        }
-        if (m_fullMatrix->isChecked()) {
-            // Read by core's reader (the one --correlations uses); validatePowerSettings below
-            // checks it against the levels, naming the cell.
-            auto matrix = parseCorrelationMatrix(m_correlations->toPlainText(), u"correlations"_s);
-            if (!matrix)
-                return R::failure(matrix.error(), u"correlations"_s);
-            s.correlations = matrix.take();
-        } else {
-            auto correlation = parseScalar(m_correlation, u"correlation"_s);
-            if (!correlation)
-                return R::failure(correlation.problem());
-            s.correlation = *correlation;
-        }
-    } else if (m_sizeSource->currentIndex() == 0) {
-        const Factor &f = factor();
-        if (!f.hasPlannedN())
-            return R::failure(u"n: the levels have no planned group sizes yet; enter them in the levels panel, "
-                              u"or choose ratios with a total N"_s, u"n"_s);
-        s.n = f.sizesAsDouble();
-    } else {
-        auto ratios = column(RatioColumn, u"ratios"_s, u"ratios"_s, -1);
-        if (!ratios)
-            return R::failure(ratios.problem());
-        s.ratios = *ratios;
-        auto total = parseScalar(m_total, u"total"_s);
-        if (!total)
-            return R::failure(total.problem());
-        s.total = *total;
-    }
-    auto alpha = parseScalar(m_alpha, u"alpha"_s);
-    if (!alpha)
-        return R::failure(alpha.problem());
-    s.alpha = *alpha;
-    auto target = parseScalar(m_target, u"target"_s);
-    if (!target)
-        return R::failure(target.problem());
-    s.target = *target;
-    s.oneSided = m_sided->currentIndex() == 1;
-    s.adjustment = Adjustment(m_adjustment->currentData().toInt());
-    if (Problem problem = mixed() ? validateMixedPowerSettings(s, mixedLayout(m_document->design())) : validatePowerSettings(s, k);
-        !problem.isEmpty())
-        return R::failure(std::move(problem));
-    return s;
+    return settingsFromPlan(m_document->study().power, factor(),
+                            mixed() ? std::optional(mixedLayout(m_document->design())) : std::nullopt);
 }
 
 // The matrix row only with "full matrix"; the common correlation is then not read.

@@ -2,9 +2,12 @@
 
 #include "core/analysis/Analysis.h"
 #include "core/model/Factor.h"
+#include "core/model/PowerPlan.h"
 #include "core/power/Power.h"
 
 #include <QHash>
+
+#include <functional>
 #include <QWidget>
 
 class QLayout;
@@ -87,14 +90,6 @@ protected:
     void showEvent(QShowEvent *event) override;
 
 private:
-    // What the analyst typed for one level (or cell), kept under its name.
-    struct LevelInput
-    {
-        QString expected;
-        QString sd;
-        QString ratio = QStringLiteral("1");
-    };
-
     // The constructor's steps.
     void buildTables();
     QLayout *buildInputForm();
@@ -113,11 +108,14 @@ private:
     bool differences() const;
     void showInputs();
     void inputEdited(int row, int column, const QString &text);
+    void setLevelText(const QString &level, int column, const QString &text);
+    // One edit of the study's power plan (an undo step; edits with the same key fold into one).
+    void editPlan(const std::function<void(PowerPlan &)> &change, const QString &key = {});
+    void showPlan();
     void updateColumnVisibility();
     void schedule();
     void showMessages(const Problem &problem);
     void showReport(const PowerReport &report, const ContrastRows &rows, const PowerSettings &settings);
-    QStringList columnTexts(int column) const;
     void setColumnTexts(int column, const QStringList &texts);
 
     Document *m_document;
@@ -150,10 +148,9 @@ private:
     QLabel *m_notes;
     SmallChart *m_chart;
     QStringList m_levels;
-    QHash<QString, LevelInput> m_typed; // by level name; a renamed level starts empty
     bool m_scheduled = false;
     bool m_stale = false; // a computation waits until the panel is shown
-    bool m_sizeSourceChosen = false;
+    bool m_showingPlan = false; // the widgets are being set from the plan: their signals are no edits
     std::optional<PowerReport> m_report;
 };
 
