@@ -926,4 +926,17 @@ Result<std::vector<Column>> codingFromHypotheses(const Factor &factor, const std
     return R(std::move(out));
 }
 
+Eigen::MatrixXd designRows(const Scheme &scheme)
+{
+    const Eigen::Index k = scheme.levelCount();
+    const Eigen::Index offset = scheme.intercept ? 1 : 0;
+    Eigen::MatrixXd X(k, scheme.columnCount() + offset);
+    if (offset)
+        X.col(0).setOnes();
+    for (Eigen::Index c = 0; c < scheme.columnCount(); ++c)
+        for (Eigen::Index j = 0; j < k; ++j)
+            X(j, c + offset) = scheme.columns[size_t(c)].weights[size_t(j)].value();
+    return X;
+}
+
 } // namespace cb

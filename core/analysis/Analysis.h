@@ -135,6 +135,9 @@ inline constexpr int kExactLevelLimit = 40;
 enum class AnalysisScope { Full, Hypotheses };
 Analysis analyze(const Scheme &scheme, AnalysisScope scope = AnalysisScope::Full);
 
+// Design rows of a scheme: k x p, a column of ones first when it has an intercept.
+Eigen::MatrixXd designRows(const Scheme &scheme);
+
 // The reverse direction: the coding whose coefficients test exactly the given
 // hypotheses. rows: weights on the k level means, one row per coefficient.
 // With an intercept, interceptRow is the intercept's hypothesis (default: the

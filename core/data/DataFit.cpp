@@ -352,19 +352,6 @@ Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &
     return fit;
 }
 
-Eigen::MatrixXd designRows(const Scheme &scheme)
-{
-    const Eigen::Index k = scheme.levelCount();
-    const Eigen::Index offset = scheme.intercept ? 1 : 0;
-    Eigen::MatrixXd X(k, scheme.columnCount() + offset);
-    if (offset)
-        X.col(0).setOnes();
-    for (Eigen::Index c = 0; c < scheme.columnCount(); ++c)
-        for (Eigen::Index j = 0; j < k; ++j)
-            X(j, c + offset) = scheme.columns[size_t(c)].weights[size_t(j)].value();
-    return X;
-}
-
 Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const FitOptions &options,
                             const LevelMapping &mapping)
 {

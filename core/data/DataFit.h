@@ -1,6 +1,7 @@
 #pragma once
 
 #include "core/analysis/Adjustment.h"
+#include "core/analysis/Analysis.h"
 #include "core/data/DataReader.h"
 #include "core/base/Result.h"
 
@@ -127,8 +128,7 @@ struct FitResult
 Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &X, const Eigen::MatrixXd &H,
                             const QStringList &names, bool intercept, const FitOptions &options = {});
 
-// Design rows of a scheme: k x p, a column of ones first when it has an intercept.
-Eigen::MatrixXd designRows(const Scheme &scheme);
+// (designRows, the design rows of a scheme, is in core/analysis/Analysis.h.)
 
 // Everything in one: matches the data's levels to the scheme (with the mapping),
 // builds X from the scheme's columns and H from analyze(scheme), and fits.

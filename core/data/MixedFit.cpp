@@ -19,79 +19,10 @@ namespace {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 
-// A term of one part of a mixed design: its name and its columns in the part's scheme (first is
-// the index among the columns, the intercept not counted).
-struct PartTerm
-{
-    QString name;
-    int first = 0;
-    int count = 0;
-};
-
-struct Part
-{
-    Scheme scheme;
-    std::vector<PartTerm> terms;
-};
-
-// The design's between factors (within = false) or within factors as one scheme over their
-// cells (A-major, as mixedLayout numbers groups and within cells), with the terms among them;
-// nullopt when there is no such factor. The within part always has an intercept: its first row
-// is the participants' average.
-Result<std::optional<Part>> partScheme(const Design &design, bool within)
-{
-    using R = Result<std::optional<Part>>;
-    std::vector<int> chosen;
-    for (size_t f = 0; f < design.factors.size(); ++f)
-        if (design.factors[f].factor.isWithin() == within)
-            chosen.push_back(int(f));
-    const bool intercept = within || design.intercept;
-    if (chosen.empty())
-        return R(std::nullopt);
-    if (chosen.size() == 1) {
-        Part out;
-        out.scheme = design.factors[size_t(chosen.front())];
-        out.scheme.intercept = intercept;
-        out.scheme.factor.plannedN.clear();
-        out.terms.push_back({out.scheme.factor.name, 0, out.scheme.columnCount()});
-        return R(std::optional(std::move(out)));
-    }
-    Design part;
-    part.intercept = intercept;
-    for (int f : chosen)
-        part.factors.push_back(design.factors[size_t(f)]);
-    const auto position = [&](int f) { return int(std::find(chosen.begin(), chosen.end(), f) - chosen.begin()); };
-    for (const Term &t : design.terms) {
-        Term mapped;
-        bool inside = t.within < 0 || position(t.within) < int(chosen.size());
-        for (int f : t.factors) {
-            inside = inside && position(f) < int(chosen.size());
-            mapped.factors.push_back(position(f));
-        }
-        mapped.within = t.within < 0 ? -1 : position(t.within);
-        if (inside)
-            part.terms.push_back(mapped);
-    }
-    auto cells = cellScheme(part);
-    if (!cells)
-        return R::failure(cells.error());
-    Part out;
-    out.scheme = cells.take();
-    out.scheme.intercept = intercept;
-    int first = 0;
-    for (const Term &t : part.terms) {
-        const int count = int(termColumns(part, t).size());
-        out.terms.push_back({termName(part, t), first, count});
-        first += count;
-    }
-    return R(std::optional(std::move(out)));
-}
-
-// The multivariate tests (MixedTest) over the participants with every within cell. hv: the within
-// part's hypothesis rows (the average first); betweenTerms: null when the between part has no
-// intercept or there is none (then only the within terms are tested, averaged over the groups).
+// The multivariate tests (mixedTerms' list, core/power/MixedPower.h) over the participants with
+// every within cell.
 std::vector<MixedTest> multivariateTests(const MixedFitResult &fit, const std::vector<int> &groupOf, const Eigen::MatrixXd &y,
-                                         const Eigen::MatrixXd &hv, const Part &within, const std::vector<PartTerm> *betweenTerms)
+                                         const std::vector<MixedTermTest> &terms)
 {
     const Eigen::Index w = y.cols();
     const Eigen::MatrixXd &groupRows = fit.betweenDesign;
@@ -105,16 +36,14 @@ std::vector<MixedTest> multivariateTests(const MixedFitResult &fit, const std::v
         x.row(Eigen::Index(i)) = groupRows.row(groupOf[size_t(complete[i])]);
         yc.row(Eigen::Index(i)) = y.row(complete[i]);
     }
-    const bool grouped = fit.groups.size() > 1;
-    const QString overGroups = grouped ? u", averaged over the groups with equal weight"_s : QString();
     std::vector<MixedTest> tests;
-    const auto add = [&](QString name, QString hypothesis, Eigen::MatrixXd l, Eigen::MatrixXd m) {
+    for (const MixedTermTest &term : terms) {
         MixedTest t;
-        t.name = std::move(name);
-        t.hypothesis = std::move(hypothesis);
+        t.name = term.name;
+        t.hypothesis = term.hypothesis;
         t.participants = int(complete.size());
-        t.contrast = std::move(l);
-        t.transform = std::move(m);
+        t.contrast = term.contrast;
+        t.transform = term.transform;
         auto r = wilksTest(x, yc, t.contrast, t.transform);
         if (r)
             t.test = *r;
@@ -125,28 +54,6 @@ std::vector<MixedTest> multivariateTests(const MixedFitResult &fit, const std::v
             t.test.df2 = kNaN;
         }
         tests.push_back(std::move(t));
-    };
-    const Eigen::MatrixXd average = groupRows.colwise().mean();
-    const bool saturated = hv.rows() == w;
-    add(u"all within cells"_s,
-        saturated ? u"the %1 within cells have equal means%2"_s.arg(w).arg(overGroups) : u"every within column is 0%1"_s.arg(overGroups), average,
-        hv.bottomRows(hv.rows() - 1).transpose());
-    const auto withinRows = [&](const PartTerm &t) { return Eigen::MatrixXd(hv.middleRows(1 + t.first, t.count).transpose()); };
-    if (within.terms.size() > 1)
-        for (const PartTerm &t : within.terms)
-            add(t.name, u"every column of %1 is 0%2"_s.arg(t.name, overGroups), average, withinRows(t));
-    if (!betweenTerms)
-        return tests;
-    const Eigen::MatrixXd averageOverCells = Eigen::VectorXd::Constant(w, 1.0 / double(w));
-    for (const PartTerm &b : *betweenTerms) {
-        Eigen::MatrixXd l = Eigen::MatrixXd::Zero(b.count, groupRows.cols());
-        for (int i = 0; i < b.count; ++i)
-            l(i, 1 + b.first + i) = 1.0;
-        add(b.name, u"every column of %1 is 0 on the participants' averages over the within cells"_s.arg(b.name), l, averageOverCells);
-        for (const PartTerm &t : within.terms) {
-            const QString name = b.name + kCrossJoiner.toString() + t.name;
-            add(name, u"every column of %1 is 0: %2's contrasts do not differ with %3"_s.arg(name, t.name, b.name), l, withinRows(t));
-        }
     }
     return tests;
 }
@@ -175,13 +82,12 @@ Result<MixedFitResult> fitMixedParticipants(const Design &design, const DataSumm
     auto pooled = fitScheme(*cells, data, options, mapping);
     if (!pooled)
         return R::failure(pooled.error());
-    auto betweenPart = partScheme(design, false);
-    auto withinPart = partScheme(design, true);
-    if (!betweenPart || !withinPart)
-        return R::failure(!betweenPart ? betweenPart.error() : withinPart.error());
-    if (!*withinPart)
+    if (!hasWithinFactor(design))
         return R::failure(u"the design has no factor measured within participants; fit it without --participant"_s);
-    const Scheme *betweenScheme = *betweenPart ? &(*betweenPart)->scheme : nullptr;
+    auto terms = mixedTerms(design);
+    if (!terms)
+        return R::failure(terms.error());
+    const Scheme *betweenScheme = terms->between ? &*terms->between : nullptr;
     const MixedLayout layout = mixedLayout(design);
     const ParticipantCells cellsOf = participantCells(*cells, data, mapping);
     const int participants = int(data.participants.size());
@@ -227,9 +133,7 @@ Result<MixedFitResult> fitMixedParticipants(const Design &design, const DataSumm
     }
 
     // The within rows: the average, then the within coding's hypothesis rows.
-    const Analysis withinAnalysis = analyze((*withinPart)->scheme);
-    if (withinAnalysis.hypothesisValues.size() == 0)
-        return R::failure(u"the within factors' coding is rank deficient, so its columns have no unique contrasts to test"_s);
+    const Eigen::MatrixXd &withinRows = terms->withinRows;
     FitResult &overall = out.overall;
     overall = pooled.take();
     overall.coefficients.clear();
@@ -238,15 +142,15 @@ Result<MixedFitResult> fitMixedParticipants(const Design &design, const DataSumm
     overall.incompleteParticipants = incomplete;
     overall.completeParticipants = participants - int(incomplete.size());
     overall.f = overall.fP = overall.fDf1 = overall.fDf2 = kNaN;
-    out.betweenDesign = betweenScheme ? designRows(*betweenScheme) : Eigen::MatrixXd::Ones(1, 1);
+    out.betweenDesign = terms->betweenDesign;
     std::vector<double> pFamily;
-    for (Eigen::Index r = 0; r < withinAnalysis.hypothesisValues.rows(); ++r) {
+    for (Eigen::Index r = 0; r < withinRows.rows(); ++r) {
         MixedFitRow row;
         const bool average = r == 0;
-        row.name = average ? u"average"_s : withinAnalysis.columnNames.value(qsizetype(r - 1));
+        row.name = average ? u"average"_s : terms->withinNames.value(qsizetype(r - 1));
         row.weights.resize(size_t(w));
         for (int j = 0; j < w; ++j)
-            row.weights[size_t(j)] = average ? 1.0 / w : withinAnalysis.hypothesisValues(r, j);
+            row.weights[size_t(j)] = average ? 1.0 / w : withinRows(r, j);
         // The scores per group.
         std::vector<RunningStats> groups(size_t(layout.groups()));
         for (int p = 0; p < participants; ++p) {
@@ -301,8 +205,7 @@ Result<MixedFitResult> fitMixedParticipants(const Design &design, const DataSumm
     const std::vector<double> adjusted = adjustPValues(pFamily, options.adjust);
     for (size_t c = 0; c < overall.coefficients.size(); ++c)
         overall.coefficients[c].pAdjusted = adjusted[c];
-    out.tests = multivariateTests(out, groupOf, y, withinAnalysis.hypothesisValues, **withinPart,
-                                  betweenScheme && betweenScheme->intercept ? &(*betweenPart)->terms : nullptr);
+    out.tests = multivariateTests(out, groupOf, y, terms->tests);
     const MixedTest &omnibus = out.tests.front();
     overall.mixedDesign = true;
     overall.completeParticipants = omnibus.participants;

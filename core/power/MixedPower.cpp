@@ -1,5 +1,6 @@
 #include "core/power/MixedPower.h"
 
+#include "core/analysis/Analysis.h"
 #include "core/base/NumberText.h"
 #include "core/base/Weight.h"
 
@@ -17,6 +18,75 @@ namespace cb {
 namespace {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+
+// A term of one part of a mixed design: its name and its columns in the part's scheme (first is
+// the index among the columns, the intercept not counted).
+struct PartTerm
+{
+    QString name;
+    int first = 0;
+    int count = 0;
+};
+
+struct Part
+{
+    Scheme scheme;
+    std::vector<PartTerm> terms;
+};
+
+// The design's between factors (within = false) or within factors as one scheme over their
+// cells (A-major, as mixedLayout numbers groups and within cells), with the terms among them;
+// nullopt when there is no such factor. The within part always has an intercept: its first row
+// is the participants' average.
+Result<std::optional<Part>> partScheme(const Design &design, bool within)
+{
+    using R = Result<std::optional<Part>>;
+    std::vector<int> chosen;
+    for (size_t f = 0; f < design.factors.size(); ++f)
+        if (design.factors[f].factor.isWithin() == within)
+            chosen.push_back(int(f));
+    const bool intercept = within || design.intercept;
+    if (chosen.empty())
+        return R(std::nullopt);
+    if (chosen.size() == 1) {
+        Part out;
+        out.scheme = design.factors[size_t(chosen.front())];
+        out.scheme.intercept = intercept;
+        out.scheme.factor.plannedN.clear();
+        out.terms.push_back({out.scheme.factor.name, 0, out.scheme.columnCount()});
+        return R(std::optional(std::move(out)));
+    }
+    Design part;
+    part.intercept = intercept;
+    for (int f : chosen)
+        part.factors.push_back(design.factors[size_t(f)]);
+    const auto position = [&](int f) { return int(std::find(chosen.begin(), chosen.end(), f) - chosen.begin()); };
+    for (const Term &t : design.terms) {
+        Term mapped;
+        bool inside = t.within < 0 || position(t.within) < int(chosen.size());
+        for (int f : t.factors) {
+            inside = inside && position(f) < int(chosen.size());
+            mapped.factors.push_back(position(f));
+        }
+        mapped.within = t.within < 0 ? -1 : position(t.within);
+        if (inside)
+            part.terms.push_back(mapped);
+    }
+    auto cells = cellScheme(part);
+    if (!cells)
+        return R::failure(cells.error());
+    Part out;
+    out.scheme = cells.take();
+    out.scheme.intercept = intercept;
+    int first = 0;
+    for (const Term &t : part.terms) {
+        const int count = int(termColumns(part, t).size());
+        out.terms.push_back({termName(part, t), first, count});
+        first += count;
+    }
+    return R(std::optional(std::move(out)));
+}
+
 
 // The hypothesis row as groups x within cells.
 Eigen::MatrixXd byGroup(const Eigen::VectorXd &h, const MixedLayout &layout)
@@ -178,6 +248,60 @@ MixedLayout mixedLayout(const Design &design)
         out.withinNames[within] = withinName.join(cellJoiner());
     }
     return out;
+}
+
+Result<MixedTerms> mixedTerms(const Design &design)
+{
+    using R = Result<MixedTerms>;
+    auto betweenPart = partScheme(design, false);
+    auto withinPart = partScheme(design, true);
+    if (!betweenPart || !withinPart)
+        return R::failure(!betweenPart ? betweenPart.error() : withinPart.error());
+    if (!*withinPart)
+        return R::failure(u"the design has no factor measured within participants"_s);
+    MixedTerms out;
+    if (*betweenPart)
+        out.between = (*betweenPart)->scheme;
+    out.betweenDesign = out.between ? designRows(*out.between) : Eigen::MatrixXd::Ones(1, 1);
+    const Analysis withinAnalysis = analyze((*withinPart)->scheme);
+    if (withinAnalysis.hypothesisValues.size() == 0)
+        return R::failure(u"the within factors' coding is rank deficient, so its columns have no unique contrasts to test"_s);
+    out.withinRows = withinAnalysis.hypothesisValues;
+    out.withinNames = withinAnalysis.columnNames;
+
+    const Eigen::MatrixXd &hv = out.withinRows;
+    const Eigen::Index w = hv.cols();
+    const Eigen::MatrixXd &groupRows = out.betweenDesign;
+    const bool grouped = groupRows.rows() > 1;
+    const QString overGroups = grouped ? u", averaged over the groups with equal weight"_s : QString();
+    const auto add = [&](QString name, QString hypothesis, Eigen::MatrixXd l, Eigen::MatrixXd m) {
+        out.tests.push_back({std::move(name), std::move(hypothesis), std::move(l), std::move(m)});
+    };
+    const Eigen::MatrixXd average = groupRows.colwise().mean();
+    const bool saturated = hv.rows() == w;
+    add(u"all within cells"_s,
+        saturated ? u"the %1 within cells have equal means%2"_s.arg(w).arg(overGroups) : u"every within column is 0%1"_s.arg(overGroups), average,
+        hv.bottomRows(hv.rows() - 1).transpose());
+    const auto withinRowsOf = [&](const PartTerm &t) { return Eigen::MatrixXd(hv.middleRows(1 + t.first, t.count).transpose()); };
+    const std::vector<PartTerm> &withinTerms = (*withinPart)->terms;
+    if (withinTerms.size() > 1)
+        for (const PartTerm &t : withinTerms)
+            add(t.name, u"every column of %1 is 0%2"_s.arg(t.name, overGroups), average, withinRowsOf(t));
+    // Between terms need the between coding's intercept (its columns are then the terms' contrasts).
+    if (!out.between || !out.between->intercept)
+        return R(std::move(out));
+    const Eigen::MatrixXd averageOverCells = Eigen::VectorXd::Constant(w, 1.0 / double(w));
+    for (const PartTerm &b : (*betweenPart)->terms) {
+        Eigen::MatrixXd l = Eigen::MatrixXd::Zero(b.count, groupRows.cols());
+        for (int i = 0; i < b.count; ++i)
+            l(i, 1 + b.first + i) = 1.0;
+        add(b.name, u"every column of %1 is 0 on the participants' averages over the within cells"_s.arg(b.name), l, averageOverCells);
+        for (const PartTerm &t : withinTerms) {
+            const QString name = b.name + kCrossJoiner.toString() + t.name;
+            add(name, u"every column of %1 is 0: %2's contrasts do not differ with %3"_s.arg(name, t.name, b.name), l, withinRowsOf(t));
+        }
+    }
+    return R(std::move(out));
 }
 
 QString mixedPartText(MixedPart part)

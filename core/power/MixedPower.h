@@ -6,6 +6,7 @@
 #include <QString>
 #include <QStringList>
 
+#include <optional>
 #include <vector>
 
 namespace cb {
@@ -27,6 +28,31 @@ struct MixedLayout
 
 bool hasWithinFactor(const Design &design);
 MixedLayout mixedLayout(const Design &design);
+
+// The multivariate tests of a mixed design, one list for the data check (core/data/MixedFit.h)
+// and for power: L B M = 0, B the coefficients of the between coding (betweenDesign, groups x p)
+// fitted to the participants' values in the within cells, L rows over its columns, M columns over
+// the within cells. In order: all within cells (L the groups' equal-weight average, M the within
+// coding's hypothesis rows), each within term when there are several, then for each between term
+// (when the between coding has an intercept) the term on the participants' averages and the term
+// x each within term.
+struct MixedTermTest
+{
+    QString name;              // "all within cells", a within term, a between term, or "A × T"
+    QString hypothesis;        // what it tests, in words
+    Eigen::MatrixXd contrast;  // L
+    Eigen::MatrixXd transform; // M
+};
+struct MixedTerms
+{
+    std::optional<Scheme> between; // the between factors' coding over the groups; none without a between factor
+    Eigen::MatrixXd betweenDesign; // groups x p: its design rows (a column of ones without a between factor)
+    Eigen::MatrixXd withinRows;    // the within coding's hypothesis rows over the within cells, the intercept's first
+    QStringList withinNames;       // the within coding's column names
+    std::vector<MixedTermTest> tests;
+};
+// Refused when the design has no factor within participants, or the within coding is rank deficient.
+Result<MixedTerms> mixedTerms(const Design &design);
 
 // What a column of a mixed design tests, from its hypothesis row h over the cells written as a
 // groups x within-cells matrix H. When H = a c' (rank one): c constant is a between column (a
