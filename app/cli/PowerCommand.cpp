@@ -382,6 +382,18 @@ QString humanReport(const Scheme &scheme, const PowerSettings &s, const PowerRep
                     o.noncentrality == 0.0 ? u"none (all means equal)"_s : sizesText(o.required, r.within, !r.groups.isEmpty()));
 
     QStringList contrastNotes;
+    if (!r.terms.empty()) {
+        TextTable terms({u"test (Wilks' Λ as F)"_s, u"df1"_s, u"df2"_s, u"noncentrality"_s, u"power"_s, u"for target"_s});
+        terms.setAlign(5, TextTable::Align::Left);
+        for (const TermPower &t : r.terms) {
+            terms.addRow({t.exact ? t.name : t.name + u" (approximate)"_s, QString::number(t.df1), degrees(t.df2), number(t.noncentrality),
+                          number(t.power), t.noncentrality == 0.0 ? u"none (hypothesis true)"_s : sizesText(t.required, true, true)});
+            for (const QString &n : t.notes)
+                contrastNotes << t.name + u": "_s + n;
+        }
+        out += u"\nMultivariate tests of the data check, each at alpha %1 (not adjusted for multiplicity):\n"_s.arg(number(r.alpha))
+               + terms.text();
+    }
     for (const ContrastPower &c : r.contrasts)
         for (const QString &n : c.notes)
             contrastNotes << c.name + u": "_s + n;
@@ -442,7 +454,7 @@ int runPower(const QStringList &args, Io &io)
     auto rows = contrastRowsOf(analysis);
     if (!rows)
         return badInput(io, rows.error());
-    auto report = mixed ? computeMixedPower(rows->rows, rows->names, s, *mixed) : computePower(rows->rows, rows->names, s);
+    auto report = mixed ? computeMixedPower(rows->rows, rows->names, s, *design) : computePower(rows->rows, rows->names, s);
     if (!report)
         return badInput(io, report.error());
     report->notes = designNotes + report->notes;

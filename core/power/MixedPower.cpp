@@ -19,6 +19,11 @@ namespace {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 
+std::vector<double> toDoubles(const std::vector<long long> &sizes)
+{
+    return {sizes.begin(), sizes.end()};
+}
+
 // A term of one part of a mixed design: its name and its columns in the part's scheme (first is
 // the index among the columns, the intercept not counted).
 struct PartTerm
@@ -188,6 +193,70 @@ struct MixedModel
         if (o.df2 >= 1.0)
             o.power = fTestPower(o.noncentrality, w - 1, o.df2, alpha);
         return o;
+    }
+
+    // A multivariate test L B M = 0 (mixedTerms) at participants per group n, as the data check
+    // computes it: B the between coding's coefficients (X: groups x p design rows) fitted by least
+    // squares to the participants' values, Wilks' lambda as Rao's F with df1 = q c and df2 =
+    // s (nu - (c - q + 1)/2) - (q c - 2)/2, nu = N - p, s = sqrt((q^2 c^2 - 4)/(q^2 + c^2 - 5)).
+    // The population's H = Theta' A^-1 Theta with Theta = L B M, B = (X'WX)^-1 X'W mu (W the group
+    // sizes, mu the cell means as groups x within cells), A = L (X'WX)^-1 L', and Sigma the groups'
+    // pooled covariance. When min(q, c) = 1 the F is exactly noncentral F with lambda =
+    // tr(H (M' Sigma M)^-1) (Hotelling's T^2, or the univariate F on the scores). Otherwise lambda =
+    // df2 eta / (1 - eta), eta = 1 - Lambda^(1/s), Lambda = |E| / |E + H| with E = nu M' Sigma M:
+    // the approximation of Muller & Peterson (1984, Comput. Stat. Data Anal. 2:143-158; cited from
+    // memory), which tests/python/power_mixed_check.py checks by simulation.
+    struct Term
+    {
+        double df2 = kNaN, noncentrality = kNaN, power = kNaN;
+        bool exact = true;
+    };
+    Term termAt(const MixedTermTest &t, const Eigen::MatrixXd &x, const std::vector<double> &n, double alpha) const
+    {
+        const int g = layout.groups();
+        const int w = layout.withinCells();
+        Eigen::MatrixXd mu = Eigen::MatrixXd::Zero(g, w);
+        for (size_t cell = 0; cell < layout.groupOf.size(); ++cell)
+            mu(layout.groupOf[cell], layout.withinOf[cell]) = settings.means[cell];
+        const Eigen::VectorXd sizes = Eigen::Map<const Eigen::VectorXd>(n.data(), Eigen::Index(n.size()));
+        const double total = sizes.sum();
+        Eigen::MatrixXd pooled = Eigen::MatrixXd::Zero(w, w);
+        for (int j = 0; j < g; ++j)
+            pooled += (n[size_t(j)] - 1.0) * sigma[size_t(j)];
+        pooled /= std::max(1.0, total - g);
+        const double q = double(t.contrast.rows());
+        const double c = double(t.transform.cols());
+        const double nu = total - double(x.cols());
+        const double s = q * q + c * c - 5.0 > 0.0 ? std::sqrt((q * q * c * c - 4.0) / (q * q + c * c - 5.0)) : 1.0;
+        Term out;
+        out.exact = std::min(q, c) <= 1.0;
+        out.df2 = s * (nu - (c - q + 1.0) / 2.0) - (q * c - 2.0) / 2.0;
+        const Eigen::MatrixXd xtwx = x.transpose() * sizes.asDiagonal() * x;
+        const Eigen::LDLT<Eigen::MatrixXd> xldlt(xtwx);
+        const Eigen::MatrixXd err = t.transform.transpose() * pooled * t.transform;
+        const Eigen::LDLT<Eigen::MatrixXd> eldlt(err);
+        if (xldlt.info() != Eigen::Success || !xldlt.isPositive() || eldlt.info() != Eigen::Success || !eldlt.isPositive())
+            return out;
+        const Eigen::MatrixXd b = xldlt.solve(x.transpose() * sizes.asDiagonal() * mu);
+        const Eigen::MatrixXd theta = t.contrast * b * t.transform;
+        const Eigen::MatrixXd a = t.contrast * xldlt.solve(t.contrast.transpose());
+        const Eigen::MatrixXd h = theta.transpose() * a.ldlt().solve(theta);
+        double scale = 1.0;
+        for (double m : settings.means)
+            scale = std::max(scale, std::abs(m));
+        if (theta.cwiseAbs().maxCoeff() <= 1e-12 * scale)
+            out.noncentrality = 0.0;
+        else if (out.exact)
+            out.noncentrality = (eldlt.solve(h)).trace();
+        else {
+            const Eigen::MatrixXd e = nu * err;
+            const double logLambda = e.ldlt().vectorD().array().log().sum() - (e + h).ldlt().vectorD().array().log().sum();
+            const double eta = 1.0 - std::exp(logLambda / s);
+            out.noncentrality = eta >= 1.0 ? std::numeric_limits<double>::infinity() : out.df2 * eta / (1.0 - eta);
+        }
+        if (out.df2 >= 1.0 && nu >= c)
+            out.power = fTestPower(out.noncentrality, q * c, out.df2, alpha);
+        return out;
     }
 
     const PowerSettings &settings;
@@ -387,7 +456,7 @@ std::vector<double> groupSizes(const PowerSettings &s, const MixedLayout &layout
 }
 
 Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QStringList &names, const PowerSettings &settings,
-                                      const MixedLayout &layout)
+                                      const MixedLayout &layout, const MixedTerms *terms)
 {
     using R = Result<PowerReport>;
     if (Problem p = checkRows(rows, settings, layout); !p.isEmpty())
@@ -427,8 +496,8 @@ Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QString
                                   .pooledFromLevelSds = false, .required = {}, .notes = {}};
     OmnibusPower &o = report.omnibus;
     o.notes << u"tests that the %1 within cells are equal, averaged over the groups with equal weight: Hotelling's T\u00b2 as an F "
-               u"with %2 and %3 df (the data check's omnibus test; the data check also tests the between and between "
-               u"\u00d7 within terms)"_s.arg(w).arg(w - 1).arg(w == 2 ? u"N - g"_s : u"N - g - %1"_s.arg(w - 2));
+               u"with %2 and %3 df (the data check's omnibus test; its other multivariate tests, of the between and between "
+               u"\u00d7 within terms, are listed with their power)"_s.arg(w).arg(w - 1).arg(w == 2 ? u"N - g"_s : u"N - g - %1"_s.arg(w - 2));
     if (om.noncentrality == 0.0)
         o.notes << u"the within cells' expected means, averaged over the groups, are equal: the test's power equals alpha at every n"_s;
     else {
@@ -449,6 +518,33 @@ Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QString
             numberText(report.plannedTotal, 10));
     if (settings.perLevelSds())
         o.notes << u"with per-cell SDs that differ between groups its F is an approximation (the groups' covariances differ)"_s;
+    if (terms)
+        for (const MixedTermTest &t : terms->tests) {
+            TermPower tp;
+            tp.name = t.name;
+            tp.hypothesis = t.hypothesis;
+            tp.df1 = int(t.contrast.rows() * t.transform.cols());
+            const MixedModel::Term at = model.termAt(t, terms->betweenDesign, n, settings.alpha);
+            std::tie(tp.df2, tp.noncentrality, tp.power, tp.exact) = std::tuple(at.df2, at.noncentrality, at.power, at.exact);
+            if (!tp.exact)
+                tp.notes << u"approximate: Wilks' Λ with more than one root, its power from the noncentral F of Muller & "
+                            u"Peterson (1984)"_s;
+            if (std::isnan(at.noncentrality))
+                tp.notes << u"not computed: the between coding or the covariance of the term's scores is singular"_s;
+            else if (at.noncentrality == 0.0)
+                tp.notes << u"the expected means satisfy its hypothesis: power equals alpha at every n"_s;
+            else {
+                long long least = 2; // the smallest group size at which the test has a denominator df
+                while (least < kPowerSearchCap && !(model.termAt(t, terms->betweenDesign, toDoubles(groupSizesFor(least, n)), settings.alpha).df2 >= 1.0))
+                    ++least;
+                tp.required = smallestSampleSize(
+                    [&](const std::vector<double> &nn) { return model.termAt(t, terms->betweenDesign, nn, settings.alpha).power; }, n,
+                    settings.target, least);
+                if (!tp.required.reachable)
+                    tp.notes << unreachedNote(tp.required, settings.target, false);
+            }
+            report.terms.push_back(std::move(tp));
+        }
     bool combined = false;
     for (int r = 0; r < m; ++r) {
         ContrastPower c;
@@ -492,6 +588,11 @@ Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QString
                     u"sphericity is assumed, the covariance is taken to be the same in every group"_s;
     if (settings.perLevelSds())
         report.notes << u"per-cell SDs that differ between groups break the equal-covariance assumption of the pooled error"_s;
+    if (report.terms.size() > 1)
+        report.notes << u"the data check's %1 multivariate tests (Wilks' \u039b) are each planned at alpha = %2, not adjusted for "
+                        u"multiplicity: with several of them the chance of at least one false positive is higher"_s
+                            .arg(report.terms.size())
+                            .arg(numberText(settings.alpha));
     if (combined)
         report.notes << u"some columns mix parts (see their notes); their power is approximate"_s;
     if (m > 1 && settings.adjustment != Adjustment::None)
@@ -499,6 +600,13 @@ Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QString
                             .arg(m)
                             .arg(numberText(report.perTestAlpha));
     return R(std::move(report));
+}
+
+Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QStringList &names, const PowerSettings &settings,
+                                      const Design &design)
+{
+    const auto terms = mixedTerms(design);
+    return computeMixedPower(rows, names, settings, mixedLayout(design), terms ? &terms.value() : nullptr);
 }
 
 Result<std::vector<double>> mixedPowerCurve(const Eigen::MatrixXd &rows, int contrast, const PowerSettings &settings,

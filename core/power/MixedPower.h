@@ -83,8 +83,13 @@ std::vector<double> groupSizes(const PowerSettings &settings, const MixedLayout 
 // ch. 14), and the noncentral t. The sample-size search keeps the groups' ratios and reports
 // participants per group. The omnibus test is Hotelling's T^2 that the within cells are equal,
 // averaged over the groups (MixedModel::omnibusAt in MixedPower.cpp; the data check's omnibus).
+// With terms (mixedTerms of the same design), also the power of each of the data check's
+// multivariate tests (PowerReport::terms; MixedModel::termAt in MixedPower.cpp).
 Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QStringList &names, const PowerSettings &settings,
-                                      const MixedLayout &layout);
+                                      const MixedLayout &layout, const MixedTerms *terms = nullptr);
+// The same for a design: its layout, and its multivariate tests when mixedTerms gives them.
+Result<PowerReport> computeMixedPower(const Eigen::MatrixXd &rows, const QStringList &names, const PowerSettings &settings,
+                                      const Design &design);
 
 // Power of one column (contrast index; -1: the omnibus test) at each smallest-group size, as powerCurve does.
 Result<std::vector<double>> mixedPowerCurve(const Eigen::MatrixXd &rows, int contrast, const PowerSettings &settings,

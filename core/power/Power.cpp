@@ -993,6 +993,19 @@ QJsonObject powerReportToJson(const PowerReport &report)
     o[u"pooled_from_level_sds"_s] = om.pooledFromLevelSds;
     putSampleSize(o, om.required, perParticipant);
     o[u"notes"_s] = QJsonArray::fromStringList(om.notes);
+    if (!report.terms.empty()) {
+        // A mixed design: the data check's multivariate tests (its fit's omnibus.tests), all within cells first.
+        QJsonArray tests;
+        for (const TermPower &t : report.terms) {
+            QJsonObject to{{u"name"_s, t.name}, {u"hypothesis"_s, t.hypothesis}, {u"test"_s, u"wilks"_s}, {u"df1"_s, t.df1},
+                           {u"exact"_s, t.exact}};
+            putNumbers(to, {{u"df2", t.df2}, {u"noncentrality", t.noncentrality}, {u"alpha", report.alpha}, {u"power", t.power}});
+            putSampleSize(to, t.required, false);
+            to[u"notes"_s] = QJsonArray::fromStringList(t.notes);
+            tests.append(to);
+        }
+        o[u"tests"_s] = tests;
+    }
     root[u"omnibus"_s] = o;
 
     root[u"notes"_s] = QJsonArray::fromStringList(report.notes);

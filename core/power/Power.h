@@ -128,6 +128,21 @@ struct OmnibusPower
     QStringList notes;
 };
 
+// A multivariate test of a mixed design (core/power/MixedPower.h, mixedTerms): Wilks' lambda as
+// Rao's F, the data check's test, at the planned participants per group.
+struct TermPower
+{
+    QString name;
+    QString hypothesis;
+    int df1 = 0;                // rows of L times columns of M
+    double df2 = std::numeric_limits<double>::quiet_NaN(); // Rao's
+    double noncentrality = std::numeric_limits<double>::quiet_NaN();
+    double power = std::numeric_limits<double>::quiet_NaN();
+    bool exact = true;          // min(rows of L, columns of M) = 1: the noncentral F is exact
+    SampleSize required;
+    QStringList notes;
+};
+
 struct PowerReport
 {
     int levelCount = 0;
@@ -144,6 +159,8 @@ struct PowerReport
     bool welch = false;
     std::vector<ContrastPower> contrasts;
     OmnibusPower omnibus;
+    // A mixed design: its multivariate tests, the data check's (all within cells first), at alpha unadjusted.
+    std::vector<TermPower> terms;
     // Within participants: the first contrast with a sample size, planned as separate groups
     // with the same means and SDs (equal groups), for withinExplanation; -1 when none.
     int comparedContrast = -1;

@@ -18,6 +18,16 @@ average of each within cell's difference from the first, V the covariance of the
 below; F with w - 1 and N - g - w + 2 df (scipy.stats.ncf); searched by stepping the smallest
 group up one participant at a time.
 
+With "terms" (a list of {L, M}, the data check's multivariate tests L B M = 0) and "x" (the
+between coding's design rows, groups x p), also "terms": [{df2, noncentrality, power}] for each:
+Wilks' lambda as Rao's F (df1 = q c, df2 = s (nu - (c - q + 1)/2) - (q c - 2)/2, nu = N - p).
+When min(q, c) = 1 the noncentrality is theta' Cov(theta)^-1 theta for theta = vec(L Bhat M), its
+covariance built as a whole from each group's covariance (sum_j a_j a_j' kron M' Sigma_j M / n_j,
+a_j the weight of group j's means in L Bhat); otherwise the approximation of Muller & Peterson
+(1984): Lambda* = |E| / |E + H| from the population H and E = nu M' Sigma M, eta = 1 - Lambda*^(1/s),
+lambda = df2 eta / (1 - eta). With "simulate_terms": N, the share of N simulated studies in which
+each test rejects, Wilks' lambda computed from its definition on each simulated study.
+
 Written from the definitions, apart from the C++ code: the covariance of the vector of cell means
 is built in NumPy as a whole (cells x cells: two cells of the same group covary by
 Sigma_g[w1, w2] / n_g, cells of different groups not at all, Sigma_g = D_g R D_g), so
@@ -155,7 +165,84 @@ def check_case(case):
     out["omnibus"] = {"noncentrality": lam, "df2": df2, "power": power, "searched": found}
     if case.get("simulate"):
         out["omnibus"]["simulated"] = simulated_omnibus_power(case, a, g, w, int(case["simulate"]))
+    if "terms" in case:
+        out["terms"] = term_powers(case, g, w)
     return out
+
+
+def group_means_and_covariances(case, g, w):
+    mu = np.array(case["means"], dtype=float)
+    sds = np.array(case["sds"], dtype=float)
+    corr = np.array(case["corr"], dtype=float)
+    means = np.zeros((g, w))
+    covs = []
+    for j in range(g):
+        cells = sorted((c for c in range(len(mu)) if case["group_of"][c] == j), key=lambda c: case["within_of"][c])
+        means[j] = mu[cells]
+        covs.append(np.diag(sds[cells]) @ corr @ np.diag(sds[cells]))
+    return means, covs
+
+
+def rao(q, c, nu):
+    s = math.sqrt((q * q * c * c - 4) / (q * q + c * c - 5)) if q * q + c * c - 5 > 0 else 1.0
+    return s, s * (nu - (c - q + 1) / 2) - (q * c - 2) / 2
+
+
+def term_powers(case, g, w):
+    means, covs = group_means_and_covariances(case, g, w)
+    x = np.array(case["x"], dtype=float)
+    n = np.array(case["group_n"], dtype=float)
+    nu = n.sum() - x.shape[1]
+    pooled = sum((n[j] - 1) * covs[j] for j in range(g)) / (n.sum() - g)
+    xtwx = x.T @ np.diag(n) @ x
+    out = []
+    for term in case["terms"]:
+        l = np.array(term["L"], dtype=float).reshape(-1, x.shape[1])
+        m = np.array(term["M"], dtype=float).reshape(w, -1)
+        q, c = l.shape[0], m.shape[1]
+        s, df2 = rao(q, c, nu)
+        weights = l @ np.linalg.solve(xtwx, x.T @ np.diag(n))  # q x g: L Bhat = weights @ group means
+        theta = (weights @ means @ m).reshape(-1)  # row-major vec: index i * c + k
+        if min(q, c) == 1:
+            cov = sum(np.kron(np.outer(weights[:, j], weights[:, j]), m.T @ covs[j] @ m) / n[j] for j in range(g))
+            lam = float(theta @ np.linalg.solve(cov, theta))
+        else:
+            th = weights @ means @ m
+            h = th.T @ np.linalg.solve(l @ np.linalg.solve(xtwx, l.T), th)
+            e = nu * m.T @ pooled @ m
+            wilks = np.linalg.det(e) / np.linalg.det(e + h)
+            eta = 1 - wilks ** (1 / s)
+            lam = float(df2 * eta / (1 - eta))
+        result = {"df2": df2, "noncentrality": lam, "power": f_power(lam, q * c, df2, case["alpha"]) if df2 >= 1 else None}
+        if case.get("simulate_terms"):
+            result["simulated"] = simulated_term_power(case, means, covs, x, l, m, s, df2, int(case["simulate_terms"]))
+        out.append(result)
+    return out
+
+
+def simulated_term_power(case, means, covs, x, l, m, s, df2, reps):
+    """Each group's participants drawn from the multivariate normal of its cell means and covariance;
+    B fitted by least squares on the participants' rows (X repeated per participant), E the
+    residual SSCP and H = (L B M)' (L (X'X)^-1 L')^-1 (L B M) as M-transformed, Wilks' lambda as
+    Rao's F against its quantile."""
+    from scipy import stats
+    rng = np.random.default_rng(20261204)
+    n = [int(v) for v in case["group_n"]]
+    g, w = means.shape
+    y = np.concatenate([rng.multivariate_normal(means[j], covs[j], size=(reps, n[j])) for j in range(g)], axis=1)
+    xs = np.concatenate([np.repeat(x[j:j + 1], n[j], axis=0) for j in range(g)], axis=0)  # N x p
+    xtx_inv = np.linalg.inv(xs.T @ xs)
+    b = np.einsum("pq,nq,rnw->rpw", xtx_inv, xs, y)  # reps x p x w
+    resid = y - np.einsum("np,rpw->rnw", xs, b)
+    e = np.einsum("wi,rnw,rnv,vj->rij", m, resid, resid, m)
+    th = np.einsum("qp,rpw,wc->rqc", l, b, m)
+    a_inv = np.linalg.inv(l @ xtx_inv @ l.T)
+    h = np.einsum("rqi,qk,rkj->rij", th, a_inv, th)
+    wilks = np.linalg.det(e) / np.linalg.det(e + h)
+    q, c = l.shape[0], m.shape[1]
+    root = wilks ** (1 / s)
+    f = (1 - root) / root * df2 / (q * c)
+    return float(np.mean(f > stats.f.isf(case["alpha"], q * c, df2)))
 
 
 def simulated_omnibus_power(case, a, g, w, reps):

@@ -314,7 +314,7 @@ void TestPowerPanel::mixedDesignGivesEachColumnsPartAndGroups()
     QCOMPARE(panel.report()->groups, (QStringList{u"humming"_s, u"lip trills"_s}));
     QVERIFY(!panel.findChild<QLabel *>(u"correlationCaution"_s)->isHidden());
     const QAbstractItemModel *results = panel.resultTable()->model();
-    QCOMPARE(results->rowCount(), 6); // the five columns and the omnibus test
+    QCOMPARE(results->rowCount(), 8); // the five columns, the omnibus test and the data check's two other multivariate tests
     // Its power: TestPowerMixed::handDerivedWarmupFigures (lambda 925/99, SciPy 0.714866).
     QCOMPARE(results->index(5, PowerPanel::TestColumn).data().toString(), u"All 3 within cells equal, over the groups (Hotelling T\u00b2)"_s);
     QVERIFY(std::abs(panel.report()->omnibus.power - 0.7148660473684714) < 1e-9);
@@ -323,6 +323,13 @@ void TestPowerPanel::mixedDesignGivesEachColumnsPartAndGroups()
     QCOMPARE(results->index(1, PowerPanel::NeededColumn).data().toString(), u"12, 10"_s);
     QCOMPARE(results->index(3, PowerPanel::TestColumn).data().toString(), u"lip trills vs humming \u00d7 ee vs ah [between \u00d7 within]"_s);
     QCOMPARE(panel.chart()->xTitle(), u"smallest group"_s);
+    // The multivariate tests: the routine term on the participants' averages is the between
+    // column's test (an F with 1 df is the square of its t), routine x vowel has 2 and 19 df.
+    QCOMPARE(results->index(6, PowerPanel::TestColumn).data().toString(), u"routine (Wilks \u039b)"_s);
+    QCOMPARE(panel.report()->terms.size(), size_t(3));
+    QVERIFY(std::abs(panel.report()->terms[1].power - panel.report()->contrasts[0].power) < 1e-9);
+    QVERIFY(std::abs(panel.report()->terms[0].noncentrality - 925.0 / 99.0) < 1e-9); // the omnibus, found again
+    QCOMPARE(results->index(7, PowerPanel::DfColumn).data().toString(), u"2, 19"_s);
     QVERIFY(renderPanel(panel, QSize(1500, 700), u"power-mixed"_s));
 }
 

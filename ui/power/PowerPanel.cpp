@@ -593,7 +593,7 @@ void PowerPanel::recompute()
     const Result<PowerSettings> s = settings();
     if (!s)
         return fail(s.problem());
-    const Result<PowerReport> report = mixed() ? computeMixedPower(rows->rows, rows->names, *s, mixedLayout(m_document->design()))
+    const Result<PowerReport> report = mixed() ? computeMixedPower(rows->rows, rows->names, *s, m_document->design())
                                                : computePower(rows->rows, rows->names, *s);
     if (!report)
         return fail(report.problem());
@@ -644,6 +644,19 @@ void PowerPanel::showReport(const PowerReport &report, const ContrastRows &rows,
     for (TableCell &c : omnibus)
         c.italic = true;
     table.push_back(std::move(omnibus));
+    // A mixed design: the data check's other multivariate tests (the first is the omnibus above).
+    for (size_t t = 1; t < report.terms.size(); ++t) {
+        const TermPower &term = report.terms[t];
+        TableCell name = cell(tr("%1 (Wilks \u039b%2)").arg(term.name, term.exact ? QString() : tr(", approximate")), false);
+        name.toolTip = (QStringList{term.hypothesis} + term.notes).join(u"\n"_s);
+        std::vector<TableCell> row{name, powerCell(term.power),
+                                   cell(term.noncentrality == 0.0 ? tr("\u2014 (true)") : sizesText(term.required, false)),
+                                   cell(term.required.reachable ? QString::number(term.required.total) : dash()), cell(dash()), cell(dash()),
+                                   cell(dash()), cell(u"%1, %2"_s.arg(term.df1).arg(number(term.df2, 6))), cell({}, false)};
+        for (TableCell &c : row)
+            c.italic = true;
+        table.push_back(std::move(row));
+    }
     m_results->setRows(std::move(table));
     if (o.required.reachable)
         curveUpTo = std::max(curveUpTo, *std::min_element(o.required.perLevel.begin(), o.required.perLevel.end()));
