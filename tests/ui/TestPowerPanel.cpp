@@ -59,6 +59,7 @@ private slots:
     void mixedDesignGivesEachColumnsPartAndGroups();
     void designWithAnEmptyCellPlansTheOtherCells();
     void inputsAreTheStudysUndoneAndSaved();
+    void enterMovesDownTheExpectedMeans();
 };
 
 void TestPowerPanel::tableShowsCorePower_data()
@@ -497,6 +498,38 @@ void TestPowerPanel::inputsAreTheStudysUndoneAndSaved()
     QVERIFY(reopened.report().has_value());
     QCOMPARE(reopened.report()->contrasts[0].power, power);
     QCOMPARE(reopened.report()->perTestAlpha, panel.report()->perTestAlpha);
+}
+
+// Typed as into a spreadsheet (seen missing when the panel was used under Xvfb: Enter committed
+// the value and stayed, so the next value overwrote it): Enter commits and moves to the next level.
+void TestPowerPanel::enterMovesDownTheExpectedMeans()
+{
+    Document doc;
+    doc.reset(loadDemoStudy(u"irrigation"_s).take(), {});
+    PowerPanel panel(&doc);
+    panel.resize(1200, 400);
+    panel.show();
+    QVERIFY(QTest::qWaitForWindowExposed(&panel));
+    QTableView *table = panel.inputTable();
+    table->setFocus();
+    table->setCurrentIndex(table->model()->index(0, PowerPanel::ExpectedColumn));
+    int row = 0;
+    for (const QString &value : {u"10"_s, u"12"_s, u"14"_s}) {
+        table->edit(table->currentIndex());
+        QLineEdit *editor = nullptr;
+        for (QLineEdit *e : table->viewport()->findChildren<QLineEdit *>())
+            if (e->isVisible())
+                editor = e;
+        QVERIFY(editor);
+        QTest::keyClicks(editor, value);
+        QTest::keyClick(editor, Qt::Key_Return);
+        ++row;
+        QTRY_COMPARE(table->currentIndex().row(), row); // the delegate commits from the event loop
+    }
+    QCOMPARE(doc.study().power.levels.value(u"none"_s).expected, u"10"_s);
+    QCOMPARE(doc.study().power.levels.value(u"daily drip"_s).expected, u"12"_s);
+    QCOMPARE(doc.study().power.levels.value(u"alternate-day drip"_s).expected, u"14"_s);
+    QCOMPARE(table->currentIndex().row(), 3);
 }
 
 QTEST_MAIN(TestPowerPanel)

@@ -5,8 +5,8 @@
 namespace cb {
 
 // A table typed into like a spreadsheet: Enter commits the cell and moves down to the next
-// row that takes entries (the next name goes to the next level). The levels table and the
-// weight grids share it.
+// row that takes entries (the next name goes to the next level). The levels table, the weight
+// grids and the power planner's inputs share it.
 class EntryTableView : public QTableView
 {
     Q_OBJECT

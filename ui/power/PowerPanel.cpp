@@ -6,6 +6,7 @@
 #include "core/power/PowerPlanSettings.h"
 #include "ui/document/Document.h"
 #include "ui/common/CellTable.h"
+#include "ui/common/EntryTableView.h"
 #include "ui/common/Look.h"
 #include "ui/common/SmallChart.h"
 
@@ -104,7 +105,7 @@ PowerPanel::PowerPanel(Document *document, QWidget *parent)
     : QWidget(parent)
     , m_document(document)
     , m_inputs(new CellTableModel({tr("Level"), tr("Expected mean"), tr("SD"), tr("Planned n"), tr("Ratio")}, this))
-    , m_inputView(new QTableView(this))
+    , m_inputView(new EntryTableView(this))
     , m_expectedKind(new QComboBox(this))
     , m_baseline(new QComboBox(this))
     , m_sd(new QLineEdit(u"1"_s, this))
