@@ -11,6 +11,7 @@
 #include <QPainter>
 #include <QSignalSpy>
 #include <QStandardItemModel>
+#include <QStyledItemDelegate>
 #include <QTableView>
 #include <QTest>
 
@@ -28,6 +29,7 @@ private slots:
     void drawTextLooksTheSame();
     void onlyDefaultDelegatesAreReplaced();
     void unchangedFindingsDoNotRepaint();
+    void rememberedSizesAreTheStyles();
 };
 
 namespace {
@@ -232,6 +234,40 @@ void TestCachedText::unchangedFindingsDoNotRepaint()
     typed.columns[0].weights[0] = Weight::exact(Rational(5));
     document.edit(typed, u"type"_s);
     QVERIFY(spy.count() > 0);
+}
+
+// Sizes come from the style the first time and from memory after: the same either way, for
+// one-line and wrapped items, at each width a wrapped item is measured at.
+void TestCachedText::rememberedSizesAreTheStyles()
+{
+    QStandardItemModel model;
+    for (const QString &t : {u"1/3"_s, u"\u22122/7"_s, u"\u2713  Nothing to flag: the columns are identifiable, well conditioned and orthogonal."_s,
+                             u"\u26a0  Columns 1 and 2 are not orthogonal under the planned group sizes."_s})
+        model.appendRow(new QStandardItem(t));
+    auto *bold = new QStandardItem(u"1/3"_s);
+    QFont font;
+    font.setBold(true);
+    bold->setFont(font);
+    model.appendRow(bold);
+    QListView view;
+    view.setModel(&model);
+    QStyledItemDelegate style;
+    CachedTextDelegate cached;
+    QStyleOptionViewItem option;
+    option.widget = &view;
+    option.font = view.font();
+    option.fontMetrics = view.fontMetrics();
+    for (const bool wrap : {false, true})
+        for (const int width : {0, 80, 150, 400})
+            for (int pass = 0; pass < 2; ++pass)
+                for (int row = 0; row < model.rowCount(); ++row) {
+                    QStyleOptionViewItem o = option;
+                    o.rect = QRect(0, 0, width, 20);
+                    if (wrap)
+                        o.features |= QStyleOptionViewItem::WrapText;
+                    const QModelIndex i = model.index(row, 0);
+                    QCOMPARE(cached.sizeHint(o, i), style.sizeHint(o, i));
+                }
 }
 
 QTEST_MAIN(TestCachedText)

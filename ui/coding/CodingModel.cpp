@@ -24,7 +24,35 @@ DocumentTableModel::Shape CodingModel::currentShape() const
 
 void CodingModel::aboutToFollow()
 {
+    m_shownStatus = std::move(m_status);
     m_status = columnStatuses(document()->analysis(), document()->scheme().factor.hasPlannedN());
+    m_shownWeights = std::move(m_weights);
+    m_weights.clear();
+    for (const Column &c : document()->scheme().columns)
+        m_weights.push_back(c.weights);
+}
+
+// A level's cell shows its weight on the tint of its column's status; a footer cell one text
+// of the status in its colours.
+bool CodingModel::cellChanged(int row, int column) const
+{
+    const size_t c = size_t(column);
+    const ColumnStatus *now = status(column);
+    const ColumnStatus *before = c < m_shownStatus.size() ? &m_shownStatus[c] : nullptr;
+    if (const int f = footerRow(row); f >= 0) {
+        if (!now || !before)
+            return now || before; // without a status the cell shows a dash
+        switch (f) {
+        case SumRow: return now->sum != before->sum || now->sumText != before->sumText;
+        case OrthogonalityRow: return now->orthogonality != before->orthogonality || now->orthogonalityText != before->orthogonalityText;
+        default: return now->vif != before->vif || now->vifText != before->vifText;
+        }
+    }
+    auto tint = [](const ColumnStatus *s) { return s ? s->overall() : look::State::Neutral; };
+    const size_t r = size_t(row);
+    if (c >= m_shownWeights.size() || r >= m_shownWeights[c].size() || c >= m_weights.size() || r >= m_weights[c].size())
+        return true;
+    return tint(now) != tint(before) || m_weights[c][r] != m_shownWeights[c][r];
 }
 
 int CodingModel::weightRowCount() const

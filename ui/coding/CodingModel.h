@@ -46,6 +46,7 @@ public:
 protected:
     Shape currentShape() const override;
     void aboutToFollow() override;
+    bool cellChanged(int row, int column) const override;
     bool applyWeights(const std::vector<edits::CellWeight> &cells, const QString &actionName, const QString &mergeKey) override;
 
 private:
@@ -54,6 +55,11 @@ private:
     QString nowTests(int column) const;
 
     std::vector<ColumnStatus> m_status;
+    // What the grid showed before the latest change, to tell which cells it repaints: typing
+    // one weight changes one cell and the footer, not the whole grid.
+    std::vector<ColumnStatus> m_shownStatus;
+    std::vector<std::vector<Weight>> m_shownWeights;
+    std::vector<std::vector<Weight>> m_weights;
 };
 
 } // namespace cb

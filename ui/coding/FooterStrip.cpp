@@ -47,7 +47,11 @@ FooterStrip::FooterStrip(QTableView *grid, WeightTableModel *model, QWidget *par
     connect(model, &QAbstractItemModel::rowsInserted, this, &FooterStrip::splitRows);
     connect(model, &QAbstractItemModel::rowsRemoved, this, &FooterStrip::splitRows);
     connect(model, &QAbstractItemModel::layoutChanged, this, &FooterStrip::splitRows);
-    connect(model, &QAbstractItemModel::headerDataChanged, this, &FooterStrip::alignHeaders);
+    // Level names set the headers' width; a column's name (changed by most edits) does not.
+    connect(model, &QAbstractItemModel::headerDataChanged, this, [this](Qt::Orientation orientation) {
+        if (orientation == Qt::Vertical)
+            alignHeaders();
+    });
     splitRows();
 }
 

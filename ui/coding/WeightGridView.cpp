@@ -101,8 +101,10 @@ void WeightGridView::fitColumns()
     for (int c = 0; c < m_model->columnCount(); ++c) {
         if (sameColumns && names[c] == m_fittedNames[c])
             continue;
-        resizeColumnToContents(c);
-        setColumnWidth(c, std::min(kWidest, columnWidth(c) + 16));
+        // The width resizeColumnToContents would give, and a margin, set in one step: a column
+        // that keeps its width is not resized, and its view is not repainted whole.
+        const int contents = std::max(sizeHintForColumn(c), horizontalHeader()->sectionSizeHint(c));
+        setColumnWidth(c, std::min(kWidest, contents + 16));
     }
     m_fittedNames = names;
 }

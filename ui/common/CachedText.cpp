@@ -116,6 +116,34 @@ void CachedTextDelegate::paint(QPainter *painter, const QStyleOptionViewItem &op
     painter->restore();
 }
 
+QSize CachedTextDelegate::sizeHint(const QStyleOptionViewItem &option, const QModelIndex &index) const
+{
+    if (index.data(Qt::SizeHintRole).isValid())
+        return QStyledItemDelegate::sizeHint(option, index);
+    QStyleOptionViewItem opt = option;
+    initStyleOption(&opt, index);
+    // The style's measure of an item with only text (QCommonStyle's item size) depends on the
+    // text, the font, the style's margins and, when it wraps, the width it wraps at. Items with
+    // an icon or a check box, or with the icon above or below, are measured every time.
+    constexpr auto kOthers = QStyleOptionViewItem::HasDecoration | QStyleOptionViewItem::HasCheckIndicator;
+    const bool left = opt.decorationPosition == QStyleOptionViewItem::Left || opt.decorationPosition == QStyleOptionViewItem::Right;
+    const QWidget *widget = opt.widget;
+    const QStyle *style = widget ? widget->style() : QApplication::style();
+    if (opt.text.isEmpty() || (opt.features & kOthers) || !left)
+        return style->sizeFromContents(QStyle::CT_ItemViewItem, &opt, QSize(), widget);
+    const bool wrap = opt.features & QStyleOptionViewItem::WrapText;
+    constexpr auto kMeasured = QStyleOptionViewItem::WrapText | QStyleOptionViewItem::HasDisplay;
+    SizeKey key{opt.text, opt.font, wrap && opt.rect.isValid() ? opt.rect.width() : -1, int(opt.features & kMeasured), style};
+    if (auto found = m_sizes.constFind(key); found != m_sizes.constEnd())
+        return *found;
+    constexpr qsizetype kMaxSizes = 8192;
+    if (m_sizes.size() >= kMaxSizes)
+        m_sizes.clear();
+    const QSize size = style->sizeFromContents(QStyle::CT_ItemViewItem, &opt, QSize(), widget);
+    m_sizes.insert(std::move(key), size);
+    return size;
+}
+
 void useCachedText(QWidget *root)
 {
     QList<QAbstractItemView *> views = root->findChildren<QAbstractItemView *>();

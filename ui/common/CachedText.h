@@ -1,5 +1,7 @@
 #pragma once
 
+#include <QFont>
+#include <QHash>
 #include <QStyledItemDelegate>
 
 class QPainter;
@@ -24,11 +26,31 @@ void drawCachedText(QPainter *painter, const QRect &rect, int flags, const QStri
 // check box, icon, focus), and its text comes from the cache when it fits on one line. Text that
 // would be elided or wrapped, and a cell being edited, are drawn by QStyledItemDelegate itself
 // (the style lays wrapped item text out its own way, without the lines' leading).
+// The size of an item that shows only text is measured by the style once per text, font and
+// wrapping width, and remembered: a list with word wrap asks for every row's size on each paint,
+// and fitting a grid's column measures every cell of it.
 class CachedTextDelegate : public QStyledItemDelegate
 {
 public:
     using QStyledItemDelegate::QStyledItemDelegate;
     void paint(QPainter *painter, const QStyleOptionViewItem &option, const QModelIndex &index) const override;
+    QSize sizeHint(const QStyleOptionViewItem &option, const QModelIndex &index) const override;
+
+private:
+    struct SizeKey
+    {
+        QString text;
+        QFont font;
+        int width; // the wrapping width; -1 for one line
+        int features;
+        const QStyle *style;
+        friend bool operator==(const SizeKey &, const SizeKey &) = default;
+        friend size_t qHash(const SizeKey &key, size_t seed = 0)
+        {
+            return qHashMulti(seed, key.text, key.font, key.width, key.features, key.style);
+        }
+    };
+    mutable QHash<SizeKey, QSize> m_sizes;
 };
 
 // Gives root and every item view under it that has the default delegate a CachedTextDelegate (views

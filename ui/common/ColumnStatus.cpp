@@ -2,6 +2,7 @@
 
 #include "core/base/NumberText.h"
 
+#include <charconv>
 #include <cmath>
 
 using namespace Qt::StringLiterals;
@@ -26,12 +27,20 @@ State worst(State a, State b)
     return rankOf(a) >= rankOf(b) ? a : b;
 }
 
+// "2, 3, 5" (1-based). Written into one string: every column of a large coding that is not
+// orthogonal to the others lists most of them, on every edit.
 QString columnList(const QList<int> &columns)
 {
-    QStringList parts;
-    for (int c : columns)
-        parts << QString::number(c + 1);
-    return parts.join(u", "_s);
+    QString out;
+    out.reserve(columns.size() * 4);
+    for (int c : columns) {
+        if (!out.isEmpty())
+            out += u", "_s;
+        char digits[12];
+        const char *end = std::to_chars(digits, digits + sizeof digits, c + 1).ptr;
+        out += QLatin1StringView(digits, end - digits);
+    }
+    return out;
 }
 
 // Columns that take part in a rank problem: named by a Rank finding, or the
@@ -135,9 +144,10 @@ std::vector<ColumnStatus> columnStatuses(const Analysis &a, bool plannedSizes)
         s.sum = a.sumsToZero[uj] ? State::Good : State::Caution;
         s.sumText = look::mark(s.sum) + u" "_s + formatWeight(a.columnSums[uj]);
         s.orthogonality = m == 1 ? State::Neutral : (s.notOrthogonalInDesign.isEmpty() ? State::Good : State::Caution);
+        const QString inDesign = columnList(s.notOrthogonalInDesign);
         s.orthogonalityText = m == 1 ? kMissingMark.toString()
                               : s.notOrthogonalInDesign.isEmpty() ? look::mark(State::Good) + u" none"_s
-                                                                 : look::mark(State::Caution) + u" "_s + columnList(s.notOrthogonalInDesign);
+                                                                 : look::mark(State::Caution) + u" "_s + inDesign;
         s.vif = vifState(a.vif[uj]);
         s.vifText = a.vif[uj] ? look::mark(s.vif) + u" "_s + formatVif(a.vif[uj]) : kMissingMark.toString();
         s.rank = inRank[uj] ? State::Problem : State::Good;
@@ -154,7 +164,7 @@ std::vector<ColumnStatus> columnStatuses(const Analysis &a, bool plannedSizes)
             lines << (s.notOrthogonalInDesign.isEmpty()
                           ? u"\u2713 Orthogonal to every other column %1: estimates do not share variance."_s.arg(sizesPhrase(plannedSizes))
                           : u"\u2717 Not orthogonal %1 to column %2: their estimates are correlated."_s
-                                .arg(sizesPhrase(plannedSizes), columnList(s.notOrthogonalInDesign)));
+                                .arg(sizesPhrase(plannedSizes), inDesign));
         }
         if (a.vif[uj])
             lines << u"%1 VIF %2 (%3 below %4; %5 from %4; %6 from %7)."_s

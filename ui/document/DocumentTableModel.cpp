@@ -1,5 +1,6 @@
 #include "ui/document/DocumentTableModel.h"
 
+#include "ui/common/ChangedCells.h"
 #include "ui/document/Document.h"
 
 namespace cb {
@@ -72,8 +73,8 @@ void DocumentTableModel::follow()
     aboutToFollow();
     if (!showsChange())
         return;
-    if (m_shape.rows > 0 && m_shape.columns > 0)
-        emit dataChanged(index(0, 0), index(m_shape.rows - 1, m_shape.columns - 1), changedRoles());
+    emitChangedCells(this, m_shape.rows, m_shape.columns, [this](int row, int column) { return cellChanged(row, column); },
+                     changedRoles());
     emitChangedHeaders(Qt::Horizontal, m_shape.columns, m_columnHeaders);
     emitChangedHeaders(Qt::Vertical, m_shape.rows, m_rowHeaders);
 }

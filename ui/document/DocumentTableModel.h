@@ -7,10 +7,10 @@ namespace cb {
 class Document;
 
 // Base of the window's thin table models. Each follows one Document: when a
-// change keeps the table's shape it emits dataChanged for the cells (views repaint
-// only what they show) and headerDataChanged only for the header sections whose
-// texts or looks changed (a header that resizes to its contents measures again only
-// then); when the shape changes it resets.
+// change keeps the table's shape it emits dataChanged for the cells that changed
+// (emitChangedCells: views repaint only those) and headerDataChanged only for the
+// header sections whose texts or looks changed (a header that resizes to its contents
+// measures again only then); when the shape changes it resets.
 class DocumentTableModel : public QAbstractTableModel
 {
     Q_OBJECT
@@ -40,6 +40,17 @@ protected:
     // Whether a change that keeps the shape changed anything this model shows
     // (a model that shows only part of the scheme can say no and spare the repaint).
     virtual bool showsChange() { return true; }
+    // After aboutToFollow, on a change that keeps the shape: whether the cell is drawn
+    // differently from before (a model that remembers what it showed can say no for most
+    // cells of a large table, so its views repaint only the cells that changed). Every cell
+    // by default. A cell whose tooltip alone changed need not be told: views ask for a
+    // tooltip when they show it.
+    virtual bool cellChanged(int row, int column) const
+    {
+        Q_UNUSED(row);
+        Q_UNUSED(column);
+        return true;
+    }
 
 private:
     // What the header sections show, to tell which changed.
