@@ -10,6 +10,7 @@
 #include "core/model/SchemeEdits.h"
 #include "core/model/Study.h"
 #include "core/files/StudyFile.h"
+#include "ui/document/RecoveryStore.h"
 #include "tests/support/TableText.h"
 #include "ui/common/SmallChart.h"
 
@@ -498,6 +499,13 @@ void TestPowerPanel::inputsAreTheStudysUndoneAndSaved()
     QVERIFY(reopened.report().has_value());
     QCOMPARE(reopened.report()->contrasts[0].power, power);
     QCOMPARE(reopened.report()->perTestAlpha, panel.report()->perTestAlpha);
+
+    // The recovery file keeps them too (unsaved work is never lost).
+    RecoveryStore store(dir.filePath(u"recovery"_s));
+    QCOMPARE(store.save(doc.study(), {}), QString());
+    auto recovered = store.load();
+    QVERIFY2(recovered.ok(), qPrintable(recovered.error()));
+    QVERIFY(recovered->study.power == doc.study().power);
 }
 
 // Typed as into a spreadsheet (seen missing when the panel was used under Xvfb: Enter committed
