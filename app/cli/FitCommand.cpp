@@ -201,8 +201,6 @@ int runFit(const QStringList &args, Io &io)
     } else if (!p.isSet(u"summary"_s) && factorColumns.value(0).trimmed().isEmpty()) {
         return badInput(io, u"--factor: missing; name the data column (or give --summary for a summary table)"_s);
     }
-    if (design && p.isSet(u"item"_s))
-        return badInput(io, u"--item: the by-item analysis covers one factor; for a design it is not available yet"_s);
     auto data = readData(p, *arguments, factorColumns);
     if (!data)
         return badInput(io, data.error());
@@ -210,10 +208,23 @@ int runFit(const QStringList &args, Io &io)
         auto mixed = fitMixedParticipants(*design, *data, arguments->fit, arguments->mapping);
         if (!mixed)
             return badInput(io, data->source + u": "_s + mixed.error());
-        if (p.isSet(u"json"_s))
-            io.out << QString::fromUtf8(QJsonDocument(mixedFitToJson(*mixed, *data)).toJson(QJsonDocument::Indented));
-        else
+        std::optional<ItemAnalysis> items;
+        if (p.isSet(u"item"_s)) {
+            auto byItem = fitItems(*design, *data, mixed->overall, arguments->fit, arguments->mapping);
+            if (!byItem)
+                return badInput(io, data->source + u": "_s + byItem.error());
+            items = byItem.take();
+        }
+        if (p.isSet(u"json"_s)) {
+            QJsonObject o = mixedFitToJson(*mixed, *data);
+            if (items)
+                addItemAnalysisToJson(o, *items);
+            io.out << QString::fromUtf8(QJsonDocument(o).toJson(QJsonDocument::Indented));
+        } else {
             io.out << fitReport(analyzeDesign(*design).cellScheme, true, *data, mixed->overall);
+            if (items)
+                io.out << itemReport(mixed->overall, *items);
+        }
         return kExitOk;
     }
     // A design is fitted over the cells that have data (refused, with the reason, when its terms

@@ -1,6 +1,7 @@
 #pragma once
 
 #include "core/data/DataFit.h"
+#include "core/model/Design.h"
 
 #include <QJsonObject>
 #include <QString>
@@ -53,5 +54,16 @@ Result<ItemAnalysis> fitItems(const Scheme &scheme, const DataSummary &data, con
 // items}, notes} and "min_f" [{name, f, df1, df2, p, f1, f2}] to a fit's JSON (fitResultToJson);
 // its other keys stay as they are. Non-finite numbers are written as null.
 void addItemAnalysisToJson(QJsonObject &fitJson, const ItemAnalysis &items);
+
+// The by-item analysis of a design, beside its by-participant one (fitMixedParticipants): every
+// factor varies within items (each item is seen in every cell, over the participants), so the
+// design's columns are tested on the items' scores as fitMixedParticipants tests a design whose
+// factors are all measured within participants (one group; each column a one-sample t with
+// I - 1 df; Hotelling's T^2 over the items with every cell). The by-item coefficients follow the
+// by-participant fit's order, matched by name, and min F' pairs them. Refused, naming the item,
+// the factor, its column and the line: an item with values at one level of a factor only (that
+// factor varies between items, which this analysis does not cover).
+Result<ItemAnalysis> fitItems(const Design &design, const DataSummary &data, const FitResult &byParticipant,
+                              const FitOptions &options = {}, const LevelMapping &mapping = {});
 
 } // namespace cb

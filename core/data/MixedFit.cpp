@@ -216,9 +216,12 @@ Result<MixedFitResult> fitMixedParticipants(const Design &design, const DataSumm
     overall.omnibusHypothesis = u"%1 (Hotelling's T\u00b2 over the %2 participants with every within cell)"_s.arg(omnibus.hypothesis)
                                     .arg(omnibus.participants);
     overall.notes.clear();
-    overall.notes << u"by participant, mixed design: %1 participants in %2 groups (%3), each at %4 within cells (%5)"_s.arg(participants)
-                         .arg(layout.groups())
-                         .arg(layout.groupNames.join(u", "_s))
+    overall.notes << (layout.groups() > 1 ? u"by participant, mixed design: %1 participants in %2 groups (%3), each at %4 within cells (%5)"_s
+                                              .arg(participants)
+                                              .arg(layout.groups())
+                                              .arg(layout.groupNames.join(u", "_s))
+                                        : u"by participant, every factor within participants: %1 participants, each at %2 cells (%3)"_s
+                                              .arg(participants))
                          .arg(w)
                          .arg(layout.withinNames.join(u", "_s));
     overall.notes << u"for each within row (the participants' average, then each within column) the between coding is fitted "

@@ -6,6 +6,7 @@
 #include "core/data/DataFit.h"
 #include "core/data/DataReader.h"
 #include "core/data/ItemFit.h"
+#include "core/files/StudyFile.h"
 
 #include "tests/support/FitTestSupport.h"
 #include "tests/support/ProcessRunner.h"
@@ -77,6 +78,7 @@ private slots:
     void errorsNameTheItemOrLine_data();
     void errorsNameTheItemOrLine();
     void commandLine();
+    void designByItemAgreesWithScipy();
 };
 
 void TestItemFit::agreesWithScipy_data()
@@ -282,15 +284,107 @@ void TestItemFit::commandLine()
     QCOMPARE(alone.exitCode, 2);
     QVERIFY2(alone.errText().contains(u"--item needs --participant"_s), alone.err.constData());
 
-    // Not covered yet, and said so rather than left out silently: a design. (A database source:
-    // TestDatabaseFit::byItemFromSqliteEqualsFitFromCsv.)
-    const test::ProcessRun design = test::runCli(QStringList{u"fit"_s, u"--data"_s, path, u"--file"_s,
-                                                             QStringLiteral(CB_SOURCE_DIR) + u"/resources/demos/warmup.json"_s,
-                                                             u"--response"_s, u"y"_s, u"--participant"_s, u"participant"_s,
-                                                             u"--item"_s, u"item"_s});
-    QCOMPARE(design.exitCode, 2);
-    QVERIFY2(design.errText().contains(u"--item: the by-item analysis covers one factor; for a design it is not available yet"_s),
-             design.err.constData());
+}
+
+namespace {
+
+// The warmup demo's design (2 routines between singers x 3 vowels within) read by 16 singers
+// with 12 tunes as items: singer p sings tune i on vowel (i + p) mod 3, so each singer has every
+// vowel and each tune is heard with both routines and every vowel (every factor within items).
+// With tuneTiedToRoutine, tune i is sung only by singers of routine i mod 2 (routine varies
+// between items). Columns: participant, item, routine, vowel, level (the cell), y.
+QByteArray warmupWithTunes(bool tuneTiedToRoutine)
+{
+    std::mt19937 rng(2026);
+    std::normal_distribution<double> noise(0.0, 5.0);
+    const QStringList vowels{u"ah"_s, u"ee"_s, u"oo"_s};
+    const QStringList routines{u"humming"_s, u"lip trills"_s};
+    std::vector<double> tune(12), singer(16);
+    for (double &v : tune)
+        v = noise(rng) * 0.6;
+    for (double &v : singer)
+        v = noise(rng) * 0.8;
+    QByteArray out = "participant,item,routine,vowel,level,y\n";
+    for (int p = 0; p < 16; ++p)
+        for (int i = 0; i < 12; ++i) {
+            if (tuneTiedToRoutine && i % 2 != p % 2)
+                continue;
+            const int v = (i + p) % 3;
+            const double y = 20.0 + 3.0 * (p % 2) + (v == 1 ? 4.0 : v == 2 ? 2.0 : 0.0) + tune[size_t(i)] + singer[size_t(p)] + noise(rng);
+            out += u"s%1,t%2,%3,%4,%3\u00b7%4,%5\n"_s.arg(p + 1).arg(i + 1).arg(routines[p % 2], vowels[v]).arg(y, 0, 'g', 17).toUtf8();
+        }
+    return out;
+}
+
+} // namespace
+
+// The by-item analysis of a design whose factors all vary within items: each design column on
+// the tunes' scores, against NumPy/SciPy (item_fit_check.py: the tunes' cell means by pandas,
+// one-sample t on the scores of each hypothesis row over the cells), and min F' from the
+// by-participant t of the mixed fit (checked against statsmodels in TestMixedFit) and that t.
+void TestItemFit::designByItemAgreesWithScipy()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"tunes.csv"_s);
+    QVERIFY(test::writeFile(path, warmupWithTunes(false)));
+    const QString warmup = QStringLiteral(CB_SOURCE_DIR) + u"/resources/demos/warmup.json"_s;
+    const QStringList base{u"fit"_s, u"--data"_s, path, u"--file"_s, warmup, u"--response"_s, u"y"_s, u"--participant"_s, u"participant"_s};
+    const test::ProcessRun run = test::runCli(base + QStringList{u"--item"_s, u"item"_s, u"--json"_s});
+    QVERIFY2(run.exitCode == 0, run.err.constData());
+    const QJsonObject o = QJsonDocument::fromJson(run.out).object();
+    const QJsonArray byParticipant = o[u"coefficients"_s].toArray();
+    const QJsonArray byItem = o[u"by_item"_s].toObject()[u"coefficients"_s].toArray();
+    const QJsonArray minF = o[u"min_f"_s].toArray();
+    QCOMPARE(byItem.size(), byParticipant.size());
+    QCOMPARE(minF.size(), byParticipant.size());
+    QCOMPARE(o[u"by_item"_s].toObject()[u"count"_s].toInt(), 12);
+
+    auto study = loadStudy(warmup);
+    QVERIFY(study.ok());
+    const Scheme cells = cellScheme(study->design).value();
+    const Analysis analysis = analyze(cells);
+    const QJsonObject request{{u"data"_s, path},
+                              {u"levels"_s, QJsonArray::fromStringList(cells.factor.levels)},
+                              {u"rows"_s, test::hypothesisRowsJson(cells)},
+                              {u"alpha"_s, 0.05}};
+    const QJsonObject py = test::runPython(u"item_fit_check.py"_s, {}, QJsonDocument(request).toJson());
+    QVERIFY2(!py.contains(u"error"_s), qPrintable(py[u"error"_s].toString()));
+    const QJsonArray reference = py[u"by_item"_s].toArray();
+    QCOMPARE(reference.size(), qsizetype(analysis.columnNames.size() + 1));
+    for (qsizetype c = 0; c < byItem.size(); ++c) {
+        const QJsonObject mine = byItem[c].toObject();
+        QCOMPARE(mine[u"name"_s].toString(), byParticipant[c].toObject()[u"name"_s].toString()); // paired by name
+        // The row of the same name among the cell scheme's hypotheses (the intercept first).
+        const qsizetype r = c == 0 ? 0 : analysis.columnNames.indexOf(mine[u"name"_s].toString()) + 1;
+        QVERIFY2(r >= 0 && r < reference.size(), qPrintable(mine[u"name"_s].toString()));
+        const QJsonObject ref = reference[r].toObject();
+        for (const char16_t *key : {u"estimate", u"se", u"t", u"p", u"ci_low", u"ci_high", u"df"}) {
+            const QString k = QString::fromUtf16(key);
+            QVERIFY2(nearRelative(mine[k].toDouble(), ref[k].toDouble(), 1e-9),
+                     qPrintable(u"%1 %2: %3, SciPy %4"_s.arg(mine[u"name"_s].toString(), k).arg(mine[k].toDouble()).arg(ref[k].toDouble())));
+        }
+        QCOMPARE(mine[u"items"_s].toInt(), ref[u"items"_s].toInt());
+        // Clark's min F' from the two t's (ItemFit.h; minFPrimeByHand checks the formula).
+        const double t1 = byParticipant[c].toObject()[u"t"_s].toDouble();
+        const double t2 = ref[u"t"_s].toDouble();
+        const double f1 = t1 * t1, f2 = t2 * t2;
+        const double df1 = byParticipant[c].toObject()[u"df"_s].toDouble(), df2 = ref[u"df"_s].toDouble();
+        const QJsonObject m = minF[c].toObject();
+        QVERIFY(nearRelative(m[u"f"_s].toDouble(), f1 * f2 / (f1 + f2), 1e-9));
+        QVERIFY(nearRelative(m[u"df2"_s].toDouble(), (f1 + f2) * (f1 + f2) / (f1 * f1 / df2 + f2 * f2 / df1), 1e-9));
+    }
+    // The tunes' Hotelling test over all cells, as SciPy computes it.
+    const QJsonObject h = py[u"hotelling_by_item"_s].toObject();
+    const QJsonObject omnibus = o[u"by_item"_s].toObject()[u"omnibus"_s].toObject();
+    QVERIFY(nearRelative(omnibus[u"f"_s].toDouble(), h[u"f"_s].toDouble(), 1e-9));
+    QCOMPARE(omnibus[u"df2"_s].toDouble(), h[u"df2"_s].toDouble());
+
+    // A tune sung with one routine only: routine varies between items, refused with the place named.
+    QVERIFY(test::writeFile(path, warmupWithTunes(true)));
+    const test::ProcessRun tied = test::runCli(base + QStringList{u"--item"_s, u"item"_s});
+    QCOMPARE(tied.exitCode, 2);
+    QVERIFY2(tied.errText().contains(u"item 't1' (column 'item', first on line 2) has values at level 'humming' of factor 'routine' only"_s),
+             tied.err.constData());
 }
 
 QTEST_GUILESS_MAIN(TestItemFit)

@@ -7,6 +7,9 @@ Writes {"by_participant": [{t, df}], "by_item": [{estimate, se, t, df, p, ci_low
         "hotelling_by_item": {f, df1, df2, p, items},
         "min_f": [{f1, f2, f, df2, p}], "incomplete_items": [names]}.
 
+A row that no unit has every weighed level of (by participant, a design's between-participant
+rows) gives null.
+
 Written from the definitions, apart from the C++ code: the cell means of each unit (participant
 or item) are means of its rows at each level (pandas groupby); for a row h the units with every
 level h weighs; their scores h.y give t = mean / (sd / sqrt(n)) with n - 1 df written out in
@@ -34,6 +37,9 @@ def contrast_tests(means, levels, rows, alpha):
         sub = means.dropna(subset=needed)
         scores = sub[levels].fillna(0.0).to_numpy() @ h
         n = len(scores)
+        if n < 2:  # no units with every level the row weighs (participants of one group in a design)
+            out.append(None)
+            continue
         mean = scores.mean()
         se = scores.std(ddof=1) / np.sqrt(n)
         t = mean / se
@@ -55,6 +61,9 @@ def main():
     two = contrast_tests(by_i, levels, req["rows"], req["alpha"])
     min_f = []
     for a, b in zip(one, two):
+        if a is None or b is None:
+            min_f.append(None)
+            continue
         f1, df1, f2, df2 = a["t"] ** 2, a["df"], b["t"] ** 2, b["df"]
         f = f1 * f2 / (f1 + f2)
         dfd = (f1 + f2) ** 2 / (f1 ** 2 / df2 + f2 ** 2 / df1)
@@ -66,7 +75,7 @@ def main():
     s = np.cov(d, rowvar=False, ddof=1).reshape(k - 1, k - 1)
     t2 = n * dbar @ np.linalg.solve(s, dbar)
     f = (n - k + 1) / ((n - 1) * (k - 1)) * t2
-    json.dump({"by_participant": [{"t": a["t"], "df": a["df"]} for a in one], "by_item": two,
+    json.dump({"by_participant": [a and {"t": a["t"], "df": a["df"]} for a in one], "by_item": two,
                "hotelling_by_item": {"f": float(f), "df1": k - 1, "df2": n - k + 1,
                                      "p": float(stats.f.sf(f, k - 1, n - k + 1)), "items": n},
                "min_f": min_f,

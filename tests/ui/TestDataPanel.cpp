@@ -369,6 +369,27 @@ void TestDataPanel::mixedDesignShowsItsMultivariateTests()
     QVERIFY2(panel.problemsText().contains(u"routine \u00d7 vowel: \u039b = "_s), qPrintable(panel.problemsText()));
     QVERIFY(panel.problemsText().contains(u"not adjusted for multiplicity"_s));
     QVERIFY(renderPanel(panel, QSize(1366, 520), u"data-mixed"_s));
+
+    // With the tunes sung as items (each tune rotated through both routines and every vowel over
+    // the singers): the by-item check of the design beside it, paired by column name
+    // (TestItemFit::designByItemAgreesWithScipy checks its figures).
+    csv = "singer,tune,routine,vowel,drift\n";
+    for (int singer = 0; singer < 6; ++singer)
+        for (int tune = 0; tune < 6; ++tune)
+            csv += "s" + QByteArray::number(singer + 1) + ",t" + QByteArray::number(tune + 1) + (singer < 3 ? ",humming," : ",lip trills,")
+                   + vowels[(tune + singer) % 3] + ',' + QByteArray::number(10 + (tune + singer) % 3 * 2 + (singer * 7 + tune * 3) % 5) + '\n';
+    QVERIFY(test::writeFile(path, csv));
+    QVERIFY(panel.openFile(path));
+    panel.setColumns(u"routine"_s, u"drift"_s);
+    panel.participantBox()->setCurrentText(u"singer"_s);
+    panel.itemBox()->setCurrentText(u"tune"_s);
+    QVERIFY(readAndWait(panel));
+    QVERIFY2(panel.itemAnalysis().has_value(), qPrintable(panel.message()));
+    QCOMPARE(panel.itemAnalysis()->byItem.participants, 6);
+    QCOMPARE(panel.itemAnalysis()->byItem.coefficients.size(), panel.fit()->coefficients.size());
+    for (size_t c = 0; c < panel.fit()->coefficients.size(); ++c)
+        QCOMPARE(panel.itemAnalysis()->byItem.coefficients[c].name, panel.fit()->coefficients[c].name);
+    QVERIFY(panel.itemTable()->isVisibleTo(&panel));
 }
 
 // An item column beside the participant column: the by-item table with min F' from core's

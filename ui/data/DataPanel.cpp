@@ -734,10 +734,9 @@ void DataPanel::refit()
     showMessage({});
     m_fit = fit.take();
     m_items.reset();
-    if (m_data->itemIndex >= 0 && m_document->isDesign()) {
-        showMessage(tr("Item: the by-item analysis covers one factor; for a design it is not available yet."));
-    } else if (m_data->itemIndex >= 0) {
-        auto items = fitItems(fitTarget(), *m_data, *m_fit, options, mapping);
+    if (m_data->itemIndex >= 0) {
+        auto items = m_document->isDesign() ? fitItems(m_document->design(), *m_data, *m_fit, options, mapping)
+                                            : fitItems(fitTarget(), *m_data, *m_fit, options, mapping);
         if (items)
             m_items = items.take();
         else
