@@ -3,6 +3,7 @@
 #include "core/base/NumberText.h"
 #include "core/base/Weight.h"
 #include "core/data/MixedFit.h"
+#include "core/power/MixedPower.h"
 #include "core/model/Scheme.h"
 
 #include <QSet>
@@ -124,41 +125,87 @@ Result<ItemAnalysis> fitItems(const Design &design, const DataSummary &data, con
             for (size_t d = 0; d < data.levels.size(); ++d)
                 if (data.levels[d].name == source)
                     cellOf[d] = c;
-    for (qsizetype i = 0; i < data.items.size(); ++i)
-        for (size_t f = 0; f < design.factors.size(); ++f) {
+    // How each factor varies over the items, from the data: within items when an item is seen at
+    // several of its levels, between items when at one; every item must agree.
+    const auto place = [&](qsizetype i) {
+        return u"item %1 (column %2%3)"_s.arg(quoted(data.items[i]), quoted(column),
+                                              size_t(i) < data.itemLines.size() ? u", first on line %1"_s.arg(data.itemLines[size_t(i)]) : QString());
+    };
+    Design byItems = design; // the design with the items as its units
+    byItems.cellN.clear();   // (the planned sizes count participants; the columns, made from them, stay as they are)
+    for (size_t f = 0; f < design.factors.size(); ++f) {
+        const Scheme &factor = design.factors[f];
+        qsizetype first = -1;
+        bool firstWithin = false;
+        for (qsizetype i = 0; i < data.items.size(); ++i) {
             QSet<int> seen;
             for (size_t d = 0; d < data.levels.size(); ++d)
                 if (cellOf[d] >= 0 && data.itemCells[size_t(i)][d].n > 0)
                     seen.insert(cellLevels(design, cellOf[d])[f]);
-            const Scheme &factor = design.factors[f];
-            if (seen.size() == 1 && factor.levelCount() > 1)
-                return R::failure(u"item %1 (column %2%3) has values at level %4 of factor %5 only; the by-item analysis needs "
-                                  u"every item at every level of every factor (measured within items); an item seen at one "
-                                  u"level only means %5 varies between items, which this analysis does not cover"_s
-                                      .arg(quoted(data.items[i]), quoted(column),
-                                           size_t(i) < data.itemLines.size() ? u", first on line %1"_s.arg(data.itemLines[size_t(i)]) : QString(),
-                                           quoted(factor.factor.levels[*seen.begin()]), quoted(factor.factor.name)));
+            if (seen.isEmpty())
+                continue;
+            const bool within = seen.size() > 1;
+            if (first < 0) {
+                first = i;
+                firstWithin = within;
+            } else if (within != firstWithin) {
+                const qsizetype w = within ? i : first, b = within ? first : i;
+                return R::failure(u"factor %1 varies within %2 (seen at several of its levels) but between items for %3 (seen at one "
+                                  u"level only); the by-item analysis needs each factor to vary within every item or between "
+                                  u"items (each item at one level)"_s.arg(quoted(factor.factor.name), place(w), place(b)));
+            }
         }
-    // The items in the participants' role, every factor within them.
-    // (The planned sizes count participants; the columns, already made from them, stay as they are.)
-    Design withinItems = design;
-    withinItems.cellN.clear();
-    for (Scheme &s : withinItems.factors) {
-        s.factor.measure = Measure::Within;
+        Scheme &s = byItems.factors[f];
+        s.factor.measure = firstWithin || factor.levelCount() < 2 ? Measure::Within : Measure::Between;
         s.factor.plannedN.clear();
     }
     const DataSummary asUnits = itemsAsUnits(data);
-    auto mixed = fitMixedParticipants(withinItems, asUnits, options, mapping);
-    if (!mixed)
-        return R::failure(asItems(mixed.error()));
+    Result<FitResult> fit = [&]() -> Result<FitResult> {
+        if (hasWithinFactor(byItems)) {
+            auto mixed = fitMixedParticipants(byItems, asUnits, options, mapping);
+            return mixed ? Result<FitResult>(std::move(mixed->overall)) : Result<FitResult>::failure(mixed.error());
+        }
+        // Every factor between items: each item is one value in its cell, and the design is fitted
+        // between groups on the items' means.
+        DataSummary means;
+        means.source = data.source;
+        means.columns = data.columns;
+        means.levels = data.levels;
+        for (size_t d = 0; d < data.levels.size(); ++d) {
+            means.levels[d].stats = RunningStats{};
+            for (qsizetype i = 0; i < data.items.size(); ++i)
+                if (const RunningStats &cell = data.itemCells[size_t(i)][d]; cell.n > 0)
+                    means.levels[d].stats.add(cell.mean);
+        }
+        auto between = fitScheme(*cells, means, options, mapping);
+        if (between) { // each coefficient with its df and the items it used, as a fit by unit has them (its omnibus stays the F test)
+            int used = 0;
+            for (const LevelStats &l : means.levels)
+                used += int(l.stats.n);
+            between->participants = between->completeParticipants = used;
+            for (FitCoefficient &c : between->coefficients) {
+                c.df = between->df;
+                c.participants = used;
+            }
+        }
+        return between;
+    }();
+    if (!fit)
+        return R::failure(asItems(fit.error()));
     ItemAnalysis out;
     out.column = column;
-    out.byItem = std::move(mixed->overall);
-    // In the by-participant fit's order, matched by name.
+    out.byItem = fit.take();
+    // In the by-participant fit's order, matched by name (the parts of a crossed name in any
+    // order: a factor between participants but within items comes first in one and second in the other).
+    const auto parts = [](const QString &name) {
+        QStringList p = name.split(kCrossJoiner.toString());
+        p.sort();
+        return p;
+    };
     std::vector<FitCoefficient> ordered;
     for (const FitCoefficient &one : byParticipant.coefficients) {
         const auto two = std::find_if(out.byItem.coefficients.begin(), out.byItem.coefficients.end(),
-                                      [&](const FitCoefficient &c) { return c.name == one.name; });
+                                      [&](const FitCoefficient &c) { return parts(c.name) == parts(one.name); });
         if (two == out.byItem.coefficients.end())
             return R::failure(u"the by-item analysis has no column %1 to pair with the by-participant one"_s.arg(quoted(one.name)));
         ordered.push_back(*two);
@@ -171,23 +218,33 @@ Result<ItemAnalysis> fitItems(const Design &design, const DataSummary &data, con
 
 void addItemAnalysisToJson(QJsonObject &fitJson, const ItemAnalysis &items)
 {
-    // The by-participant JSON of the by-item fit, its units called items.
-    const QJsonObject whole = fitResultToJson(items.byItem, DataSummary{});
-    const auto withItems = [](QJsonObject o) {
-        o.insert(u"items"_s, o.take(u"participants"_s));
-        return o;
-    };
+    // The by-participant JSON of the by-item fit, its units called items (a design whose factors
+    // all vary between items is fitted between groups on the items' means: its omnibus is the F test).
+    const FitResult &f = items.byItem;
+    const QJsonObject whole = fitResultToJson(f, DataSummary{});
     QJsonArray coefficients;
-    for (const QJsonValue c : whole[u"coefficients"_s].toArray())
-        coefficients.append(withItems(c.toObject()));
-    const QJsonObject units = whole[u"participants"_s].toObject();
+    const QJsonArray written = whole[u"coefficients"_s].toArray();
+    for (qsizetype c = 0; c < written.size(); ++c) {
+        QJsonObject o = written[c].toObject();
+        o.remove(u"participants"_s);
+        o.insert(u"df"_s, jsonNumber(f.coefficients[size_t(c)].df));
+        o.insert(u"items"_s, f.coefficients[size_t(c)].participants);
+        coefficients.append(o);
+    }
+    const QJsonObject omnibus{{u"test"_s, f.byParticipant ? u"hotelling"_s : u"anova"_s},
+                              {u"hypothesis"_s, f.omnibusHypothesis},
+                              {u"f"_s, jsonNumber(f.f)},
+                              {u"df1"_s, jsonNumber(f.fDf1)},
+                              {u"df2"_s, jsonNumber(f.fDf2)},
+                              {u"p"_s, jsonNumber(f.fP)},
+                              {u"items"_s, f.completeParticipants}};
     fitJson[u"by_item"_s] = QJsonObject{
         {u"column"_s, items.column},
-        {u"count"_s, units[u"count"_s]},
-        {u"complete"_s, units[u"complete"_s]},
-        {u"incomplete"_s, units[u"incomplete"_s]},
+        {u"count"_s, f.participants},
+        {u"complete"_s, f.completeParticipants},
+        {u"incomplete"_s, QJsonArray::fromStringList(f.incompleteParticipants)},
         {u"coefficients"_s, coefficients},
-        {u"omnibus"_s, withItems(whole[u"omnibus"_s].toObject())},
+        {u"omnibus"_s, omnibus},
         {u"notes"_s, whole[u"notes"_s]},
     };
     QJsonArray minF;

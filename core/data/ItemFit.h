@@ -55,14 +55,16 @@ Result<ItemAnalysis> fitItems(const Scheme &scheme, const DataSummary &data, con
 // its other keys stay as they are. Non-finite numbers are written as null.
 void addItemAnalysisToJson(QJsonObject &fitJson, const ItemAnalysis &items);
 
-// The by-item analysis of a design, beside its by-participant one (fitMixedParticipants): every
-// factor varies within items (each item is seen in every cell, over the participants), so the
-// design's columns are tested on the items' scores as fitMixedParticipants tests a design whose
-// factors are all measured within participants (one group; each column a one-sample t with
-// I - 1 df; Hotelling's T^2 over the items with every cell). The by-item coefficients follow the
-// by-participant fit's order, matched by name, and min F' pairs them. Refused, naming the item,
-// the factor, its column and the line: an item with values at one level of a factor only (that
-// factor varies between items, which this analysis does not cover).
+// The by-item analysis of a design, beside its by-participant one (fitMixedParticipants). The data
+// say how each factor varies over the items: within items when each item is seen at several of
+// its levels (over the participants), between items when each is seen at one (a property of the
+// item, such as its length). The design's columns are then tested on the items' scores as
+// fitMixedParticipants tests a design with the items as units (the within-items factors as
+// within, the between-items factors as groups); with every factor between items, the design is
+// fitted between groups on the items' means. The by-item coefficients follow the by-participant
+// fit's order, matched by name (the parts of a crossed name in any order), and min F' pairs them.
+// Refused, naming the factor and two items with their column and lines: a factor seen at several
+// levels for one item and at one level for another.
 Result<ItemAnalysis> fitItems(const Design &design, const DataSummary &data, const FitResult &byParticipant,
                               const FitOptions &options = {}, const LevelMapping &mapping = {});
 

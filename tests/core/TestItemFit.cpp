@@ -79,6 +79,7 @@ private slots:
     void errorsNameTheItemOrLine();
     void commandLine();
     void designByItemAgreesWithScipy();
+    void designWithAFactorBetweenItems();
 };
 
 void TestItemFit::agreesWithScipy_data()
@@ -379,12 +380,126 @@ void TestItemFit::designByItemAgreesWithScipy()
     QVERIFY(nearRelative(omnibus[u"f"_s].toDouble(), h[u"f"_s].toDouble(), 1e-9));
     QCOMPARE(omnibus[u"df2"_s].toDouble(), h[u"df2"_s].toDouble());
 
-    // A tune sung with one routine only: routine varies between items, refused with the place named.
-    QVERIFY(test::writeFile(path, warmupWithTunes(true)));
-    const test::ProcessRun tied = test::runCli(base + QStringList{u"--item"_s, u"item"_s});
-    QCOMPARE(tied.exitCode, 2);
-    QVERIFY2(tied.errText().contains(u"item 't1' (column 'item', first on line 2) has values at level 'humming' of factor 'routine' only"_s),
-             tied.err.constData());
+}
+
+// Each tune sung with one routine only: routine varies between items (a property of the tune) and
+// vowel within them, so by item the tunes are the units of a mixed design with routine as the
+// groups. Against mixed_fit_check.py (the tunes' cell means by pandas, least squares of the
+// routine coding on one row per tune with numpy.linalg.lstsq, SciPy's t); a factor that varies
+// within one item and between for another is refused, naming both.
+void TestItemFit::designWithAFactorBetweenItems()
+{
+    QTemporaryDir dir;
+    const QString path = dir.filePath(u"tunes.csv"_s);
+    const QByteArray bytes = warmupWithTunes(true);
+    QVERIFY(test::writeFile(path, bytes));
+    const QString warmup = QStringLiteral(CB_SOURCE_DIR) + u"/resources/demos/warmup.json"_s;
+    const QStringList base{u"fit"_s, u"--data"_s, path, u"--file"_s, warmup, u"--response"_s, u"y"_s, u"--participant"_s, u"participant"_s,
+                           u"--item"_s, u"item"_s};
+    const test::ProcessRun run = test::runCli(base + QStringList{u"--json"_s});
+    QVERIFY2(run.exitCode == 0, run.err.constData());
+    const QJsonObject o = QJsonDocument::fromJson(run.out).object();
+    const QJsonArray byItem = o[u"by_item"_s].toObject()[u"coefficients"_s].toArray();
+    QCOMPARE(byItem.size(), 6);
+
+    // The same rows for the script: the tune as the unit, its routine as the group, the vowel within.
+    QByteArray units = "participant,group,within,y\n";
+    for (const QByteArray &line : bytes.split('\n').mid(1)) {
+        const QList<QByteArray> f = line.split(',');
+        if (f.size() == 6)
+            units += f[1] + ',' + f[2] + ',' + f[3] + ',' + f[5] + '\n';
+    }
+    const QString unitsPath = dir.filePath(u"units.csv"_s);
+    QVERIFY(test::writeFile(unitsPath, units));
+    Eigen::MatrixXd x(2, 2);
+    x << 1, -0.5, 1, 0.5; // the demo's simple coding of routine, with its intercept
+    const QJsonArray rows{QJsonArray{1.0 / 3, 1.0 / 3, 1.0 / 3}, QJsonArray{-1, 1, 0}, QJsonArray{-1, 0, 1}};
+    const QJsonObject request{{u"data"_s, unitsPath},
+                              {u"groups"_s, QJsonArray{u"humming"_s, u"lip trills"_s}},
+                              {u"within_cells"_s, QJsonArray{u"ah"_s, u"ee"_s, u"oo"_s}},
+                              {u"x"_s, test::matrixJson(x)},
+                              {u"rows"_s, rows},
+                              {u"alpha"_s, 0.05}};
+    const QJsonObject py = test::runPython(u"mixed_fit_check.py"_s, {}, QJsonDocument(request).toJson());
+    QVERIFY2(!py.contains(u"error"_s), qPrintable(py[u"error"_s].toString()));
+    // Row r, coefficient j of the script: the name it has in the fit.
+    const QString names[3][2] = {{u"intercept"_s, u"lip trills vs humming"_s},
+                                 {u"ee vs ah"_s, u"lip trills vs humming \u00d7 ee vs ah"_s},
+                                 {u"oo vs ah"_s, u"lip trills vs humming \u00d7 oo vs ah"_s}};
+    int compared = 0;
+    for (int r = 0; r < 3; ++r)
+        for (int j = 0; j < 2; ++j) {
+            const QJsonObject ref = py[u"rows"_s].toArray()[r].toObject()[u"coefficients"_s].toArray()[j].toObject();
+            for (const QJsonValue v : byItem) {
+                const QJsonObject mine = v.toObject();
+                if (mine[u"name"_s].toString() != names[r][j])
+                    continue;
+                for (const char16_t *key : {u"estimate", u"se", u"t", u"p", u"ci_low", u"ci_high", u"df"})
+                    QVERIFY2(nearRelative(mine[QString::fromUtf16(key)].toDouble(), ref[QString::fromUtf16(key)].toDouble(), 1e-9),
+                             qPrintable(names[r][j] + u" "_s + QString::fromUtf16(key)));
+                QCOMPARE(mine[u"df"_s].toDouble(), 10.0); // 12 tunes in 2 groups
+                ++compared;
+            }
+        }
+    QCOMPARE(compared, 6);
+
+    // Every factor between items (tune i always with routine i mod 2 and vowel i mod 3): each tune
+    // is one value in its cell, and the by-item analysis is the between-groups fit of the design on
+    // the tunes' means, the fit checked against SciPy elsewhere (TestDataFit), so the same numbers
+    // come from `fit` on a table of those means.
+    {
+        QByteArray rowsCsv = "participant,item,routine,vowel,y\n";
+        QHash<QString, std::pair<double, int>> sums;
+        QHash<QString, QString> cellOf;
+        const char *routines[] = {"humming", "lip trills"};
+        const char *vowels[] = {"ah", "ee", "oo"};
+        for (int p = 0; p < 16; ++p)
+            for (int i = 0; i < 24; ++i) {
+                if (i % 2 != p % 2)
+                    continue;
+                const double y = 20 + 3 * (i % 2) + 2 * (i % 3) + ((p * 13 + i * 7) % 11) * 0.5;
+                const QString item = u"t%1"_s.arg(i + 1);
+                const QString cell = QString::fromLatin1(routines[i % 2]) + u',' + QString::fromLatin1(vowels[i % 3]);
+                rowsCsv += u"s%1,%2,%3,%4\n"_s.arg(p + 1).arg(item, cell).arg(y).toUtf8();
+                sums[item].first += y;
+                ++sums[item].second;
+                cellOf[item] = cell;
+            }
+        QByteArray meansCsv = "item,routine,vowel,y\n";
+        for (auto it = sums.cbegin(); it != sums.cend(); ++it)
+            meansCsv += u"%1,%2,%3\n"_s.arg(it.key(), cellOf[it.key()]).arg(it->first / it->second, 0, 'g', 17).toUtf8();
+        const QString meansPath = dir.filePath(u"means.csv"_s);
+        QVERIFY(test::writeFile(path, rowsCsv));
+        QVERIFY(test::writeFile(meansPath, meansCsv));
+        const test::ProcessRun byItems = test::runCli(base + QStringList{u"--json"_s});
+        QVERIFY2(byItems.exitCode == 0, byItems.err.constData());
+        const test::ProcessRun onMeans = test::runCli({u"fit"_s, u"--data"_s, meansPath, u"--file"_s, warmup, u"--response"_s, u"y"_s, u"--json"_s});
+        QVERIFY2(onMeans.exitCode == 0, onMeans.err.constData());
+        const QJsonObject item = QJsonDocument::fromJson(byItems.out).object()[u"by_item"_s].toObject();
+        const QJsonObject means = QJsonDocument::fromJson(onMeans.out).object();
+        QCOMPARE(item[u"count"_s].toInt(), 24);
+        QCOMPARE(item[u"omnibus"_s].toObject()[u"test"_s].toString(), u"anova"_s);
+        QVERIFY(nearRelative(item[u"omnibus"_s].toObject()[u"f"_s].toDouble(), means[u"f"_s].toDouble(), 1e-9));
+        int paired = 0;
+        for (const QJsonValue v : item[u"coefficients"_s].toArray())
+            for (const QJsonValue w : means[u"coefficients"_s].toArray())
+                if (v.toObject()[u"name"_s] == w.toObject()[u"name"_s]) {
+                    for (const char16_t *key : {u"estimate", u"se", u"t", u"p"})
+                        QVERIFY(nearRelative(v.toObject()[QString::fromUtf16(key)].toDouble(), w.toObject()[QString::fromUtf16(key)].toDouble(), 1e-9));
+                    QCOMPARE(v.toObject()[u"df"_s].toDouble(), 18.0); // 24 tunes, 6 cells
+                    QCOMPARE(v.toObject()[u"items"_s].toInt(), 24);
+                    ++paired;
+                }
+        QCOMPARE(paired, 6);
+    }
+
+    // One tune heard with both routines among tunes tied to one: refused, naming both.
+    QVERIFY(test::writeFile(path, bytes + "s2,t1,lip trills,ee,lip trills\u00b7ee,30\n"));
+    const test::ProcessRun mixedUp = test::runCli(base);
+    QCOMPARE(mixedUp.exitCode, 2);
+    QVERIFY2(mixedUp.errText().contains(u"factor 'routine' varies within item 't1'"_s)
+                 && mixedUp.errText().contains(u"but between items for item 't3' (column 'item', first on line 3)"_s),
+             mixedUp.err.constData());
 }
 
 QTEST_GUILESS_MAIN(TestItemFit)
