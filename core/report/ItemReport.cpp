@@ -20,10 +20,17 @@ QString itemScopeSentence()
 QStringList itemSummaryLines(const ItemAnalysis &items)
 {
     const FitResult &f = items.byItem;
+    // A design's items: its within-items cells (MixedFit), or with every factor between items its
+    // cells, each item one value in one cell (the F test on the items' means).
+    const QString unit = f.mixedDesign ? u"within cell"_s : f.byParticipant ? u"level"_s : u"cell"_s;
+    if (!f.byParticipant && !f.mixedDesign)
+        return {u"By item: do the cell means differ? F(%1, %2) = %3, %4, over the %5 items, each in one cell"_s
+                    .arg(numberText(f.fDf1, 10), numberText(f.fDf2, 10), numberText(f.f), pClause(f.fP))
+                    .arg(f.participants)};
     if (std::isnan(f.f)) // too few items with every level, or scores that do not vary in every direction: the notes say which
-        return {u"By item: Hotelling's test of all levels cannot be computed over the %1 of %2 items with every level (see the notes); "
-                u"each coefficient is tested on its own"_s.arg(f.completeParticipants).arg(f.participants)};
-    return {u"By item: do the level means differ? Hotelling's F(%1, %2) = %3, %4, over the %5 of %6 items with every level"_s
+        return {u"By item: Hotelling's test of all %1s cannot be computed over the %2 of %3 items with every %1 (see the notes); "
+                u"each coefficient is tested on its own"_s.arg(unit).arg(f.completeParticipants).arg(f.participants)};
+    return {u"By item: do the %1 means differ? Hotelling's F(%2, %3) = %4, %5, over the %6 of %7 items with every %1"_s.arg(unit)
                 .arg(numberText(f.fDf1, 10), numberText(f.fDf2, 10), numberText(f.f), pClause(f.fP))
                 .arg(f.completeParticipants)
                 .arg(f.participants)};

@@ -442,6 +442,10 @@ void TestItemFit::designWithAFactorBetweenItems()
             }
         }
     QCOMPARE(compared, 6);
+    const test::ProcessRun text = test::runCli(base);
+    QVERIFY2(text.outText().contains(u"By item: do the within cell means differ? Hotelling's F(2, 9) = "_s)
+                 && text.outText().contains(u"over the 12 of 12 items with every within cell"_s),
+             qPrintable(text.outText()));
 
     // Every factor between items (tune i always with routine i mod 2 and vowel i mod 3): each tune
     // is one value in its cell, and the by-item analysis is the between-groups fit of the design on
@@ -491,6 +495,10 @@ void TestItemFit::designWithAFactorBetweenItems()
                     ++paired;
                 }
         QCOMPARE(paired, 6);
+        const test::ProcessRun betweenText = test::runCli(base);
+        QVERIFY2(betweenText.outText().contains(u"By item: do the cell means differ? F(5, 18) = "_s)
+                     && betweenText.outText().contains(u"over the 24 items, each in one cell"_s),
+                 qPrintable(betweenText.outText()));
     }
 
     // One tune heard with both routines among tunes tied to one: refused, naming both.
