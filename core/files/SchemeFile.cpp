@@ -122,12 +122,17 @@ QJsonObject schemeToObject(const Scheme &s)
     return root;
 }
 
-QByteArray schemeToJson(const Scheme &s)
+QJsonObject schemeDocument(const Scheme &s)
 {
     QJsonObject root = schemeToObject(s);
     root[u"format"_s] = QString::fromLatin1(kSchemeFormatTag);
     root[u"version"_s] = kSchemeFormatVersion;
-    return QJsonDocument(root).toJson(QJsonDocument::Indented);
+    return root;
+}
+
+QByteArray schemeToJson(const Scheme &s)
+{
+    return QJsonDocument(schemeDocument(s)).toJson(QJsonDocument::Indented);
 }
 
 Result<QJsonObject> schemeDocumentRoot(const QByteArray &data, const QString &where)

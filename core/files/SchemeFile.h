@@ -16,6 +16,8 @@ inline constexpr int kSchemeFormatVersion = 2;
 inline constexpr auto kSchemeFormatTag = "contrast-bench-scheme";
 
 QByteArray schemeToJson(const Scheme &scheme);
+// The whole file as an object (format and version with the body), for files that add to it.
+QJsonObject schemeDocument(const Scheme &scheme);
 // The body of a scheme (factor, scheme, intercept, columns, notes) without format and version;
 // designs hold one per factor.
 QJsonObject schemeToObject(const Scheme &scheme);

@@ -273,7 +273,7 @@ QByteArray studyToJson(const Study &study)
 {
     if (study.power.isDefault()) // files without a power plan stay as they were before plans were saved
         return study.isDesign() ? designToJson(study.design) : schemeToJson(study.activeScheme());
-    QJsonObject root = study.isDesign() ? designToObject(study.design) : QJsonDocument::fromJson(schemeToJson(study.activeScheme())).object();
+    QJsonObject root = study.isDesign() ? designToObject(study.design) : schemeDocument(study.activeScheme());
     root[u"power"_s] = powerPlanToObject(study.power, study.powerLevelNames());
     return QJsonDocument(root).toJson(QJsonDocument::Indented);
 }

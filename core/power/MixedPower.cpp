@@ -122,6 +122,9 @@ struct MixedModel
                         sd[l.withinOf[cell]] = s.sds[cell];
             sigma[size_t(g)] = sd.asDiagonal() * r * sd.asDiagonal();
         }
+        mu = Eigen::MatrixXd::Zero(l.groups(), w);
+        for (size_t cell = 0; cell < l.groupOf.size(); ++cell)
+            mu(l.groupOf[cell], l.withinOf[cell]) = s.means[cell];
     }
 
     // Estimate, SE, df and power of hypothesis row h at participants per group n.
@@ -215,9 +218,6 @@ struct MixedModel
     {
         const int g = layout.groups();
         const int w = layout.withinCells();
-        Eigen::MatrixXd mu = Eigen::MatrixXd::Zero(g, w);
-        for (size_t cell = 0; cell < layout.groupOf.size(); ++cell)
-            mu(layout.groupOf[cell], layout.withinOf[cell]) = settings.means[cell];
         const Eigen::VectorXd sizes = Eigen::Map<const Eigen::VectorXd>(n.data(), Eigen::Index(n.size()));
         const double total = sizes.sum();
         Eigen::MatrixXd pooled = Eigen::MatrixXd::Zero(w, w);
@@ -262,6 +262,7 @@ struct MixedModel
     const PowerSettings &settings;
     const MixedLayout &layout;
     std::vector<Eigen::MatrixXd> sigma;
+    Eigen::MatrixXd mu; // the cell means as groups x within cells
 };
 
 Problem problem(const QString &key, QString message)

@@ -36,6 +36,14 @@ namespace cb {
 
 namespace {
 
+// The plan's text that a column of the input table shows.
+QString PowerPlanLevel::*typedIn(int column)
+{
+    return column == PowerPanel::ExpectedColumn ? &PowerPlanLevel::expected
+           : column == PowerPanel::SdColumn     ? &PowerPlanLevel::sd
+                                                : &PowerPlanLevel::ratio;
+}
+
 QString dash()
 {
     return kMissingMark.toString();
@@ -467,10 +475,7 @@ void PowerPanel::inputEdited(int row, int column, const QString &text)
 
 void PowerPanel::setLevelText(const QString &level, int column, const QString &text)
 {
-    QString PowerPlanLevel::*member = column == ExpectedColumn ? &PowerPlanLevel::expected
-                                      : column == SdColumn     ? &PowerPlanLevel::sd
-                                                               : &PowerPlanLevel::ratio;
-    editPlan([&](PowerPlan &plan) { plan.levels[level].*member = text; }, u"%1/%2"_s.arg(column).arg(level));
+    editPlan([&](PowerPlan &plan) { plan.levels[level].*typedIn(column) = text; }, u"%1/%2"_s.arg(column).arg(level));
 }
 
 void PowerPanel::updateColumnVisibility()
@@ -508,9 +513,7 @@ void PowerPanel::showEvent(QShowEvent *event)
 void PowerPanel::setColumnTexts(int column, const QStringList &texts)
 {
     editPlan([&](PowerPlan &plan) {
-        QString PowerPlanLevel::*member = column == ExpectedColumn ? &PowerPlanLevel::expected
-                                          : column == SdColumn     ? &PowerPlanLevel::sd
-                                                                   : &PowerPlanLevel::ratio;
+        QString PowerPlanLevel::*member = typedIn(column);
         for (int r = 0; r < int(m_levels.size()) && r < texts.size(); ++r)
             if (column != ExpectedColumn || !(differences() && r == m_baseline->currentIndex()))
                 plan.levels[m_levels[r]].*member = texts[r];
