@@ -194,6 +194,14 @@ Result<MatchedLevels> matchLevels(const QStringList &schemeLevels, const std::ve
     return Result<MatchedLevels>::failure(message);
 }
 
+Result<MatchedLevels> matchLevels(const QStringList &schemeLevels, const DataSummary &data, const LevelMapping &mapping)
+{
+    auto matched = matchLevels(schemeLevels, data.levels, mapping);
+    if (!matched && data.skippedRows > 0)
+        return Result<MatchedLevels>::failure(matched.error() + u". "_s + data.skippedReport());
+    return matched;
+}
+
 // ---------------------------------------------------------------------------
 // The fit
 
@@ -358,7 +366,7 @@ Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const
     const QString invalid = scheme.validate();
     if (!invalid.isEmpty())
         return Result<FitResult>::failure(u"scheme: "_s + invalid);
-    auto matched = matchLevels(scheme.factor.levels, data.levels, mapping);
+    auto matched = matchLevels(scheme.factor.levels, data, mapping);
     if (!matched)
         return Result<FitResult>::failure(matched.error());
     const Analysis analysis = analyze(scheme);
@@ -384,7 +392,7 @@ ParticipantCells participantCells(const Scheme &scheme, const DataSummary &data,
     ParticipantCells out;
     out.means = Eigen::MatrixXd::Constant(participants, k, kNaN);
     out.firstLines.assign(size_t(participants), std::vector<qint64>(size_t(k), 0));
-    auto matched = matchLevels(scheme.factor.levels, data.levels, mapping);
+    auto matched = matchLevels(scheme.factor.levels, data, mapping);
     if (!matched)
         return out;
     // Data level -> scheme level.

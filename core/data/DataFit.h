@@ -45,6 +45,9 @@ Result<LevelMapping> parseLevelMapping(const QString &text);
 // renames data levels first. A level whose rows all have weight 0 counts as absent.
 Result<MatchedLevels> matchLevels(const QStringList &schemeLevels, const std::vector<LevelStats> &data,
                                   const LevelMapping &mapping = {});
+// The same for data read from a file: when rows were left out, the refusal ends with the report
+// of them, since a level whose every row was left out is missing for that reason.
+Result<MatchedLevels> matchLevels(const QStringList &schemeLevels, const DataSummary &data, const LevelMapping &mapping = {});
 
 struct FitOptions
 {

@@ -1,10 +1,12 @@
 #include "core/data/DataReader.h"
 #include "core/model/Design.h"
 
+#include "core/base/NumberText.h"
 #include "core/base/Weight.h"
 #include "core/files/InputFile.h"
 
 #include <QFile>
+#include <QLocale>
 #include <QFileInfo>
 #include <QStringDecoder>
 
@@ -80,6 +82,12 @@ QString DataSummary::skippedReport() const
     return text;
 }
 
+// A summary row's value in a message, every digit it was given: 'n 1e+51'.
+static QString valueText(double v)
+{
+    return quoted(numberText(v, QLocale::FloatingPointShortest));
+}
+
 QString addSummaryRow(DataSummary &summary, const SummaryRow &row)
 {
     const QString what = row.spreadIsVariance ? u"variance"_s : u"sd"_s;
@@ -88,15 +96,26 @@ QString addSummaryRow(DataSummary &summary, const SummaryRow &row)
     if (summary.levelIndex(row.level) >= 0)
         return u"%1: level %2 appears twice; give one row per level"_s.arg(row.place, quoted(row.level));
     if (!std::isfinite(row.n) || row.n <= 0)
-        return u"%1: n %2 is not positive; expected a positive number"_s.arg(row.place, quoted(QString::number(row.n, 'g', 17)));
+        return u"%1: n %2 is not positive; expected a positive number"_s.arg(row.place, valueText(row.n));
+    if (row.n > kLargestDataWeight)
+        return u"%1: n %2 is too large; expected at most 1e50"_s.arg(row.place, valueText(row.n));
     if (!std::isfinite(row.mean))
-        return u"%1: mean %2 is not finite; expected a number"_s.arg(row.place, quoted(QString::number(row.mean, 'g', 17)));
+        return u"%1: mean %2 is not finite; expected a number"_s.arg(row.place, valueText(row.mean));
+    if (std::abs(row.mean) > kLargestDataValue)
+        return u"%1: mean %2 is too large; expected a number between -1e100 and 1e100 (rescale the response)"_s.arg(
+            row.place, valueText(row.mean));
     if (!row.spread && row.n > 1.0)
         return u"%1: %2 is missing; expected a number >= 0 (it may be left empty only when n is 1)"_s.arg(row.place, what);
     const double spread = row.spread.value_or(0.0);
-    if (!std::isfinite(spread) || spread < 0)
+    if (!std::isfinite(spread))
+        return u"%1: %2 %3 is not finite; expected a number >= 0"_s.arg(row.place, what, valueText(spread));
+    if (spread < 0)
         return u"%1: %2 %3 is negative; expected a number >= 0 (it may be left empty only when n is 1)"_s.arg(
-            row.place, what, quoted(QString::number(spread, 'g', 17)));
+            row.place, what, valueText(spread));
+    if ((row.spreadIsVariance ? std::sqrt(spread) : spread) > kLargestDataValue)
+        return u"%1: %2 %3 is too large; expected %4 (rescale the response)"_s.arg(
+            row.place, what, valueText(spread),
+            row.spreadIsVariance ? u"at most 1e200"_s : u"at most 1e100"_s);
     RunningStats stats = RunningStats::fromSummary(row.n, row.mean, row.spreadIsVariance ? 0.0 : spread);
     if (row.spreadIsVariance && row.n > 1.0)
         stats.m2 = spread * (row.n - 1.0);
@@ -1371,6 +1390,9 @@ private:
                                                                      numberProblem(response, m_out.delimiter)));
             y = *v;
         }
+        if (std::abs(y) > kLargestDataValue) [[unlikely]]
+            return skip(line, u"response (column %1) %2 is too large; expected a number between -1e100 and 1e100 (rescale the response)"_s.arg(
+                                  quoted(m_out.columns[m_out.responseIndex]), quoteText(trimmed(response))));
         double w = 1.0;
         if (m_out.weightIndex >= 0) {
             const auto v = parseNumberField(weight);
@@ -1379,6 +1401,9 @@ private:
                                                                    numberProblem(weight, m_out.delimiter)));
             if (*v < 0)
                 return skip(line, u"weight (column %1) %2 is negative; expected a number >= 0"_s.arg(
+                                      quoted(m_out.columns[m_out.weightIndex]), quoteText(trimmed(weight))));
+            if (*v > kLargestDataWeight)
+                return skip(line, u"weight (column %1) %2 is too large; expected at most 1e50"_s.arg(
                                       quoted(m_out.columns[m_out.weightIndex]), quoteText(trimmed(weight))));
             w = *v;
         }

@@ -233,6 +233,13 @@ QString delimiterName(char delimiter);
 // Accepts those names, "\t", or a single ASCII punctuation character.
 std::optional<char> delimiterFromName(const QString &name);
 
+// The largest magnitudes the readers accept: a response, a level's mean or SD up to 1e100
+// and a case weight or a level's n up to 1e50, so that every sum of squares the fits form
+// stays finite (1e50 x (2e100)^2 is 4e250) and a value beyond them is refused with its place
+// instead of turning a variance into inf or NaN. No measurement comes near them.
+inline constexpr double kLargestDataValue = 1e100;
+inline constexpr double kLargestDataWeight = 1e50;
+
 // Parses a whole field as a finite number (surrounding spaces and a leading '+' allowed).
 // Returns nullopt when it is not one; missing() tells whether it reads as missing
 // (empty, NA, N/A, NaN, NULL, ".").

@@ -16,7 +16,7 @@ Result<DesignFit> fitDesign(const Design &d, const DataSummary &data, const FitO
     for (const LevelStats &l : data.levels) {
         const qsizetype c = cells.indexOf(mapping.value(l.name, l.name));
         if (c < 0) // a cell the design does not have: the level matching names it (and the cells without data)
-            if (auto matched = matchLevels(cells, data.levels, mapping); !matched)
+            if (auto matched = matchLevels(cells, data, mapping); !matched)
                 return R::failure(matched.error());
         if (c >= 0)
             observed[size_t(c)] += l.stats.n;

@@ -115,7 +115,7 @@ Result<ItemAnalysis> fitItems(const Design &design, const DataSummary &data, con
     auto cells = cellScheme(design);
     if (!cells)
         return R::failure(cells.error());
-    auto matched = matchLevels(cells->factor.levels, data.levels, mapping);
+    auto matched = matchLevels(cells->factor.levels, data, mapping);
     if (!matched)
         return R::failure(matched.error());
     // Each data level's cell of the design, then each item's levels of every factor.

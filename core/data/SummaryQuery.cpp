@@ -235,7 +235,8 @@ Result<DataSummary> participantSummaryFromRows(const std::vector<SummaryRow> &ro
         if (!row.spread)
             return R::failure(u"%1: ss is missing; expected a number >= 0"_s.arg(row.place));
         const double ss = std::max(*row.spread, 0.0); // a tiny negative is rounding
-        checked.spread = row.n > 1.0 ? ss / (row.n - 1.0) : 0.0;
+        // With n <= 1 (weights) the variance is not defined; ss itself gets the variance's bounds.
+        checked.spread = ss / std::max(row.n - 1.0, 1.0);
         DataSummary &mine = cells[size_t(p)];
         if (QString e = addSummaryRow(mine, checked); !e.isEmpty())
             return R::failure(e);

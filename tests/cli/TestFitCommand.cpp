@@ -305,7 +305,7 @@ void TestFitCommand::refusesBadInput_data()
                                 << u"standard input: the levels do not match; in the data but not in the scheme: '"_s + QString(59, u'q') + u"\u2026'"_s;
     // Responses whose squares overflow are refused instead of giving inf estimates.
     QTest::newRow("huge responses") << (QStringList{u"--data"_s, u"-"_s} + cols + scheme) << QByteArray("g,y\na,1e308\nb,-1e308\nc,1\na,1e308\n")
-                                    << u"standard input: level 'a': the mean response is 1e+308, too large to fit (its square overflows); rescale the response"_s;
+                                    << u"standard input: the levels do not match; in the scheme but not in the data: 'a', 'b'. Rename them, or map data names to scheme levels, before fitting. 3 rows left out: line 2: response (column 'y') '1e308' is too large; expected a number between -1e100 and 1e100 (rescale the response); line 3"_s;
     QTest::newRow("missing column") << (QStringList{u"--data"_s, u"-"_s, u"--factor"_s, u"grp"_s, u"--response"_s, u"y"_s} + scheme)
                                     << good << u"standard input: no column 'grp' for the factor; the columns are: g, y"_s;
 }

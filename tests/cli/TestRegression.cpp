@@ -5,6 +5,7 @@
 #include "core/report/AnalysisReport.h"
 #include "core/export/Export.h"
 #include "core/analysis/HypothesisText.h"
+#include "core/data/DataReader.h"
 #include "core/model/Scheme.h"
 #include "core/power/Power.h"
 #include "core/files/SchemeFile.h"
@@ -57,6 +58,7 @@ private slots:
     void wildlyUnequalSizesGiveNoInfiniteHypotheses();
     void exactHypothesisBeyondDoubleRangeIsWrittenInFull();
     void powerWithPlannedSizesFarApartDoesNotOverflow();
+    void dataValuesWhoseSquaresOverflowAreRefused();
 };
 
 // FuzzCliMatrix: with k coding columns and an intercept for k levels (the indicator coding
@@ -209,6 +211,29 @@ void TestRegression::powerWithPlannedSizesFarApartDoesNotOverflow()
     const CliRun r = runCli({u"power"_s, u"--levels"_s, u"a,b"_s, u"--n"_s, u"1e100,1e10"_s, u"--means"_s, u"0,1"_s,
                              u"--scheme"_s, u"treatment"_s, u"--sd"_s, u"1"_s});
     QVERIFY2(r.code == 0 || r.code == 2, qPrintable(QString::fromUtf8(r.err)));
+}
+
+// FuzzDataReader (crash-2616aa9b..., CI of 2026-12-03): finite responses far apart, such as
+// 1e308 and -1e308, made a level's mean -inf; 1e200 and -1e200 gave inf - inf in the sum of
+// squares, clamped to 0, so the level was read with SD 0 and fitted as if exact. Responses and
+// means beyond 1e100, SDs beyond 1e100 and weights or n beyond 1e50 are now refused with their
+// line (kLargestDataValue, kLargestDataWeight).
+void TestRegression::dataValuesWhoseSquaresOverflowAreRefused()
+{
+    DataReadOptions o;
+    o.factorColumn = u"g"_s;
+    o.responseColumn = u"y"_s;
+    for (const QByteArray &bytes : {QByteArray("g,y\na,1e308\na,-1e308\nb,1\nb,2\n"), QByteArray("g,y\na,1e200\na,-1e200\na,3\nb,1\nb,2\n")}) {
+        auto d = readLevelDataFromBytes(bytes, u"big.csv"_s, o);
+        QVERIFY2(d.ok(), qPrintable(d.error()));
+        QCOMPARE(d->skippedRows, qint64(2));
+        QVERIFY(d->skipped[0].message.contains(u"too large"_s));
+        for (const LevelStats &l : d->levels)
+            QVERIFY(std::isfinite(l.stats.mean) && std::isfinite(l.stats.m2));
+    }
+    auto s = readSummaryTableFromBytes("level,n,mean,sd\na,3,1,1e200\nb,3,1,1\n", u"big.csv"_s);
+    QVERIFY(!s.ok());
+    QCOMPARE(s.error(), u"big.csv line 2: sd '1e+200' is too large; expected at most 1e100 (rescale the response)"_s);
 }
 
 #include "TestRegression.moc"

@@ -399,6 +399,12 @@ void TestDataReader::reportsRowProblems_data()
     QTest::newRow("infinite") << QByteArray("g,y\na,1\na,-inf\nb,1e400\nb,2\na,4\n") << QString()
                               << QStringList{u"line 3: response (column 'y') '-inf' is not a finite number"_s,
                                              u"line 4: response (column 'y') '1e400' is out of range"_s};
+    // Values whose squares would overflow the sums of squares: 1e200 and -1e200 once read as a
+    // level with SD 0 (inf - inf, then clamped); now refused with their line.
+    QTest::newRow("too large") << QByteArray("g,y,w\na,1e200,1\na,-1e200,1\na,1,1\nb,2,1e60\nb,3,1\nb,1e100,1\n") << u"w"_s
+                               << QStringList{u"line 2: response (column 'y') '1e200' is too large; expected a number between -1e100 and 1e100 (rescale the response)"_s,
+                                              u"line 3: response (column 'y') '-1e200' is too large; expected a number between -1e100 and 1e100 (rescale the response)"_s,
+                                              u"line 5: weight (column 'w') '1e60' is too large; expected at most 1e50"_s};
     QTest::newRow("decimal comma") << QByteArray("g;y\na;1,5\na;2\nb;3\nb;4\n") << QString()
                                    << QStringList{u"line 2: response (column 'y') '1,5' is not a number (decimal commas are not read; write a point)"_s};
     QTest::newRow("number then junk, quoted") << QByteArray("g,y\na,12kg\n\"a\",\"3x\"\na,1\nb,2\nb,3\n") << QString()
@@ -581,6 +587,10 @@ void TestDataReader::rejectsSummaryTable_data()
     QTest::newRow("negative sd") << QByteArray("level,n,mean,sd\na,3,1,-1\n") << u"s.csv line 2: sd '-1' is negative"_s;
     QTest::newRow("missing sd with n > 1") << QByteArray("level,n,mean,sd\na,3,1,NA\n")
                                            << u"s.csv line 2: sd is missing; expected a number >= 0 (it may be left empty only when n is 1)"_s;
+    QTest::newRow("huge n") << QByteArray("level,n,mean,sd\na,1e51,1,1\n") << u"s.csv line 2: n '1e+51' is too large; expected at most 1e50"_s;
+    QTest::newRow("huge mean") << QByteArray("level,n,mean,sd\na,3,-2e100,1\n")
+                               << u"s.csv line 2: mean '-2e+100' is too large; expected a number between -1e100 and 1e100"_s;
+    QTest::newRow("huge sd") << QByteArray("level,n,mean,sd\na,3,1,1e101\n") << u"s.csv line 2: sd '1e+101' is too large; expected at most 1e100"_s;
     QTest::newRow("duplicate level") << QByteArray("level,n,mean,sd\na,3,1,1\nb,1,2,\na,2,2,2\n")
                                      << u"s.csv line 4: level 'a' appears twice; give one row per level"_s;
     QTest::newRow("ragged") << QByteArray("level,n,mean,sd\na,3,1\n") << u"s.csv line 2: 3 fields; expected 4 as in the header"_s;
