@@ -24,7 +24,7 @@ class TestCachedText : public QObject
 
 private slots:
     void tableCellsLookTheSame();
-    void wrappedListRowsLookTheSame();
+    void wrappedRowsLookTheSame();
     void drawTextLooksTheSame_data();
     void drawTextLooksTheSame();
     void onlyDefaultDelegatesAreReplaced();
@@ -129,8 +129,51 @@ void TestCachedText::tableCellsLookTheSame()
     QVERIFY(std::abs(inkA.top() - inkB.top()) <= 1 && std::abs(inkA.bottom() - inkB.bottom()) <= 1);
 }
 
-// Rows that fit on one line take the cached path; longer ones are wrapped by the style.
-void TestCachedText::wrappedListRowsLookTheSame()
+// A delegate that records, for each row it paints, how often the row's options were filled in:
+// once on the cached paths, once more when the row goes on to QStyledItemDelegate::paint (the
+// style's own way).
+class CountingDelegate : public CachedTextDelegate
+{
+public:
+    using CachedTextDelegate::CachedTextDelegate;
+    mutable QMap<std::pair<int, int>, int> fills; // (row, column): options filled in its last paint
+
+    void paint(QPainter *painter, const QStyleOptionViewItem &option, const QModelIndex &index) const override
+    {
+        m_filled = 0;
+        CachedTextDelegate::paint(painter, option, index);
+        fills[{index.row(), index.column()}] = m_filled;
+    }
+
+protected:
+    void initStyleOption(QStyleOptionViewItem *option, const QModelIndex &index) const override
+    {
+        ++m_filled;
+        CachedTextDelegate::initStyleOption(option, index);
+    }
+
+private:
+    mutable int m_filled = 0;
+};
+
+// The pixels that differ between a shot of view with its delegate and one with delegate; -1 when
+// the shots failed.
+int differingPixels(QAbstractItemView &view, QAbstractItemDelegate *delegate, const char *what)
+{
+    const QImage a = shotOf(view);
+    view.setItemDelegate(delegate);
+    const QImage b = shotOf(view);
+    if (a.isNull() || a.size() != b.size())
+        return -1;
+    const auto [count, largest] = differenceOf(a, b);
+    qInfo("%s: %d of %lld pixels differ, by at most %d", what, count, qint64(a.width()) * a.height(), largest);
+    return count;
+}
+
+// Rows that fit on one line and rows wrapped over several lines take the cached paths and look
+// as the style draws them. In a table with word wrap, a cell whose lines do not all fit, or
+// with a word longer than the cell is wide, is elided by the style itself.
+void TestCachedText::wrappedRowsLookTheSame()
 {
     auto *model = new QStandardItemModel(this);
     for (const QString &t : {u"\u2713  Nothing to flag: the columns are identifiable, well conditioned and orthogonal."_s,
@@ -140,14 +183,32 @@ void TestCachedText::wrappedListRowsLookTheSame()
     view.setModel(model);
     view.setWordWrap(true);
     view.setSpacing(2);
-    view.resize(220, 200);
-    const QImage a = shotOf(view);
-    useCachedText(&view);
-    const QImage b = shotOf(view);
-    QVERIFY(!a.isNull() && a.size() == b.size());
-    const auto [count, largest] = differenceOf(a, b);
-    qInfo("list: %d of %lld pixels differ, by at most %d", count, qint64(a.width()) * a.height(), largest);
-    QCOMPARE(count, 0);
+    view.setSelectionMode(QAbstractItemView::NoSelection); // as the findings list
+    view.resize(220, 240);
+    auto *counting = new CountingDelegate(&view);
+    QCOMPARE(differingPixels(view, counting, "list"), 0);
+    QVERIFY(view.visualRect(model->index(0, 0)).height() >= 2 * view.visualRect(model->index(1, 0)).height());
+    QCOMPARE(counting->fills.values(), (QList<int>{1, 1, 1})); // every row cached
+
+    auto *cells = new QStandardItemModel(2, 2, this);
+    const QString words = u"Each coefficient is the mean of one level minus the mean of all."_s;
+    cells->setItem(0, 0, new QStandardItem(words));
+    cells->setItem(0, 1, new QStandardItem(u"b2_a_name_far_too_long_for_this_cell"_s));
+    cells->setItem(1, 0, new QStandardItem(words));
+    cells->setItem(1, 1, new QStandardItem(u"short"_s));
+    QTableView table;
+    table.setModel(cells);
+    table.setWordWrap(true);
+    table.setColumnWidth(0, 130);
+    table.setColumnWidth(1, 130);
+    table.setRowHeight(0, 90); // room for every line
+    table.setRowHeight(1, 30); // room for two of them
+    table.resize(320, 180);
+    auto *countingCells = new CountingDelegate(&table);
+    QCOMPARE(differingPixels(table, countingCells, "table"), 0);
+    // Cached: the words with room for every line, and "short". The style's: the long name
+    // (elided) and the words in the low row (cut after two lines).
+    QCOMPARE(countingCells->fills.values(), (QList<int>{1, 2, 2, 1}));
 }
 
 void TestCachedText::drawTextLooksTheSame_data()

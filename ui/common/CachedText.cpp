@@ -5,8 +5,10 @@
 #include <QHash>
 #include <QPainter>
 #include <QStaticText>
+#include <QTextLayout>
 #include <QTextOption>
 
+#include <memory>
 #include <typeinfo>
 
 namespace cb {
@@ -48,6 +50,59 @@ QStaticText laidOut(const TextKey &key)
         text.setTextWidth(key.width);
     text.prepare(QTransform(), key.font);
     return *cache.insert(key, text);
+}
+
+// Item text wrapped as the style wraps it (QCommonStyle's view item text): word wrap at the text
+// area's width, each line placed right under the last without leading. Kept laid out per text,
+// font, width, alignment and direction, like the texts above.
+struct WrappedKey
+{
+    QString text;
+    QFont font;
+    int width = 0;
+    int alignment = 0;
+    int direction = 0;
+    friend bool operator==(const WrappedKey &, const WrappedKey &) = default;
+};
+
+size_t qHash(const WrappedKey &key, size_t seed = 0)
+{
+    return qHashMulti(seed, key.text, key.font, key.width, key.alignment, key.direction);
+}
+
+struct Wrapped
+{
+    QTextLayout layout;
+    qreal height = 0;
+    bool fits = true; // no line wider than the width (a word longer than a line is elided by the style)
+};
+
+const Wrapped &wrapped(const WrappedKey &key)
+{
+    static QHash<WrappedKey, std::shared_ptr<Wrapped>> cache;
+    constexpr qsizetype kMaxTexts = 2048;
+    if (auto found = cache.constFind(key); found != cache.constEnd())
+        return **found;
+    if (cache.size() >= kMaxTexts)
+        cache.clear();
+    auto w = std::make_shared<Wrapped>();
+    w->layout.setText(key.text);
+    w->layout.setFont(key.font);
+    QTextOption option;
+    option.setWrapMode(QTextOption::WordWrap);
+    option.setTextDirection(Qt::LayoutDirection(key.direction));
+    option.setAlignment(Qt::Alignment(key.alignment));
+    w->layout.setTextOption(option);
+    w->layout.setCacheEnabled(true);
+    w->layout.beginLayout();
+    for (QTextLine line = w->layout.createLine(); line.isValid(); line = w->layout.createLine()) {
+        line.setLineWidth(key.width);
+        line.setPosition(QPointF(0, w->height));
+        w->height += line.height();
+        w->fits = w->fits && line.naturalTextWidth() <= key.width;
+    }
+    w->layout.endLayout();
+    return **cache.insert(key, std::move(w));
 }
 
 } // namespace
@@ -93,10 +148,21 @@ void CachedTextDelegate::paint(QPainter *painter, const QStyleOptionViewItem &op
     const QRect area = style->subElementRect(QStyle::SE_ItemViewItemText, &opt, widget).adjusted(margin, 0, -margin, 0);
     const QStaticText laid = laidOut({text, opt.font, -1, 0});
     const QSize size = laid.size().toSize();
-    if (size.width() > area.width()) { // elided or wrapped: the style's own way
-        QStyledItemDelegate::paint(painter, option, index);
-        return;
+    const Qt::Alignment align = QStyle::visualAlignment(opt.direction, opt.displayAlignment);
+    const Wrapped *lines = nullptr;
+    if (size.width() > area.width()) {
+        // Wrapped when every line fits the area; otherwise elided: the style's own way.
+        if (opt.features & QStyleOptionViewItem::WrapText)
+            lines = &wrapped({text, opt.font, area.width(), int(align), int(opt.direction)});
+        if (!lines || !lines->fits || lines->height > area.height()) {
+            QStyledItemDelegate::paint(painter, option, index);
+            return;
+        }
     }
+    // The style draws the focus frame last, over the text: without the text, it is drawn here
+    // after the text as well.
+    const bool focus = opt.state & QStyle::State_HasFocus;
+    opt.state &= ~QStyle::State_HasFocus;
     style->drawControl(QStyle::CE_ItemViewItem, &opt, painter, widget);
     QPalette::ColorGroup group = opt.state & QStyle::State_Enabled ? QPalette::Normal : QPalette::Disabled;
     if (group == QPalette::Normal && !(opt.state & QStyle::State_Active))
@@ -104,16 +170,31 @@ void CachedTextDelegate::paint(QPainter *painter, const QStyleOptionViewItem &op
     painter->save();
     painter->setFont(opt.font);
     painter->setPen(opt.palette.color(group, opt.state & QStyle::State_Selected ? QPalette::HighlightedText : QPalette::Text));
-    // Lines as the style's text layout aligns them: across in fractional pixels inside the area,
-    // down as a block of whole pixels.
-    const Qt::Alignment align = QStyle::visualAlignment(opt.direction, opt.displayAlignment);
-    qreal x = area.x();
-    if (align & Qt::AlignRight)
-        x += area.width() - laid.size().width();
-    else if (align & Qt::AlignHCenter)
-        x += (area.width() - laid.size().width()) / 2;
-    painter->drawStaticText(QPointF(x, QStyle::alignedRect(opt.direction, opt.displayAlignment, size, area).top()), laid);
+    if (lines) {
+        // The block of lines placed down the area as the style places it, by its whole-pixel size.
+        const QSize block = lines->layout.boundingRect().size().toSize();
+        lines->layout.draw(painter, QPointF(area.x(), QStyle::alignedRect(Qt::LayoutDirectionAuto, opt.displayAlignment, block, area).top()));
+    } else {
+        // One line as the style's text layout aligns it: across in fractional pixels inside the
+        // area, down as a block of whole pixels.
+        qreal x = area.x();
+        if (align & Qt::AlignRight)
+            x += area.width() - laid.size().width();
+        else if (align & Qt::AlignHCenter)
+            x += (area.width() - laid.size().width()) / 2;
+        painter->drawStaticText(QPointF(x, QStyle::alignedRect(opt.direction, opt.displayAlignment, size, area).top()), laid);
+    }
     painter->restore();
+    if (focus) { // as QCommonStyle's item view item draws it
+        opt.state |= QStyle::State_HasFocus;
+        QStyleOptionFocusRect frame;
+        frame.QStyleOption::operator=(opt);
+        frame.rect = style->subElementRect(QStyle::SE_ItemViewItemFocusRect, &opt, widget);
+        frame.state |= QStyle::State_KeyboardFocusChange | QStyle::State_Item;
+        const QPalette::ColorGroup enabled = opt.state & QStyle::State_Enabled ? QPalette::Normal : QPalette::Disabled;
+        frame.backgroundColor = opt.palette.color(enabled, opt.state & QStyle::State_Selected ? QPalette::Highlight : QPalette::Window);
+        style->drawPrimitive(QStyle::PE_FrameFocusRect, &frame, painter, widget);
+    }
 }
 
 QSize CachedTextDelegate::sizeHint(const QStyleOptionViewItem &option, const QModelIndex &index) const

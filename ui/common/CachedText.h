@@ -23,9 +23,10 @@ namespace cb {
 void drawCachedText(QPainter *painter, const QRect &rect, int flags, const QString &text);
 
 // The item delegate of the window's views: a cell is drawn by the style as usual (background,
-// check box, icon, focus), and its text comes from the cache when it fits on one line. Text that
-// would be elided or wrapped, and a cell being edited, are drawn by QStyledItemDelegate itself
-// (the style lays wrapped item text out its own way, without the lines' leading).
+// check box, icon, focus), and its text comes from the cache when it fits on one line or, in a
+// view with word wrap, when its wrapped lines fit the cell (laid out as the style lays wrapped
+// item text out: lines without leading). Text that would be elided, text with line breaks of
+// its own and a cell being edited are drawn by QStyledItemDelegate itself.
 // The size of an item that shows only text is measured by the style once per text, font and
 // wrapping width, and remembered: a list with word wrap asks for every row's size on each paint,
 // and fitting a grid's column measures every cell of it.
