@@ -14,7 +14,9 @@
 #include "ui/coding/SchemePicker.h"
 #include "tests/support/WindowFixture.h"
 
+#include <QClipboard>
 #include <QCloseEvent>
+#include <QGuiApplication>
 #include <QComboBox>
 #include <QTableView>
 #include <QDir>
@@ -61,6 +63,7 @@ private slots:
     void savingRemovesTheRecoveryFile();
     void addPanelTabsBesideDesignHealth();
     void titleShowsNameAndUnsavedMark();
+    void healthLinesAreCopiedFromTheirMenu();
     void redoAnswersCtrlYAndCtrlShiftZ();
     void windowFitsTheScreenAndKeepsItsLayout();
     void ampersandInANameSurvivesInUndoLabels();
@@ -413,6 +416,26 @@ void TestMainWindow::titleShowsNameAndUnsavedMark()
     QCOMPARE(f.window->windowTitle(), u"titled.json[*] \u2014 Contrast Bench"_s);
     QVERIFY(!f.window->isWindowModified());
     QVERIFY(f.window->healthPanel()->summaryText().contains(u"Rank 4 of 4"_s));
+}
+
+// The Overall lines of design health are copied from their context menu: the line, or every line.
+void TestMainWindow::healthLinesAreCopiedFromTheirMenu()
+{
+    WindowFixture f;
+    HealthPanel *health = f.window->healthPanel();
+    QLabel *rank = nullptr;
+    for (QLabel *l : health->findChildren<QLabel *>())
+        if (l->text().contains(u"Rank 4 of 4"_s))
+            rank = l;
+    QVERIFY(rank);
+    QCOMPARE(rank->contextMenuPolicy(), Qt::ActionsContextMenu);
+    const QList<QAction *> actions = rank->actions();
+    QCOMPARE(actions.size(), 2);
+    actions[0]->trigger();
+    QCOMPARE(QGuiApplication::clipboard()->text(), rank->text());
+    actions[1]->trigger();
+    QCOMPARE(QGuiApplication::clipboard()->text(), health->summaryText());
+    QVERIFY(health->summaryText().contains(u"\n"_s)); // several lines
 }
 
 // The window opens within the screen's free area (the offscreen screen here is smaller than the

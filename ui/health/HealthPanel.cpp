@@ -7,6 +7,9 @@
 #include "ui/common/Look.h"
 #include "ui/health/VifModel.h"
 
+#include <QAction>
+#include <QClipboard>
+#include <QGuiApplication>
 #include <QHBoxLayout>
 #include <QHeaderView>
 #include <QLabel>
@@ -26,10 +29,18 @@ HealthPanel::HealthPanel(Document *document, QWidget *parent)
     , m_vifView(new QTableView(this))
     , m_findingsView(new QListView(this))
 {
+    // Plain labels with a Copy menu rather than selectable text: a selectable label lays its text
+    // out as a text document, several times over on every edit that changes a figure.
     for (QLabel *&l : m_lines) {
         l = new WrapLabel(this);
         l->setTextFormat(Qt::PlainText);
-        l->setTextInteractionFlags(Qt::TextSelectableByMouse);
+        l->setContextMenuPolicy(Qt::ActionsContextMenu);
+        auto *copyLine = new QAction(tr("Copy this line"), l);
+        connect(copyLine, &QAction::triggered, l, [l] { QGuiApplication::clipboard()->setText(l->text()); });
+        auto *copyAll = new QAction(tr("Copy every line"), l);
+        connect(copyAll, &QAction::triggered, this, [this] { QGuiApplication::clipboard()->setText(summaryText()); });
+        l->addActions({copyLine, copyAll});
+        l->setToolTip(tr("Right-click to copy"));
     }
     m_vifView->setModel(m_vif);
     m_vifView->setObjectName(u"vifTable"_s);
