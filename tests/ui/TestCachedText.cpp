@@ -29,6 +29,7 @@ private slots:
     void drawTextLooksTheSame();
     void onlyDefaultDelegatesAreReplaced();
     void unchangedFindingsDoNotRepaint();
+    void listRowsAreAsTallAsTheirTextAtEveryWidth();
     void rememberedSizesAreTheStyles();
 };
 
@@ -299,6 +300,48 @@ void TestCachedText::unchangedFindingsDoNotRepaint()
 
 // Sizes come from the style the first time and from memory after: the same either way, for
 // one-line and wrapped items, at each width a wrapped item is measured at.
+// Every row of a list with word wrap and spacing is as tall as its text needs at the width it is
+// painted, at every width of a short (scrolling) list. In the window, the findings list painted
+// rows measured at its contents' width (which includes the spacing) inside slots laid out at the
+// width less the spacing, and cut their text off ("common ..."); CachedTextDelegate now measures
+// a list's rows at most as wide as the list paints them. That case was seen and fixed under Xvfb
+// (the onboarding demo, two typed weights); this test did not reproduce it offscreen, and holds
+// the rule for lists in general.
+void TestCachedText::listRowsAreAsTallAsTheirTextAtEveryWidth()
+{
+    auto *model = new QStandardItemModel(this);
+    for (const QString &t : {u"\u2717  Column 1 ('column 1') has VIF 14.77 (10 or more: serious collinearity, common practice)"_s,
+                             u"\u2717  Column 2 ('column 2') has VIF 25.34 (10 or more: serious collinearity, common practice)"_s,
+                             u"i  3 of 3 column pairs are not orthogonal under the planned n (centred, n-weighted cross-product in brackets): 1 and 2 (25400/243)"_s})
+        model->appendRow(new QStandardItem(t));
+    QListView view;
+    view.setModel(model);
+    view.setWordWrap(true);
+    view.setSpacing(2);
+    useCachedText(&view);
+    view.resize(260, 120); // short: the rows scroll, as in the window's findings list
+    view.show();
+    QVERIFY(QTest::qWaitForWindowExposed(&view));
+    int shortRows = 0;
+    for (int width = 180; width <= 420; ++width) {
+        view.resize(width, 120);
+        view.doItemsLayout();
+        for (int r = 0; r < model->rowCount(); ++r) {
+            const QModelIndex index = model->index(r, 0);
+            const QRect painted = view.visualRect(index); // the rect a paint of the row gets
+            QStyleOptionViewItem option;
+            option.initFrom(view.viewport());
+            option.text = index.data().toString();
+            option.features = QStyleOptionViewItem::WrapText | QStyleOptionViewItem::HasDisplay;
+            option.displayAlignment = Qt::AlignLeft | Qt::AlignVCenter;
+            option.rect = QRect(0, 0, painted.width(), 1);
+            const int needed = view.style()->sizeFromContents(QStyle::CT_ItemViewItem, &option, QSize(), &view).height();
+            shortRows += painted.height() < needed;
+        }
+    }
+    QCOMPARE(shortRows, 0);
+}
+
 void TestCachedText::rememberedSizesAreTheStyles()
 {
     QStandardItemModel model;

@@ -1,7 +1,9 @@
 #include "ui/coding/CodingModel.h"
 #include "ui/coding/CodingPanel.h"
 #include "ui/document/Document.h"
+#include "core/model/Scheme.h"
 #include "ui/coding/WeightGridView.h"
+#include "ui/common/CachedText.h"
 #include "tests/support/WindowFixture.h"
 
 #include <QApplication>
@@ -9,6 +11,7 @@
 #include <QHeaderView>
 #include <QLineEdit>
 #include <QSignalSpy>
+#include <QTabWidget>
 #include <QTest>
 
 using namespace Qt::StringLiterals;
@@ -27,9 +30,25 @@ private slots:
     void deleteClearsSelectedCellsToZero();
     void keyboardCopyAndPasteGoThroughTheClipboard();
     void aColumnIsRenamedInItsHeader();
+    void anEditRepaintsOnlyTheCellsThatChanged();
+    void aHeaderGrowsAndShrinksWithItsNames();
 };
 
 namespace {
+
+// The window's item delegate, counting the cells it paints.
+class PaintCounter : public CachedTextDelegate
+{
+public:
+    using CachedTextDelegate::CachedTextDelegate;
+    mutable int painted = 0;
+    void paint(QPainter *painter, const QStyleOptionViewItem &option, const QModelIndex &index) const override
+    {
+        ++painted;
+        CachedTextDelegate::paint(painter, option, index);
+    }
+};
+
 QString weightText(const Document &d, int level, int column)
 {
     return d.scheme().columns[size_t(column)].weights[size_t(level)].display();
@@ -174,6 +193,91 @@ void TestWeightGridView::aColumnIsRenamedInItsHeader()
     QTest::keyClick(second, Qt::Key_Escape);
     QVERIFY(!second->isVisible());
     QCOMPARE(f.window->document()->scheme().columns[0].name, u"B vs A"_s);
+}
+
+// Renaming a column repaints its header section and no cell, and a typed weight repaints the
+// cells that changed, not every cell of the grid: the view no longer lays itself out again on
+// every change of a header's text (relayoutOnlyWhenHeadersResize).
+void TestWeightGridView::anEditRepaintsOnlyTheCellsThatChanged()
+{
+    WindowFixture f;
+    Factor factor;
+    factor.name = u"factor"_s;
+    for (int i = 1; i <= 6; ++i)
+        factor.levels << u"level %1"_s.arg(i);
+    f.window->document()->reset(makeScheme(factor, SchemeKind::Helmert).take(), {});
+    QVERIFY(f.show());
+    WeightGridView *v = f.window->codingPanel()->codingView();
+    QAbstractItemModel *m = v->model();
+    auto *counter = new PaintCounter(v);
+    v->setItemDelegate(counter);
+    // Typed weights, as BenchWindow types them: the first makes the coding custom (the panel
+    // above the grid changes); after that the names alternate with the same number of lines.
+    for (const QString &w : {u"1/3"_s, u"-2/7"_s}) {
+        QVERIFY(m->setData(m->index(1, 0), w));
+        QTest::qWait(50);
+    }
+    counter->painted = 0;
+    v->viewport()->repaint();
+    const int everyCell = counter->painted;
+    QVERIFY(everyCell >= 20); // the rows in view of 6 levels x 5 columns
+
+    QSignalSpy renamed(m, &QAbstractItemModel::headerDataChanged);
+    QSignalSpy changed(m, &QAbstractItemModel::dataChanged);
+    const QString before = m->headerData(0, Qt::Horizontal).toString();
+    counter->painted = 0;
+    QVERIFY(m->setData(m->index(1, 0), u"1/3"_s));
+    QTest::qWait(50); // the paint, and a delayed layout if one were started
+    QVERIFY(m->headerData(0, Qt::Horizontal).toString() != before); // the column tests something else
+    QVERIFY(renamed.count() > 0);
+    int changedCells = 0;
+    for (const QList<QVariant> &signal : changed) {
+        const QModelIndex a = signal[0].toModelIndex(), b = signal[1].toModelIndex();
+        changedCells += (b.row() - a.row() + 1) * (b.column() - a.column() + 1);
+    }
+    qInfo("%d of %d cells repainted after %d changed", counter->painted, everyCell, changedCells);
+    QVERIFY(counter->painted > 0);
+    QVERIFY(counter->painted < everyCell / 2);
+
+    // A new name of as many lines: its header section only.
+    QVERIFY(m->setHeaderData(4, Qt::Horizontal, u"last one"_s, Qt::EditRole));
+    QTest::qWait(50);
+    counter->painted = 0;
+    QVERIFY(m->setHeaderData(4, Qt::Horizontal, u"final one"_s, Qt::EditRole));
+    QTest::qWait(50);
+    QCOMPARE(counter->painted, 0);
+}
+
+// A column name that needs a second line makes the header taller, and a shorter one makes it
+// short again; a view hidden in the other tab has the right header once shown.
+void TestWeightGridView::aHeaderGrowsAndShrinksWithItsNames()
+{
+    WindowFixture f;
+    QVERIFY(f.show());
+    WeightGridView *v = f.window->codingPanel()->codingView();
+    WeightGridView *hidden = f.window->codingPanel()->hypothesisView();
+    QVERIFY(!hidden->isVisible());
+    QAbstractItemModel *m = v->model();
+    const QString longName = u"the mean of the middle dose against the mean of the controls"_s;
+    for (int c = 0; c < m->columnCount(); ++c)
+        QVERIFY(m->setHeaderData(c, Qt::Horizontal, u"c%1"_s.arg(c), Qt::EditRole));
+    QTest::qWait(20);
+    QVERIFY(!m->headerData(1, Qt::Horizontal).toString().contains(u'\n'));
+    const int oneLine = v->horizontalHeader()->height();
+    QVERIFY(m->setHeaderData(1, Qt::Horizontal, longName, Qt::EditRole));
+    QVERIFY(m->headerData(1, Qt::Horizontal).toString().contains(u'\n'));
+    QTRY_VERIFY(v->horizontalHeader()->height() > oneLine);
+    QCOMPARE(v->horizontalHeader()->height(), v->horizontalHeader()->sizeHint().height());
+    QVERIFY(m->setHeaderData(1, Qt::Horizontal, u"c1"_s, Qt::EditRole));
+    QTRY_COMPARE(v->horizontalHeader()->height(), oneLine);
+    // The other tab's grid shows the same names: changed while hidden, laid out when shown.
+    QVERIFY(m->setHeaderData(1, Qt::Horizontal, longName, Qt::EditRole));
+    auto *tabs = f.window->codingPanel()->findChild<QTabWidget *>();
+    QVERIFY(tabs);
+    tabs->setCurrentIndex(1);
+    QTRY_VERIFY(hidden->isVisible());
+    QTRY_COMPARE(hidden->horizontalHeader()->height(), hidden->horizontalHeader()->sizeHint().height());
+    QVERIFY(hidden->horizontalHeader()->height() > oneLine);
 }
 
 QTEST_MAIN(TestWeightGridView)

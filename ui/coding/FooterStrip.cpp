@@ -1,4 +1,6 @@
 #include "ui/coding/FooterStrip.h"
+#include "ui/common/CachedText.h"
+#include "ui/common/HeaderChanges.h"
 
 #include "ui/coding/WeightTableModel.h"
 
@@ -15,7 +17,9 @@ FooterStrip::FooterStrip(QTableView *grid, WeightTableModel *model, QWidget *par
     , m_grid(grid)
     , m_model(model)
 {
+    useCachedHeaders(this);
     setModel(model);
+    relayoutOnlyWhenHeadersResize(this);
     setObjectName(grid->objectName() + QStringLiteral("Footer"));
     setFocusPolicy(Qt::NoFocus);
     setSelectionMode(QAbstractItemView::NoSelection);

@@ -1,10 +1,13 @@
 #include "ui/coding/WeightGridView.h"
+#include "ui/common/CachedText.h"
+#include "ui/common/HeaderChanges.h"
 
 #include "ui/coding/WeightTableModel.h"
 
 #include <QApplication>
 #include <QClipboard>
 #include <QHeaderView>
+#include <QTimer>
 #include <QKeyEvent>
 #include <QLineEdit>
 #include <QPointer>
@@ -60,6 +63,7 @@ protected:
 WeightGridView::WeightGridView(QWidget *parent)
     : EntryTableView(parent)
 {
+    useCachedHeaders(this);
     setSelectionMode(QAbstractItemView::ExtendedSelection);
     setEditTriggers(QAbstractItemView::AnyKeyPressed | QAbstractItemView::DoubleClicked | QAbstractItemView::EditKeyPressed);
     setAlternatingRowColors(false);
@@ -69,6 +73,16 @@ WeightGridView::WeightGridView(QWidget *parent)
     horizontalHeader()->setDefaultSectionSize(130);
     verticalHeader()->setSectionResizeMode(QHeaderView::Fixed);
     verticalHeader()->setDefaultSectionSize(fontMetrics().height() + 8); // a compact row, as in a spreadsheet
+    m_narrow = new QTimer(this);
+    m_narrow->setSingleShot(true);
+    m_narrow->setInterval(kNarrowAfterMs);
+    connect(m_narrow, &QTimer::timeout, this, [this] {
+        for (const int c : std::as_const(m_toNarrow))
+            if (c < m_model->columnCount())
+                if (const int width = fittedWidth(c); width < columnWidth(c))
+                    setColumnWidth(c, width);
+        m_toNarrow.clear();
+    });
     connect(horizontalHeader(), &QHeaderView::sectionDoubleClicked, this, [this](int section) {
         if (m_renamable)
             renameColumn(section);
@@ -84,6 +98,7 @@ void WeightGridView::setWeightModel(WeightTableModel *model)
         if (o == Qt::Horizontal)
             fitColumns();
     });
+    relayoutOnlyWhenHeadersResize(this);
     fitColumns();
 }
 
@@ -97,16 +112,35 @@ void WeightGridView::fitColumns()
     // Only the columns whose names changed are measured again (a status mark on one column's
     // name does not measure every cell of the grid); all of them when the columns changed.
     const bool sameColumns = names.size() == m_fittedNames.size();
-    constexpr int kWidest = 240;
+    bool narrowLater = false;
     for (int c = 0; c < m_model->columnCount(); ++c) {
         if (sameColumns && names[c] == m_fittedNames[c])
             continue;
-        // The width resizeColumnToContents would give, and a margin, set in one step: a column
-        // that keeps its width is not resized, and its view is not repainted whole.
-        const int contents = std::max(sizeHintForColumn(c), horizontalHeader()->sectionSizeHint(c));
-        setColumnWidth(c, std::min(kWidest, contents + 16));
+        // Set in one step: a column that keeps its width is not resized, and its view is not
+        // repainted whole.
+        const int width = fittedWidth(c);
+        if (sameColumns && width < columnWidth(c)) {
+            narrowLater = true;
+            if (!m_toNarrow.contains(c))
+                m_toNarrow << c;
+        } else if (width != columnWidth(c)) {
+            m_toNarrow.removeOne(c);
+            setColumnWidth(c, width);
+        }
     }
+    if (!sameColumns)
+        m_toNarrow.clear();
     m_fittedNames = names;
+    if (narrowLater)
+        m_narrow->start();
+}
+
+// The width resizeColumnToContents would give, and a margin, up to a bound.
+int WeightGridView::fittedWidth(int column) const
+{
+    constexpr int kWidest = 240;
+    const int contents = std::max(sizeHintForColumn(column), horizontalHeader()->sectionSizeHint(column));
+    return std::min(kWidest, contents + 16);
 }
 
 QString WeightGridView::selectionText() const

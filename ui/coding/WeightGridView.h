@@ -2,6 +2,8 @@
 
 #include "ui/common/EntryTableView.h"
 
+class QTimer;
+
 namespace cb {
 
 class WeightTableModel;
@@ -38,11 +40,18 @@ protected:
     int entryRowCount() const override; // the weight rows, not the footers
 
 private:
-    // Fits the columns to their names and weights after the shape or the names changed.
+    // Fits the columns to their names and weights after the shape or the names changed. While
+    // the columns stay the same, a column widens at once and narrows only after a pause
+    // (kNarrowAfterMs): a width change moves every column to its right, so narrowing a column
+    // on every typed weight made the grid jump, and repainted it whole, with each keystroke.
     void fitColumns();
+    int fittedWidth(int column) const;
+    static constexpr int kNarrowAfterMs = 1500;
 
     WeightTableModel *m_model = nullptr;
     QStringList m_fittedNames;
+    QTimer *m_narrow = nullptr;
+    QList<int> m_toNarrow; // columns fitted wider than their names now need
     bool m_renamable = false;
 };
 

@@ -3,8 +3,10 @@
 #include <QAbstractItemView>
 #include <QApplication>
 #include <QHash>
+#include <QListView>
 #include <QPainter>
 #include <QStaticText>
+#include <QTableView>
 #include <QTextLayout>
 #include <QTextOption>
 
@@ -213,6 +215,15 @@ QSize CachedTextDelegate::sizeHint(const QStyleOptionViewItem &option, const QMo
     if (opt.text.isEmpty() || (opt.features & kOthers) || !left)
         return style->sizeFromContents(QStyle::CT_ItemViewItem, &opt, QSize(), widget);
     const bool wrap = opt.features & QStyleOptionViewItem::WrapText;
+    // A list lays its rows out at its width less its spacing on both sides, but measures a row
+    // it paints at the width of its contents, which includes that spacing (QListView, list mode):
+    // a row that needed one line more at the narrower width was painted a line short and cut off.
+    // Rows of a list are measured at most as wide as the list paints them.
+    if (const auto *list = qobject_cast<const QListView *>(opt.widget); wrap && list && opt.rect.isValid()) {
+        const int painted = list->viewport()->width() - 2 * list->spacing();
+        if (painted > 0 && opt.rect.width() > painted)
+            opt.rect.setWidth(painted);
+    }
     constexpr auto kMeasured = QStyleOptionViewItem::WrapText | QStyleOptionViewItem::HasDisplay;
     SizeKey key{opt.text, opt.font, wrap && opt.rect.isValid() ? opt.rect.width() : -1, int(opt.features & kMeasured), style};
     if (auto found = m_sizes.constFind(key); found != m_sizes.constEnd())
@@ -223,6 +234,40 @@ QSize CachedTextDelegate::sizeHint(const QStyleOptionViewItem &option, const QMo
     const QSize size = style->sizeFromContents(QStyle::CT_ItemViewItem, &opt, QSize(), widget);
     m_sizes.insert(std::move(key), size);
     return size;
+}
+
+QSize CachedHeaderView::sectionSizeFromContents(int logicalIndex) const
+{
+    const QAbstractItemModel *m = model();
+    if (!m || m->headerData(logicalIndex, orientation(), Qt::SizeHintRole).isValid()
+        || m->headerData(logicalIndex, orientation(), Qt::DecorationRole).isValid())
+        return QHeaderView::sectionSizeFromContents(logicalIndex);
+    // What QHeaderView's measure depends on besides the style's metrics: the text, the font (the
+    // section's own or the header's) and whether a sort indicator is shown.
+    const QVariant fontData = m->headerData(logicalIndex, orientation(), Qt::FontRole);
+    SizeKey key{m->headerData(logicalIndex, orientation(), Qt::DisplayRole).toString(),
+                fontData.canConvert<QFont>() ? fontData.value<QFont>() : font(), isSortIndicatorShown(), style()};
+    if (auto found = m_sizes.constFind(key); found != m_sizes.constEnd())
+        return *found;
+    constexpr qsizetype kMaxSizes = 4096;
+    if (m_sizes.size() >= kMaxSizes)
+        m_sizes.clear();
+    const QSize size = QHeaderView::sectionSizeFromContents(logicalIndex);
+    m_sizes.insert(std::move(key), size);
+    return size;
+}
+
+void useCachedHeaders(QTableView *view)
+{
+    for (const Qt::Orientation orientation : {Qt::Horizontal, Qt::Vertical}) {
+        auto *header = new CachedHeaderView(orientation, view);
+        header->setSectionsClickable(true);
+        header->setHighlightSections(true);
+        if (orientation == Qt::Horizontal)
+            view->setHorizontalHeader(header);
+        else
+            view->setVerticalHeader(header);
+    }
 }
 
 void useCachedText(QWidget *root)

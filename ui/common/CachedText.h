@@ -2,11 +2,13 @@
 
 #include <QFont>
 #include <QHash>
+#include <QHeaderView>
 #include <QStyledItemDelegate>
 
 class QPainter;
 class QRect;
 class QString;
+class QTableView;
 class QWidget;
 
 namespace cb {
@@ -53,6 +55,38 @@ private:
     };
     mutable QHash<SizeKey, QSize> m_sizes;
 };
+
+// A header that measures each section's text once per text, font and style: the view asks for
+// the header's size hint (every section measured) whenever a section's text changes, and the
+// grid's column names change with most edits. Sections with an icon or a size of their own are
+// measured as QHeaderView measures them, every time.
+class CachedHeaderView : public QHeaderView
+{
+public:
+    using QHeaderView::QHeaderView;
+
+protected:
+    QSize sectionSizeFromContents(int logicalIndex) const override;
+
+private:
+    struct SizeKey
+    {
+        QString text;
+        QFont font;
+        bool sortIndicator;
+        const QStyle *style;
+        friend bool operator==(const SizeKey &, const SizeKey &) = default;
+        friend size_t qHash(const SizeKey &key, size_t seed = 0)
+        {
+            return qHashMulti(seed, key.text, key.font, key.sortIndicator, key.style);
+        }
+    };
+    mutable QHash<SizeKey, QSize> m_sizes;
+};
+
+// Gives view two CachedHeaderViews, set up as QTableView sets up its own (clickable sections that
+// highlight with the selection). Call it first, before the headers are configured.
+void useCachedHeaders(QTableView *view);
 
 // Gives root and every item view under it that has the default delegate a CachedTextDelegate (views
 // with a delegate of their own keep it). The window calls this once, after building its panels.
