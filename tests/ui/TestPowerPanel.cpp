@@ -22,6 +22,7 @@
 #include <QTableView>
 #include <QSignalSpy>
 #include <QTemporaryDir>
+#include <QImage>
 #include <QTest>
 #include <QUndoStack>
 
@@ -53,6 +54,7 @@ private slots:
     void plannedSizesComeFromTheLevels();
     void typingChangesOnlyItsCell();
     void rendersTheIrrigationDemo();
+    void theCurvesShowWhenThePanelIsNarrow();
     void withinFactorAsksForACorrelationAndCountsParticipants();
     void fullCorrelationMatrixTypedOrPasted_data();
     void fullCorrelationMatrixTypedOrPasted();
@@ -252,6 +254,35 @@ void TestPowerPanel::rendersTheIrrigationDemo()
     QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
     QCOMPARE(rowCount(panel.resultTable()), 5);
     QVERIFY(renderPanel(panel, QSize(1500, 430), u"power"_s));
+}
+
+// In a panel as wide as a 1366-pixel window gives it, the irrigation demo's five long curve names
+// left the plot no room beside the legend, and the chart stayed blank white; the legend now goes
+// under the plot. With no room at all, the chart says so.
+void TestPowerPanel::theCurvesShowWhenThePanelIsNarrow()
+{
+    Document doc;
+    doc.reset(loadDemoStudy(u"irrigation"_s).take(), {});
+    PowerPanel panel(&doc);
+    panel.setExpectedTexts({u"4.0"_s, u"5.4"_s, u"5.1"_s, u"4.9"_s, u"4.3"_s});
+    panel.sdEdit()->setText(u"0.9"_s);
+    panel.recompute();
+    QVERIFY(panel.report().has_value());
+    SmallChart *chart = panel.chart();
+    QCOMPARE(int(chart->lines().size()), 5);
+    auto pixelsOf = [](const QImage &image, const QColor &colour) {
+        int count = 0;
+        for (int y = 0; y < image.height(); ++y)
+            for (int x = 0; x < image.width(); ++x)
+                count += QColor(image.pixel(x, y)) == colour;
+        return count;
+    };
+    chart->resize(250, 380); // its share of a 1000-pixel dock
+    const QImage narrow = chart->grab().toImage();
+    QVERIFY(pixelsOf(narrow, SmallChart::seriesColor(0)) > 20); // the first contrast's curve
+    chart->resize(120, 90);
+    const QImage tiny = chart->grab().toImage();
+    QVERIFY(pixelsOf(tiny, Qt::white) < tiny.width() * tiny.height()); // the message, not a blank
 }
 
 // A factor measured within participants: the panel asks for the correlation (with its caution),

@@ -155,9 +155,19 @@ void SmallChart::paintEvent(QPaintEvent *)
     for (const Line &l : m_lines)
         legendWidth = std::max(legendWidth, std::min(200, fm.horizontalAdvance(l.label)) + 30);
     const int line = fm.height();
-    const QRect plot = rect().adjusted(line + yLabelWidth + 14, line / 2 + 4, -(legendWidth + 10), -(2 * line + 12));
-    if (plot.width() < 40 || plot.height() < 40)
+    // The legend goes to the right of the plot when that leaves the plot room, otherwise under it
+    // (a narrow panel and long contrast names left no plot at all, and the chart stayed blank).
+    const int leftMargin = line + yLabelWidth + 14;
+    constexpr int kNarrowestPlot = 140;
+    const bool legendBelow = !m_lines.empty() && rect().width() - leftMargin - (legendWidth + 10) < kNarrowestPlot;
+    const int legendHeight = legendBelow ? int(m_lines.size()) * (line + 4) + 4 : 0;
+    const QRect plot = rect().adjusted(leftMargin, line / 2 + 4, legendBelow ? -10 : -(legendWidth + 10), -(2 * line + 12 + legendHeight));
+    if (plot.width() < 40 || plot.height() < 40) {
+        p.setPen(look::quietText());
+        p.drawText(rect().adjusted(12, 12, -12, -12), Qt::AlignCenter | Qt::TextWordWrap,
+                   tr("Too little room for the chart: make this panel larger."));
         return;
+    }
     auto px = [&](double x) { return plot.left() + (x - xLo) / (xHi - xLo) * plot.width(); };
     auto py = [&](double y) { return plot.bottom() - (y - yLo) / (yHi - yLo) * plot.height(); };
 
@@ -228,14 +238,16 @@ void SmallChart::paintEvent(QPaintEvent *)
     }
     p.setClipping(false);
 
-    // Legend to the right of the plot.
-    int y = plot.top();
+    // The legend, to the right of the plot or under its axis title.
+    const int legendLeft = legendBelow ? plot.left() - 30 : plot.right() + 10;
+    const int labelWidth = legendBelow ? rect().right() - legendLeft - 34 : legendWidth - 30;
+    int y = legendBelow ? plot.bottom() + 2 * line + 12 : plot.top();
     for (const Line &l : m_lines) {
         p.setPen(QPen(l.color, 2, l.dashed ? Qt::DashLine : Qt::SolidLine));
-        p.drawLine(plot.right() + 10, y + line / 2, plot.right() + 30, y + line / 2);
+        p.drawLine(legendLeft, y + line / 2, legendLeft + 20, y + line / 2);
         p.setPen(axisInk);
-        p.drawText(QRect(plot.right() + 34, y, legendWidth - 30, line), Qt::AlignLeft | Qt::AlignVCenter,
-                   fm.elidedText(l.label, Qt::ElideRight, legendWidth - 30));
+        p.drawText(QRect(legendLeft + 24, y, labelWidth, line), Qt::AlignLeft | Qt::AlignVCenter,
+                   fm.elidedText(l.label, Qt::ElideRight, labelWidth));
         y += line + 4;
     }
 }
