@@ -242,15 +242,20 @@ void TestPowerPanel::typingChangesOnlyItsCell()
     QCOMPARE(cellText(panel.inputTable(), 2, PowerPanel::ExpectedColumn), u"7"_s);
 }
 
-// The irrigation demo (invented): expected plot yields per schedule, eight plots each.
-void TestPowerPanel::rendersTheIrrigationDemo()
+// The irrigation demo (invented) with expected plot yields per schedule, eight plots each.
+void planIrrigation(Document &doc, PowerPanel &panel)
 {
-    Document doc;
     doc.reset(loadDemoStudy(u"irrigation"_s).take(), {});
-    PowerPanel panel(&doc);
     panel.setExpectedTexts({u"4.0"_s, u"5.4"_s, u"5.1"_s, u"4.9"_s, u"4.3"_s});
     panel.sdEdit()->setText(u"0.9"_s);
     panel.recompute();
+}
+
+void TestPowerPanel::rendersTheIrrigationDemo()
+{
+    Document doc;
+    PowerPanel panel(&doc);
+    planIrrigation(doc, panel);
     QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
     QCOMPARE(rowCount(panel.resultTable()), 5);
     QVERIFY(renderPanel(panel, QSize(1500, 430), u"power"_s));
@@ -262,11 +267,8 @@ void TestPowerPanel::rendersTheIrrigationDemo()
 void TestPowerPanel::theCurvesShowWhenThePanelIsNarrow()
 {
     Document doc;
-    doc.reset(loadDemoStudy(u"irrigation"_s).take(), {});
     PowerPanel panel(&doc);
-    panel.setExpectedTexts({u"4.0"_s, u"5.4"_s, u"5.1"_s, u"4.9"_s, u"4.3"_s});
-    panel.sdEdit()->setText(u"0.9"_s);
-    panel.recompute();
+    planIrrigation(doc, panel);
     QVERIFY(panel.report().has_value());
     SmallChart *chart = panel.chart();
     QCOMPARE(int(chart->lines().size()), 5);
