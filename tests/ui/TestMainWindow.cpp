@@ -64,6 +64,7 @@ private slots:
     void addPanelTabsBesideDesignHealth();
     void titleShowsNameAndUnsavedMark();
     void healthLinesAreCopiedFromTheirMenu();
+    void workPanelsGetRoomWhileRaised();
     void redoAnswersCtrlYAndCtrlShiftZ();
     void windowFitsTheScreenAndKeepsItsLayout();
     void ampersandInANameSurvivesInUndoLabels();
@@ -416,6 +417,39 @@ void TestMainWindow::titleShowsNameAndUnsavedMark()
     QCOMPARE(f.window->windowTitle(), u"titled.json[*] \u2014 Contrast Bench"_s);
     QVERIFY(!f.window->isWindowModified());
     QVERIFY(f.window->healthPanel()->summaryText().contains(u"Rank 4 of 4"_s));
+}
+
+// On a laptop screen, raising Power (or Check on data) gives the bottom panels room for the
+// inputs and results; raising Design health again gives the grid its room back, unless the
+// panels were resized by hand in between.
+void TestMainWindow::workPanelsGetRoomWhileRaised()
+{
+    WindowFixture f;
+    f.window->resize(1366, 768);
+    QVERIFY(f.show());
+    auto *health = f.window->findChild<QDockWidget *>(u"healthDock"_s);
+    auto *power = f.window->findChild<QDockWidget *>(u"powerDock"_s);
+    auto *data = f.window->findChild<QDockWidget *>(u"dataDock"_s);
+    QVERIFY(health && power && data);
+    QTest::qWait(20);
+    const int summary = health->height();
+    power->raise();
+    QTRY_VERIFY(power->height() >= summary + 60);
+    const int working = power->height();
+    data->raise(); // from one work panel to the other: the same room
+    QTest::qWait(20);
+    QCOMPARE(data->height(), working);
+    health->raise();
+    QTRY_COMPARE(health->height(), summary);
+    // Resized by hand while Power is up: that height stays.
+    power->raise();
+    QTRY_COMPARE(power->height(), working);
+    f.window->resizeDocks({power}, {working - 40}, Qt::Vertical);
+    QTRY_VERIFY(power->height() < working - 20);
+    const int grid = f.window->centralWidget()->height();
+    health->raise();
+    QTest::qWait(20);
+    QCOMPARE(f.window->centralWidget()->height(), grid);
 }
 
 // The Overall lines of design health are copied from their context menu: the line, or every line.

@@ -41,6 +41,8 @@
 #include <QUrl>
 
 #include <algorithm>
+#include <cstdlib>
+#include <utility>
 
 using namespace Qt::StringLiterals;
 
@@ -56,6 +58,13 @@ constexpr int kNarrowWidth = 1200;
 int bottomDockHeight(int windowHeight)
 {
     return std::clamp(windowHeight * 26 / 100, 170, 240);
+}
+
+// The height a raised work panel (Power, Check on data) gets: its inputs, results and cautions
+// need more than the health summary, and the person is working there now.
+int workDockHeight(int windowHeight)
+{
+    return std::clamp(windowHeight * 45 / 100, 240, 420);
 }
 
 const QString kGeometryKey = u"window/geometry"_s;
@@ -259,6 +268,10 @@ void MainWindow::buildDocks()
     auto *meaning = dock(m_meaning, tr("What each coefficient tests"), u"meaningDock"_s, Qt::RightDockWidgetArea);
     m_healthDock = dock(scrolling(m_health, this), tr("Design health"), u"healthDock"_s, Qt::BottomDockWidgetArea);
     resizeDocks({m_healthDock}, {bottomDockHeight(height())}, Qt::Vertical);
+    connect(m_healthDock, &QDockWidget::visibilityChanged, this, [this](bool visible) {
+        if (visible)
+            healthPanelRaised();
+    });
     // The design view: a tab beside the coefficient cards, brought forward when the study becomes a
     // design. The side docks' widths are set when the window is first shown (showEvent): before
     // that, a tabbed dock area does not keep them.
@@ -276,9 +289,57 @@ QDockWidget *MainWindow::addPanel(QWidget *panel, const QString &title, const QS
     tabifyDockWidget(m_healthDock, d);
     m_healthDock->raise();
     resizeDocks({m_healthDock}, {bottomDockHeight(height())}, Qt::Vertical);
+    connect(d, &QDockWidget::visibilityChanged, this, [this, d](bool visible) {
+        if (visible)
+            workPanelRaised(d);
+    });
     if (m_viewMenu)
         m_viewMenu->addAction(d->toggleViewAction());
     return d;
+}
+
+void MainWindow::workPanelRaised(QDockWidget *dock)
+{
+    if (dock->isFloating() || dockWidgetArea(dock) != Qt::BottomDockWidgetArea || !isVisible())
+        return;
+    const int target = workDockHeight(height());
+    if (dock->height() >= target)
+        return;
+    if (!m_grownForWork)
+        m_gridHeightBeforeWork = centralWidget()->height();
+    m_grownForWork = true;
+    resizeDocks({dock}, {target}, Qt::Vertical);
+    // Where the layout settles (a tabbed dock is shorter than the size asked for, by its tabs,
+    // and the grid keeps its minimum), once it has.
+    QTimer::singleShot(0, this, [this, target] {
+        m_workRequest = target;
+        m_gridHeightAtWork = centralWidget()->height();
+    });
+}
+
+void MainWindow::healthPanelRaised()
+{
+    if (!std::exchange(m_grownForWork, false) || m_workRequest == 0 || m_healthDock->isFloating())
+        return;
+    // Only the room this window took is given back: a height the person dragged to stays. The
+    // grid's height falls by what the request rises, so this request gives the grid its height back.
+    if (std::abs(centralWidget()->height() - m_gridHeightAtWork) > 2)
+        return;
+    restoreGridHeight(m_workRequest + m_gridHeightAtWork - m_gridHeightBeforeWork, 2);
+}
+
+// Asks the bottom panels for request, then, once laid out, corrects by what the grid still lacks:
+// the request and the grid's height move together only where neither is at a limit, and the tabs
+// of the panel in front differ a little in height.
+void MainWindow::restoreGridHeight(int request, int corrections)
+{
+    resizeDocks({m_healthDock}, {request}, Qt::Vertical);
+    if (corrections == 0)
+        return;
+    QTimer::singleShot(0, this, [this, request, corrections] {
+        if (const int off = m_gridHeightBeforeWork - centralWidget()->height(); off != 0)
+            restoreGridHeight(request - off, corrections - 1);
+    });
 }
 
 SheetOptions MainWindow::sheetOptions() const

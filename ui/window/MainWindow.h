@@ -124,6 +124,16 @@ private:
     bool m_docksSized = false; // the side docks get their widths once, when first shown
     QByteArray m_startState;   // the panels as built, for Reset layout
     QDockWidget *m_healthDock = nullptr;
+    // A raised work panel (Power, Check on data) gets room for its inputs and results: the
+    // bottom panels grow to workDockHeight while it is in front, and go back to the height they
+    // had when the health panel is raised again, unless the person resized them meanwhile.
+    void workPanelRaised(QDockWidget *dock);
+    void healthPanelRaised();
+    void restoreGridHeight(int request, int corrections);
+    bool m_grownForWork = false;
+    int m_gridHeightBeforeWork = 0; // the central grid's height before the panels grew
+    int m_gridHeightAtWork = 0;     // and after
+    int m_workRequest = 0;          // the height asked of resizeDocks
     QMenu *m_recentMenu = nullptr;
     QMenu *m_viewMenu = nullptr;
     QLabel *m_arithmetic = nullptr;
