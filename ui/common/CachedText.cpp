@@ -79,12 +79,13 @@ struct Wrapped
     bool fits = true; // no line wider than the width (a word longer than a line is elided by the style)
 };
 
-const Wrapped &wrapped(const WrappedKey &key)
+// A shared copy: the cache may be dropped whole while the caller still draws it.
+std::shared_ptr<const Wrapped> wrapped(const WrappedKey &key)
 {
     static QHash<WrappedKey, std::shared_ptr<Wrapped>> cache;
     constexpr qsizetype kMaxTexts = 2048;
     if (auto found = cache.constFind(key); found != cache.constEnd())
-        return **found;
+        return *found;
     if (cache.size() >= kMaxTexts)
         cache.clear();
     auto w = std::make_shared<Wrapped>();
@@ -104,7 +105,7 @@ const Wrapped &wrapped(const WrappedKey &key)
         w->fits = w->fits && line.naturalTextWidth() <= key.width;
     }
     w->layout.endLayout();
-    return **cache.insert(key, std::move(w));
+    return *cache.insert(key, std::move(w));
 }
 
 } // namespace
@@ -151,11 +152,11 @@ void CachedTextDelegate::paint(QPainter *painter, const QStyleOptionViewItem &op
     const QStaticText laid = laidOut({text, opt.font, -1, 0});
     const QSize size = laid.size().toSize();
     const Qt::Alignment align = QStyle::visualAlignment(opt.direction, opt.displayAlignment);
-    const Wrapped *lines = nullptr;
+    std::shared_ptr<const Wrapped> lines;
     if (size.width() > area.width()) {
         // Wrapped when every line fits the area; otherwise elided: the style's own way.
         if (opt.features & QStyleOptionViewItem::WrapText)
-            lines = &wrapped({text, opt.font, area.width(), int(align), int(opt.direction)});
+            lines = wrapped({text, opt.font, area.width(), int(align), int(opt.direction)});
         if (!lines || !lines->fits || lines->height > area.height()) {
             QStyledItemDelegate::paint(painter, option, index);
             return;
