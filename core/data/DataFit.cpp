@@ -379,7 +379,20 @@ Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const
         return fit;
     for (size_t i = 0; i < fit->coefficients.size(); ++i)
         fit->coefficients[i].hypothesis = analysis.hypothesisCombinations.value(qsizetype(i));
+    if (scheme.factor.isWithin() && data.participantIndex < 0)
+        fit->cautions << independentRowsCaution({scheme.factor.name});
     return fit;
+}
+
+QString independentRowsCaution(const QStringList &withinFactors)
+{
+    QStringList quoted;
+    for (const QString &f : withinFactors)
+        quoted << u"'%1'"_s.arg(f);
+    return u"%1 %2 measured within participants, but the data were read without a participant column: every row is "
+           u"taken as an independent observation, so the SEs, t, p and intervals ignore that a participant's values go "
+           u"together and can be wrong in either direction; name the column that says whose each row is (the participant "
+           u"column) for the by-participant analysis"_s.arg(quoted.join(u" and "_s), withinFactors.size() == 1 ? u"is"_s : u"are"_s);
 }
 
 // ---------------------------------------------------------------------------
@@ -628,6 +641,7 @@ QJsonObject fitResultToJson(const FitResult &fit, const DataSummary &data)
         {u"adjust"_s, adjustmentId(fit.adjust)},
         {u"n"_s, jsonNumber(fit.totalN)},
         {u"notes"_s, QJsonArray::fromStringList(fit.notes)},
+        {u"cautions"_s, QJsonArray::fromStringList(fit.cautions)},
         {u"skipped_rows"_s, QJsonObject{{u"count"_s, double(data.skippedRows)}, {u"first"_s, first}}},
         {u"data"_s, QJsonObject{{u"source"_s, data.source},
                                 {u"summary_table"_s, data.fromSummaryTable},

@@ -114,6 +114,9 @@ struct FitResult
     Eigen::MatrixXd observedHypotheses;
     bool hypothesesAgree = true;
     QStringList notes;
+    // Where the fit itself can mislead (a factor within participants fitted without a participant
+    // column): said before the figures are read, in the report, the JSON and the window.
+    QStringList cautions;
 
     // By participant (fitParticipants): f, fDf1, fDf2 and fP are Hotelling's T^2 as F over the
     // participants with every level.
@@ -135,6 +138,10 @@ Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &
 
 // Everything in one: matches the data's levels to the scheme (with the mapping),
 // builds X from the scheme's columns and H from analyze(scheme), and fits.
+// The caution for data read without a participant column when the named factors are measured
+// within participants: every row (or level summary) is then taken as independent.
+QString independentRowsCaution(const QStringList &withinFactors);
+
 Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const FitOptions &options = {},
                             const LevelMapping &mapping = {});
 

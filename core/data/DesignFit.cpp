@@ -43,6 +43,14 @@ Result<DesignFit> fitDesign(const Design &d, const DataSummary &data, const FitO
     if (!fit)
         return R::failure(fit.error());
     out.fit = fit.take();
+    if (data.participantIndex < 0) {
+        QStringList within;
+        for (const Scheme &f : d.factors)
+            if (f.factor.isWithin())
+                within << f.factor.name;
+        if (!within.isEmpty())
+            out.fit.cautions << independentRowsCaution(within);
+    }
     if (anyAbsent) {
         QStringList notes{out.design.empty.summary};
         for (const HypothesisShift &s : out.design.empty.shifts)

@@ -67,6 +67,8 @@ QString fitReport(const Scheme &scheme, bool design, const DataSummary &data, co
     if (data.participantIndex >= 0)
         out += u"By participant (column '%1'): the participants' cell means, each contrast on their contrast scores.\n"_s.arg(
             data.columns.value(data.participantIndex));
+    for (const QString &c : fit.cautions) // before the figures they qualify
+        out += u"Caution: "_s + c + u'\n';
     out += u'\n';
 
     TextTable levels({design ? u"cell"_s : u"level"_s, u"n"_s, u"mean"_s, u"SD"_s}, 0);

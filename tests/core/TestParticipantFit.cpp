@@ -73,6 +73,7 @@ private slots:
     void commandLine();
     void studentsSleepData();
     void tooFewParticipantsForHotellingIsSaid();
+    void withinFactorWithoutParticipantsIsCautioned();
 };
 
 void TestParticipantFit::agreesWithScipy_data()
@@ -196,6 +197,20 @@ void TestParticipantFit::commandLine()
     const test::ProcessRun text = test::runCli(base + QStringList{u"--participant"_s, u"participant"_s});
     QVERIFY(text.outText().contains(u"By participant (column 'participant')"_s));
     QVERIFY(text.outText().contains(u"p4 (no 'invalid')"_s));
+    // Without --participant the rows are fitted as independent, under a caution, in the text
+    // before the figures and in the JSON.
+    // (the factor is named after its column, --factor level)
+    const QString caution = u"'level' is measured within participants, but the data were read without a participant column"_s;
+    QCOMPARE(text.outText().count(caution), 0);
+    QCOMPARE(o[u"cautions"_s].toArray().size(), 0);
+    const test::ProcessRun rows = test::runCli(base);
+    QVERIFY2(rows.exitCode == 0, rows.err.constData());
+    const QString rowsText = rows.outText();
+    QVERIFY2(rowsText.contains(u"Caution: "_s + caution), qPrintable(rowsText));
+    QVERIFY(rowsText.indexOf(caution) < rowsText.indexOf(u"coefficient"_s));
+    const QJsonArray cautions = QJsonDocument::fromJson(test::runCli(base + QStringList{u"--json"_s}).out).object()[u"cautions"_s].toArray();
+    QCOMPARE(cautions.size(), 1);
+    QVERIFY(cautions[0].toString().startsWith(caution));
     const test::ProcessRun wrong = test::runCli(base + QStringList{u"--participant"_s, u"level"_s});
     QCOMPARE(wrong.exitCode, 2);
     QVERIFY2(wrong.errText().contains(u"the participant column ('level') is also the factor"_s), wrong.err.constData());
@@ -247,6 +262,31 @@ void TestParticipantFit::studentsSleepData()
     QVERIFY(nearRelative(fit->f, 4.062127683382037 * 4.062127683382037, 1e-10));
     QCOMPARE(fit->fDf1, 1.0);
     QCOMPARE(fit->fDf2, 9.0);
+}
+
+// A factor measured within participants fitted from rows without a participant column: the fit
+// is the independent-groups fit, and says plainly that its SEs ignore the repeated measures. A
+// factor between participants, or a fit by participant, has no such caution.
+void TestParticipantFit::withinFactorWithoutParticipantsIsCautioned()
+{
+    DataReadOptions o;
+    o.factorColumn = u"level"_s;
+    o.responseColumn = u"y"_s;
+    auto rows = readLevelDataFromBytes(generatedData(12, 5u), u"rt.csv"_s, o);
+    QVERIFY2(rows.ok(), qPrintable(rows.error()));
+    const Scheme within = test::withinCueScheme(SchemeKind::Treatment);
+    auto fit = fitScheme(within, *rows);
+    QVERIFY2(fit.ok(), qPrintable(fit.error()));
+    QCOMPARE(fit->cautions.size(), 1);
+    QCOMPARE(fit->cautions[0], independentRowsCaution({u"cue"_s}));
+    QVERIFY(fit->cautions[0].contains(u"can be wrong in either direction"_s));
+    QCOMPARE(independentRowsCaution({u"cue"_s, u"vowel"_s}).left(40), u"'cue' and 'vowel' are measured within pa"_s);
+    Scheme between = within;
+    between.factor.measure = Measure::Between;
+    QVERIFY(fitScheme(between, *rows)->cautions.isEmpty());
+    auto byParticipant = read(generatedData(12, 5u));
+    QVERIFY(byParticipant.ok());
+    QVERIFY(fitParticipants(within, *byParticipant)->cautions.isEmpty());
 }
 
 // Two participants for three levels: each contrast is tested, Hotelling's test cannot be (it needs

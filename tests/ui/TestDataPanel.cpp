@@ -358,10 +358,19 @@ void TestDataPanel::mixedDesignShowsItsMultivariateTests()
     DataPanel panel(&doc);
     QVERIFY(panel.openFile(path));
     panel.setColumns(u"routine"_s, u"drift"_s);
+    // Without the participant column the rows are fitted as independent, and the summary leads
+    // with the caution that says so (core's independentRowsCaution).
+    QVERIFY(readAndWait(panel));
+    QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
+    QVERIFY(!panel.fit()->mixedDesign);
+    const QString caution = u"'vowel' is measured within participants, but the data were read without a participant column"_s;
+    QVERIFY2(panel.summaryText().contains(caution), qPrintable(panel.summaryText()));
+    QVERIFY(panel.summaryText().indexOf(caution) < panel.summaryText().indexOf(u"Do the cell means differ?"_s));
     panel.participantBox()->setCurrentText(u"singer"_s);
     QVERIFY(readAndWait(panel));
     QVERIFY2(panel.fit().has_value(), qPrintable(panel.message()));
     QVERIFY(panel.fit()->mixedDesign);
+    QVERIFY(!panel.summaryText().contains(caution));
     QCOMPARE(panel.fit()->fDf1, 2.0);
     QCOMPARE(panel.fit()->fDf2, 3.0); // 6 singers in 2 groups: 4 - 2 + 1
     QVERIFY2(panel.summaryText().contains(u"Do the within cells differ? F(2, 3) = "_s), qPrintable(panel.summaryText()));

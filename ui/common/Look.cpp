@@ -45,6 +45,11 @@ QColor ink(State state)
     return QColor(0x44, 0x4b, 0x55);
 }
 
+QString markedLine(State state, const QString &plainText)
+{
+    return QStringLiteral("<span style='color:%1'>%2 %3</span>").arg(ink(state).name(), mark(state), plainText.toHtmlEscaped());
+}
+
 QColor tint(State state)
 {
     switch (state) {

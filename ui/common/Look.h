@@ -18,6 +18,8 @@ QString mark(State state);  // "✓", "!", "✗", "·"
 QString word(State state);  // "fine", "caution", "problem", ""
 QColor ink(State state);    // text and symbol colour
 QColor tint(State state);   // cell background
+// Plain text as one rich-text line in the state's ink, after its symbol: "! text".
+QString markedLine(State state, const QString &plainText);
 
 // Bars of the hypothesis pictures: weights above zero and below zero.
 QColor raisedBar();

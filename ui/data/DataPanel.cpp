@@ -769,24 +769,24 @@ void DataPanel::showFit(const FitResult &fit)
     m_coefficients->setRows(std::move(rows));
 
     QStringList lines;
+    for (const QString &caution : fit.cautions) // first, before the figures they qualify
+        lines << look::markedLine(look::State::Caution, caution);
     for (const QString &line : fitSummaryLines(fit, m_document->isDesign()))
         lines << line.toHtmlEscaped();
     if (!fit.hypothesesAgree)
-        lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
-                                                             tr("Some coefficients do not estimate the scheme\u2019s hypotheses at these group sizes (marked below)."));
+        lines << look::markedLine(look::State::Caution,
+                                  tr("Some coefficients do not estimate the scheme\u2019s hypotheses at these group sizes (marked below)."));
     if (m_items)
         for (const QString &line : itemSummaryLines(*m_items))
             lines << line.toHtmlEscaped();
     m_itemRows->setRows(m_items ? itemTableRows(*m_items) : TableRows{});
     m_itemView->setVisible(m_items.has_value());
     if (m_items)
-        lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
-                                                             itemScopeSentence().toHtmlEscaped());
+        lines << look::markedLine(look::State::Caution, itemScopeSentence());
     else if (fit.byParticipant)
-        lines << u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Caution).name(), look::mark(look::State::Caution),
-                                                             tr("This is the by-participant analysis: each contrast on the participants' own "
-                                                                "contrast scores. It is not a mixed-effects model with participants (and items) "
-                                                                "as random effects; fit that with the exported coding in a statistics package."));
+        lines << look::markedLine(look::State::Caution, tr("This is the by-participant analysis: each contrast on the participants' own "
+                                                           "contrast scores. It is not a mixed-effects model with participants (and items) "
+                                                           "as random effects; fit that with the exported coding in a statistics package."));
     m_summary->setText(lines.join(u"<br>"_s));
 
     // Means with intervals: core's fit of the cell-means coding (one coefficient per level, pooled SD).

@@ -184,8 +184,7 @@ QString ExportDialog::saveTo(const QString &path)
     }
     const QString error = writeFileAtomically(path, m_text.toUtf8());
     if (!error.isEmpty()) {
-        m_status->setText(u"<span style='color:%1'>%2 %3</span>"_s.arg(look::ink(look::State::Problem).name(),
-                                                                        look::mark(look::State::Problem), error.toHtmlEscaped()));
+        m_status->setText(look::markedLine(look::State::Problem, error));
         return error;
     }
     m_lastDirectory = QFileInfo(path).absolutePath();
