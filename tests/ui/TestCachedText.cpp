@@ -6,6 +6,9 @@
 #include "ui/health/FindingsModel.h"
 #include "core/model/Scheme.h"
 
+#include <QApplication>
+#include <QHeaderView>
+#include <QHelpEvent>
 #include <QImage>
 #include <QListView>
 #include <QPainter>
@@ -14,6 +17,7 @@
 #include <QStyledItemDelegate>
 #include <QTableView>
 #include <QTest>
+#include <QToolTip>
 
 using namespace Qt::StringLiterals;
 using namespace cb;
@@ -31,6 +35,7 @@ private slots:
     void unchangedFindingsDoNotRepaint();
     void listRowsAreAsTallAsTheirTextAtEveryWidth();
     void rememberedSizesAreTheStyles();
+    void cutShortTextShowsWholeInItsTooltip();
 };
 
 namespace {
@@ -372,6 +377,44 @@ void TestCachedText::rememberedSizesAreTheStyles()
                     const QModelIndex i = model.index(row, 0);
                     QCOMPARE(cached.sizeHint(o, i), style.sizeHint(o, i));
                 }
+}
+
+// A name cut short to fit its cell (elided) shows whole in the cell's tooltip; a name that fits,
+// or a cell with a tooltip of its own, keeps what it had.
+void TestCachedText::cutShortTextShowsWholeInItsTooltip()
+{
+    const QString longName = u"lip trills vs humming \u00d7 ee vs ah [between \u00d7 within] <b>&"_s;
+    QStandardItemModel model(3, 1);
+    model.setItem(0, 0, new QStandardItem(u"ee vs ah"_s));
+    model.setItem(1, 0, new QStandardItem(longName));
+    auto *own = new QStandardItem(longName);
+    own->setToolTip(u"a tooltip of its own"_s);
+    model.setItem(2, 0, own);
+    QTableView view;
+    view.setModel(&model);
+    view.setItemDelegate(new CachedTextDelegate(&view));
+    view.setTextElideMode(Qt::ElideMiddle);
+    view.setWordWrap(false); // as the result tables (setUpResultTable)
+    view.horizontalHeader()->setStretchLastSection(false);
+    view.setColumnWidth(0, 120);
+    view.resize(300, 200);
+    view.show();
+    QVERIFY(QTest::qWaitForWindowExposed(&view));
+    const auto tipAt = [&view](int row) {
+        QToolTip::hideText();
+        if (!QTest::qWaitFor([] { return !QToolTip::isVisible(); }, 3000))
+            return u"(the last tooltip stayed)"_s;
+        const QPoint at = view.visualRect(view.model()->index(row, 0)).center();
+        QHelpEvent event(QEvent::ToolTip, at, view.viewport()->mapToGlobal(at));
+        QApplication::sendEvent(view.viewport(), &event);
+        return QToolTip::isVisible() ? QToolTip::text() : QString();
+    };
+    QCOMPARE(tipAt(0), QString()); // it fits
+    QCOMPARE(tipAt(1), wholeTextTip(longName));
+    QVERIFY(wholeTextTip(longName).contains(u"&lt;b&gt;&amp;"_s)); // shown as typed, not as markup
+    QCOMPARE(tipAt(2), u"a tooltip of its own"_s);
+    view.setColumnWidth(0, 600); // now it fits
+    QCOMPARE(tipAt(1), QString());
 }
 
 QTEST_MAIN(TestCachedText)

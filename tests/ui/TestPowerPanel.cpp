@@ -19,6 +19,7 @@
 #include <QPlainTextEdit>
 #include <QLineEdit>
 #include <QComboBox>
+#include <QHeaderView>
 #include <QTableView>
 #include <QSignalSpy>
 #include <QTemporaryDir>
@@ -60,6 +61,7 @@ private slots:
     void fullCorrelationMatrixTypedOrPasted();
     void fullCorrelationMatrixGivesCoresPower();
     void mixedDesignGivesEachColumnsPartAndGroups();
+    void powerStaysInSightBesideLongTestNames();
     void designWithAnEmptyCellPlansTheOtherCells();
     void inputsAreTheStudysUndoneAndSaved();
     void enterMovesDownTheExpectedMeans();
@@ -251,6 +253,16 @@ void planIrrigation(Document &doc, PowerPanel &panel)
     panel.recompute();
 }
 
+// The warmup demo (2 routines between x 3 vowels within singers), SD 6, correlation 0.6.
+void planWarmup(Document &doc, PowerPanel &panel)
+{
+    doc.reset(loadDemoStudy(u"warmup"_s).take(), {});
+    panel.setExpectedTexts({u"10"_s, u"14"_s, u"12"_s, u"8"_s, u"11"_s, u"9"_s});
+    panel.sdEdit()->setText(u"6"_s);
+    panel.correlationEdit()->setText(u"0.6"_s);
+    panel.recompute();
+}
+
 void TestPowerPanel::rendersTheIrrigationDemo()
 {
     Document doc;
@@ -339,12 +351,8 @@ void TestPowerPanel::mixedDesignGivesEachColumnsPartAndGroups()
     // correlation of 0.6 the routine column's SE is 2.2 and the 'ee vs ah' column needs 12 and 10
     // singers (both derived in TestPowerMixed::handDerivedWarmupFigures, SciPy power 0.8257).
     Document doc;
-    doc.reset(loadDemoStudy(u"warmup"_s).take(), {});
     PowerPanel panel(&doc);
-    panel.setExpectedTexts({u"10"_s, u"14"_s, u"12"_s, u"8"_s, u"11"_s, u"9"_s});
-    panel.sdEdit()->setText(u"6"_s);
-    panel.correlationEdit()->setText(u"0.6"_s);
-    panel.recompute();
+    planWarmup(doc, panel);
     QVERIFY2(panel.report().has_value(), qPrintable(panel.settings().error()));
     QCOMPARE(panel.report()->groups, (QStringList{u"humming"_s, u"lip trills"_s}));
     QVERIFY(!panel.findChild<QLabel *>(u"correlationCaution"_s)->isHidden());
@@ -366,6 +374,35 @@ void TestPowerPanel::mixedDesignGivesEachColumnsPartAndGroups()
     QVERIFY(std::abs(panel.report()->terms[0].noncentrality - 925.0 / 99.0) < 1e-9); // the omnibus, found again
     QCOMPARE(results->index(7, PowerPanel::DfColumn).data().toString(), u"2, 19"_s);
     QVERIFY(renderPanel(panel, QSize(1500, 700), u"power-mixed"_s));
+}
+
+// In a results table as narrow as a 1366-pixel window leaves it for the warmup design (about 300
+// pixels), the test names took the whole width and the power was out of sight; the name column
+// now stops at half the table, cut in its middle so the part of the design stays.
+void TestPowerPanel::powerStaysInSightBesideLongTestNames()
+{
+    Document doc;
+    PowerPanel panel(&doc);
+    planWarmup(doc, panel);
+    QVERIFY(panel.report().has_value());
+    QTableView *table = panel.resultTable();
+    QCOMPARE(table->textElideMode(), Qt::ElideMiddle);
+    table->setParent(nullptr); // the table alone, at the width the panel gives it
+    table->resize(300, 200);
+    table->show();
+    QVERIFY(QTest::qWaitForWindowExposed(table));
+    QHeaderView *header = table->horizontalHeader();
+    const int nameWidth = header->sectionSize(PowerPanel::TestColumn);
+    const QString longest = table->model()->index(3, PowerPanel::TestColumn).data().toString();
+    QVERIFY(table->fontMetrics().horizontalAdvance(longest) > nameWidth); // cut short
+    QVERIFY(nameWidth <= std::max(table->width() / 2, 16 * table->fontMetrics().horizontalAdvance(u'M')));
+    const int powerEnds = header->sectionViewportPosition(PowerPanel::PowerColumn) + header->sectionSize(PowerPanel::PowerColumn);
+    QVERIFY2(powerEnds <= table->viewport()->width(), qPrintable(u"power ends at %1 of %2"_s.arg(powerEnds).arg(table->viewport()->width())));
+    // With room, the names are whole again.
+    table->resize(1400, 200);
+    QTRY_VERIFY(header->sectionSize(PowerPanel::TestColumn) > table->fontMetrics().horizontalAdvance(longest));
+    table->hide();
+    table->setParent(&panel);
 }
 
 // The hedgerow demo, main effects only, with grass·late empty: the panel plans the five cells

@@ -3,12 +3,14 @@
 #include <QAbstractItemView>
 #include <QApplication>
 #include <QHash>
+#include <QHelpEvent>
 #include <QListView>
 #include <QPainter>
 #include <QStaticText>
 #include <QTableView>
 #include <QTextLayout>
 #include <QTextOption>
+#include <QToolTip>
 
 #include <memory>
 #include <typeinfo>
@@ -235,6 +237,27 @@ QSize CachedTextDelegate::sizeHint(const QStyleOptionViewItem &option, const QMo
     const QSize size = style->sizeFromContents(QStyle::CT_ItemViewItem, &opt, QSize(), widget);
     m_sizes.insert(std::move(key), size);
     return size;
+}
+
+QString wholeTextTip(const QString &text)
+{
+    // As rich text the escaped name shows as typed, whatever it holds, and on one line.
+    return QStringLiteral("<p style='white-space:pre'>") + text.toHtmlEscaped() + QStringLiteral("</p>");
+}
+
+bool CachedTextDelegate::helpEvent(QHelpEvent *event, QAbstractItemView *view, const QStyleOptionViewItem &option,
+                                   const QModelIndex &index)
+{
+    if (event && view && index.isValid() && event->type() == QEvent::ToolTip && !index.data(Qt::ToolTipRole).isValid()) {
+        QStyleOptionViewItem opt = option;
+        initStyleOption(&opt, index);
+        const bool oneLine = !(opt.features & QStyleOptionViewItem::WrapText) && !opt.text.contains(QChar::LineSeparator);
+        if (!opt.text.isEmpty() && oneLine && sizeHint(option, index).width() > option.rect.width()) {
+            QToolTip::showText(event->globalPos(), wholeTextTip(opt.text), view->viewport(), option.rect);
+            return true;
+        }
+    }
+    return QStyledItemDelegate::helpEvent(event, view, option, index);
 }
 
 QSize CachedHeaderView::sectionSizeFromContents(int logicalIndex) const

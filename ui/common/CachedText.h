@@ -38,6 +38,9 @@ public:
     using QStyledItemDelegate::QStyledItemDelegate;
     void paint(QPainter *painter, const QStyleOptionViewItem &option, const QModelIndex &index) const override;
     QSize sizeHint(const QStyleOptionViewItem &option, const QModelIndex &index) const override;
+    // A one-line text cut short to fit its cell shows whole in the cell's tooltip, unless the
+    // model gives the cell a tooltip of its own.
+    bool helpEvent(QHelpEvent *event, QAbstractItemView *view, const QStyleOptionViewItem &option, const QModelIndex &index) override;
 
 private:
     struct SizeKey
@@ -55,6 +58,9 @@ private:
     };
     mutable QHash<SizeKey, QSize> m_sizes;
 };
+
+// The tooltip that shows a cut-short text whole: on one line, as typed.
+QString wholeTextTip(const QString &text);
 
 // A header that measures each section's text once per text, font and style: the view asks for
 // the header's size hint (every section measured) whenever a section's text changes, and the

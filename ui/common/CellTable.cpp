@@ -3,11 +3,14 @@
 #include "ui/common/ChangedCells.h"
 
 #include <QComboBox>
+#include <QEvent>
 #include <QFont>
 #include <QHeaderView>
 #include <QSignalBlocker>
 #include <QStyledItemDelegate>
 #include <QTableView>
+
+#include <algorithm>
 
 namespace cb {
 
@@ -202,11 +205,48 @@ void showChoices(QTableView *view, int column)
     open();
 }
 
+namespace {
+
+// Keeps a result table's columns to their share of the view's width as the view is resized.
+class ColumnLimit : public QObject
+{
+public:
+    explicit ColumnLimit(QTableView *view)
+        : QObject(view)
+        , m_view(view)
+    {
+        view->installEventFilter(this);
+        apply();
+    }
+
+    bool eventFilter(QObject *watched, QEvent *event) override
+    {
+        if (watched == m_view && (event->type() == QEvent::Resize || event->type() == QEvent::FontChange))
+            apply();
+        return QObject::eventFilter(watched, event);
+    }
+
+private:
+    void apply()
+    {
+        const int least = 16 * m_view->fontMetrics().horizontalAdvance(u'M');
+        const int limit = std::max(least, m_view->width() / 2);
+        if (m_view->horizontalHeader()->maximumSectionSize() != limit)
+            m_view->horizontalHeader()->setMaximumSectionSize(limit);
+    }
+
+    QTableView *m_view;
+};
+
+} // namespace
+
 void setUpResultTable(QTableView *view)
 {
     view->verticalHeader()->hide();
     view->verticalHeader()->setDefaultSectionSize(22);
     view->setWordWrap(false);
+    view->setTextElideMode(Qt::ElideMiddle);
+    new ColumnLimit(view);
 }
 
 } // namespace cb

@@ -77,7 +77,10 @@ private:
 // had its own (reopened after every reset of the model).
 void showChoices(QTableView *view, int column);
 
-// The usual look of the panels' tables: no row numbers, compact rows, no wrapping.
+// The usual look of the panels' tables: no row numbers, compact rows, no wrapping. No column
+// grows past half the view's width (at least 16 em), so on a narrow panel the figures stay in
+// sight beside a long test or coefficient name; the name is then cut in its middle, keeping its
+// start and its end (the part of the design), and shows whole in its tooltip.
 void setUpResultTable(QTableView *view);
 
 } // namespace cb
