@@ -33,6 +33,7 @@
 #include <QTest>
 
 #include <algorithm>
+#include <array>
 #include <QTimer>
 #include <QUrl>
 
@@ -65,6 +66,7 @@ private slots:
     void titleShowsNameAndUnsavedMark();
     void healthLinesAreCopiedFromTheirMenu();
     void workPanelsGetRoomWhileRaised();
+    void workPanelsGetTheWidthInADesign();
     void redoAnswersCtrlYAndCtrlShiftZ();
     void windowFitsTheScreenAndKeepsItsLayout();
     void ampersandInANameSurvivesInUndoLabels();
@@ -76,6 +78,17 @@ private slots:
 };
 
 namespace {
+// The window shown at the size of a 1366 x 768 laptop screen, and its bottom docks: design
+// health, Power and Check on data (null when shown fails or a dock is missing).
+std::array<QDockWidget *, 3> bottomDocksOnALaptop(WindowFixture &f)
+{
+    f.window->resize(1366, 768);
+    if (!f.show())
+        return {};
+    return {f.window->findChild<QDockWidget *>(u"healthDock"_s), f.window->findChild<QDockWidget *>(u"powerDock"_s),
+            f.window->findChild<QDockWidget *>(u"dataDock"_s)};
+}
+
 QString writeFile(const QString &path, const QByteArray &data)
 {
     QFile f(path);
@@ -416,6 +429,14 @@ void TestMainWindow::titleShowsNameAndUnsavedMark()
     QVERIFY(f.window->saveTo(f.dir.filePath(u"titled.json"_s)));
     QCOMPARE(f.window->windowTitle(), u"titled.json[*] \u2014 Contrast Bench"_s);
     QVERIFY(!f.window->isWindowModified());
+    // A demo is named in the title bar until it is saved under a name of its own; New forgets it.
+    QVERIFY(f.window->openDemo(u"warmup"_s));
+    QCOMPARE(f.window->windowTitle(), u"warmup demo[*] \u2014 Contrast Bench"_s);
+    QVERIFY(f.window->saveTo(f.dir.filePath(u"mine.cbstudy"_s)));
+    QCOMPARE(f.window->windowTitle(), u"mine.cbstudy[*] \u2014 Contrast Bench"_s);
+    QVERIFY(f.window->openDemo(u"roast"_s));
+    QVERIFY(f.window->newScheme());
+    QCOMPARE(f.window->windowTitle(), u"untitled[*] \u2014 Contrast Bench"_s);
     QVERIFY(f.window->healthPanel()->summaryText().contains(u"Rank 4 of 4"_s));
 }
 
@@ -425,11 +446,7 @@ void TestMainWindow::titleShowsNameAndUnsavedMark()
 void TestMainWindow::workPanelsGetRoomWhileRaised()
 {
     WindowFixture f;
-    f.window->resize(1366, 768);
-    QVERIFY(f.show());
-    auto *health = f.window->findChild<QDockWidget *>(u"healthDock"_s);
-    auto *power = f.window->findChild<QDockWidget *>(u"powerDock"_s);
-    auto *data = f.window->findChild<QDockWidget *>(u"dataDock"_s);
+    const auto [health, power, data] = bottomDocksOnALaptop(f);
     QVERIFY(health && power && data);
     QTest::qWait(20);
     const int summary = health->height();
@@ -450,6 +467,35 @@ void TestMainWindow::workPanelsGetRoomWhileRaised()
     health->raise();
     QTest::qWait(20);
     QCOMPARE(f.window->centralWidget()->height(), grid);
+}
+
+// In a design the right-hand panels run the full height of the window, and left Power and Check
+// on data about 540 of 1366 pixels: the results were out of sight. While a work panel is in front
+// it takes the width beside the factor panel; raising Design health gives the corner back.
+void TestMainWindow::workPanelsGetTheWidthInADesign()
+{
+    WindowFixture f;
+    const auto [health, power, data] = bottomDocksOnALaptop(f);
+    auto *design = f.window->findChild<QDockWidget *>(u"designDock"_s);
+    QVERIFY(health && power && design);
+    QCOMPARE(f.window->corner(Qt::BottomRightCorner), Qt::BottomDockWidgetArea); // one factor
+    QVERIFY(f.window->openDemo(u"warmup"_s));
+    QCOMPARE(f.window->corner(Qt::BottomRightCorner), Qt::RightDockWidgetArea);
+    QTest::qWait(20);
+    const int summaryWidth = health->width();
+    const int designHeight = design->height();
+    power->raise();
+    QTRY_COMPARE(f.window->corner(Qt::BottomRightCorner), Qt::BottomDockWidgetArea);
+    QTRY_VERIFY(power->width() >= summaryWidth + design->width());
+    QVERIFY(design->height() < designHeight);
+    health->raise();
+    QTRY_COMPARE(f.window->corner(Qt::BottomRightCorner), Qt::RightDockWidgetArea);
+    QTRY_COMPARE(health->width(), summaryWidth);
+    QTRY_COMPARE(design->height(), designHeight);
+    // A one-factor scheme opened while Power is in front keeps the corner below.
+    power->raise();
+    QVERIFY(f.window->openDemo(u"roast"_s));
+    QCOMPARE(f.window->corner(Qt::BottomRightCorner), Qt::BottomDockWidgetArea);
 }
 
 // The Overall lines of design health are copied from their context menu: the line, or every line.

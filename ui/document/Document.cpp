@@ -23,7 +23,9 @@ Document::Document(QObject *parent)
 
 QString Document::displayName() const
 {
-    return m_filePath.isEmpty() ? u"untitled"_s : QFileInfo(m_filePath).fileName();
+    if (m_filePath.isEmpty())
+        return m_untitledName.isEmpty() ? tr("untitled") : m_untitledName;
+    return QFileInfo(m_filePath).fileName();
 }
 
 void Document::edit(Scheme next, const QString &actionName, MergeId mergeId, const QString &mergeKey)
@@ -44,10 +46,10 @@ void Document::reset(Scheme scheme, const QString &filePath)
     reset(studyOf(std::move(scheme)), filePath);
 }
 
-void Document::reset(Study study, const QString &filePath)
+void Document::reset(Study study, const QString &filePath, const QString &untitledName)
 {
     m_undo.clear();
-    setFilePath(filePath);
+    setFilePath(filePath, untitledName);
     applyStudy(settled(std::move(study)));
     m_undo.setClean();
 }
@@ -103,11 +105,13 @@ void Document::applyStudy(Study study)
     emit changed();
 }
 
-void Document::setFilePath(const QString &filePath)
+void Document::setFilePath(const QString &filePath, const QString &untitledName)
 {
-    if (filePath == m_filePath)
+    const QString name = filePath.isEmpty() ? untitledName : QString();
+    if (filePath == m_filePath && name == m_untitledName)
         return;
     m_filePath = filePath;
+    m_untitledName = name;
     emit filePathChanged(m_filePath);
 }
 

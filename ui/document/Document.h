@@ -37,7 +37,7 @@ public:
 
     // Path of the file this scheme was read from or saved to; empty when new.
     QString filePath() const { return m_filePath; }
-    // The file name, or "untitled" when there is none yet.
+    // The file name; without a file, the name given to reset (a demo's), or "untitled".
     QString displayName() const;
     // Unsaved changes, as the undo stack sees them.
     bool isModified() const { return !m_undo.isClean(); }
@@ -53,9 +53,10 @@ public:
     void edit(Scheme next, const QString &actionName, MergeId mergeId = MergeId::None, const QString &mergeKey = {});
     // An edit of the study itself: factors added or removed, terms, cell sizes, active factor.
     void editStudy(Study next, const QString &actionName, MergeId mergeId = MergeId::None, const QString &mergeKey = {});
-    // A whole swap (New, Open): history is cleared and the document is clean.
+    // A whole swap (New, Open): history is cleared and the document is clean. Without a file,
+    // untitledName names it in the title bar and the save prompt (a demo study's name).
     void reset(Scheme scheme, const QString &filePath);
-    void reset(Study study, const QString &filePath);
+    void reset(Study study, const QString &filePath, const QString &untitledName = {});
     // A swap that counts as an unsaved change (restoring recovered work).
     void restore(Scheme scheme, const QString &filePath);
     void restore(Study study, const QString &filePath);
@@ -80,13 +81,14 @@ signals:
 
 private:
     void applyStudy(Study study);
-    void setFilePath(const QString &filePath);
+    void setFilePath(const QString &filePath, const QString &untitledName = {});
 
     Study m_study;
     Analysis m_analysis;
     DesignAnalysis m_designAnalysis;
     QUndoStack m_undo;
     QString m_filePath;
+    QString m_untitledName;
     quint64 m_revision = 0;
     quint64 m_codingRevision = 0;
 };

@@ -137,7 +137,7 @@ void MainWindow::followDocument()
         if (m_document->isDesign() != m_wasDesign) {
             // A design needs room for its cell picture and findings: the right-hand docks then
             // run the full height of the window.
-            setCorner(Qt::BottomRightCorner, m_document->isDesign() ? Qt::RightDockWidgetArea : Qt::BottomDockWidgetArea);
+            placeBottomRightCorner();
             if (m_document->isDesign()) {
                 m_designDock->raise();
                 resizeDocks({m_designDock}, {470}, Qt::Horizontal);
@@ -302,6 +302,8 @@ void MainWindow::workPanelRaised(QDockWidget *dock)
 {
     if (dock->isFloating() || dockWidgetArea(dock) != Qt::BottomDockWidgetArea || !isVisible())
         return;
+    m_workInFront = true;
+    placeBottomRightCorner();
     const int target = workDockHeight(height());
     if (dock->height() >= target)
         return;
@@ -319,6 +321,8 @@ void MainWindow::workPanelRaised(QDockWidget *dock)
 
 void MainWindow::healthPanelRaised()
 {
+    m_workInFront = false;
+    placeBottomRightCorner();
     if (!std::exchange(m_grownForWork, false) || m_workRequest == 0 || m_healthDock->isFloating())
         return;
     // Only the room this window took is given back: a height the person dragged to stays. The
@@ -326,6 +330,12 @@ void MainWindow::healthPanelRaised()
     if (std::abs(centralWidget()->height() - m_gridHeightAtWork) > 2)
         return;
     restoreGridHeight(m_workRequest + m_gridHeightAtWork - m_gridHeightBeforeWork, 2);
+}
+
+void MainWindow::placeBottomRightCorner()
+{
+    const bool rightDocks = m_document->isDesign() && !m_workInFront;
+    setCorner(Qt::BottomRightCorner, rightDocks ? Qt::RightDockWidgetArea : Qt::BottomDockWidgetArea);
 }
 
 // Asks the bottom panels for request, then, once laid out, corrects by what the grid still lacks:
@@ -559,7 +569,7 @@ bool MainWindow::openDemo(const QString &name)
         return false;
     }
     // A demo opens as a new, unnamed scheme, so saving never writes into the program's resources.
-    m_document->reset(study.take(), {});
+    m_document->reset(study.take(), {}, tr("%1 demo").arg(name));
     showMessage(tr("Demo study \u2018%1\u2019 opened. Save it under a name of your own to keep changes.").arg(name));
     return true;
 }

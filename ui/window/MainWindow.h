@@ -130,6 +130,11 @@ private:
     void workPanelRaised(QDockWidget *dock);
     void healthPanelRaised();
     void restoreGridHeight(int request, int corrections);
+    // Which docks own the bottom-right corner: in a design the right-hand docks run the full
+    // height, except while a work panel is in front, which then gets the width beside the factor
+    // panel for its inputs, results and curves.
+    void placeBottomRightCorner();
+    bool m_workInFront = false;
     bool m_grownForWork = false;
     int m_gridHeightBeforeWork = 0; // the central grid's height before the panels grew
     int m_gridHeightAtWork = 0;     // and after
