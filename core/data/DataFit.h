@@ -138,12 +138,12 @@ Result<FitResult> fitLevels(const MatchedLevels &levels, const Eigen::MatrixXd &
 
 // Everything in one: matches the data's levels to the scheme (with the mapping),
 // builds X from the scheme's columns and H from analyze(scheme), and fits.
+Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const FitOptions &options = {},
+                            const LevelMapping &mapping = {});
+
 // The caution for data read without a participant column when the named factors are measured
 // within participants: every row (or level summary) is then taken as independent.
 QString independentRowsCaution(const QStringList &withinFactors);
-
-Result<FitResult> fitScheme(const Scheme &scheme, const DataSummary &data, const FitOptions &options = {},
-                            const LevelMapping &mapping = {});
 
 // Each participant's cell means in the scheme's level order (participants x k, NaN where it has no
 // row at a level; replicate rows averaged; the data's levels matched to the scheme with the
